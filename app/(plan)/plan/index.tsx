@@ -1,0 +1,5 @@
+import { RoleHomeScreen } from '@/screens/role-home-screen';
+
+export default function Home() {
+  return <RoleHomeScreen role="planner" />;
+}

@@ -1,0 +1,52 @@
+#!/usr/bin/env node
+/**
+ * `npm test`: installs what is missing (npm packages, Debian's chromium), starts the private
+ * test PostgreSQL cluster, exports the web build when stale, and runs every jest project:
+ * domain, api, app and e2e. Extra arguments go to jest (e.g. `npm test -- --selectProjects domain`).
+ */
+import { spawnSync } from 'node:child_process';
+import { existsSync } from 'node:fs';
+import { dirname, join, resolve } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { ensureInstall } from './ensure-install.mjs';
+
+const ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '..');
+const args = process.argv.slice(2);
+const t0 = Date.now();
+
+function ensureChromium() {
+  if (existsSync('/usr/bin/chromium')) return;
+  if (process.getuid?.() !== 0) {
+    throw new Error('Browser tests need Debian\'s chromium at /usr/bin/chromium: sudo apt-get install -y chromium');
+  }
+  console.error('[test] installing Debian\'s chromium for the browser tests…');
+  const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' };
+  spawnSync('apt-get', ['update'], { stdio: 'inherit', env });
+  const r = spawnSync('apt-get', ['install', '-y', '--no-install-recommends', 'chromium', 'fonts-noto-core'], { stdio: 'inherit', env });
+  if (r.status !== 0) throw new Error('apt-get install -y chromium failed');
+}
+
+async function main() {
+  ensureInstall();
+  const needsBrowser = !args.includes('--selectProjects') || args.includes('e2e');
+  if (needsBrowser) ensureChromium();
+  const { startCluster } = await import('./pg.mjs');
+  const pg = await startCluster({ test: true });
+  if (needsBrowser) {
+    const { buildWeb } = await import('./build-web.mjs');
+    await buildWeb();
+  }
+  const jest = join(ROOT, 'node_modules', '.bin', 'jest');
+  const r = spawnSync(jest, ['--ci', ...args], {
+    cwd: ROOT,
+    stdio: 'inherit',
+    env: { ...process.env, TR_TEST_ADMIN_URL: pg.adminUrl, TR_WEB_DIST: join(ROOT, 'dist', 'web') },
+  });
+  console.error(`[test] wall time ${((Date.now() - t0) / 1000).toFixed(0)} s`);
+  process.exit(r.status ?? 1);
+}
+
+main().catch((e) => {
+  console.error(`[test] ${e.message}`);
+  process.exit(1);
+});

@@ -1,0 +1,3 @@
+export { requireAuth, requireSiteRole, authOf, siteOf } from './middleware';
+export { hashPassword, verifyPassword } from './passwords';
+export { signAccessToken, verifyAccessToken, hashRefreshToken, JWT_ISSUER, JWT_AUDIENCE } from './tokens';

@@ -1,0 +1,129 @@
+/**
+ * Server configuration: one zod schema, validated once at boot from the environment.
+ * A bad or missing setting throws a ConfigError whose message names the setting, e.g.
+ *   "Config: JWT_SECRET must be at least 32 characters".
+ */
+import { z } from 'zod';
+
+export class ConfigError extends Error {
+  constructor(message: string) {
+    super(message);
+    this.name = 'ConfigError';
+  }
+}
+
+const required = (iss: { input?: unknown }) => (iss.input === undefined ? 'is required' : 'must be a string');
+
+/** An integer setting given as a decimal string in the environment. */
+const int = (min: number, max: number, fallback: number) =>
+  z
+    .string()
+    .optional()
+    .transform((v, ctx) => {
+      if (v === undefined) return fallback;
+      const n = Number(v);
+      if (!/^-?\d+$/.test(v.trim()) || !Number.isSafeInteger(n)) {
+        ctx.addIssue({ code: 'custom', message: `must be an integer, got "${v}"` });
+        return z.NEVER;
+      }
+      if (n < min || n > max) {
+        ctx.addIssue({ code: 'custom', message: `must be between ${min} and ${max}, got ${n}` });
+        return z.NEVER;
+      }
+      return n;
+    });
+
+const LOG_LEVELS = ['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent'] as const;
+
+const EnvSchema = z.object({
+  NODE_ENV: z
+    .enum(['development', 'production', 'test'], { error: 'must be one of development, production, test' })
+    .default('development'),
+  HOST: z.string().min(1, 'must not be empty').default('127.0.0.1'),
+  /** 0 asks the OS for a free port (tests). */
+  PORT: int(0, 65535, 8080),
+  DATABASE_URL: z
+    .string({ error: required })
+    .regex(/^postgres(ql)?:\/\/\S+$/, 'must be a postgres:// URL'),
+  JWT_SECRET: z.string({ error: required }).min(32, 'must be at least 32 characters'),
+  /** Access token (JWT) lifetime, s. */
+  ACCESS_TOKEN_TTL_S: int(10, 24 * 3600, 900),
+  /** Refresh token lifetime, s; each refresh starts a new one. */
+  REFRESH_TOKEN_TTL_S: int(60, 365 * 24 * 3600, 30 * 24 * 3600),
+  /** Failed sign-ins allowed per 15 minutes per client IP. */
+  SIGN_IN_RATE_LIMIT: int(1, 100000, 20),
+  /** Folder of the exported web build; served on the API's port when set and present. */
+  WEB_DIST: z.string().min(1).optional(),
+  LOG_LEVEL: z.enum(LOG_LEVELS, { error: `must be one of ${LOG_LEVELS.join(', ')}` }).optional(),
+  /**
+   * Origins allowed to call the API from another origin (the Expo dev server), comma-separated,
+   * e.g. "http://localhost:8081,http://127.0.0.1:8081". Unset: same origin only.
+   */
+  CORS_ORIGINS: z
+    .string()
+    .optional()
+    .transform((v, ctx) => {
+      const list = (v ?? '').split(',').map((o) => o.trim()).filter(Boolean);
+      for (const o of list) {
+        let ok = false;
+        try {
+          ok = new URL(o).origin === o;
+        } catch {
+          ok = false;
+        }
+        if (!ok) {
+          ctx.addIssue({ code: 'custom', message: `must be a comma-separated list of origins like http://localhost:8081, got "${o}"` });
+          return z.NEVER;
+        }
+      }
+      return list;
+    }),
+  /**
+   * Express "trust proxy": "false" (default), "true", or the number of proxy hops in front.
+   * Needed behind a reverse proxy so rate limits see client IPs, not the proxy's.
+   */
+  TRUST_PROXY: z
+    .string()
+    .optional()
+    .transform((v, ctx) => {
+      if (v === undefined || v === 'false') return false as const;
+      if (v === 'true') return true as const;
+      if (/^\d+$/.test(v) && Number(v) <= 10) return Number(v);
+      ctx.addIssue({ code: 'custom', message: `must be true, false or a hop count 0..10, got "${v}"` });
+      return z.NEVER;
+    }),
+});
+
+type Parsed = z.output<typeof EnvSchema>;
+export type Config = Omit<Parsed, 'LOG_LEVEL'> & { LOG_LEVEL: (typeof LOG_LEVELS)[number] };
+
+const KEYS = Object.keys(EnvSchema.shape) as (keyof typeof EnvSchema.shape)[];
+
+/** Reads only our keys; an empty string counts as unset (as in `FOO= npm start`). */
+function pick(env: Record<string, string | undefined>): Record<string, string | undefined> {
+  const out: Record<string, string | undefined> = {};
+  for (const k of KEYS) {
+    const v = env[k];
+    out[k] = v === undefined || v.trim() === '' ? undefined : v;
+  }
+  return out;
+}
+
+function fail(error: z.ZodError): never {
+  const parts = error.issues.map((i) => `${i.path.join('.') || '(env)'} ${i.message}`);
+  throw new ConfigError(`Config: ${parts.join('; ')}`);
+}
+
+export function loadConfig(env: Record<string, string | undefined> = process.env): Config {
+  const r = EnvSchema.safeParse(pick(env));
+  if (!r.success) fail(r.error);
+  const c = r.data;
+  return { ...c, LOG_LEVEL: c.LOG_LEVEL ?? (c.NODE_ENV === 'test' ? 'silent' : 'info') };
+}
+
+/** For tools that need the database only (migrate, seed): validates DATABASE_URL alone. */
+export function loadDatabaseUrl(env: Record<string, string | undefined> = process.env): string {
+  const r = EnvSchema.pick({ DATABASE_URL: true }).safeParse(pick(env));
+  if (!r.success) fail(r.error);
+  return r.data.DATABASE_URL;
+}

@@ -1,0 +1,99 @@
+/**
+ * Puts the app on a port: start(config?) → { url, port, server, dataSource, stop() }.
+ * Run directly (`npx tsx server/main.ts`) it reads the environment (server/config.ts), prints
+ * the URL and closes cleanly on SIGINT/SIGTERM. Migrations are not run here: server/cli/migrate.ts.
+ */
+import type { Server } from 'node:http';
+import type { AddressInfo } from 'node:net';
+import type { DataSource } from 'typeorm';
+import { createApp } from './app';
+import { loadConfig, type Config } from './config';
+import { makeDataSource } from './db';
+import { makeLogger, type Logger } from './logger';
+
+export interface Running {
+  url: string;
+  port: number;
+  server: Server;
+  dataSource: DataSource;
+  config: Config;
+  logger: Logger;
+  stop(): Promise<void>;
+}
+
+const running = new Set<Running>();
+
+export async function start(config: Config = loadConfig()): Promise<Running> {
+  const logger = makeLogger(config);
+  const dataSource = makeDataSource(config.DATABASE_URL);
+  await dataSource.initialize();
+  try {
+    if (await dataSource.showMigrations()) {
+      logger.warn('database migrations are pending: run `npx tsx server/cli/migrate.ts`');
+    }
+    const app = createApp({ config, dataSource, logger });
+    const server = await new Promise<Server>((resolve, reject) => {
+      const s = app.listen(config.PORT, config.HOST, (err?: Error) => (err ? reject(err) : resolve(s)));
+      s.once('error', reject);
+    });
+    server.keepAliveTimeout = 65_000; // longer than common proxies' idle timeout
+    const port = (server.address() as AddressInfo).port;
+    const host = config.HOST.includes(':') ? `[${config.HOST}]` : config.HOST;
+    const url = `http://${host === '0.0.0.0' ? '127.0.0.1' : host}:${port}`;
+
+    let stopping: Promise<void> | undefined;
+    const handle: Running = {
+      url,
+      port,
+      server,
+      dataSource,
+      config,
+      logger,
+      stop: () =>
+        (stopping ??= (async () => {
+          running.delete(handle);
+          await new Promise<void>((resolve) => {
+            server.close(() => resolve());
+            server.closeIdleConnections();
+            // In-flight requests get a moment; then their sockets are closed too.
+            setTimeout(() => server.closeAllConnections(), 5000).unref();
+          });
+          if (dataSource.isInitialized) await dataSource.destroy();
+        })()),
+    };
+    running.add(handle);
+    logger.info({ url }, 'listening');
+    return handle;
+  } catch (err) {
+    await dataSource.destroy();
+    throw err;
+  }
+}
+
+/** Stops every server started by start() in this process. */
+export async function stop(): Promise<void> {
+  await Promise.all([...running].map((r) => r.stop()));
+}
+
+if (require.main === module) {
+  start()
+    .then((r) => {
+      console.log(`Trueround listening on ${r.url}`);
+      const shutdown = (signal: NodeJS.Signals) => {
+        r.logger.info({ signal }, 'shutting down');
+        r.stop().then(
+          () => process.exit(0),
+          (e: unknown) => {
+            console.error(e);
+            process.exit(1);
+          },
+        );
+      };
+      process.once('SIGINT', shutdown);
+      process.once('SIGTERM', shutdown);
+    })
+    .catch((e: unknown) => {
+      console.error(`[server] ${e instanceof Error ? e.message : String(e)}`);
+      process.exit(1);
+    });
+}

@@ -1,0 +1,45 @@
+/**
+ * Loads the demo sites and users (server/seed/demo-users.ts) into an empty database.
+ * Idempotent: does nothing when any site exists, so it never touches real data.
+ */
+import type { DataSource } from 'typeorm';
+import { hashPassword } from '../auth/passwords';
+import { MembershipEntity, SiteEntity, UserEntity } from '../entities';
+import { DEMO_PASSWORD, demoSites, demoUsers } from './demo-users';
+
+export interface SeedResult {
+  seeded: boolean;
+  sites: number;
+  users: number;
+}
+
+export async function seedDemo(ds: DataSource): Promise<SeedResult> {
+  // Hash outside the transaction: argon2 is the slow part and needs no lock.
+  const hashes = await Promise.all(demoUsers.map(() => hashPassword(DEMO_PASSWORD)));
+  return ds.transaction(async (em) => {
+    // Serialise concurrent seeds (two `npm start`s): the second waits, then sees the sites.
+    await em.query(`select pg_advisory_xact_lock(hashtext('trueround.seed.demo'))`);
+    if ((await em.getRepository(SiteEntity).count()) > 0) return { seeded: false, sites: 0, users: 0 };
+
+    const sites = new Map<string, string>();
+    for (const s of demoSites) {
+      const row = await em.getRepository(SiteEntity).save({
+        name: s.name,
+        slug: s.slug,
+        timezone: s.timezone,
+        elevationM: s.elevationM,
+      });
+      sites.set(s.slug, row.id);
+    }
+    for (const [i, u] of demoUsers.entries()) {
+      const user = await em.getRepository(UserEntity).save({
+        email: u.email.toLowerCase(),
+        name: u.name,
+        passwordHash: hashes[i],
+        disabled: false,
+      });
+      await em.getRepository(MembershipEntity).save({ userId: user.id, siteId: sites.get(u.site)!, role: u.role });
+    }
+    return { seeded: true, sites: demoSites.length, users: demoUsers.length };
+  });
+}

@@ -1,0 +1,16 @@
+export * from './errors';
+export {
+  ROLES,
+  Role,
+  Email,
+  SignInRequest,
+  SignInResponse,
+  Membership,
+  UserView,
+  TokenPair,
+  RefreshRequest,
+  RefreshResponse,
+  SignOutRequest,
+  MeResponse,
+} from './auth';
+export * from './sites';
