@@ -26,7 +26,9 @@ export function AppShell({ nav, title, children }: { nav: NavItem[]; title: stri
   const { user, membership, signOut } = useSession();
 
   const places = nav.map((item) => {
-    const active = pathname === item.href || pathname.startsWith(item.href + '/');
+    // A place is active on its own path and below it, unless a more specific place claims the path.
+    const under = (href: string) => pathname === href || pathname.startsWith(href + '/');
+    const active = under(item.href) && !nav.some((o) => o.href.length > item.href.length && o.href.startsWith(item.href) && under(o.href));
     const edge = active ? colors.accent : colors.clear;
     return (
       <Link key={item.href} href={item.href} asChild>

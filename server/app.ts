@@ -12,12 +12,20 @@ import type { Deps } from './context';
 import { AppError, apiNotFound, errorMiddleware } from './errors';
 import { httpLogger, makeLogger, type Logger } from './logger';
 import { sitesRouter } from './sites/routes';
+import { noopSyncHooks, type SyncHooks } from './sync/hooks';
+import { syncRouter } from './sync/routes';
+import { photosRouter } from './uploads/routes';
+import { makePhotoStore, type PhotoStore } from './uploads/store';
 import { inlineScriptHashes, webDistPresent, webRouter } from './web';
 
 export interface CreateAppOptions {
   config: Config;
   dataSource: DataSource;
   logger?: Logger;
+  /** Photo bytes; default: the store PHOTO_STORE names (server/uploads/store.ts). */
+  photoStore?: PhotoStore;
+  /** Called after a push commits (server/sync/hooks.ts); default: nothing. */
+  syncHooks?: SyncHooks;
 }
 
 export const JSON_BODY_LIMIT = '1mb';
@@ -50,7 +58,13 @@ function csp(scriptHashes: string[]) {
   };
 }
 
-export function createApp({ config, dataSource, logger = makeLogger(config) }: CreateAppOptions): Express {
+export function createApp({
+  config,
+  dataSource,
+  logger = makeLogger(config),
+  photoStore = makePhotoStore(config),
+  syncHooks = noopSyncHooks,
+}: CreateAppOptions): Express {
   const app = express();
   const deps: Deps = { config, dataSource, logger };
   app.locals.deps = deps;
@@ -89,6 +103,8 @@ export function createApp({ config, dataSource, logger = makeLogger(config) }: C
   app.use('/api/auth', authRouter(config));
   app.use('/api/me', meRouter());
   app.use('/api/sites', sitesRouter());
+  app.use('/api/sync', syncRouter(syncHooks));
+  app.use('/api/photos', photosRouter(config, photoStore));
   app.use('/api', apiNotFound);
 
   if (webDir) app.use(webRouter(webDir));

@@ -35,7 +35,7 @@ const int = (min: number, max: number, fallback: number) =>
 
 const LOG_LEVELS = ['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent'] as const;
 
-const EnvSchema = z.object({
+const EnvShape = z.object({
   NODE_ENV: z
     .enum(['development', 'production', 'test'], { error: 'must be one of development, production, test' })
     .default('development'),
@@ -92,12 +92,45 @@ const EnvSchema = z.object({
       ctx.addIssue({ code: 'custom', message: `must be true, false or a hop count 0..10, got "${v}"` });
       return z.NEVER;
     }),
+  /** Largest photo upload, bytes (multipart field "photo"). */
+  PHOTO_MAX_BYTES: int(1024, 100 * 1024 * 1024, 10 * 1024 * 1024),
+  /** Where photo bytes go: "local" (disk, PHOTO_DIR) or "s3" (S3-compatible object storage). */
+  PHOTO_STORE: z.enum(['local', 's3'], { error: 'must be one of local, s3' }).default('local'),
+  /** Folder of the local photo store. */
+  PHOTO_DIR: z.string().min(1, 'must not be empty').default('.data/photos'),
+  /** S3-compatible endpoint URL (MinIO, a local fake…); unset: AWS itself. */
+  PHOTO_S3_ENDPOINT: z
+    .string()
+    .optional()
+    .refine((v) => v === undefined || /^https?:\/\/\S+$/.test(v), { message: 'must be an http:// or https:// URL' }),
+  PHOTO_S3_BUCKET: z.string().min(3, 'must be at least 3 characters').max(63, 'must be at most 63 characters').optional(),
+  PHOTO_S3_REGION: z.string().min(1).default('us-east-1'),
+  PHOTO_S3_ACCESS_KEY_ID: z.string().min(1).optional(),
+  PHOTO_S3_SECRET_ACCESS_KEY: z.string().min(1).optional(),
+  /** Path-style URLs (endpoint/bucket/key), which most S3-compatible servers need: "true" (default) or "false". */
+  PHOTO_S3_FORCE_PATH_STYLE: z
+    .enum(['true', 'false'], { error: 'must be true or false' })
+    .default('true')
+    .transform((v) => v === 'true'),
+});
+
+/** Settings that depend on each other. */
+const EnvSchema = EnvShape.superRefine((c, ctx) => {
+  if (c.PHOTO_STORE !== 's3') return;
+  if (!c.PHOTO_S3_BUCKET) ctx.addIssue({ code: 'custom', path: ['PHOTO_S3_BUCKET'], message: 'is required when PHOTO_STORE is s3' });
+  if (!c.PHOTO_S3_ACCESS_KEY_ID !== !c.PHOTO_S3_SECRET_ACCESS_KEY) {
+    ctx.addIssue({
+      code: 'custom',
+      path: [c.PHOTO_S3_ACCESS_KEY_ID ? 'PHOTO_S3_SECRET_ACCESS_KEY' : 'PHOTO_S3_ACCESS_KEY_ID'],
+      message: 'is required with the other PHOTO_S3_ key (give both or neither)',
+    });
+  }
 });
 
 type Parsed = z.output<typeof EnvSchema>;
 export type Config = Omit<Parsed, 'LOG_LEVEL'> & { LOG_LEVEL: (typeof LOG_LEVELS)[number] };
 
-const KEYS = Object.keys(EnvSchema.shape) as (keyof typeof EnvSchema.shape)[];
+const KEYS = Object.keys(EnvShape.shape) as (keyof typeof EnvShape.shape)[];
 
 /** Reads only our keys; an empty string counts as unset (as in `FOO= npm start`). */
 function pick(env: Record<string, string | undefined>): Record<string, string | undefined> {
@@ -123,7 +156,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
 
 /** For tools that need the database only (migrate, seed): validates DATABASE_URL alone. */
 export function loadDatabaseUrl(env: Record<string, string | undefined> = process.env): string {
-  const r = EnvSchema.pick({ DATABASE_URL: true }).safeParse(pick(env));
+  const r = EnvShape.pick({ DATABASE_URL: true }).safeParse(pick(env));
   if (!r.success) fail(r.error);
   return r.data.DATABASE_URL;
 }

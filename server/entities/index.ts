@@ -2,11 +2,38 @@ import { MembershipEntity } from './membership';
 import { RefreshTokenEntity } from './refresh-token';
 import { SiteEntity } from './site';
 import { UserEntity } from './user';
+import { UnitEntity } from './unit';
+import { InstrumentEntity } from './instrument';
+import { RouteEntity, RouteVersionEntity } from './route';
+import { RoundEntity } from './round';
+import { ReadingEntity } from './reading';
+import { CheckAnswerEntity } from './check-answer';
+import { PhotoEntity } from './photo';
 
 export * from './membership';
 export * from './refresh-token';
 export * from './site';
 export * from './user';
+export * from './unit';
+export * from './instrument';
+export * from './route';
+export * from './round';
+export * from './reading';
+export * from './check-answer';
+export * from './photo';
 
 /** Every entity the DataSource knows; later features append theirs here. */
-export const ENTITIES = [SiteEntity, UserEntity, MembershipEntity, RefreshTokenEntity];
+export const ENTITIES = [
+  SiteEntity,
+  UserEntity,
+  MembershipEntity,
+  RefreshTokenEntity,
+  UnitEntity,
+  InstrumentEntity,
+  RouteEntity,
+  RouteVersionEntity,
+  RoundEntity,
+  ReadingEntity,
+  CheckAnswerEntity,
+  PhotoEntity,
+];

@@ -1,8 +1,9 @@
 import { AuthFoundation1764633600000 } from './1764633600000-auth-foundation';
+import { SyncAndRoutes1764720000000 } from './1764720000000-sync-and-routes';
 
 /**
  * Every migration, oldest first. Classes are listed (not globbed) so tsx, ts-jest and a
  * bundled build all find the same set. A new migration: `<unix ms>-<what>.ts` exporting a
  * class named `<What><unix ms>`, appended here.
  */
-export const MIGRATIONS = [AuthFoundation1764633600000];
+export const MIGRATIONS = [AuthFoundation1764633600000, SyncAndRoutes1764720000000];

@@ -1,10 +1,13 @@
 /**
- * Loads the demo sites and users (server/seed/demo-users.ts) into an empty database.
- * Idempotent: does nothing when any site exists, so it never touches real data.
+ * Loads the demo sites and users (server/seed/demo-users.ts) into an empty database, and the demo
+ * plant (units, instruments, routes: server/seed/demo-plant.ts).
+ * Idempotent: sites and users only when no site exists, so it never touches real data; the plant
+ * only on a demo site that has no unit yet (which also brings it to a database seeded before it).
  */
 import type { DataSource } from 'typeorm';
 import { hashPassword } from '../auth/passwords';
 import { MembershipEntity, SiteEntity, UserEntity } from '../entities';
+import { seedDemoPlant } from './demo-plant';
 import { DEMO_PASSWORD, demoSites, demoUsers } from './demo-users';
 
 export interface SeedResult {
@@ -19,7 +22,10 @@ export async function seedDemo(ds: DataSource): Promise<SeedResult> {
   return ds.transaction(async (em) => {
     // Serialise concurrent seeds (two `npm start`s): the second waits, then sees the sites.
     await em.query(`select pg_advisory_xact_lock(hashtext('trueround.seed.demo'))`);
-    if ((await em.getRepository(SiteEntity).count()) > 0) return { seeded: false, sites: 0, users: 0 };
+    if ((await em.getRepository(SiteEntity).count()) > 0) {
+      await seedDemoPlant(em);
+      return { seeded: false, sites: 0, users: 0 };
+    }
 
     const sites = new Map<string, string>();
     for (const s of demoSites) {
@@ -40,6 +46,7 @@ export async function seedDemo(ds: DataSource): Promise<SeedResult> {
       });
       await em.getRepository(MembershipEntity).save({ userId: user.id, siteId: sites.get(u.site)!, role: u.role });
     }
+    await seedDemoPlant(em);
     return { seeded: true, sites: demoSites.length, users: demoUsers.length };
   });
 }

@@ -17,6 +17,7 @@ export const ERROR_CODES = [
   'account_disabled',
   'forbidden',
   'not_found',
+  'conflict',
   'rate_limited',
   'db_unavailable',
   'internal',

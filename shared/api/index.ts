@@ -14,3 +14,4 @@ export {
   MeResponse,
 } from './auth';
 export * from './sites';
+export * from './sync';

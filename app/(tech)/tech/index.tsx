@@ -1,5 +1,5 @@
-import { RoleHomeScreen } from '@/screens/role-home-screen';
+import { TodayScreen } from '@/screens/tech/today-screen';
 
-export default function Home() {
-  return <RoleHomeScreen role="technician" />;
+export default function TechToday() {
+  return <TodayScreen />;
 }

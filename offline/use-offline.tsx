@@ -1,0 +1,189 @@
+/**
+ * The offline store for the screens: <OfflineProvider> (inside <SessionProvider>) opens the
+ * device database after mount, runs its migrations, asks for persistent storage, registers the
+ * service worker, and runs the sync client while someone is signed in.
+ *
+ *   const { state, store, actions, error } = useStore();       // state: opening | ready | locked | error
+ *   const readings = useStoreQuery((s) => s.roundReadings(roundId), [roundId]);
+ *   const status = useOutboxStatus();                          // counts, refused items, last sync…
+ *   const { syncNow, retryRefused, running } = useSyncNow();
+ *
+ * A second browser tab gets state "locked" and `error.message` saying the app is open in another tab.
+ */
+import * as Crypto from 'expo-crypto';
+import { createContext, useCallback, useContext, useEffect, useRef, useState, type DependencyList, type ReactNode } from 'react';
+import { useSession } from '@/hooks/session';
+import { createActions, toHex, type Actions } from './actions';
+import { StoreLockedError } from './errors';
+import { openExpoDb } from './expo-db';
+import { createHttpTransport, type AuthedRequest } from './http-transport';
+import { systemClock, type IdSource } from './ids';
+import type { LocalDb } from './local-db';
+import { ensurePersistentStorage } from './persist';
+import { registerServiceWorker } from './register-sw';
+import { openStore, type Store } from './store';
+import { createSyncClient, type SyncClient, type SyncResult, type SyncStatus } from './sync';
+
+export type OfflineState = 'opening' | 'ready' | 'locked' | 'error';
+
+interface OfflineValue {
+  state: OfflineState;
+  error: Error | null;
+  store: Store | null;
+  actions: Actions | null;
+  sync: SyncClient | null;
+}
+
+const OfflineContext = createContext<OfflineValue | null>(null);
+
+const deviceIds: IdSource = { uuid: () => Crypto.randomUUID() };
+const sha256 = async (bytes: Uint8Array) => toHex(new Uint8Array(await Crypto.digest(Crypto.CryptoDigestAlgorithm.SHA256, bytes as Uint8Array<ArrayBuffer>)));
+
+const browserTimers = {
+  setTimeout: (fn: () => void, ms: number) => setTimeout(fn, ms),
+  clearTimeout: (h: unknown) => clearTimeout(h as ReturnType<typeof setTimeout>),
+};
+
+export function OfflineProvider({ children }: { children: ReactNode }) {
+  const session = useSession();
+  const [value, setValue] = useState<OfflineValue>({ state: 'opening', error: null, store: null, actions: null, sync: null });
+  const requestRef = useRef<AuthedRequest>(session.request);
+  requestRef.current = session.request;
+  const siteRef = useRef<string | null>(session.membership?.siteId ?? null);
+  siteRef.current = session.membership?.siteId ?? null;
+
+  // Open after mount, never at module load.
+  useEffect(() => {
+    let live = true;
+    let db: LocalDb | null = null;
+    (async () => {
+      try {
+        db = await openExpoDb();
+        const store = await openStore(db, { clock: systemClock });
+        const actions = createActions({ store, ids: deviceIds, clock: systemClock, sha256 });
+        const sync = createSyncClient({
+          store,
+          transport: createHttpTransport(() => requestRef.current),
+          ids: deviceIds,
+          clock: systemClock,
+          siteId: () => siteRef.current,
+          timers: browserTimers,
+        });
+        if (!live) return;
+        setValue({ state: 'ready', error: null, store, actions, sync });
+        void ensurePersistentStorage(store);
+      } catch (e) {
+        if (!live) return;
+        const err = e instanceof Error ? e : new Error(String(e));
+        setValue({ state: err instanceof StoreLockedError ? 'locked' : 'error', error: err, store: null, actions: null, sync: null });
+      }
+    })();
+    void registerServiceWorker();
+    return () => {
+      live = false;
+      void db?.close();
+    };
+  }, []);
+
+  // Sync while signed in; a site change pulls that site's reference data.
+  const { sync } = value;
+  const signedIn = session.status === 'signed-in';
+  const siteId = session.membership?.siteId ?? null;
+  useEffect(() => {
+    if (!sync || !signedIn) return;
+    sync.start();
+    const online = () => void sync.syncNow({ force: true });
+    const g = globalThis as { addEventListener?: (t: string, f: () => void) => void; removeEventListener?: (t: string, f: () => void) => void };
+    g.addEventListener?.('online', online);
+    return () => {
+      g.removeEventListener?.('online', online);
+      sync.stop();
+    };
+  }, [sync, signedIn]);
+  useEffect(() => {
+    if (sync && signedIn && siteId) void sync.syncNow({ force: true });
+  }, [sync, signedIn, siteId]);
+
+  return <OfflineContext.Provider value={value}>{children}</OfflineContext.Provider>;
+}
+
+export function useOffline(): OfflineValue {
+  const v = useContext(OfflineContext);
+  if (!v) throw new Error('useOffline outside OfflineProvider');
+  return v;
+}
+
+/** The store and the actions, once open. */
+export function useStore(): Pick<OfflineValue, 'state' | 'error' | 'store' | 'actions'> {
+  const { state, error, store, actions } = useOffline();
+  return { state, error, store, actions };
+}
+
+/**
+ * Reads from the store and reads again after every write. `data` is undefined until the first
+ * read; a failed read gives `error`.
+ */
+export function useStoreQuery<T>(read: (store: Store) => Promise<T>, deps: DependencyList): { data: T | undefined; error: Error | null } {
+  const { store } = useOffline();
+  const [data, setData] = useState<T | undefined>(undefined);
+  const [error, setError] = useState<Error | null>(null);
+  const readRef = useRef(read);
+  readRef.current = read;
+  useEffect(() => {
+    if (!store) return;
+    let live = true;
+    let seq = 0;
+    const load = () => {
+      const mine = ++seq;
+      readRef.current(store).then(
+        (v) => live && mine === seq && (setData(v), setError(null)),
+        (e: unknown) => live && mine === seq && setError(e instanceof Error ? e : new Error(String(e))),
+      );
+    };
+    load();
+    const off = store.onChange(load);
+    return () => {
+      live = false;
+      off();
+    };
+  }, [store, ...deps]);
+  return { data, error };
+}
+
+/** The outbox screen's figures; null until the store is open. */
+export function useOutboxStatus(): SyncStatus | null {
+  const { sync } = useOffline();
+  const [status, setStatus] = useState<SyncStatus | null>(null);
+  useEffect(() => {
+    if (!sync) return;
+    let live = true;
+    const off = sync.subscribe((s) => live && setStatus(s));
+    sync.status().then((s) => live && setStatus(s), () => undefined);
+    return () => {
+      live = false;
+      off();
+    };
+  }, [sync]);
+  return status;
+}
+
+export function useSyncNow(): { syncNow: () => Promise<SyncResult | null>; retryRefused: (seqs?: number[]) => Promise<number>; running: boolean } {
+  const { sync } = useOffline();
+  const [running, setRunning] = useState(false);
+  const syncNow = useCallback(async () => {
+    if (!sync) return null;
+    setRunning(true);
+    try {
+      return await sync.syncNow({ force: true });
+    } finally {
+      setRunning(false);
+    }
+  }, [sync]);
+  const retryRefused = useCallback(async (seqs?: number[]) => {
+    if (!sync) return 0;
+    const n = await sync.retryRefused(seqs);
+    void sync.syncNow({ force: true });
+    return n;
+  }, [sync]);
+  return { syncNow, retryRefused, running };
+}

@@ -1,0 +1,55 @@
+import { EntitySchema } from 'typeorm';
+import type { Site } from './site';
+import { numberFromText } from './transformers';
+
+/**
+ * One steam cycle of a site. `model` is the cycle model (shared/cycle) as JSON; `modelVersion`
+ * is its content hash (shared/cycle modelVersion, "fnv1a64:…"), new with every change. `syncVersion` is stamped from the global `sync_seq` on every insert
+ * and update (a trigger), and is what pull cursors compare against.
+ */
+export interface Unit {
+  id: string;
+  siteId: string;
+  name: string;
+  model: unknown;
+  modelVersion: string;
+  createdAt: Date;
+  updatedAt: Date;
+  syncVersion: number;
+  site?: Site;
+}
+
+/** Default of every synced row's sync_version; the sync_stamp trigger overwrites it under a lock. */
+export const SYNC_VERSION_DEFAULT = () => "nextval('sync_seq')";
+
+export const UnitEntity = new EntitySchema<Unit>({
+  name: 'Unit',
+  tableName: 'units',
+  columns: {
+    id: { type: 'uuid', primary: true, generated: 'uuid', primaryKeyConstraintName: 'pk_units' },
+    siteId: { name: 'site_id', type: 'uuid' },
+    name: { type: 'varchar', length: 200 },
+    model: { type: 'jsonb' },
+    modelVersion: { name: 'model_version', type: 'varchar', length: 64 },
+    createdAt: { name: 'created_at', type: 'timestamptz', createDate: true },
+    updatedAt: { name: 'updated_at', type: 'timestamptz', updateDate: true },
+    syncVersion: {
+      name: 'sync_version',
+      type: 'bigint',
+      default: SYNC_VERSION_DEFAULT,
+      insert: false,
+      update: false,
+      transformer: numberFromText,
+    },
+  },
+  relations: {
+    site: {
+      type: 'many-to-one',
+      target: 'Site',
+      onDelete: 'CASCADE',
+      joinColumn: { name: 'site_id', foreignKeyConstraintName: 'fk_units_site' },
+    },
+  },
+  uniques: [{ name: 'uq_units_site_name', columns: ['siteId', 'name'] }],
+  indices: [{ name: 'ix_units_sync_version', columns: ['syncVersion'] }],
+});

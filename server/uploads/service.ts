@@ -1,0 +1,98 @@
+/**
+ * Photo use-cases: receive the bytes of an announced photo, and find one to read.
+ *
+ * Upload order: the photo must be announced (a push stored its row) on a round the caller may
+ * write; a stored photo answers stored:true again without touching anything; the bytes' SHA-256
+ * must equal the announced one (409 otherwise: the device sent the wrong file or a torn one); the
+ * bytes must be an accepted image (415); then the re-encoded photo and its thumbnail are stored
+ * and the row marked stored.
+ */
+import { createHash } from 'node:crypto';
+import type { DataSource } from 'typeorm';
+import type { PhotoUploadResponse } from '../../shared/api/sync';
+import type { ErrorCode } from '../../shared/api/errors';
+import { MembershipEntity, PhotoEntity, RoundEntity, type Photo } from '../entities';
+import { AppError } from '../errors';
+import { mayWriteRound } from '../sync/access';
+import { processPhoto } from './images';
+import { photoKey, thumbKey, type PhotoStore } from './store';
+
+/** 409: the bytes do not match the photo announced in the push. */
+const CONFLICT: ErrorCode = 'conflict';
+
+const photoNotFound = () => new AppError(404, 'not_found', 'Photo not found');
+
+async function photoWithRound(ds: DataSource, id: string) {
+  const photo = await ds.getRepository(PhotoEntity).findOneBy({ id });
+  if (!photo) return null;
+  const round = await ds.getRepository(RoundEntity).findOneByOrFail({ id: photo.roundId });
+  return { photo, round };
+}
+
+/** The photo row if the caller may upload it: announced on a round they may write; 404 otherwise. */
+export async function photoForUpload(ds: DataSource, userId: string, id: string): Promise<Photo> {
+  const found = await photoWithRound(ds, id);
+  if (!found) throw new AppError(404, 'not_found', 'No photo with this id was announced: push its round with the photo first');
+  const m = await ds.getRepository(MembershipEntity).findOneBy({ userId, siteId: found.round.siteId });
+  if (!m) throw photoNotFound();
+  if (!mayWriteRound(found.round, userId, m.role)) {
+    throw new AppError(403, 'forbidden', 'Only the technician of the round (or a site admin) uploads its photos');
+  }
+  return found.photo;
+}
+
+/** The photo row if the caller is a member of its round's site (and the bytes are there); 404 otherwise. */
+export async function photoForReading(ds: DataSource, userId: string, id: string): Promise<Photo> {
+  const found = await photoWithRound(ds, id);
+  if (!found) throw photoNotFound();
+  const m = await ds.getRepository(MembershipEntity).findOneBy({ userId, siteId: found.round.siteId });
+  if (!m) throw photoNotFound();
+  if (found.photo.status !== 'stored') throw new AppError(404, 'not_found', 'The photo has been announced but not uploaded yet');
+  return found.photo;
+}
+
+export async function storePhoto(ds: DataSource, store: PhotoStore, photo: Photo, bytes: Buffer): Promise<PhotoUploadResponse> {
+  if (photo.status === 'stored') return uploaded(photo, false);
+  const sha = createHash('sha256').update(bytes).digest('hex');
+  if (sha !== photo.sha256) {
+    throw new AppError(409, CONFLICT, `The upload's SHA-256 ${sha} is not the announced ${photo.sha256}; send the photo's own bytes`, {
+      announced: photo.sha256,
+      received: sha,
+    });
+  }
+  const img = await processPhoto(bytes);
+  const key = photoKey(photo.id, img.ext);
+  const tkey = thumbKey(photo.id);
+  await store.put(key, img.bytes, img.mime);
+  await store.put(tkey, img.thumb, 'image/jpeg');
+  await ds.getRepository(PhotoEntity).update(
+    { id: photo.id },
+    { status: 'stored', storageKey: key, thumbKey: tkey, mime: img.mime, width: img.width, height: img.height, storedAt: new Date() },
+  );
+  return {
+    id: photo.id,
+    stored: true,
+    created: true,
+    mime: img.mime,
+    width: img.width,
+    height: img.height,
+    thumbWidth: img.thumbWidth,
+    thumbHeight: img.thumbHeight,
+  };
+}
+
+function uploaded(photo: Photo, created: boolean): PhotoUploadResponse {
+  const w = photo.width ?? 0;
+  const h = photo.height ?? 0;
+  const scale = Math.min(1, 320 / Math.max(w, h, 1));
+  return {
+    id: photo.id,
+    stored: true,
+    created,
+    mime: photo.mime,
+    width: w,
+    height: h,
+    thumbWidth: Math.round(w * scale),
+    thumbHeight: Math.round(h * scale),
+  };
+}

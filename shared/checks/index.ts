@@ -1,0 +1,2 @@
+export * from './spot-checks';
+export * from './context';

@@ -1,0 +1,55 @@
+/**
+ * The Trueround engine: cycle model and validator, plant equations, round analysis, demo unit.
+ * Pure TypeScript, browser-safe (runs on the phone and on the server alike).
+ */
+export {
+  cycleModelSchema,
+  pointSchema,
+  equipmentSchema,
+  instrumentSchema,
+  POINT_PHASES,
+  EQUIPMENT_KINDS,
+  TAG_RE,
+  portUses,
+  canonicalJson,
+  fnv1a64,
+  modelVersion,
+  type CycleModel,
+  type CycleModelInput,
+  type CyclePoint,
+  type Equipment,
+  type EquipmentKind,
+  type Instrument,
+  type PointPhase,
+  type PortRole,
+  type PortUse,
+} from './model';
+export { validateModel, type ValidationError, type ValidationResult } from './validate';
+export {
+  buildEquations,
+  balanceSpecs,
+  SCALE,
+  type AcceptedReading,
+  type BalanceSpec,
+  type ConstraintInfo,
+  type EquationSystem,
+  type PointRefs,
+  type Ref,
+  type VarInfo,
+  type VarKind,
+} from './equations';
+export { analyseRound, CycleError, READING_LIMITS, type CycleErrorCode } from './analyse';
+export { performanceFigures, type FigureState, type StateOf } from './performance';
+export { propsPT, propsSat, tsatSafe, enthalpyOf, type PTProps, type SatProps } from './properties';
+export * from './types';
+export {
+  demoUnit,
+  demoDesignReadings,
+  demoDesignPoint,
+  designPoint,
+  DESIGN_PARAMETERS,
+  type DemoReading,
+  type DesignParameters,
+  type DesignPoint,
+  type DesignState,
+} from './demo-unit';
