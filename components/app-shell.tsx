@@ -35,7 +35,7 @@ export function AppShell({ nav, title, children }: { nav: NavItem[]; title: stri
         <Pressable
           testID={item.testID}
           accessibilityRole="link"
-          accessibilityState={{ selected: active }}
+          aria-selected={active}
           // Link (asChild) hands the style on to an anchor on the web: give it one flat object.
           style={StyleSheet.flatten([wide ? styles.sideItem : styles.bottomItem, { borderColor: edge }])}
         >

@@ -8,10 +8,12 @@ export interface ButtonProps extends Omit<PressableProps, 'children'> {
   /** `inverse`: an outlined button on the primary (dark) surface. */
   kind?: 'primary' | 'accent' | 'plain' | 'danger' | 'inverse';
   busy?: boolean;
+  /** For a choice among buttons: this one is the chosen answer. */
+  selected?: boolean;
   testID: string;
 }
 
-export function Button({ label, kind = 'primary', busy, disabled, style, ...rest }: ButtonProps) {
+export function Button({ label, kind = 'primary', busy, disabled, selected, style, ...rest }: ButtonProps) {
   const { colors } = useTheme();
   const look = {
     primary: [colors.primary, colors.onPrimary, colors.primary],
@@ -24,7 +26,9 @@ export function Button({ label, kind = 'primary', busy, disabled, style, ...rest
   return (
     <Pressable
       accessibilityRole="button"
-      accessibilityState={{ disabled: !!disabled || !!busy, busy: !!busy }}
+      aria-disabled={!!disabled || !!busy}
+      aria-busy={!!busy}
+      aria-selected={selected}
       disabled={disabled || busy}
       {...rest}
       style={(state) => [

@@ -34,7 +34,7 @@ export function CheckField({ check, answer, onAnswer, onPhoto, photoCount }: {
               testID={`${id}-${v ? 'yes' : 'no'}`}
               label={v ? 'Yes' : 'No'}
               kind={answer?.kind === 'yes-no' && answer.value === v ? 'primary' : 'plain'}
-              accessibilityState={{ selected: answer?.kind === 'yes-no' && answer.value === v }}
+              selected={answer?.kind === 'yes-no' && answer.value === v}
               onPress={() => onAnswer({ kind: 'yes-no', value: v })}
             />
           ))}
@@ -48,6 +48,7 @@ export function CheckField({ check, answer, onAnswer, onPhoto, photoCount }: {
               testID={`${id}-opt-${i}`}
               label={o}
               kind={answer?.kind === 'choice' && answer.value === o ? 'primary' : 'plain'}
+              selected={answer?.kind === 'choice' && answer.value === o}
               onPress={() => onAnswer({ kind: 'choice', value: o })}
             />
           ))}

@@ -1,4 +1,4 @@
-import { useEffect, useState } from 'react';
+import { useEffect, useRef, useState } from 'react';
 import { Pressable, StyleSheet, TextInput, View } from 'react-native';
 import { fonts, radius, space, touchTarget, type } from '@/constants/theme';
 import { useTheme } from '@/hooks/use-theme';
@@ -53,9 +53,13 @@ export function ReadingField(p: ReadingFieldProps) {
   const id = `reading-${p.tag}`;
   const flagged = p.flags.length > 0 && !p.confirmed;
 
+  // Leaving the field and tapping Save both save: the same text is recorded once.
+  const submitted = useRef<string | null>(null);
   const save = async () => {
-    if (text === (p.saved ?? '') && p.saved !== undefined) return;
+    if (text === submitted.current || (p.saved !== undefined && Number(text) === Number(p.saved) && text.trim() !== '')) return;
+    submitted.current = text;
     const e = await p.onSave(text);
+    if (e) submitted.current = null;
     setError(e);
   };
 

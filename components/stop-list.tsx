@@ -24,7 +24,7 @@ export function StopList({ stops, current, onPick }: { stops: StopSummary[]; cur
             key={s.id}
             testID={`stop-${i}`}
             accessibilityRole="button"
-            accessibilityState={{ selected: active }}
+            aria-selected={active}
             onPress={() => onPick(i)}
             style={StyleSheet.flatten([styles.item, { borderColor: active ? colors.accent : colors.rule, backgroundColor: active ? colors.surfaceAlt : colors.surface }])}
           >

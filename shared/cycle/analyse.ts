@@ -16,12 +16,12 @@
  * the same output bit for bit. Never NaN: a number that cannot be formed is null.
  */
 import { reconcile, type ReconcileResult } from '../reconcile';
-import { P_MAX, P_MAX_5, T_MAX_2, T_MAX_5, type SteamPhase } from '../steam';
+import { P_MAX, T_MAX_5, type SteamPhase } from '../steam';
 import { sigmaFor } from '../uncertainty';
 import { BAROMETRIC_MAX_PA, BAROMETRIC_MIN_PA, fromSI, fromSIDelta, unitLabel, type PressureRef, type Unit } from '../units';
-import { buildEquations, KIND_NAME, SCALE, SI_UNIT_OF, type AcceptedReading, type BalanceSpec, type EquationSystem, type HExpr } from './equations';
+import { buildEquations, SCALE, SI_UNIT_OF, type AcceptedReading, type BalanceSpec, type EquationSystem, type HExpr } from './equations';
 import { showDelta, showKPa, showSI, showValue, showWithSpread, type Shown } from './format';
-import { portUses, type CycleModel, type Equipment, type Instrument } from './model';
+import { portUses, type Equipment, type Instrument } from './model';
 import { performanceFigures, type FigureState } from './performance';
 import { P_LOW, propsPT, propsSat, stateFromPH, stateFromPT, stateFromPX, tsatSafe } from './properties';
 import type {
@@ -438,7 +438,7 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
     } else pm = { v: r.p.value * SCALE.p, s: 0 };
     const Tm = measuredOf(r.tags.T);
     let T = Tm?.v ?? null;
-    let sT = Tm?.s ?? null;
+    const sT = Tm?.s ?? null;
     let h: number | null = null;
     let sh: number | null = null;
     let st: ReturnType<typeof stateFromPT> = null;
@@ -518,7 +518,8 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
   });
 
   // ---------------------------------------------------------------- balances
-  const activeSpecs = eq.balances.filter((s) => s.id in eq.info);
+  // every balance of the model is reported (those one stream or one enthalpy makes hold by construction too)
+  const activeSpecs = eq.balances.filter((s) => s.kind !== 'power' || s.tags.length > 0);
   const rowValues = (spec: BalanceSpec, get: (id: string) => PState): { v: BalanceValues; sigma: number } | null => {
     const sq = (x: number) => x * x;
     const mk = (i: number, o: number): BalanceValues => {
@@ -616,7 +617,12 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
   }));
 
   // ---------------------------------------------------------------- performance
-  const performance = performanceFigures(model, getRec, recPower, getMeas, measPower);
+  // measured basis: pressures, temperatures and enthalpies as read; a flow nobody reads from the reconciliation
+  const getMeasFlows = (id: string): PState => {
+    const m = getMeas(id);
+    return m.m !== null ? m : { ...m, m: getRec(id).m, sm: getRec(id).sm };
+  };
+  const performance = performanceFigures(model, getRec, recPower, getMeasFlows, measPower);
 
   // ---------------------------------------------------------------- 4. findings
   const constraintsOf = new Map<string, string[]>();
@@ -873,8 +879,10 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
   }
 
   // balances that do not close (only when the round as a whole fails its test)
+  // (balances that hold by construction — one stream, one enthalpy — only repeat what the gross-error test says)
   if (res && !res.passed) {
     for (const spec of activeSpecs) {
+      if (!(spec.id in eq.info)) continue;
       const row = rowsBySpec.get(spec.id)!;
       if (!row.measured || !row.measuredSigma || spec.kind === 'enthalpy') continue;
       const zr = Math.abs(row.measured.residual) / row.measuredSigma;
@@ -990,8 +998,3 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
     findings,
   };
 }
-
-/** The kind names used in messages, re-exported for the app. */
-export { KIND_NAME };
-// the IF97 limits a reading is held against, for the app's on-the-spot checks
-export const READING_LIMITS = { pMin: P_LOW, pMax: P_MAX, pMax5: P_MAX_5, TMin: 273.15, TMax2: T_MAX_2, TMax: T_MAX_5 } as const;

@@ -77,8 +77,8 @@ export const DESIGN_PARAMETERS: Readonly<DesignParameters> = Object.freeze({
   feedPumpP: 7.6e6,
   feedPumpEfficiency: 0.75,
   coolingP: 0.25e6,
-  coolingInT: 24 + C0,
-  coolingOutT: 33 + C0,
+  coolingInT: 25 + C0,
+  coolingOutT: 35 + C0,
   generatorEfficiency: 0.975,
 });
 

@@ -27,7 +27,7 @@
  * properties by central differences of 1 ppm). Scales: kg/s, MW, kJ/kg, K.
  */
 import { linear, type Constraint, type Measurement, type UnmeasuredVariable } from '../reconcile';
-import { portUses, type CycleModel, type CyclePoint, type Equipment, type PointPhase } from './model';
+import { portUses, type CycleModel, type CyclePoint, type PointPhase } from './model';
 import { enthalpyOf, propsPT, propsSat, tsatSafe } from './properties';
 
 /** SI per internal unit, by variable kind */
@@ -143,22 +143,6 @@ const REL_DP = 1e-6;
 export const isSatPhase = (ph: PointPhase) => ph === 'saturated-liquid' || ph === 'saturated-vapour' || ph === 'two-phase';
 
 export const valueOf = (r: Ref, v: Readonly<Record<string, number>>): number => ('var' in r ? v[r.var] : r.value);
-
-/** The labels of equipment kinds in messages. */
-export const KIND_NAME: Record<Equipment['kind'], string> = {
-  boiler: 'boiler',
-  superheater: 'superheater',
-  'turbine-section': 'turbine section',
-  pump: 'pump',
-  condenser: 'condenser',
-  'closed-heater': 'heater',
-  deaerator: 'deaerator',
-  drum: 'drum',
-  mixer: 'mixer',
-  splitter: 'splitter',
-  throttle: 'valve',
-  generator: 'generator',
-};
 
 /** Mass and energy balances of each equipment, as data. */
 export function balanceSpecs(model: CycleModel, powerTags: Readonly<Record<string, string[]>>): BalanceSpec[] {
@@ -654,8 +638,8 @@ export function buildEquations(model: CycleModel, readings: ReadonlyMap<string, 
   const notInBalance: string[] = [];
   for (const i of model.instruments) {
     const r = readings.get(i.tag);
-    if (!r || !vars[i.tag]) continue;
-    if (!used.has(i.tag)) {
+    if (!r) continue;
+    if (!vars[i.tag] || !used.has(i.tag)) {
       notInBalance.push(i.tag);
       continue;
     }

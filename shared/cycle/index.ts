@@ -38,7 +38,7 @@ export {
   type VarInfo,
   type VarKind,
 } from './equations';
-export { analyseRound, CycleError, READING_LIMITS, type CycleErrorCode } from './analyse';
+export { analyseRound, CycleError, type CycleErrorCode } from './analyse';
 export { performanceFigures, type FigureState, type StateOf } from './performance';
 export { propsPT, propsSat, tsatSafe, enthalpyOf, type PTProps, type SatProps } from './properties';
 export * from './types';

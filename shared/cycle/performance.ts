@@ -81,12 +81,14 @@ function figureDefs(model: CycleModel): Raw[] {
         if (seq.length > 2) groups.push([e.ports.inlet, e.ports.outlet]);
         for (const [a, b] of groups) {
           const whole = a === e.ports.inlet && b === e.ports.outlet;
+          const wet = model.points.find((p) => p.id === b)?.phase === 'two-phase';
           defs.push({
             id: `eta:${e.id}:${a}:${b}`,
             kind: 'isentropic-efficiency',
             equipmentId: e.id,
             label: `${e.label}: isentropic efficiency ${whole ? 'inlet to exhaust' : `${a} to ${b}`}`,
             unit: '1',
+            ...(wet ? { note: 'wet exhaust: its enthalpy (quality) comes from the balances, so only the reconciled figure exists' } : {}),
             f: (get) => {
               const i = get(a);
               const o = get(b);

@@ -11,7 +11,7 @@
  *
  * SI in and out: Pa, K, J/kg, J/(kg·K).
  */
-import { P_CRIT, P_MAX, P_SAT_MIN, T_CRIT, T_MAX_2, T_MIN, ph, pt, px, tsat, type SteamState } from '../steam';
+import { P_CRIT, P_MAX, P_SAT_MIN, T_MAX_2, T_MIN, ph, pt, px, tsat, type SteamState } from '../steam';
 import type { PointPhase } from './model';
 
 /** Side margin (K): the linear continuation starts this far inside the declared side. */
@@ -148,8 +148,3 @@ export function stateFromPX(p: number, x: number): StateSummary | null {
     return null;
   }
 }
-
-/** Isentropic end state enthalpy at p_out from (p_in, s_in), or null. */
-export { ps as isentropicState } from '../steam';
-
-export { P_CRIT, T_CRIT, T_MIN, T_MAX_2, P_MAX };

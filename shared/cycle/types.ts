@@ -163,7 +163,7 @@ export interface PerformanceFigure {
   unit: '1' | 'K' | 'W' | 'kJ/kWh';
   /** from the reconciled state; null where it cannot be formed */
   value: number | null;
-  /** from the readings as they are; null where a needed value is not measured */
+  /** from the readings as they are (a flow nobody reads taken from the reconciliation); null where a needed pressure or temperature is not read */
   measured: number | null;
   note?: string;
 }
