@@ -60,6 +60,7 @@ export function RoundScreen({ roundId }: { roundId: string }) {
       }
       const flags = flagsFor(d, spec, valueSI);
       const cur = d.readings[spec.tag];
+      const t0 = globalThis.performance?.now();
       await actions.recordReading({
         roundId,
         instrumentTag: spec.tag,
@@ -70,6 +71,8 @@ export function RoundScreen({ roundId }: { roundId: string }) {
         confirmedAfterFlag: false,
         supersedes: cur?.id ?? null,
       });
+      // User Timing: from Save to the reading and its outbox row committed on the device (bench/device-save.bench.ts).
+      if (t0 !== undefined) globalThis.performance?.measure?.('trueround:reading-saved', { start: t0 });
       return null;
     },
     [actions, roundId],
