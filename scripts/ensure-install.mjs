@@ -5,7 +5,7 @@
  */
 import { execSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
-import { existsSync, readFileSync, writeFileSync } from 'node:fs';
+import { existsSync, readFileSync, statSync, writeFileSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
@@ -17,6 +17,12 @@ export function ensureInstall() {
   const want = createHash('sha256').update(readFileSync(lock)).digest('hex');
   const have = existsSync(stamp) ? readFileSync(stamp, 'utf8').trim() : '';
   if (have === want && existsSync(join(ROOT, 'node_modules', '.bin', 'tsx'))) return false;
+  // An `npm install` run by hand since the last check leaves npm's own record newer than the lock.
+  const npmRecord = join(ROOT, 'node_modules', '.package-lock.json');
+  if (existsSync(npmRecord) && statSync(npmRecord).mtimeMs >= statSync(lock).mtimeMs && existsSync(join(ROOT, 'node_modules', '.bin', 'tsx'))) {
+    writeFileSync(stamp, want + '\n');
+    return false;
+  }
   console.error('[install] installing npm dependencies (npm ci)…');
   const t0 = Date.now();
   execSync('npm ci --no-audit --no-fund --loglevel=error', { cwd: ROOT, stdio: 'inherit' });
