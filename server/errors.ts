@@ -20,12 +20,19 @@ export class AppError extends Error {
 }
 
 /** zod issues → our validation details, and a message that names the fields. */
+/** The message names at most this many fields; `details` carries the first MAX_DETAILS of them. */
+export const MAX_NAMED = 10;
+export const MAX_DETAILS = 200;
+
 export function validationError(error: ZodError, where = 'request'): AppError {
-  const details: ValidationIssue[] = error.issues.map((i) => ({
+  const all: ValidationIssue[] = error.issues.map((i) => ({
     path: i.path.map(String).join('.') || '(body)',
     message: i.message,
   }));
-  const summary = details.map((d) => `${d.path}: ${d.message}`).join('; ');
+  const details = all.slice(0, MAX_DETAILS);
+  const more = all.length - MAX_NAMED;
+  const summary =
+    all.slice(0, MAX_NAMED).map((d) => `${d.path}: ${d.message}`).join('; ') + (more > 0 ? `; and ${more} more problem${more === 1 ? '' : 's'}` : '');
   return new AppError(400, 'validation', `Invalid ${where}: ${summary}`, details);
 }
 

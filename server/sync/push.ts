@@ -432,6 +432,28 @@ export async function pushBatch(ds: DataSource, userId: string, batch: PushBatch
       }
     }
 
+    // Dismissals only grow: a stored round takes every dismissal it does not hold yet (the device
+    // re-sends the whole round when one is added, before or after it finishes).
+    for (const r of firstById(batch.rounds)) {
+      const s = storedRounds.get(r.item.id);
+      if (!s) continue;
+      const incoming = batch.rounds.filter((x) => x.id === r.item.id).flatMap((x) => x.dismissals ?? []);
+      if (incoming.length === 0) continue;
+      const [row] = (await em.query(`SELECT "dismissals" FROM "rounds" WHERE "id" = $1 FOR UPDATE`, [s.id])) as { dismissals: unknown[] }[];
+      const held = Array.isArray(row?.dismissals) ? (row.dismissals as Record<string, unknown>[]) : [];
+      const key = (d: Record<string, unknown>) => JSON.stringify([d.readingId ?? null, d.tag ?? null, d.flag, d.deviceTime]);
+      const have = new Set(held.map(key));
+      const added = incoming.filter((d) => {
+        const k = key(d as Record<string, unknown>);
+        if (have.has(k)) return false;
+        have.add(k);
+        return true;
+      });
+      if (added.length === 0) continue;
+      await em.query(`UPDATE "rounds" SET "dismissals" = $2 WHERE "id" = $1`, [s.id, JSON.stringify([...held, ...added])]);
+      touched.add(s.id);
+    }
+
     const insertedReadings = await insertIgnoring(
       em,
       'readings',

@@ -429,3 +429,31 @@ test('more than 2000 items in one push is refused', async () => {
   expect(res.status).toBe(400);
   expect(res.body.error.details[0]).toEqual({ path: 'readings', message: expect.stringContaining('At most 2000 items') });
 });
+
+test('dismissals only grow: a later copy of a stored round adds its new dismissal, a replay adds nothing', async () => {
+  const b = batch('boiler-house', [{ tag: 'TI-101', value: 299, unit: '°C' }]);
+  expect((await push(b)).status).toBe(200);
+  const d1 = { tag: 'TI-101', flag: 'suspect', note: 'gauge known faulty, work order open', deviceTime: now() };
+  const again = { ...b, readings: [], rounds: [{ ...b.rounds[0], dismissals: [d1] }] };
+  expect((await push(again)).status).toBe(200);
+  expect((await push(again)).status).toBe(200);
+  const d2 = { tag: 'PI-101', flag: 'saturation', note: 'drum gauge under calibration', deviceTime: now() };
+  const finished = { ...again, rounds: [{ ...b.rounds[0], status: 'finished' as const, finishedAt: now(), dismissals: [d1, d2] }] };
+  expect((await push(finished)).status).toBe(200);
+  const [row] = (await db.dataSource.query(`SELECT status, dismissals FROM rounds WHERE id = $1`, [b.roundId])) as { status: string; dismissals: { tag: string; note: string }[] }[];
+  expect(row.status).toBe('finished');
+  expect(row.dismissals.map((d) => [d.tag, d.note])).toEqual([
+    ['TI-101', 'gauge known faulty, work order open'],
+    ['PI-101', 'drum gauge under calibration'],
+  ]);
+});
+
+test('a batch with a thousand bad readings gets a short message (10 named, the count of the rest) and the first 200 details', async () => {
+  const b = batch('boiler-house', Array.from({ length: 1000 }, () => ({ tag: 'TI-101', value: 284, unit: '°C' })));
+  for (const r of b.readings) delete (r as Partial<typeof r>).instrumentId;
+  const res = await push(b);
+  expect(res.status).toBe(400);
+  expect(res.body.error.message).toMatch(/^Invalid request body: readings\.0\.instrumentId: Required; .*readings\.9\.instrumentId: Required; and 990 more problems$/);
+  expect(res.body.error.details).toHaveLength(200);
+  expect(await counts(b.roundId)).toEqual({ rounds: 0, readings: 0, checkAnswers: 0, photos: 0 });
+});
