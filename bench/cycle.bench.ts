@@ -14,28 +14,10 @@
 import { analyseRound, buildEquations, demoDesignReadings, demoUnit, type AcceptedReading, type RoundReading } from '../shared/cycle';
 import { linear, reconcile, type Constraint } from '../shared/reconcile';
 import { sigmaFor } from '../shared/uncertainty';
+import { timePair } from './timing';
 
 const B = 101325;
 
-function timePair(a: () => unknown, b: () => unknown, minMs = 1500, minReps = 15): { a: number; b: number; reps: number } {
-  for (let i = 0; i < 20; i++) {
-    a();
-    b();
-  }
-  const sa: number[] = [];
-  const sb: number[] = [];
-  const start = performance.now();
-  while (sa.length < minReps || performance.now() - start < minMs) {
-    let t0 = performance.now();
-    a();
-    sa.push(performance.now() - t0);
-    t0 = performance.now();
-    b();
-    sb.push(performance.now() - t0);
-  }
-  const med = (x: number[]) => x.sort((p, q) => p - q)[Math.floor(x.length / 2)];
-  return { a: med(sa), b: med(sb), reps: sa.length };
-}
 
 function plainReadings(change?: { tag: string; f: (v: number) => number }): RoundReading[] {
   return demoDesignReadings(B).map((r) => ({ instrumentTag: r.instrumentTag, valueSI: change && r.instrumentTag === change.tag ? change.f(r.valueSI) : r.valueSI }));

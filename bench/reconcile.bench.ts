@@ -7,6 +7,9 @@
  */
 import { CholeskyDecomposition, Matrix } from 'ml-matrix';
 import { linear, reconcile, type Constraint, type Measurement, type ReconcileInput } from '../shared/reconcile';
+import { timePair } from './timing';
+
+const RECONCILE_TIMING = { minMs: 2000, minReps: 7, warmup: 3 };
 
 function rng(seed: number) {
   let s = seed;
@@ -103,26 +106,6 @@ function mixerChain(mixers: number): { input: ReconcileInput; jacAt: (v: Record<
   return { input: { measured, constraints }, jacAt, ids };
 }
 
-/** median ms per call of a and b, measured interleaved so that machine load hits both alike */
-function timePair(a: () => unknown, b: () => unknown, minMs = 2000, minReps = 7): { a: number; b: number; reps: number } {
-  for (let i = 0; i < 3; i++) {
-    a();
-    b();
-  }
-  const sa: number[] = [];
-  const sb: number[] = [];
-  const start = performance.now();
-  while (sa.length < minReps || performance.now() - start < minMs) {
-    let t0 = performance.now();
-    a();
-    sa.push(performance.now() - t0);
-    t0 = performance.now();
-    b();
-    sb.push(performance.now() - t0);
-  }
-  const med = (x: number[]) => x.sort((p, q) => p - q)[Math.floor(x.length / 2)];
-  return { a: med(sa), b: med(sb), reps: sa.length };
-}
 
 export async function run(): Promise<void> {
   const rows: Record<string, string | number>[] = [];
@@ -131,7 +114,7 @@ export async function run(): Promise<void> {
   const linRes = reconcile(lin.input);
   const cf = closedForm(lin.a, lin.x, lin.s);
   const maxDiff = Math.max(...lin.input.measured.map((m, i) => Math.abs(linRes.values[m.id] - cf[i]) / m.sigma));
-  const t1 = timePair(() => reconcile(lin.input), () => closedForm(lin.a, lin.x, lin.s));
+  const t1 = timePair(() => reconcile(lin.input), () => closedForm(lin.a, lin.x, lin.s), RECONCILE_TIMING);
   rows.push({
     case: `linear network, ${lin.x.length} streams, ${lin.a.length} nodes`,
     iterations: linRes.iterations,
@@ -144,7 +127,7 @@ export async function run(): Promise<void> {
 
   const gross = linearNetwork(100, 'm30');
   const gRes = reconcile(gross.input);
-  const t2 = timePair(() => reconcile(gross.input), () => closedForm(gross.a, gross.x, gross.s));
+  const t2 = timePair(() => reconcile(gross.input), () => closedForm(gross.a, gross.x, gross.s), RECONCILE_TIMING);
   rows.push({
     case: `same, 10σ error on m30 (serial elimination: ${gRes.suspects.join(', ') || 'none'})`,
     iterations: gRes.iterations,
@@ -169,7 +152,7 @@ export async function run(): Promise<void> {
     const corr = a.transpose().mmul(lam);
     return xm.map((v, i) => v - var_[i] * corr.get(i, 0));
   };
-  const t3 = timePair(() => reconcile(nl.input), nlBase);
+  const t3 = timePair(() => reconcile(nl.input), nlBase, RECONCILE_TIMING);
   rows.push({
     case: `nonlinear mixer chain, ${nl.ids.length} variables, ${nl.input.constraints.length} constraints (FD Jacobian)`,
     iterations: nlRes.iterations,

@@ -4,20 +4,13 @@
  * server for the web target on :8081, pointed at the API with EXPO_PUBLIC_API_URL.
  */
 import { spawn, execFileSync } from 'node:child_process';
-import { randomBytes } from 'node:crypto';
-import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { ensureInstall } from './ensure-install.mjs';
+import { localJwtSecret } from './secret.mjs';
 
 const ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '..');
 
-function secret() {
-  const file = join(ROOT, '.data', 'secret.json');
-  mkdirSync(dirname(file), { recursive: true });
-  if (!existsSync(file)) writeFileSync(file, JSON.stringify({ jwtSecret: randomBytes(48).toString('base64url') }), { mode: 0o600 });
-  return JSON.parse(readFileSync(file, 'utf8')).jwtSecret;
-}
 
 ensureInstall();
 const { startCluster } = await import('./pg.mjs');
@@ -27,7 +20,7 @@ const env = {
   ...process.env,
   NODE_ENV: 'development',
   DATABASE_URL: pg.url,
-  JWT_SECRET: process.env.JWT_SECRET || secret(),
+  JWT_SECRET: process.env.JWT_SECRET || localJwtSecret(),
   PORT: '8080',
   CORS_ORIGINS: 'http://localhost:8081,http://127.0.0.1:8081',
 };

@@ -8,21 +8,14 @@
  *  5. serve app and API on one port.
  */
 import { spawn, execFileSync } from 'node:child_process';
-import { randomBytes } from 'node:crypto';
-import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { ensureInstall } from './ensure-install.mjs';
+import { localJwtSecret } from './secret.mjs';
 
 const ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '..');
 const t0 = Date.now();
 
-function secret() {
-  const file = join(ROOT, '.data', 'secret.json');
-  mkdirSync(dirname(file), { recursive: true });
-  if (!existsSync(file)) writeFileSync(file, JSON.stringify({ jwtSecret: randomBytes(48).toString('base64url') }), { mode: 0o600 });
-  return JSON.parse(readFileSync(file, 'utf8')).jwtSecret;
-}
 
 async function main() {
   ensureInstall();
@@ -32,7 +25,7 @@ async function main() {
     ...process.env,
     NODE_ENV: 'production',
     DATABASE_URL: pg.url,
-    JWT_SECRET: process.env.JWT_SECRET || secret(),
+    JWT_SECRET: process.env.JWT_SECRET || localJwtSecret(),
     HOST: process.env.HOST || '127.0.0.1',
     PORT: process.env.PORT || '8080',
     WEB_DIST: join(ROOT, 'dist', 'web'),
