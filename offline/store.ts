@@ -323,8 +323,8 @@ export class Store {
     return this.parseRows('units', StoredUnit, rows);
   }
 
-  async getUnit(id: string): Promise<LocalUnit | null> {
-    const rows = await this.db.all<{ id: string; json: string }>('SELECT id, json FROM units WHERE id = ?', [id]);
+  async getUnit(id: string, db: LocalDbOps = this.db): Promise<LocalUnit | null> {
+    const rows = await db.all<{ id: string; json: string }>('SELECT id, json FROM units WHERE id = ?', [id]);
     return this.parseRows('units', StoredUnit, rows)[0] ?? null;
   }
 

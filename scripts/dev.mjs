@@ -23,6 +23,7 @@ const env = {
   JWT_SECRET: process.env.JWT_SECRET || localJwtSecret(),
   PORT: '8080',
   CORS_ORIGINS: 'http://localhost:8081,http://127.0.0.1:8081',
+  SMTP_FAKE_PORT: process.env.SMTP_FAKE_PORT || '0',
 };
 execFileSync(bin('tsx'), ['server/cli/migrate.ts'], { cwd: ROOT, env, stdio: 'inherit' });
 execFileSync(bin('tsx'), ['server/cli/seed.ts'], { cwd: ROOT, env, stdio: 'inherit' });

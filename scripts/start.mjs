@@ -29,6 +29,8 @@ async function main() {
     HOST: process.env.HOST || '127.0.0.1',
     PORT: process.env.PORT || '8080',
     WEB_DIST: join(ROOT, 'dist', 'web'),
+    // The local SMTP fake runs in the server process on loopback; the admin's mailbox page shows what it got.
+    SMTP_FAKE_PORT: process.env.SMTP_FAKE_PORT || '0',
   };
   const tsx = join(ROOT, 'node_modules', '.bin', 'tsx');
   console.error('[start] migrating and loading the demo site when empty…');

@@ -9,7 +9,13 @@ import { authRouter, meRouter } from './auth/routes';
 import { cors } from './http/cors';
 import type { Config } from './config';
 import type { Deps } from './context';
+import { devRouter } from './dev/routes';
 import { AppError, apiNotFound, errorMiddleware } from './errors';
+import { analysisRouter } from './analysis/routes';
+import { exportsRouter } from './exports/routes';
+import { instrumentsRouter } from './instruments/routes';
+import type { Notifier } from './notify';
+import { workOrdersRouter } from './work-orders/routes';
 import { httpLogger, makeLogger, type Logger } from './logger';
 import { sitesRouter } from './sites/routes';
 import { noopSyncHooks, type SyncHooks } from './sync/hooks';
@@ -26,6 +32,10 @@ export interface CreateAppOptions {
   photoStore?: PhotoStore;
   /** Called after a push commits (server/sync/hooks.ts); default: nothing. */
   syncHooks?: SyncHooks;
+  /** Told of opened and assigned work orders and stored findings (server/notify.ts); default: nobody. */
+  notifier?: Notifier;
+  /** Serve GET /api/dev/mailbox (what the SMTP fake received); default: when SMTP_FAKE_PORT is set. */
+  devMailbox?: boolean;
 }
 
 export const JSON_BODY_LIMIT = '1mb';
@@ -64,9 +74,11 @@ export function createApp({
   logger = makeLogger(config),
   photoStore = makePhotoStore(config),
   syncHooks = noopSyncHooks,
+  notifier,
+  devMailbox = config.SMTP_FAKE_PORT !== undefined,
 }: CreateAppOptions): Express {
   const app = express();
-  const deps: Deps = { config, dataSource, logger };
+  const deps: Deps = { config, dataSource, logger, notify: notifier };
   app.locals.deps = deps;
   app.set('trust proxy', config.TRUST_PROXY);
   app.disable('x-powered-by');
@@ -103,8 +115,10 @@ export function createApp({
   app.use('/api/auth', authRouter(config));
   app.use('/api/me', meRouter());
   app.use('/api/sites', sitesRouter());
+  app.use('/api/sites', workOrdersRouter(), instrumentsRouter(), analysisRouter(), exportsRouter());
   app.use('/api/sync', syncRouter(syncHooks));
   app.use('/api/photos', photosRouter(config, photoStore));
+  app.use('/api/dev', devRouter(devMailbox));
   app.use('/api', apiNotFound);
 
   if (webDir) app.use(webRouter(webDir));

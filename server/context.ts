@@ -7,11 +7,14 @@ import type { DataSource } from 'typeorm';
 import type { Role } from '../shared/api/auth';
 import type { Config } from './config';
 import type { Logger } from './logger';
+import type { Notifier } from './notify';
 
 export interface Deps {
   config: Config;
   dataSource: DataSource;
   logger: Logger;
+  /** Told about opened and assigned work orders and stored findings (server/notify.ts); none: nobody is told. */
+  notify?: Notifier;
 }
 
 export function deps(req: Request): Deps {

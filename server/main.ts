@@ -2,6 +2,8 @@
  * Puts the app on a port: start(config?) → { url, port, server, dataSource, stop() }.
  * Run directly (`npx tsx server/main.ts`) it reads the environment (server/config.ts), prints
  * the URL and closes cleanly on SIGINT/SIGTERM. Migrations are not run here: server/cli/migrate.ts.
+ * E-mail (server/mail): with SMTP_FAKE_PORT the local SMTP fake runs in this process; the mail
+ * sender loop runs when there is somewhere to send (SMTP_URL or the fake).
  */
 import type { Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
@@ -10,6 +12,9 @@ import { createApp } from './app';
 import { loadConfig, type Config } from './config';
 import { makeDataSource } from './db';
 import { makeLogger, type Logger } from './logger';
+import { startMail, type MailRuntime } from './mail';
+import { startAnalysisRuntime, type AnalysisRuntime } from './analysis/queue';
+import type { Notifier } from './notify';
 
 export interface Running {
   url: string;
@@ -18,20 +23,34 @@ export interface Running {
   dataSource: DataSource;
   config: Config;
   logger: Logger;
+  /** the SMTP fake (when SMTP_FAKE_PORT is set), the sender loop and the e-mail notifier */
+  mail: MailRuntime;
+  /** the analysis queue (pg-boss); its workers run here when WORKERS_IN_PROCESS (else `server/worker.ts`) */
+  analysis: AnalysisRuntime;
   stop(): Promise<void>;
+}
+
+export interface StartOptions {
+  /** who hears of opened and assigned work orders and stored findings; default: the e-mail notifier */
+  notifier?: Notifier;
 }
 
 const running = new Set<Running>();
 
-export async function start(config: Config = loadConfig()): Promise<Running> {
+export async function start(config: Config = loadConfig(), options: StartOptions = {}): Promise<Running> {
   const logger = makeLogger(config);
   const dataSource = makeDataSource(config.DATABASE_URL);
   await dataSource.initialize();
+  let mail: MailRuntime | undefined;
+  let analysis: AnalysisRuntime | undefined;
   try {
     if (await dataSource.showMigrations()) {
       logger.warn('database migrations are pending: run `npx tsx server/cli/migrate.ts`');
     }
-    const app = createApp({ config, dataSource, logger });
+    mail = await startMail({ config, dataSource, logger });
+    const notifier = options.notifier ?? mail.notifier;
+    analysis = await startAnalysisRuntime({ config, dataSource, logger, notify: notifier, work: config.WORKERS_IN_PROCESS });
+    const app = createApp({ config, dataSource, logger, syncHooks: analysis.hooks, notifier });
     const server = await new Promise<Server>((resolve, reject) => {
       const s = app.listen(config.PORT, config.HOST, (err?: Error) => (err ? reject(err) : resolve(s)));
       s.once('error', reject);
@@ -49,6 +68,8 @@ export async function start(config: Config = loadConfig()): Promise<Running> {
       dataSource,
       config,
       logger,
+      mail,
+      analysis,
       stop: () =>
         (stopping ??= (async () => {
           running.delete(handle);
@@ -58,6 +79,8 @@ export async function start(config: Config = loadConfig()): Promise<Running> {
             // In-flight requests get a moment; then their sockets are closed too.
             setTimeout(() => server.closeAllConnections(), 5000).unref();
           });
+          await analysis?.stop();
+          await mail?.stop();
           if (dataSource.isInitialized) await dataSource.destroy();
         })()),
     };
@@ -65,6 +88,8 @@ export async function start(config: Config = loadConfig()): Promise<Running> {
     logger.info({ url }, 'listening');
     return handle;
   } catch (err) {
+    await analysis?.stop();
+    await mail?.stop();
     await dataSource.destroy();
     throw err;
   }

@@ -1,16 +1,18 @@
 import { useRouter } from 'expo-router';
-import { useCallback, useMemo, useState } from 'react';
+import { useCallback, useEffect, useMemo, useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { Button } from '@/components/button';
 import { Card } from '@/components/card';
 import { Caution } from '@/components/caution';
 import { CheckField, type CheckValue } from '@/components/check-field';
 import { PhotoThumb } from '@/components/photo-thumb';
+import { ReviewSummary } from '@/components/review-summary';
 import { parseTyped, ReadingField } from '@/components/reading-field';
 import { StopList, type StopSummary } from '@/components/stop-list';
 import { ThemedText } from '@/components/themed-text';
 import { space } from '@/constants/theme';
 import { pickPhoto } from '@/hooks/pick-photo';
+import { warmUpReview } from '@/hooks/review-runner';
 import { useSession } from '@/hooks/session';
 import { flagCodes, flagsFor, loadRound, missingOf, siOf, type RoundData } from '@/hooks/use-round';
 import { useWide } from '@/hooks/use-wide';
@@ -23,15 +25,17 @@ function bandText(r: RouteReading): string {
 }
 
 /** Walking a round: the stop list, the stop's readings and checks, photos, and finishing. */
-export function RoundScreen({ roundId }: { roundId: string }) {
+export function RoundScreen({ roundId, initialStop = 0 }: { roundId: string; initialStop?: number }) {
   const { store, actions, state, error } = useStore();
   const { membership } = useSession();
   const router = useRouter();
   const wide = useWide();
-  const [stopIndex, setStopIndex] = useState(0);
+  const [stopIndex, setStopIndex] = useState(initialStop);
   const [finishing, setFinishing] = useState(false);
   const [problem, setProblem] = useState<string | null>(null);
   const { data, error: readError } = useStoreQuery((s) => loadRound(s, roundId, membership?.siteId ?? null), [roundId, membership?.siteId]);
+  // the round check's engine gets compiled while the technician walks (a worker on the web)
+  useEffect(() => warmUpReview(), []);
 
   const stops: StopSummary[] = useMemo(
     () =>
@@ -170,6 +174,7 @@ export function RoundScreen({ roundId }: { roundId: string }) {
       {problem ? <ThemedText tone="danger" testID="photo-problem">{problem}</ThemedText> : null}
       <View style={styles.nav}>
         <Button testID="stop-prev" label="Previous stop" kind="plain" disabled={stopIndex === 0} onPress={() => setStopIndex((i) => Math.max(0, i - 1))} />
+        <Button testID="round-check" label="Check the round" kind="plain" onPress={() => router.push(`/tech/round/${roundId}/review`)} />
         {stopIndex < data.template.stops.length - 1 ? (
           <Button testID="stop-next" label="Next stop" onPress={() => setStopIndex((i) => i + 1)} />
         ) : (
@@ -190,6 +195,7 @@ export function RoundScreen({ roundId }: { roundId: string }) {
           {missing.checks.map((m) => <ThemedText key={m.id} testID={`missing-check-${m.id}`}>Not answered: {m.prompt} ({m.stop})</ThemedText>)}
         </View>
       )}
+      <ReviewSummary roundId={roundId} onOpen={() => router.push(`/tech/round/${roundId}/review`)} />
       <View style={styles.nav}>
         <Button testID="finish-back" label="Back to the stops" kind="plain" onPress={() => setFinishing(false)} />
         <Button

@@ -9,6 +9,15 @@ import { RoundEntity } from './round';
 import { ReadingEntity } from './reading';
 import { CheckAnswerEntity } from './check-answer';
 import { PhotoEntity } from './photo';
+import { AnalysisEntity, AnalysisInstrumentEntity, FindingEntity } from './analysis';
+import {
+  CalibrationRecordEntity,
+  WorkOrderCounterEntity,
+  WorkOrderEntity,
+  WorkOrderEventEntity,
+  WorkOrderFindingEntity,
+} from './work-order';
+import { MailMessageEntity, MailOutboxEntity } from './mail';
 
 export * from './membership';
 export * from './refresh-token';
@@ -21,6 +30,9 @@ export * from './round';
 export * from './reading';
 export * from './check-answer';
 export * from './photo';
+export * from './analysis';
+export * from './work-order';
+export * from './mail';
 
 /** Every entity the DataSource knows; later features append theirs here. */
 export const ENTITIES = [
@@ -36,4 +48,14 @@ export const ENTITIES = [
   ReadingEntity,
   CheckAnswerEntity,
   PhotoEntity,
+  MailMessageEntity,
+  MailOutboxEntity,
+  AnalysisEntity,
+  FindingEntity,
+  AnalysisInstrumentEntity,
+  WorkOrderEntity,
+  WorkOrderCounterEntity,
+  WorkOrderFindingEntity,
+  WorkOrderEventEntity,
+  CalibrationRecordEntity,
 ];

@@ -25,6 +25,10 @@ export interface Round {
   clientClockSkewMs: number;
   deviceId: string;
   serverSeq: number;
+  /** When the analysis of the round's current readings was stored (server/analysis); null: not analysed yet. */
+  analysedAt: Date | null;
+  /** The cycle model version the device held when it recorded the round, when it says (for the analysis' mismatch flag). */
+  deviceModelVersion: string | null;
   site?: Site;
   routeVersion?: RouteVersion;
   technician?: User;
@@ -53,6 +57,8 @@ export const RoundEntity = new EntitySchema<Round>({
       update: false,
       transformer: numberFromText,
     },
+    analysedAt: { name: 'analysed_at', type: 'timestamptz', nullable: true },
+    deviceModelVersion: { name: 'device_model_version', type: 'varchar', length: 64, nullable: true },
   },
   relations: {
     site: {

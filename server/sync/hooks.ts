@@ -1,8 +1,8 @@
 /**
  * What the server does after a push has committed. `onRoundsPushed(roundIds)` gets the rounds
  * that received anything new (new round, finished round, new readings, answers or photos). The
- * analysis (state points, balances, reconciliation, findings) will hang here as a pg-boss job in a
- * later issue: the hook should enqueue and return, not compute. It runs after the commit; its
+ * analysis hangs here as a pg-boss job (server/analysis/queue.ts `hooks`, wired by server/main.ts):
+ * the hook enqueues and returns, it does not compute. It runs after the commit; its
  * failure is logged and never turns a stored push into an error. The default does nothing.
  */
 export interface SyncHooks {

@@ -391,7 +391,7 @@ export async function pushBatch(ds: DataSource, userId: string, batch: PushBatch
     const insertedRounds = await insertIgnoring(
       em,
       'rounds',
-      ['id', 'site_id', 'route_version_id', 'technician_id', 'started_at_device', 'finished_at_device', 'received_at', 'status', 'dismissals', 'client_clock_skew_ms', 'device_id'],
+      ['id', 'site_id', 'route_version_id', 'technician_id', 'started_at_device', 'finished_at_device', 'received_at', 'status', 'dismissals', 'client_clock_skew_ms', 'device_id', 'device_model_version'],
       newRounds
         .filter(({ item }) => rounds.has(item.id))
         .map(({ item }) => {
@@ -409,6 +409,7 @@ export async function pushBatch(ds: DataSource, userId: string, batch: PushBatch
             JSON.stringify(last.dismissals),
             skewMs,
             batch.deviceId,
+            last.modelVersion ?? null,
           ];
         }),
       '"id"',

@@ -15,3 +15,5 @@ export {
 } from './auth';
 export * from './sites';
 export * from './sync';
+export * from './work-orders';
+export * from './analysis';

@@ -73,7 +73,12 @@ const roundV1 = {
   status: RoundStatus,
 };
 export const PushRoundV1 = z.object(roundV1);
-export const PushRound = z.object({ ...roundV1, dismissals: z.array(Dismissal).max(500, 'At most 500 dismissals per round') });
+export const PushRound = z.object({
+  ...roundV1,
+  dismissals: z.array(Dismissal).max(500, 'At most 500 dismissals per round'),
+  /** The cycle model version the device held for the round's unit (its checks and review used it). */
+  modelVersion: str(64).optional(),
+});
 export type PushRound = z.infer<typeof PushRound>;
 
 const readingV1 = {
@@ -201,7 +206,7 @@ export const PushRequest = z
           ...b,
           payloadVersion: 2 as const,
           receivedAsVersion: 1 as const,
-          rounds: b.rounds.map((r) => ({ ...r, dismissals: [] })),
+          rounds: b.rounds.map((r): PushRound => ({ ...r, dismissals: [] })),
           readings: b.readings.map((r) => ({ ...r, confirmedAfterFlag: false, flags: [] })),
         },
   );

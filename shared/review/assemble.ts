@@ -134,8 +134,8 @@ export class ReviewInputError extends Error {
 
 const fin = (x: unknown): x is number => typeof x === 'number' && Number.isFinite(x);
 
-/** later first: time, then order */
-const newer = (a: ReviewReading, b: ReviewReading) => (a.time !== b.time ? a.time > b.time : a.order > b.order);
+/** later first: time, then order, then id (code-unit order) */
+const newer = (a: ReviewReading, b: ReviewReading) => (a.time !== b.time ? a.time > b.time : a.order !== b.order ? a.order > b.order : a.id > b.id);
 
 function modelTags(model: unknown): string[] {
   const list = (model as { instruments?: { tag?: unknown }[] } | null)?.instruments;

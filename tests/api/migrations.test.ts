@@ -36,10 +36,15 @@ test('migration class names end in a 13-digit timestamp, strictly increasing (Ty
 
 /** Every table and enum type the migrations create, sorted (a new migration adds its own here). */
 const ALL_TABLES = [
-  'check_answers', 'instruments', 'memberships', 'photos', 'readings', 'refresh_tokens',
-  'rounds', 'route_versions', 'routes', 'sites', 'units', 'users',
+  'analyses', 'analysis_instruments', 'calibration_records', 'check_answers', 'findings', 'instruments',
+  'mail_messages', 'mail_outbox', 'memberships', 'photos', 'readings', 'refresh_tokens', 'rounds',
+  'route_versions', 'routes', 'sites', 'units', 'users', 'work_order_counters', 'work_order_events',
+  'work_order_findings', 'work_orders',
 ];
-const ALL_ENUMS = ['instrument_quantity', 'instrument_status', 'membership_role', 'photo_status', 'pressure_reference', 'round_status'];
+const ALL_ENUMS = [
+  'instrument_quantity', 'instrument_status', 'membership_role', 'photo_status', 'pressure_reference', 'round_status',
+  'work_order_kind', 'work_order_status',
+];
 
 test('up, the schema matches the entities, down to nothing, and up again', async () => {
   expect(await db.dataSource.showMigrations()).toBe(true);

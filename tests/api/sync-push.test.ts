@@ -457,3 +457,11 @@ test('a batch with a thousand bad readings gets a short message (10 named, the c
   expect(res.body.error.details).toHaveLength(200);
   expect(await counts(b.roundId)).toEqual({ rounds: 0, readings: 0, checkAnswers: 0, photos: 0 });
 });
+
+test('the model version the device held is kept on the round', async () => {
+  const b = batch('boiler-house', [{ tag: 'TI-101', value: 284, unit: '°C' }]);
+  b.rounds[0] = { ...b.rounds[0], modelVersion: 'fnv1a64:0123456789abcdef' };
+  expect((await push(b)).status).toBe(200);
+  const [row] = (await db.dataSource.query(`SELECT device_model_version FROM rounds WHERE id = $1`, [b.roundId])) as { device_model_version: string }[];
+  expect(row.device_model_version).toBe('fnv1a64:0123456789abcdef');
+});

@@ -2,6 +2,6 @@ import { useLocalSearchParams } from 'expo-router';
 import { RoundScreen } from '@/screens/tech/round-screen';
 
 export default function RoundRoute() {
-  const { roundId } = useLocalSearchParams<{ roundId: string }>();
-  return <RoundScreen roundId={roundId} />;
+  const { roundId, stop } = useLocalSearchParams<{ roundId: string; stop?: string }>();
+  return <RoundScreen key={`${roundId}:${stop ?? ''}`} roundId={roundId} initialStop={Number(stop) || 0} />;
 }

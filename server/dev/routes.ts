@@ -1,0 +1,74 @@
+/**
+ * Development tools, mounted at /api/dev.
+ *
+ *   GET /api/dev/mailbox?limit=50  → { messages: MailboxMessage[] }, newest first
+ *
+ * What the local SMTP fake (server/mail/fake-smtp.ts) received. Only when the fake is in use
+ * (SMTP_FAKE_PORT set, or createApp's `devMailbox`); otherwise 404, as if the route did not
+ * exist. For a user who is an admin of at least one site; any other signed-in user gets 403.
+ */
+import { Router } from 'express';
+import { z } from 'zod';
+import { requireAuth, authOf } from '../auth/middleware';
+import { deps } from '../context';
+import { AppError, validationError } from '../errors';
+
+export interface MailboxMessage {
+  id: string;
+  receivedAt: string;
+  from: string;
+  to: string[];
+  subject: string;
+  text: string;
+  rawSize: number;
+}
+
+export interface MailboxResponse {
+  messages: MailboxMessage[];
+}
+
+const Query = z.object({
+  limit: z
+    .string()
+    .regex(/^\d{1,4}$/, 'Must be a whole number from 1 to 500')
+    .transform(Number)
+    .pipe(z.number().min(1, 'Must be a whole number from 1 to 500').max(500, 'Must be a whole number from 1 to 500'))
+    .default(50),
+});
+
+export function devRouter(mailboxEnabled: boolean): Router {
+  const r = Router();
+  r.get(
+    '/mailbox',
+    (req, _res, next) => {
+      if (!mailboxEnabled) throw new AppError(404, 'not_found', `Nothing at ${req.method} ${req.baseUrl}${req.path}: no mail fake runs on this server`);
+      next();
+    },
+    requireAuth,
+    async (req, res) => {
+      const { dataSource } = deps(req);
+      const admin = (await dataSource.query(`SELECT 1 FROM "memberships" WHERE "user_id" = $1 AND "role" = 'admin' LIMIT 1`, [authOf(req).userId])) as unknown[];
+      if (admin.length === 0) throw new AppError(403, 'forbidden', 'The dev mailbox is for site admins; you are not an admin of any site');
+      const q = Query.safeParse(req.query);
+      if (!q.success) throw validationError(q.error, 'query');
+      const rows = (await dataSource.query(
+        `SELECT "id", "received_at", "from_address", "to_addresses", "subject", "text", "raw_size"
+           FROM "mail_messages" ORDER BY "received_at" DESC, "id" DESC LIMIT $1`,
+        [q.data.limit],
+      )) as { id: string; received_at: Date; from_address: string; to_addresses: string[]; subject: string; text: string; raw_size: number }[];
+      const body: MailboxResponse = {
+        messages: rows.map((m) => ({
+          id: m.id,
+          receivedAt: new Date(m.received_at).toISOString(),
+          from: m.from_address,
+          to: m.to_addresses,
+          subject: m.subject,
+          text: m.text,
+          rawSize: m.raw_size,
+        })),
+      };
+      res.json(body);
+    },
+  );
+  return r;
+}

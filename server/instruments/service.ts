@@ -1,0 +1,192 @@
+/**
+ * Instrument health, from the stored analyses (current ones only: a re-taken round counts once).
+ *
+ * Per instrument, over the last 30 days:
+ *  - flags: findings naming it whose kind opens work (server/work-orders/policy.ts FLAG_KINDS);
+ *  - mean |z|: mean absolute normalised correction over the analyses that reconciled it;
+ *  - estimated bias: mean (measured − reconciled), SI, signed (positive: it reads high), where
+ *    "reconciled" is the estimate with the suspects removed (what the rest of the plant says),
+ *    else the main-pass reconciled value;
+ * and its last calibration, the due date (calibration date + interval), status and open orders.
+ *
+ * History: the instrument's readings against their reconciled values and σ, one point per
+ * analysed round, in device time (the time of the reading).
+ */
+import type { DataSource } from 'typeorm';
+import type {
+  HistoryPoint,
+  InstrumentHealth,
+  InstrumentHistoryResponse,
+  InstrumentListQuery,
+  InstrumentListResponse,
+} from '../../shared/api/analysis';
+import type { InstrumentStatus } from '../../shared/api/sync';
+import { SI_UNIT, type Quantity } from '../../shared/units';
+import { AppError } from '../errors';
+import { FLAG_KINDS } from '../work-orders/policy';
+
+export const HEALTH_WINDOW_DAYS = 30;
+export const HISTORY_DEFAULT_DAYS = 90;
+export const HISTORY_MAX_POINTS = 10_000;
+
+const siUnitOf = (q: Quantity) => (q === 'level' ? '1' : SI_UNIT[q]);
+
+type ListQuery = Pick<InstrumentListQuery, 'unitId' | 'status' | 'q'>;
+
+export async function instrumentHealth(ds: DataSource, siteId: string, q: ListQuery, now = new Date()): Promise<InstrumentListResponse> {
+  const since = new Date(now.getTime() - HEALTH_WINDOW_DAYS * 86_400_000);
+  const params: unknown[] = [siteId, since, [...FLAG_KINDS]];
+  const where = ['u."site_id" = $1'];
+  if (q.unitId) where.push(`i."unit_id" = $${params.push(q.unitId)}`);
+  if (q.status) where.push(`i."status" = $${params.push(q.status)}`);
+  if (q.q) where.push(`i."tag" ILIKE $${params.push(`%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`)}`);
+  const rows = (await ds.query(
+    `SELECT i."id", i."unit_id", i."tag", i."quantity", i."gauge_unit", i."status",
+            to_char(i."calibration_date", 'YYYY-MM-DD') AS "calibration_date", i."calibration_interval_days",
+            to_char(i."calibration_date" + i."calibration_interval_days", 'YYYY-MM-DD') AS "due",
+            coalesce(i."calibration_date" + i."calibration_interval_days" < (now() AT TIME ZONE 'UTC')::date, false) AS "overdue",
+            (SELECT count(*)::int FROM "findings" f JOIN "analyses" a ON a."id" = f."analysis_id" AND a."is_current"
+              WHERE f."site_id" = $1 AND f."instrument_ids" @> ARRAY[i."id"] AND f."created_at" >= $2 AND f."kind" = ANY($3::text[])) AS "flags",
+            s."n", s."mean_abs_z", s."bias"
+       FROM "instruments" i
+       JOIN "units" u ON u."id" = i."unit_id"
+       LEFT JOIN LATERAL (
+         SELECT count(*) FILTER (WHERE ai."z" IS NOT NULL)::int AS "n",
+                avg(abs(ai."z")) FILTER (WHERE ai."z" IS NOT NULL) AS "mean_abs_z",
+                avg(ai."reading_si" - coalesce(ai."estimate_si", ai."reconciled_si"))
+                  FILTER (WHERE ai."status" = 'used' AND ai."reading_si" IS NOT NULL AND coalesce(ai."estimate_si", ai."reconciled_si") IS NOT NULL) AS "bias"
+           FROM "analysis_instruments" ai
+          WHERE ai."instrument_id" = i."id" AND ai."is_current" AND ai."measured_at" >= $2
+       ) s ON true
+      WHERE ${where.join(' AND ')}
+      ORDER BY i."tag", i."unit_id"`,
+    params,
+  )) as {
+    id: string;
+    unit_id: string;
+    tag: string;
+    quantity: Quantity;
+    gauge_unit: string;
+    status: InstrumentStatus;
+    calibration_date: string | null;
+    calibration_interval_days: number | null;
+    due: string | null;
+    overdue: boolean;
+    flags: number;
+    n: number | null;
+    mean_abs_z: number | null;
+    bias: number | null;
+  }[];
+  const open = (await ds.query(
+    `SELECT "id", "code", "kind", "status", "instrument_id" FROM "work_orders"
+      WHERE "site_id" = $1 AND "instrument_id" IS NOT NULL AND "status" NOT IN ('done', 'cancelled') ORDER BY "number"`,
+    [siteId],
+  )) as { id: string; code: string; kind: string; status: string; instrument_id: string }[];
+  const num = (v: unknown) => (v === null || v === undefined ? null : Number(v));
+  const instruments: InstrumentHealth[] = rows.map((r) => ({
+    id: r.id,
+    unitId: r.unit_id,
+    tag: r.tag,
+    quantity: r.quantity,
+    siUnit: siUnitOf(r.quantity),
+    gaugeUnit: r.gauge_unit,
+    status: r.status,
+    flags30d: r.flags,
+    samples30d: r.n ?? 0,
+    meanAbsZ30d: num(r.mean_abs_z),
+    biasSi30d: num(r.bias),
+    lastCalibration: r.calibration_date,
+    calibrationIntervalDays: r.calibration_interval_days,
+    calibrationDue: r.due,
+    calibrationOverdue: r.overdue,
+    openWorkOrders: open.filter((w) => w.instrument_id === r.id).map((w) => ({ id: w.id, number: w.code, kind: w.kind, status: w.status })),
+  }));
+  return { instruments, asOf: now.toISOString() };
+}
+
+/** A date-only bound is midnight UTC; `to` as a date means the end of that day. */
+export function bound(v: string | undefined, end: boolean): Date | undefined {
+  if (v === undefined) return undefined;
+  if (/^\d{4}-\d{2}-\d{2}$/.test(v)) return new Date(Date.parse(`${v}T00:00:00Z`) + (end ? 86_400_000 : 0));
+  return new Date(v);
+}
+
+export async function instrumentHistory(
+  ds: DataSource,
+  siteId: string,
+  tag: string,
+  q: { from?: string; to?: string; unitId?: string },
+  now = new Date(),
+): Promise<InstrumentHistoryResponse> {
+  const params: unknown[] = [siteId, tag];
+  let sql = `SELECT i."id", i."unit_id", i."tag", i."quantity", i."status" FROM "instruments" i JOIN "units" u ON u."id" = i."unit_id"
+              WHERE u."site_id" = $1 AND upper(i."tag") = upper($2)`;
+  if (q.unitId) sql += ` AND i."unit_id" = $${params.push(q.unitId)}`;
+  const found = (await ds.query(sql, params)) as { id: string; unit_id: string; tag: string; quantity: Quantity; status: InstrumentStatus }[];
+  if (found.length === 0) throw new AppError(404, 'not_found', `No instrument ${tag} on this site${q.unitId ? ` in unit ${q.unitId}` : ''}`);
+  if (found.length > 1) {
+    throw new AppError(400, 'validation', `Invalid query: unitId: ${tag} exists in ${found.length} units of this site; say which with unitId`, [
+      { path: 'unitId', message: `Required: one of ${found.map((f) => f.unit_id).join(', ')}` },
+    ]);
+  }
+  const inst = found[0];
+  const to = bound(q.to, true) ?? now;
+  const from = bound(q.from, false) ?? new Date(to.getTime() - HISTORY_DEFAULT_DAYS * 86_400_000);
+  if (!(from.getTime() < to.getTime())) {
+    throw new AppError(400, 'validation', `Invalid query: from (${from.toISOString()}) must lie before to (${to.toISOString()})`, [
+      { path: 'from', message: 'Must lie before to' },
+    ]);
+  }
+  const rows = (await ds.query(
+    `SELECT ai."analysis_id", ai."round_id", ai."reading_id", ai."measured_at", ai."reading_si", ai."sigma_si", ai."reconciled_si", ai."reconciled_sigma_si",
+            ai."estimate_si", ai."estimate_sigma_si", ai."z", ai."suspect"
+       FROM "analysis_instruments" ai
+      WHERE ai."instrument_id" = $1 AND ai."is_current" AND ai."measured_at" >= $2 AND ai."measured_at" < $3
+      ORDER BY ai."measured_at", ai."analysis_id"
+      LIMIT $4`,
+    [inst.id, from, to, HISTORY_MAX_POINTS + 1],
+  )) as {
+    analysis_id: string;
+    round_id: string;
+    reading_id: string | null;
+    measured_at: Date;
+    reading_si: number | null;
+    sigma_si: number | null;
+    reconciled_si: number | null;
+    reconciled_sigma_si: number | null;
+    estimate_si: number | null;
+    estimate_sigma_si: number | null;
+    z: number | null;
+    suspect: boolean;
+  }[];
+  const truncated = rows.length > HISTORY_MAX_POINTS;
+  const pts = rows.slice(0, HISTORY_MAX_POINTS);
+  const flagged = pts.length
+    ? ((await ds.query(
+        `SELECT "analysis_id", "kind" FROM "findings" WHERE "analysis_id" = ANY($1::uuid[]) AND "instrument_ids" @> ARRAY[$2::uuid] ORDER BY "ordinal"`,
+        [pts.map((p) => p.analysis_id), inst.id],
+      )) as { analysis_id: string; kind: string }[])
+    : [];
+  const points: HistoryPoint[] = pts.map((p) => ({
+    analysisId: p.analysis_id,
+    roundId: p.round_id,
+    readingId: p.reading_id,
+    measuredAt: new Date(p.measured_at).toISOString(),
+    reading: p.reading_si,
+    sigma: p.sigma_si,
+    reconciled: p.reconciled_si,
+    reconciledSigma: p.reconciled_sigma_si,
+    estimate: p.estimate_si,
+    estimateSigma: p.estimate_sigma_si,
+    z: p.z,
+    suspect: p.suspect,
+    findings: flagged.filter((f) => f.analysis_id === p.analysis_id).map((f) => f.kind),
+  }));
+  return {
+    instrument: { id: inst.id, unitId: inst.unit_id, tag: inst.tag, quantity: inst.quantity, siUnit: siUnitOf(inst.quantity), status: inst.status },
+    from: from.toISOString(),
+    to: to.toISOString(),
+    points,
+    truncated,
+  };
+}
