@@ -23,6 +23,7 @@ import { syncRouter } from './sync/routes';
 import { photosRouter } from './uploads/routes';
 import { makePhotoStore, type PhotoStore } from './uploads/store';
 import { inlineScriptHashes, webDistPresent, webRouter } from './web';
+import { adminRouter } from './admin/routes';
 
 export interface CreateAppOptions {
   config: Config;
@@ -115,7 +116,7 @@ export function createApp({
   app.use('/api/auth', authRouter(config));
   app.use('/api/me', meRouter());
   app.use('/api/sites', sitesRouter());
-  app.use('/api/sites', workOrdersRouter(), instrumentsRouter(), analysisRouter(), exportsRouter());
+  app.use('/api/sites', workOrdersRouter(), instrumentsRouter(), analysisRouter(), exportsRouter(), adminRouter());
   app.use('/api/sync', syncRouter(syncHooks));
   app.use('/api/photos', photosRouter(config, photoStore));
   app.use('/api/dev', devRouter(devMailbox));

@@ -1,0 +1,5 @@
+import { AdminInstrumentsScreen } from '@/screens/admin/instruments-screen';
+
+export default function Page() {
+  return <AdminInstrumentsScreen />;
+}

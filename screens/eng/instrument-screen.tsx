@@ -1,0 +1,77 @@
+/** One instrument: its readings against what the balances say, with the ±2σ band, and the rounds behind each point. */
+import { Link } from 'expo-router';
+import { useState } from 'react';
+import { Pressable, StyleSheet, View } from 'react-native';
+import { Button } from '@/components/button';
+import { Card } from '@/components/card';
+import { InstrumentTrend } from '@/components/instrument-trend';
+import { biasWords, InstrumentStatusMark, showDeltaOf, showValueOf } from '@/components/instrument-values';
+import { ThemedText } from '@/components/themed-text';
+import { space, touchTarget } from '@/constants/theme';
+import { useInstrumentHealth, useInstrumentHistory } from '@/hooks/queries/instruments';
+
+const RANGES = [7, 30, 90] as const;
+
+export function InstrumentScreen({ tag }: { tag: string }) {
+  const [days, setDays] = useState<(typeof RANGES)[number]>(30);
+  const from = new Date(Date.now() - days * 86_400_000).toISOString().slice(0, 10);
+  const h = useInstrumentHistory(tag, from);
+  const health = useInstrumentHealth().data?.instruments.find((i) => i.tag === tag);
+  const q = h.data?.instrument.quantity ?? health?.quantity ?? null;
+  const last = [...(h.data?.points ?? [])].reverse().slice(0, 12);
+  return (
+    <View style={styles.stack} testID="instrument-page">
+      <View style={styles.head}>
+        <ThemedText variant="heading" testID="instrument-tag">{tag}</ThemedText>
+        {h.data ? <InstrumentStatusMark status={h.data.instrument.status} testID="instrument-status" /> : null}
+      </View>
+      {health ? (
+        <Card>
+          <ThemedText variant="label">{`Over 30 days: ${health.flags30d} flags in ${health.samples30d} analysed rounds; ${biasWords(q, health.biasSi30d)}${health.meanAbsZ30d !== null ? `; mean |z| ${health.meanAbsZ30d.toFixed(2)}` : ''}.`}</ThemedText>
+          <ThemedText variant="label" muted>{`Last calibrated ${health.lastCalibration ?? 'never'}${health.calibrationDue ? `, due ${health.calibrationDue}${health.calibrationOverdue ? ' (overdue)' : ''}` : ''}.`}</ThemedText>
+        </Card>
+      ) : null}
+      <View style={styles.row}>
+        {RANGES.map((d) => (
+          <Button key={d} label={`${d} days`} kind={d === days ? 'primary' : 'plain'} selected={d === days} testID={`instrument-range-${d}`} onPress={() => setDays(d)} />
+        ))}
+      </View>
+      {h.error ? <ThemedText tone="danger" testID="instrument-error">{h.error.message}</ThemedText> : null}
+      {h.isPending ? <ThemedText muted>Loading…</ThemedText> : null}
+      {h.data ? (
+        <Card>
+          <ThemedText variant="label" bold>Readings against the balances</ThemedText>
+          <ThemedText variant="caption" muted>Rings: what was read. Line: what the rest of the plant says. Shaded: its ±2σ band (95 %).</ThemedText>
+          <InstrumentTrend history={h.data} />
+          {h.data.truncated ? <ThemedText variant="caption" muted>More points than fit: narrow the range.</ThemedText> : null}
+        </Card>
+      ) : null}
+      {last.length ? (
+        <Card testID="instrument-points">
+          <ThemedText variant="label" bold>Latest rounds</ThemedText>
+          {last.map((p, n) => {
+            const ref = p.estimate ?? p.reconciled;
+            const sigma = p.estimate !== null ? p.estimateSigma : p.reconciledSigma;
+            return (
+              <Link key={p.analysisId} href={`/eng/rounds/${p.roundId}`} asChild>
+                <Pressable accessibilityRole="link" testID={`instrument-point-${n}`} style={styles.point}>
+                  <ThemedText variant="caption" muted>{new Date(p.measuredAt).toLocaleString()}</ThemedText>
+                  <ThemedText variant="label" numeric>
+                    {`${p.reading === null ? 'no reading' : showValueOf(q, p.reading)}${ref !== null ? ` · balance ${showValueOf(q, ref)}${sigma !== null ? ` ± ${showDeltaOf(q, 2 * sigma)}` : ''}` : ''}${p.z !== null ? ` · z ${p.z.toFixed(1)}` : ''}${p.suspect ? ' · ◆ suspect' : ''}`}
+                  </ThemedText>
+                </Pressable>
+              </Link>
+            );
+          })}
+        </Card>
+      ) : null}
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  stack: { gap: space.lg },
+  head: { flexDirection: 'row', justifyContent: 'space-between', alignItems: 'center', gap: space.md },
+  row: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
+  point: { minHeight: touchTarget, justifyContent: 'center', gap: space.xxs },
+});

@@ -1,0 +1,64 @@
+/**
+ * Site administration use cases: inviting a person (a user with a one-time password and a
+ * membership, told by e-mail through the mail outbox) and publishing a route version.
+ */
+import { randomBytes } from 'node:crypto';
+import type { DataSource } from 'typeorm';
+import type { Role } from '../../shared/api/auth';
+import { hashPassword } from '../auth/passwords';
+import { AppError } from '../errors';
+import { enqueueMail } from '../mail';
+import { publishRouteVersion } from '../sync/route-versions';
+
+export interface InvitationResult {
+  userId: string;
+  email: string;
+  name: string;
+  role: Role;
+  /** false: the person already had an account and was added to the site */
+  created: boolean;
+  /** the mail waits in mail_outbox (sent by the mail sender when SMTP is configured) */
+  mailQueued: boolean;
+}
+
+/** A one-time password of 16 characters from 96 random bits (base64url). */
+export function oneTimePassword(): string {
+  return randomBytes(12).toString('base64url');
+}
+
+export async function invite(ds: DataSource, siteId: string, input: { email: string; name: string; role: Role }): Promise<InvitationResult> {
+  const password = oneTimePassword();
+  const hash = await hashPassword(password);
+  const out = await ds.transaction(async (em) => {
+    const [site] = (await em.query(`SELECT "name" FROM "sites" WHERE "id" = $1`, [siteId])) as { name: string }[];
+    if (!site) throw new AppError(404, 'not_found', `Site ${siteId} not found`);
+    const existing = (await em.query(`SELECT "id", "name" FROM "users" WHERE "email" = $1 FOR UPDATE`, [input.email])) as { id: string; name: string }[];
+    let userId: string;
+    let created = false;
+    if (existing[0]) {
+      userId = existing[0].id;
+      const member = (await em.query(`SELECT "role" FROM "memberships" WHERE "user_id" = $1 AND "site_id" = $2`, [userId, siteId])) as { role: Role }[];
+      if (member[0]) throw new AppError(409, 'conflict', `${input.email} is already a member of this site (as ${member[0].role})`);
+    } else {
+      const rows = (await em.query(`INSERT INTO "users" ("email", "name", "password_hash") VALUES ($1, $2, $3) RETURNING "id"`, [input.email, input.name, hash])) as { id: string }[];
+      userId = rows[0].id;
+      created = true;
+    }
+    await em.query(`INSERT INTO "memberships" ("user_id", "site_id", "role") VALUES ($1, $2, $3)`, [userId, siteId, input.role]);
+    return { userId, created, siteName: site.name, name: existing[0]?.name ?? input.name };
+  });
+  const text = out.created
+    ? `Hello ${out.name},\n\nyou are invited to Trueround for ${out.siteName} as ${input.role}.\n\nSign in with ${input.email} and this one-time password:\n\n    ${password}\n\nChoose your own password after signing in.\n`
+    : `Hello ${out.name},\n\nyou now have access to ${out.siteName} in Trueround as ${input.role}. Sign in with your usual password.\n`;
+  const queued = await enqueueMail(ds, [{ to: input.email, subject: `Trueround: your access to ${out.siteName}`, text, dedupeKey: `invite:${siteId}:${out.userId}` }]);
+  return { userId: out.userId, email: input.email, name: out.name, role: input.role, created: out.created, mailQueued: queued > 0 };
+}
+
+export async function publishVersion(ds: DataSource, siteId: string, routeId: string, template: unknown, userId: string) {
+  return ds.transaction(async (em) => {
+    const [route] = (await em.query(`SELECT "site_id" FROM "routes" WHERE "id" = $1`, [routeId])) as { site_id: string }[];
+    if (!route || route.site_id !== siteId) throw new AppError(404, 'not_found', `Route ${routeId} not found on this site`);
+    const v = await publishRouteVersion(em, routeId, template, userId);
+    return { id: v.id, routeId: v.routeId, number: v.number, publishedAt: new Date(v.publishedAt).toISOString() };
+  });
+}

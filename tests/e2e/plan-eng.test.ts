@@ -1,0 +1,215 @@
+/**
+ * The planner's and the engineer's screens in the real web build, on the demo history.
+ *
+ * Data: the demo plant (server/seed/demo.ts) and six days of its invented history
+ * (server/seed/history.ts seedHistory: rounds pushed through the push service, each analysed by
+ * the analysis job). In those days the feed pump suction gauge PI-302 is read as absolute on some
+ * rounds (history-generator faults), which the balances name and which opens a priority-1
+ * calibration work order; the instrument goes suspect until the calibration closes it.
+ *
+ * The planner filters to priority 1, opens that order, sees its evidence in plain words, assigns
+ * it, takes it through triage, schedule and start, and closes it with as found / as left; the
+ * engineer's health table then shows PI-302 back in service. The engineer opens the health table,
+ * PI-302's trend (TrendChart with its band) and a round's cycle page, whose T–s chart carries the
+ * saturation dome and a mark for every state point the analysis placed (checked against the
+ * analysis the API returns). Screenshots at 390 px and 1280 px go to .tmp/screens/.
+ */
+import { mkdirSync } from 'node:fs';
+import type { Browser, Page } from 'playwright-core';
+import { makeDataSource } from '@/server/db';
+import { DEMO_PASSWORD } from '@/server/seed/demo-users';
+import { seedHistory } from '@/server/seed/history';
+import { launch, newPage, PHONE, shot, signIn, WIDE } from './helpers/browser';
+import { startTestServer, type RunningServer } from './helpers/server';
+
+let server: RunningServer;
+let browser: Browser;
+const TAG = 'PI-302';
+
+beforeAll(async () => {
+  mkdirSync('.tmp/screens', { recursive: true });
+  // the local SMTP fake, so the dev mailbox shows what the server sent
+  server = await startTestServer({ SMTP_FAKE_PORT: '0', MAIL_SEND_INTERVAL_MS: '200' });
+  const ds = makeDataSource(server.databaseUrl);
+  await ds.initialize();
+  const h = await seedHistory(ds, { days: 6 });
+  await ds.destroy();
+  expect(h.analysed).toBeGreaterThan(0);
+  browser = await launch();
+});
+
+afterAll(async () => {
+  await browser?.close();
+  await server?.stop();
+});
+
+async function api<T>(path: string, token: string): Promise<T> {
+  const r = await fetch(`${server.url}${path}`, { headers: { Authorization: `Bearer ${token}` } });
+  if (!r.ok) throw new Error(`${path}: ${r.status} ${await r.text()}`);
+  return (await r.json()) as T;
+}
+
+async function token(email: string): Promise<{ token: string; siteId: string }> {
+  const r = await fetch(`${server.url}/api/auth/sign-in`, { method: 'POST', headers: { 'Content-Type': 'application/json' }, body: JSON.stringify({ email, password: DEMO_PASSWORD }) });
+  const b = (await r.json()) as { accessToken: string; user: { memberships: { siteId: string }[] } };
+  return { token: b.accessToken, siteId: b.user.memberships[0].siteId };
+}
+
+async function openOrder(page: Page, url: string) {
+  await page.goto(`${url}/plan/work-orders`);
+  await page.getByTestId('wo-filter-priority-1').click();
+  await page.getByTestId('wo-search').fill(TAG);
+  const row = page.locator('[data-testid^="wo-row-"]').filter({ hasText: TAG }).first();
+  await row.waitFor();
+  return row;
+}
+
+test('the planner finds the priority-1 calibration order, reads its evidence, assigns it and closes it with as found and as left', async () => {
+  const { context, page } = await newPage(browser, WIDE);
+  await signIn(page, server.url, 'planner@fernhallow.example', DEMO_PASSWORD);
+  await page.waitForURL('**/plan');
+  const row = await openOrder(page, server.url);
+  // every row under the priority filter is priority 1
+  const marks = await page.getByTestId('wo-table').getByLabel(/^Severity: /).allTextContents();
+  expect(marks.length).toBeGreaterThan(0);
+  await shot(page, 'plan-work-orders-wide');
+  await row.click();
+  await page.waitForURL('**/plan/work-orders/**');
+  await page.getByTestId('wo-detail').waitFor();
+  await page.getByTestId('wo-caution').waitFor();
+  expect(await page.getByTestId('wo-instrument').textContent()).toBe(TAG);
+  const evidence = await page.getByTestId(`wo-evidence-0-${TAG}`).textContent();
+  expect(evidence).toMatch(new RegExp(`^${TAG} reads [\\d.]+ (Pa|kPa|bar) (high|low): it read .* the balances put it at .* ± .*\\(95 %\\)`));
+  expect(await page.getByTestId(`wo-reading-${TAG}`).count()).toBeGreaterThan(0);
+  await shot(page, 'plan-work-order-wide');
+
+  await page.getByTestId('wo-assign-me').click();
+  await page.getByTestId('wo-assignee').filter({ hasText: 'Morgan Tilly' }).waitFor();
+  await page.getByTestId('wo-triage-submit').click();
+  await page.getByTestId('wo-status').filter({ hasText: 'Triaged' }).waitFor();
+  await page.getByTestId('wo-schedule-submit').click();
+  await page.getByTestId('wo-status').filter({ hasText: 'Scheduled' }).waitFor();
+  await page.getByTestId('wo-start').click();
+  await page.getByTestId('wo-status').filter({ hasText: 'Under way' }).waitFor();
+  await page.getByTestId('wo-close-asfound').fill('5.62');
+  await page.getByTestId('wo-close-asleft').fill('5.60');
+  await page.getByTestId('wo-close-note').fill('Zero reset against the deadweight tester.');
+  await page.getByTestId('wo-close-submit').click();
+  await page.getByTestId('wo-status').filter({ hasText: 'Done' }).waitFor();
+  await page.locator('[data-testid^="wo-calibration-"]').filter({ hasText: 'as found 5.62' }).waitFor();
+  expect(await page.getByTestId('wo-action-error').count()).toBe(0);
+  await shot(page, 'plan-work-order-closed-wide');
+  await context.close();
+
+  // the same list on a phone: cards
+  const phone = await newPage(browser, PHONE);
+  await signIn(phone.page, server.url, 'planner@fernhallow.example', DEMO_PASSWORD);
+  await phone.page.waitForURL('**/plan');
+  await phone.page.goto(`${server.url}/plan/work-orders`);
+  await phone.page.locator('[data-testid^="wo-row-"]').first().waitFor();
+  await shot(phone.page, 'plan-work-orders-phone');
+  await phone.page.locator('[data-testid^="wo-row-"]').first().click();
+  await phone.page.getByTestId('wo-detail').waitFor();
+  await shot(phone.page, 'plan-work-order-phone');
+  await phone.page.getByTestId('wo-evidence').scrollIntoViewIfNeeded();
+  await phone.page.waitForTimeout(400); // let the scrolled tiles paint
+  await shot(phone.page, 'plan-work-order-evidence-phone');
+  await phone.context.close();
+});
+
+test('the engineer sees the instrument back in service, its trend, and a round’s cycle with the dome and every state point', async () => {
+  const eng = await token('engineer@fernhallow.example');
+  const { context, page } = await newPage(browser, WIDE);
+  await signIn(page, server.url, 'engineer@fernhallow.example', DEMO_PASSWORD);
+  await page.waitForURL('**/eng');
+  await page.getByTestId('nav-eng-instruments').click();
+  await page.getByTestId('health-table').waitFor();
+  // the calibration closed the order: PI-302 is in service again
+  await page.getByTestId(`health-${TAG}-status`).filter({ hasText: 'In service' }).waitFor();
+  await page.getByTestId('health-table-sort-flags').click();
+  await page.getByTestId('health-table-sort-flags').filter({ hasText: '↑' }).waitFor();
+  await page.getByTestId('health-sort-worst').click();
+  await shot(page, 'eng-health-wide');
+
+  await page.getByTestId(`health-row-${TAG}`).click();
+  await page.waitForURL(`**/eng/instruments/${TAG}`);
+  await page.getByTestId('trend-chart').waitFor();
+  expect(await page.getByTestId('trend-chart-band').count()).toBe(1);
+  await shot(page, 'eng-instrument-wide');
+
+  await page.getByTestId('instrument-point-0').click();
+  await page.waitForURL('**/eng/rounds/**');
+  const roundId = page.url().split('/').pop()!;
+  await page.getByTestId('ts-dome').waitFor();
+  const a = await api<{ statePoints: { id: string; circuit: string; reconciled: { T: number | null; s: number | null }; measured: { T: number | null; s: number | null } }[] }>(
+    `/api/sites/${eng.siteId}/rounds/${roundId}/analysis`,
+    eng.token,
+  );
+  const cycle = a.statePoints.filter((p) => p.circuit === 'cycle');
+  expect(cycle.length).toBeGreaterThan(10);
+  for (const p of cycle) {
+    if (p.reconciled.T !== null && p.reconciled.s !== null) expect(await page.getByTestId(`ts-point-r-${p.id}`).count()).toBe(1);
+    if (p.measured.T !== null && p.measured.s !== null) expect(await page.getByTestId(`ts-point-m-${p.id}`).count()).toBe(1);
+    expect(await page.getByTestId(`cycle-point-${p.id}`).count()).toBe(1);
+  }
+  // the isentropic ends of the HP and LP sections (demo unit: hp ms→hpx, lp lpi→lpe, lpx)
+  expect(await page.locator('[data-testid^="ts-point-s-"]').count()).toBeGreaterThanOrEqual(2);
+  await shot(page, 'eng-cycle-wide');
+  await page.getByTestId('cycle-points').scrollIntoViewIfNeeded();
+  await page.waitForTimeout(400); // let the scrolled tiles paint
+  await shot(page, 'eng-cycle-points-wide');
+  await page.getByTestId('cycle-balances').scrollIntoViewIfNeeded();
+  await page.waitForTimeout(400); // let the scrolled tiles paint
+  await shot(page, 'eng-cycle-balances-wide');
+  await context.close();
+
+  const phone = await newPage(browser, PHONE);
+  await signIn(phone.page, server.url, 'engineer@fernhallow.example', DEMO_PASSWORD);
+  await phone.page.waitForURL('**/eng');
+  await phone.page.goto(`${server.url}/eng/instruments`);
+  await phone.page.getByTestId(`health-row-${TAG}`).waitFor();
+  await shot(phone.page, 'eng-health-phone');
+  await phone.page.goto(`${server.url}/eng/rounds/${roundId}`);
+  await phone.page.getByTestId('ts-dome').waitFor();
+  await shot(phone.page, 'eng-cycle-phone');
+  await phone.page.getByTestId('cycle-points').scrollIntoViewIfNeeded();
+  await phone.page.waitForTimeout(400); // let the scrolled tiles paint
+  await shot(phone.page, 'eng-cycle-points-phone');
+  await phone.page.goto(`${server.url}/eng/instruments/${TAG}`);
+  await phone.page.getByTestId('trend-chart').waitFor();
+  await shot(phone.page, 'eng-instrument-phone');
+  await phone.context.close();
+});
+
+test('the admin invites a person, sees the site’s people, its instruments as configured, and the invitation in the dev mailbox', async () => {
+  for (const [viewport, size] of [[WIDE, 'wide'], [PHONE, 'phone']] as const) {
+    const { context, page } = await newPage(browser, viewport);
+    await signIn(page, server.url, 'admin@fernhallow.example', DEMO_PASSWORD);
+    await page.waitForURL('**/admin');
+    await page.goto(`${server.url}/admin/people`);
+    await page.getByTestId('person-planner@fernhallow.example').waitFor();
+    expect(await page.getByTestId('person-planner@fernhallow.example').textContent()).toContain('Maintenance planner');
+    if (size === 'wide') {
+      await page.getByTestId('invite-email').fill('kim.ward@fernhallow.example');
+      await page.getByTestId('invite-name').fill('Kim Ward');
+      await page.getByTestId('invite-role-engineer').click();
+      await page.getByTestId('invite-submit').click();
+      await page.getByTestId('invite-sent').waitFor();
+      await page.getByTestId('person-kim.ward@fernhallow.example').filter({ hasText: 'Reliability engineer' }).filter({ hasText: 'Active' }).waitFor();
+    }
+    await shot(page, `admin-people-${size}`);
+    await page.goto(`${server.url}/admin/instruments`);
+    await page.getByTestId(`admin-instrument-${TAG}`).waitFor();
+    await shot(page, `admin-instruments-${size}`);
+    await page.goto(`${server.url}/admin/mailbox`);
+    // the invitation went through the outbox to the SMTP fake
+    const invitation = page.locator('[data-testid^="mail-"]').filter({ hasText: 'Trueround: your access to Fernhallow Works' }).first();
+    await invitation.waitFor({ timeout: 15_000 });
+    if (size === 'wide') {
+      await invitation.getByRole('button').click();
+      await page.locator('[data-testid$="-text"]').filter({ hasText: 'one-time password' }).waitFor();
+    }
+    await shot(page, `admin-mailbox-${size}`);
+    await context.close();
+  }
+});
