@@ -24,6 +24,8 @@ export function AppShell({ nav, title, children }: { nav: NavItem[]; title: stri
   const wide = useWide();
   const pathname = usePathname();
   const { user, membership, signOut } = useSession();
+  // The group's title heads its home only; deeper screens carry their own heading.
+  const heading = pathname === nav[0]?.href ? <ThemedText variant="heading" accessibilityRole="header">{title}</ThemedText> : null;
 
   const places = nav.map((item) => {
     // A place is active on its own path and below it, unless a more specific place claims the path.
@@ -65,7 +67,7 @@ export function AppShell({ nav, title, children }: { nav: NavItem[]; title: stri
           {account}
         </View>
         <ScrollView style={styles.flex} contentContainerStyle={styles.content}>
-          <ThemedText variant="heading" accessibilityRole="header">{title}</ThemedText>
+          {heading}
           {children}
         </ScrollView>
       </View>
@@ -78,7 +80,7 @@ export function AppShell({ nav, title, children }: { nav: NavItem[]; title: stri
         <Button testID="sign-out" label="Sign out" kind="inverse" onPress={() => void signOut()} />
       </View>
       <ScrollView style={styles.flex} contentContainerStyle={styles.content}>
-        <ThemedText variant="heading" accessibilityRole="header">{title}</ThemedText>
+        {heading}
         {children}
       </ScrollView>
       {nav.length > 1 ? (

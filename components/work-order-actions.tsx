@@ -8,7 +8,7 @@ import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { space } from '@/constants/theme';
 import { useSession } from '@/hooks/session';
-import { useMembers } from '@/hooks/queries/admin';
+import { useAssignees } from '@/hooks/queries/admin';
 import { useWorkOrderAction, useWorkOrders, type ActionVariables } from '@/hooks/queries/work-orders';
 import type { WorkOrderDetail } from '@/shared/api/work-orders';
 import { Button } from './button';
@@ -80,7 +80,7 @@ function TriageForm({ wo, busy, run }: FormProps) {
 
 function AssignForm({ wo, busy, run, me }: FormProps & { me: { id: string; name: string } | null }) {
   // The members list is for admins today; a planner gets a 403 and assigns by user id or to themselves.
-  const members = useMembers();
+  const members = useAssignees();
   const [userId, setUserId] = useState('');
   const uuidOk = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(userId.trim());
   return (

@@ -23,6 +23,7 @@ export type MailboxResponse = z.infer<typeof MailboxResponse>;
 
 export const adminKeys = {
   members: (siteId: string) => ['admin', siteId, 'members'] as const,
+  assignees: (siteId: string) => ['sites', siteId, 'assignees'] as const,
   mailbox: () => ['admin', 'mailbox'] as const,
 };
 
@@ -35,6 +36,18 @@ export function useMembers(enabled = true) {
     enabled: enabled && status === 'signed-in' && !!siteId,
     retry: false,
     queryFn: async () => SiteMembersResponse.parse(await request(`/api/sites/${siteId}/members`)),
+  });
+}
+
+/** The site's people a work order can go to (planners, engineers and admins may ask). */
+export function useAssignees(enabled = true) {
+  const { request, status, membership } = useSession();
+  const siteId = membership?.siteId ?? '';
+  return useQuery<SiteMembersResponse>({
+    queryKey: adminKeys.assignees(siteId),
+    enabled: enabled && status === 'signed-in' && !!siteId,
+    retry: false,
+    queryFn: async () => SiteMembersResponse.parse(await request(`/api/sites/${siteId}/assignees`)),
   });
 }
 

@@ -19,5 +19,12 @@ export function sitesRouter(): Router {
     res.json(body);
   });
 
+  // The people a work order can be assigned to: planners and engineers need this, not only admins.
+  r.get('/:siteId/assignees', requireSiteRole('planner', 'engineer', 'admin'), async (req, res) => {
+    const all = await listMembers(deps(req).dataSource, siteOf(req).siteId);
+    const body: SiteMembersResponse = { members: all.filter((m) => !m.disabled) };
+    res.json(body);
+  });
+
   return r;
 }

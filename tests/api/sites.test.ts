@@ -82,3 +82,17 @@ test('site routes need a token: 401 before any site lookup', async () => {
   expect(res.status).toBe(401);
   expect(res.body.error.code).toBe('unauthorized');
 });
+
+test('planners and engineers list the people a work order can go to; a technician may not (403)', async () => {
+  for (const role of ['planner', 'engineer', 'admin']) {
+    const res = await request(app).get(`/api/sites/${fernhallowId}/assignees`).set(bearer(tokens[`${role}@fernhallow`]));
+    expect(res.status).toBe(200);
+    expect(res.body.members.map((m: { email: string }) => m.email).sort()).toEqual([
+      'admin@fernhallow.example',
+      'engineer@fernhallow.example',
+      'planner@fernhallow.example',
+      'tech@fernhallow.example',
+    ]);
+  }
+  expect((await request(app).get(`/api/sites/${fernhallowId}/assignees`).set(bearer(tokens['technician@fernhallow']))).status).toBe(403);
+});
