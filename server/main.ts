@@ -15,6 +15,7 @@ import { makeLogger, type Logger } from './logger';
 import { startMail, type MailRuntime } from './mail';
 import { startAnalysisRuntime, type AnalysisRuntime } from './analysis/queue';
 import type { Notifier } from './notify';
+import { runUntilSignalled } from './run-main';
 
 export interface Running {
   url: string;
@@ -100,25 +101,4 @@ export async function stop(): Promise<void> {
   await Promise.all([...running].map((r) => r.stop()));
 }
 
-if (require.main === module) {
-  start()
-    .then((r) => {
-      console.log(`Trueround listening on ${r.url}`);
-      const shutdown = (signal: NodeJS.Signals) => {
-        r.logger.info({ signal }, 'shutting down');
-        r.stop().then(
-          () => process.exit(0),
-          (e: unknown) => {
-            console.error(e);
-            process.exit(1);
-          },
-        );
-      };
-      process.once('SIGINT', shutdown);
-      process.once('SIGTERM', shutdown);
-    })
-    .catch((e: unknown) => {
-      console.error(`[server] ${e instanceof Error ? e.message : String(e)}`);
-      process.exit(1);
-    });
-}
+if (require.main === module) runUntilSignalled(() => start(), (r) => `Trueround listening on ${r.url}`, 'server');

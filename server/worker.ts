@@ -11,6 +11,7 @@ import { loadConfig, type Config } from './config';
 import { makeDataSource } from './db';
 import { makeLogger, type Logger } from './logger';
 import type { Notifier } from './notify';
+import { runUntilSignalled } from './run-main';
 
 export interface RunningWorker {
   analysis: AnalysisRuntime;
@@ -69,25 +70,4 @@ export async function stop(): Promise<void> {
   await Promise.all([...running].map((w) => w.stop()));
 }
 
-if (require.main === module) {
-  start()
-    .then((w) => {
-      console.log(`Trueround analysis worker running (pid ${process.pid})`);
-      const shutdown = (signal: NodeJS.Signals) => {
-        w.logger.info({ signal }, 'worker shutting down');
-        w.stop().then(
-          () => process.exit(0),
-          (e: unknown) => {
-            console.error(e);
-            process.exit(1);
-          },
-        );
-      };
-      process.once('SIGINT', shutdown);
-      process.once('SIGTERM', shutdown);
-    })
-    .catch((e: unknown) => {
-      console.error(`[worker] ${e instanceof Error ? e.message : String(e)}`);
-      process.exit(1);
-    });
-}
+if (require.main === module) runUntilSignalled(() => start(), () => `Trueround analysis worker running (pid ${process.pid})`, 'worker');
