@@ -37,7 +37,9 @@ async function main() {
     await buildWeb();
   }
   const jest = join(ROOT, 'node_modules', '.bin', 'jest');
-  const r = spawnSync(jest, ['--ci', ...args], {
+  // --forceExit: a test that leaves a timer or socket open must not keep CI waiting once every
+  // result is in (the suite's own verdict is unchanged). Find leaks with `npm test -- --detectOpenHandles`.
+  const r = spawnSync(jest, ['--ci', '--forceExit', ...args], {
     cwd: ROOT,
     stdio: 'inherit',
     env: { ...process.env, TR_TEST_ADMIN_URL: pg.adminUrl, TR_WEB_DIST: join(ROOT, 'dist', 'web') },
