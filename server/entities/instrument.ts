@@ -1,8 +1,8 @@
 import { EntitySchema } from 'typeorm';
 import { PRESSURE_REFERENCES, QUANTITIES, type PressureRef, type Quantity } from '../../shared/units';
 import { INSTRUMENT_STATUSES, type InstrumentStatus } from '../../shared/api/sync';
-import { SYNC_VERSION_DEFAULT, type Unit } from './unit';
-import { numberFromText } from './transformers';
+import type { Unit } from './unit';
+import { syncVersionColumn } from './transformers';
 
 export { INSTRUMENT_STATUSES, type InstrumentStatus };
 
@@ -57,14 +57,7 @@ export const InstrumentEntity = new EntitySchema<Instrument>({
     createdAt: { name: 'created_at', type: 'timestamptz', createDate: true },
     updatedAt: { name: 'updated_at', type: 'timestamptz', updateDate: true },
     rowVersion: { name: 'row_version', type: 'int', version: true },
-    syncVersion: {
-      name: 'sync_version',
-      type: 'bigint',
-      default: SYNC_VERSION_DEFAULT,
-      insert: false,
-      update: false,
-      transformer: numberFromText,
-    },
+    syncVersion: { ...syncVersionColumn },
   },
   relations: {
     unit: {

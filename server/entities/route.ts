@@ -1,9 +1,9 @@
 import { EntitySchema } from 'typeorm';
 import type { RouteTemplate } from '../../checklists/schema';
 import type { Site } from './site';
-import { SYNC_VERSION_DEFAULT, type Unit } from './unit';
+import type { Unit } from './unit';
 import type { User } from './user';
-import { numberFromText } from './transformers';
+import { syncVersionColumn } from './transformers';
 
 /**
  * A route of a unit; its stops, readings and checks live in numbered RouteVersions. `key` is the
@@ -36,15 +36,6 @@ export interface RouteVersion {
   publisher?: User | null;
 }
 
-const syncVersion = {
-  name: 'sync_version',
-  type: 'bigint',
-  default: SYNC_VERSION_DEFAULT,
-  insert: false,
-  update: false,
-  transformer: numberFromText,
-} as const;
-
 export const RouteEntity = new EntitySchema<Route>({
   name: 'Route',
   tableName: 'routes',
@@ -56,7 +47,7 @@ export const RouteEntity = new EntitySchema<Route>({
     name: { type: 'varchar', length: 200 },
     currentVersionId: { name: 'current_version_id', type: 'uuid', nullable: true },
     createdAt: { name: 'created_at', type: 'timestamptz', createDate: true },
-    syncVersion: { ...syncVersion },
+    syncVersion: { ...syncVersionColumn },
   },
   relations: {
     site: {
@@ -96,7 +87,7 @@ export const RouteVersionEntity = new EntitySchema<RouteVersion>({
     template: { type: 'jsonb' },
     publishedAt: { name: 'published_at', type: 'timestamptz' },
     publishedBy: { name: 'published_by', type: 'uuid', nullable: true },
-    syncVersion: { ...syncVersion },
+    syncVersion: { ...syncVersionColumn },
   },
   relations: {
     route: {

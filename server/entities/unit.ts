@@ -1,6 +1,6 @@
 import { EntitySchema } from 'typeorm';
 import type { Site } from './site';
-import { numberFromText } from './transformers';
+import { syncVersionColumn } from './transformers';
 
 /**
  * One steam cycle of a site. `model` is the cycle model (shared/cycle) as JSON; `modelVersion`
@@ -19,9 +19,6 @@ export interface Unit {
   site?: Site;
 }
 
-/** Default of every synced row's sync_version; the sync_stamp trigger overwrites it under a lock. */
-export const SYNC_VERSION_DEFAULT = () => "nextval('sync_seq')";
-
 export const UnitEntity = new EntitySchema<Unit>({
   name: 'Unit',
   tableName: 'units',
@@ -33,14 +30,7 @@ export const UnitEntity = new EntitySchema<Unit>({
     modelVersion: { name: 'model_version', type: 'varchar', length: 64 },
     createdAt: { name: 'created_at', type: 'timestamptz', createDate: true },
     updatedAt: { name: 'updated_at', type: 'timestamptz', updateDate: true },
-    syncVersion: {
-      name: 'sync_version',
-      type: 'bigint',
-      default: SYNC_VERSION_DEFAULT,
-      insert: false,
-      update: false,
-      transformer: numberFromText,
-    },
+    syncVersion: { ...syncVersionColumn },
   },
   relations: {
     site: {
