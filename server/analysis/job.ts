@@ -8,7 +8,7 @@
  *  2. the unit-level input, assembled by shared/review exactly as the phone's round check does:
  *     the round's current readings (per instrument the latest reading no other supersedes; a
  *     skipped one counts as not read; SI absolute as stored), for instruments the route does not
- *     read the latest readings of the unit's other rounds within 12 h, the round's barometric
+ *     read the latest readings of the unit's other rounds within 4 h (REVIEW_WINDOW_HOURS), the round's barometric
  *     pressure (its barometer reading, else the site's elevation through the ICAO standard
  *     atmosphere), and earlier rounds of the same route for the stuck-value check;
  *  3. the input hash (SHA-256 of the canonical JSON of 1–2). An analysis of this round with this
@@ -305,6 +305,7 @@ export async function runAnalysisJob(deps: AnalysisDeps, roundId: string): Promi
         model: unit.model,
         instruments: byId,
         suspects,
+        z: new Map(analysis.instruments.filter((ir) => ir.z !== null && Number.isFinite(ir.z)).map((ir) => [ir.tag, ir.z as number])),
       },
       stored,
     );

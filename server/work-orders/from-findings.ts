@@ -2,7 +2,9 @@
  * Work orders from an analysis' findings, inside the analysis transaction (server/analysis/job.ts).
  *
  * Each finding of a kind that opens work (./policy.ts) has one target: an instrument (a
- * reconciliation suspect among the instruments it names, else the first named) or, without
+ * reconciliation suspect among the instruments it names, else the one of them the reconciliation
+ * corrects most — of two instruments that disagree, the one the rest of the plant does not back
+ * —, else the first named) or, without
  * instruments, the equipment it is about. Findings of one analysis with the same target and
  * work-order kind go together. For each group, in a fixed order:
  *
@@ -15,6 +17,9 @@
  *     - the round is among the instrument's first 3 rounds after the close: the order reopens
  *       (status open) with a history note;
  *  3. else a new order: the site's next number, the priority from ./policy.ts, a due date.
+ *
+ * A balance that does not close on equipment where the reconciliation names a suspect instrument
+ * goes with that instrument's group (foldBalancesIntoSuspects): the wrong reading explains it.
  *
  * While a calibrate order is open its instrument's status is `suspect`.
  *
@@ -61,6 +66,8 @@ export interface FindingsContext {
   instruments: ReadonlyMap<string, UnitInstrument>;
   /** reconciliation suspects of the analysis, by tag */
   suspects: ReadonlySet<string>;
+  /** the reconciliation's normalised corrections (z) of the analysis, by tag, where tested */
+  z?: ReadonlyMap<string, number>;
 }
 
 export interface WorkOrderTouch {
@@ -94,6 +101,17 @@ export function criticalityOfInstrument(model: CycleModel, i: { pointRef: string
   return c || 1;
 }
 
+/** Of the instruments a finding names, the one its round's reconciliation corrects most (largest |z|). */
+function mostCorrected(ctx: FindingsContext, named: UnitInstrument[]): UnitInstrument | undefined {
+  let best: UnitInstrument | undefined;
+  let bestZ = -1;
+  for (const i of named) {
+    const z = Math.abs(ctx.z?.get(i.tag) ?? Number.NaN);
+    if (Number.isFinite(z) && z > bestZ) [best, bestZ] = [i, z];
+  }
+  return best;
+}
+
 function groupsOf(ctx: FindingsContext, findings: readonly StoredFinding[]): Group[] {
   const byKey = new Map<string, Group>();
   for (const f of findings) {
@@ -103,7 +121,7 @@ function groupsOf(ctx: FindingsContext, findings: readonly StoredFinding[]): Gro
     let equipmentRef: string | null = null;
     if (f.instrumentIds.length) {
       const named = f.instrumentIds.map((id) => ctx.instruments.get(id)).filter((x): x is UnitInstrument => !!x);
-      instrument = named.find((i) => ctx.suspects.has(i.tag)) ?? named[0] ?? null;
+      instrument = named.find((i) => ctx.suspects.has(i.tag)) ?? mostCorrected(ctx, named) ?? named[0] ?? null;
     }
     if (!instrument) equipmentRef = f.equipmentRef;
     if (!instrument && !equipmentRef) continue;
@@ -118,7 +136,33 @@ function groupsOf(ctx: FindingsContext, findings: readonly StoredFinding[]): Gro
       g.priority = Math.min(g.priority, priority) as 1 | 2 | 3;
     } else byKey.set(key, { key, kind, instrument, equipmentRef, priority, findings: [f] });
   }
+  foldBalancesIntoSuspects(ctx, byKey);
   return [...byKey.values()].sort((a, b) => (a.key < b.key ? -1 : a.key > b.key ? 1 : 0));
+}
+
+/** Whether an instrument measures a port of the equipment (or sits on it). */
+function onEquipment(model: CycleModel, i: UnitInstrument, equipmentRef: string): boolean {
+  if (i.equipmentRef === equipmentRef) return true;
+  const e = model.equipment.find((x) => x.id === equipmentRef);
+  return !!e && !!i.pointRef && portUses(e).some((u) => u.point === i.pointRef);
+}
+
+/**
+ * A balance that does not close because one of its own instruments reads wrong is one problem,
+ * not two: when the reconciliation names a suspect on the equipment, the balance finding goes
+ * with that instrument's order as evidence instead of opening an inspection of the equipment.
+ */
+function foldBalancesIntoSuspects(ctx: FindingsContext, byKey: Map<string, Group>): void {
+  const suspectGroups = [...byKey.values()]
+    .filter((g) => g.instrument && ctx.suspects.has(g.instrument.tag))
+    .sort((a, b) => (a.key < b.key ? -1 : a.key > b.key ? 1 : 0));
+  for (const [key, g] of [...byKey]) {
+    if (g.instrument || !g.equipmentRef || g.findings.some((f) => f.kind !== 'balance-not-closed')) continue;
+    const into = suspectGroups.find((s) => onEquipment(ctx.model, s.instrument!, g.equipmentRef!));
+    if (!into) continue;
+    into.findings.push(...g.findings);
+    byKey.delete(key);
+  }
 }
 
 function titleOf(model: CycleModel, g: Group): string {

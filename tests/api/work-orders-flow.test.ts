@@ -353,3 +353,24 @@ test('condenser TTD 3 K over design is a finding that opens a "clean" order on t
   expect(d).toMatchObject({ kind: 'clean', priority: 2, equipmentRef: 'cond', instrumentId: null, findingCount: 2, title: 'Clean Condenser: condenser ttd high' });
   expect(priorityOf(2, 3)).toBe(2);
 });
+
+test('a balance that does not close because of a suspect instrument on it joins that instrument’s order: no separate inspection', async () => {
+  // TI-206 (LP heater condensate outlet) 16σ high: only ~13 % of its error reaches the balances
+  // (server/seed/history-generator.ts), so the heater/deaerator balances on measured values fail
+  // while the reconciliation names TI-206
+  const before = (await list()).total;
+  const { roundId, out } = await analysed({ bias: { 'TI-206': 16 } });
+  expect(out.status).toBe('stored');
+  const a = (await api(w, 'planner').get(`${base()}/rounds/${roundId}/analysis`)).body as RoundAnalysisResponse;
+  expect(a.reconciliation.suspects).toEqual(['TI-206']);
+  const balances = a.findings.filter((f) => f.kind === 'balance-not-closed');
+  expect(balances.length).toBeGreaterThan(0);
+  const gross = a.findings.find((f) => f.kind === 'gross-error')!;
+  expect(gross.instrumentTags[0]).toBe('TI-206');
+  for (const b of balances) expect(b.workOrders).toEqual(gross.workOrders);
+  const l = await list();
+  expect(l.total).toBe(before + 1);
+  const wo = l.items.find((x) => x.id === gross.workOrders[0].id)!;
+  expect(wo).toMatchObject({ kind: 'calibrate', instrumentTag: 'TI-206' });
+  expect(l.items.filter((x) => x.kind === 'inspect')).toEqual([]);
+});

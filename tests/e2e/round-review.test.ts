@@ -156,7 +156,7 @@ test('the phone checks the whole round offline, sends the technician back to TI-
   );
   await expect(items.count()).resolves.toBe(1);
   await expect(page.getByTestId('review-borrowed').textContent()).resolves.toMatch(
-    /^For the instruments not on this route, the check uses the boiler house round of \d\d:\d\d and the condenser and cooling water round of \d\d:\d\d \(the latest reading of each within the last 12 h on this device\)\.$/,
+    /^For the instruments not on this route, the check uses the boiler house round of \d\d:\d\d and the condenser and cooling water round of \d\d:\d\d \(the latest reading of each within the last 4 h on this device\)\.$/,
   );
   await expect(page.getByTestId('suspect-TI-206-estimate').textContent()).resolves.toMatch(/^130\.\d °C ± 1\.\d K$/);
   await expect(page.getByTestId('balance-da-status').textContent()).resolves.toBe('✗ Does not close');

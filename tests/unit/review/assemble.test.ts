@@ -1,7 +1,7 @@
 /**
  * Which readings the round check uses: this round's current readings, and for the instruments not
  * on its route the most recent reading from other rounds of the unit kept on the device within the
- * last 12 h (project rule, stated on the review screen). Device time decides "within 12 h";
+ * last 4 h (project rule, stated on the review screen). Device time decides "within 4 h";
  * values are the design point of the demo unit typed as the gauges show it.
  */
 import { assembleReview, ReviewInputError, reviewRound, type ReviewInput } from '@/shared/review';
@@ -19,7 +19,7 @@ async function inputOf(d: Device, roundId: string): Promise<ReviewInput> {
 const tagsOf = (key: string) => TEMPLATE[key].stops.flatMap((s) => s.readings.map((r) => r.tag));
 
 describe('the unit-level readings of a round', () => {
-  test('instruments not on the route come from the other routes walked within 12 h; the route’s own from this round', async () => {
+  test('instruments not on the route come from the other routes walked within 4 h; the route’s own from this round', async () => {
     const d = await demoDevice();
     const typed = designTyped();
     const bh = await walk(d, 'boiler-house', typed, { finish: true });
@@ -37,11 +37,11 @@ describe('the unit-level readings of a round', () => {
     expect(a.notRead).toEqual([]);
   });
 
-  test('a round older than 12 h is not used: its instruments are missing and the balances that need them say so', async () => {
+  test('a round older than 4 h is not used: its instruments are missing and the balances that need them say so', async () => {
     const d = await demoDevice();
     const typed = designTyped();
     await walk(d, 'condenser-cooling-water', typed, { finish: true });
-    d.clock.advance(13 * HOUR);
+    d.clock.advance(5 * HOUR);
     await walk(d, 'boiler-house', typed, { finish: true });
     const th = await walk(d, 'turbine-hall', typed);
     const review = reviewRound(await inputOf(d, th.roundId));
