@@ -123,8 +123,23 @@ function wrap(v: ReactNode, numeric?: boolean): ReactNode {
 }
 
 /** Paging under a list: "21–40 of 57" with previous and next. */
-export function Pager({ offset, limit, total, onOffset, testID }: { offset: number; limit: number; total: number; onOffset: (o: number) => void; testID: string }) {
-  if (total <= limit && offset === 0) return <ThemedText variant="caption" muted testID={`${testID}-count`}>{total === 1 ? '1 work order' : `${total} work orders`}</ThemedText>;
+export function Pager({
+  offset,
+  limit,
+  total,
+  onOffset,
+  testID,
+  noun = ['work order', 'work orders'],
+}: {
+  offset: number;
+  limit: number;
+  total: number;
+  onOffset: (o: number) => void;
+  testID: string;
+  /** what is counted, one and many */
+  noun?: [string, string];
+}) {
+  if (total <= limit && offset === 0) return <ThemedText variant="caption" muted testID={`${testID}-count`}>{total === 1 ? `1 ${noun[0]}` : `${total} ${noun[1]}`}</ThemedText>;
   return (
     <View style={styles.pager}>
       <Button label="Previous" kind="plain" testID={`${testID}-prev`} disabled={offset === 0} onPress={() => onOffset(Math.max(0, offset - limit))} />

@@ -3,40 +3,27 @@ import { StyleSheet, View } from 'react-native';
 import Svg, { Circle, G, Line, Path, Text as SvgText } from 'react-native-svg';
 import { fonts } from '@/constants/theme';
 import { useTheme } from '@/hooks/use-theme';
-import { project, saturationDome, ticks, type Scale } from '@/shared/charts/ts-diagram';
+import { project, saturationDome, ticks } from '@/shared/charts/ts-diagram';
+import { TS_LABEL_FONT, TS_PAD as PAD, tsLabels, tsScales, type TsLine, type TsPoint } from '@/shared/charts/ts-layout';
 import { ThemedText } from './themed-text';
 
-export interface TsPoint {
-  id: string;
-  label: string;
-  /** K */
-  T: number;
-  /** J/(kg·K) */
-  s: number;
-  kind: 'measured' | 'reconciled' | 'isentropic';
-}
-
-export interface TsLine {
-  from: string;
-  to: string;
-  /** An expansion drawn dashed to its isentropic end point. */
-  dashed?: boolean;
-}
-
-const PAD = { left: 52, right: 16, top: 16, bottom: 40 };
+export type { TsLine, TsPoint };
 
 /**
  * The cycle on a temperature–entropy chart with the saturation dome (IAPWS-IF97). Measured
  * points are hollow rings, reconciled points filled discs, isentropic end points small crosses:
- * shape says which is which, not colour alone.
+ * shape says which is which, not colour alone; a measured point read (in part) on another round
+ * of the unit has a dashed ring. Labels are placed so none overlaps another (shared/charts
+ * ts-layout), with a leader line when moved away from their point.
  */
 export function TsChart({ points, lines = [], width, height, testID = 'ts-chart' }: { points: TsPoint[]; lines?: TsLine[]; width: number; height: number; testID?: string }) {
   const { colors } = useTheme();
   const dome = useMemo(() => saturationDome(60), []);
-  const sMax = Math.max(9000, ...points.map((p) => p.s + 300));
-  const tMax = Math.max(673.15, ...points.map((p) => p.T + 25));
-  const xs: Scale = { min: 0, max: sMax, from: PAD.left, to: width - PAD.right };
-  const ys: Scale = { min: 273.15, max: tMax, from: height - PAD.bottom, to: PAD.top };
+  const { xs, ys } = tsScales(points, width, height);
+  const sMax = xs.max;
+  const tMax = ys.max;
+  const labels = useMemo(() => tsLabels(points, lines, dome, width, height), [points, lines, dome, width, height]);
+  const labelOf = new Map(points.map((p) => [p.id, p.label]));
   const X = (s: number) => project(s, xs);
   const Y = (T: number) => project(T, ys);
   const domePath = dome.map((p, i) => `${i ? 'L' : 'M'}${X(p.s).toFixed(1)},${Y(p.T).toFixed(1)}`).join(' ') + ' Z';
@@ -78,16 +65,31 @@ export function TsChart({ points, lines = [], width, height, testID = 'ts-chart'
             </G>
           ) : (
             <G key={p.id} testID={`ts-point-${p.id}`}>
-              <Circle cx={X(p.s)} cy={Y(p.T)} r={p.kind === 'measured' ? 6 : 4} fill={p.kind === 'reconciled' ? colors.primary : colors.clear} stroke={p.kind === 'measured' ? colors.danger : colors.primary} strokeWidth={2} />
-              {p.kind === 'reconciled' ? (
-                <SvgText x={X(p.s) + 8} y={Y(p.T) - 6} fontSize={11} fill={colors.text} fontFamily={fonts.regular}>{p.label}</SvgText>
-              ) : null}
+              <Circle
+                cx={X(p.s)}
+                cy={Y(p.T)}
+                r={p.kind === 'measured' ? 6 : 4}
+                fill={p.kind === 'reconciled' ? colors.primary : colors.clear}
+                stroke={p.kind === 'measured' ? colors.danger : colors.primary}
+                strokeWidth={2}
+                strokeDasharray={p.borrowed ? '2,2' : undefined}
+              />
             </G>
           ),
         )}
+        {labels.map((l) =>
+          l.placed ? (
+            <G key={`label-${l.id}`}>
+              {l.leader ? <Line x1={l.leader.x1} y1={l.leader.y1} x2={l.leader.x2} y2={l.leader.y2} stroke={colors.textMuted} strokeWidth={1} testID={`ts-leader-${l.id}`} /> : null}
+              <SvgText x={l.textX} y={l.textY + TS_LABEL_FONT * 0.36} fontSize={TS_LABEL_FONT} fill={colors.text} fontFamily={fonts.regular} testID={`ts-label-${l.id}`}>
+                {labelOf.get(l.id) ?? l.id}
+              </SvgText>
+            </G>
+          ) : null,
+        )}
       </Svg>
       <View style={styles.legend}>
-        <ThemedText variant="caption" muted>○ measured   ● reconciled   × isentropic end of an expansion</ThemedText>
+        <ThemedText variant="caption" muted>○ measured   ◌ measured on another round   ● reconciled   × isentropic end of an expansion</ThemedText>
       </View>
     </View>
   );

@@ -12,7 +12,9 @@ import type { Deps } from './context';
 import { devRouter } from './dev/routes';
 import { AppError, apiNotFound, errorMiddleware } from './errors';
 import { analysisRouter } from './analysis/routes';
+import { roundsRouter } from './analysis/rounds-routes';
 import { exportsRouter } from './exports/routes';
+import { refuseUnstorableText } from './http/text-guard';
 import { instrumentsRouter } from './instruments/routes';
 import type { Notifier } from './notify';
 import { workOrdersRouter } from './work-orders/routes';
@@ -103,6 +105,7 @@ export function createApp({
   // the listed dev origins can read API responses although CORP stays same-origin.
   if (config.CORS_ORIGINS.length) app.use(cors(config.CORS_ORIGINS));
   app.use(express.json({ limit: JSON_BODY_LIMIT }));
+  app.use('/api', refuseUnstorableText);
 
   app.get('/api/health', async (_req, res) => {
     try {
@@ -116,7 +119,7 @@ export function createApp({
   app.use('/api/auth', authRouter(config));
   app.use('/api/me', meRouter());
   app.use('/api/sites', sitesRouter());
-  app.use('/api/sites', workOrdersRouter(), instrumentsRouter(), analysisRouter(), exportsRouter(), adminRouter());
+  app.use('/api/sites', workOrdersRouter(), instrumentsRouter(), analysisRouter(), roundsRouter(), exportsRouter(), adminRouter());
   app.use('/api/sync', syncRouter(syncHooks));
   app.use('/api/photos', photosRouter(config, photoStore));
   app.use('/api/dev', devRouter(devMailbox));

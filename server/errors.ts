@@ -45,8 +45,42 @@ interface HttpishError {
   limit?: number;
 }
 
+/** Seconds a client is asked to wait (Retry-After, RFC 9110 §10.2.3) when the database is unreachable. */
+export const DB_RETRY_AFTER_S = 5;
+
+/** Socket-level errors of the connection to PostgreSQL (node's net / the pg driver). */
+const NET_CODES = new Set(['ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EPIPE', 'EHOSTUNREACH', 'ENETUNREACH', 'ENOTFOUND', 'EAI_AGAIN']);
+/** SQLSTATEs of a database that is going away or not there yet (PostgreSQL Appendix A): class 08, 57P01–57P03, 53300. */
+const PG_UNAVAILABLE = /^(08...|57P0[123]|53300)$/;
+/** What pg and pg-pool say when the socket went away under a query or no connection came in time. */
+const LOST_CONNECTION = /Connection terminated|connection error and is not queryable|timeout exceeded when trying to connect|Client was closed and is not queryable/i;
+
+/**
+ * True when `err` says the database cannot be reached right now (refused, restarting, shutting
+ * down, connection lost mid-query): the request may succeed later, so it is a 503, not a 500.
+ * TypeORM's QueryFailedError keeps the driver's error in `driverError`.
+ */
+export function isDbUnavailable(err: unknown): boolean {
+  for (let e = err as { code?: unknown; message?: unknown; driverError?: unknown; cause?: unknown } | null, depth = 0; e && typeof e === 'object' && depth < 4; depth++) {
+    const code = typeof e.code === 'string' ? e.code : '';
+    if (NET_CODES.has(code) || PG_UNAVAILABLE.test(code)) return true;
+    if (typeof e.message === 'string' && LOST_CONNECTION.test(e.message)) return true;
+    // node's AggregateError (a refused dual-stack connect) carries its reasons in `errors`
+    const agg = (e as { errors?: unknown }).errors;
+    if (Array.isArray(agg) && agg.some((x) => isDbUnavailable(x))) return true;
+    e = (e.driverError ?? e.cause ?? null) as typeof e;
+  }
+  return false;
+}
+
+export const dbUnavailable = () =>
+  new AppError(503, 'db_unavailable', `Database is unreachable; retry in ${DB_RETRY_AFTER_S} s (pushes are idempotent: resend the same batch)`, {
+    retryAfterS: DB_RETRY_AFTER_S,
+  });
+
 function toAppError(err: unknown): AppError | null {
   if (err instanceof AppError) return err;
+  if (isDbUnavailable(err)) return dbUnavailable();
   if (err instanceof ZodError) return validationError(err);
   if (typeof err !== 'object' || err === null) return null;
   const e = err as HttpishError & { message?: string };
@@ -79,8 +113,11 @@ export const errorMiddleware: ErrorRequestHandler = (err, req, res, next) => {
   const appError = known ?? new AppError(500, 'internal', 'internal error');
   if (appError.status >= 500) {
     // The stack goes to the log only, with the request id so the two can be matched.
-    req.log?.error({ err }, 'request failed');
+    if (appError.code === 'db_unavailable') req.log?.warn({ err }, 'request failed: database unreachable');
+    else req.log?.error({ err }, 'request failed');
   }
+  // A 503 says when to come back (RFC 9110 §15.6.4, Retry-After §10.2.3).
+  if (appError.status === 503 && !res.getHeader('Retry-After')) res.setHeader('Retry-After', String(DB_RETRY_AFTER_S));
   res.status(appError.status).json(errorBody(appError));
 };
 

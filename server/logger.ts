@@ -11,19 +11,33 @@ import type { Config } from './config';
 
 export type { Logger };
 
+/** Secret-bearing keys, redacted at the top level, one level down and two levels down. */
+const SECRET_KEYS = [
+  'password',
+  'passwordHash',
+  'password_hash',
+  'currentPassword',
+  'newPassword',
+  'accessToken',
+  'refreshToken',
+  'tokenHash',
+  'token',
+  'JWT_SECRET',
+  'PHOTO_S3_SECRET_ACCESS_KEY',
+  'SMTP_URL',
+  'DATABASE_URL',
+];
+
 export const REDACT_PATHS = [
   'req.headers.authorization',
   'req.headers.cookie',
   'headers.authorization',
   'headers.cookie',
-  'password',
-  'passwordHash',
-  'accessToken',
-  'refreshToken',
-  '*.password',
-  '*.passwordHash',
-  '*.accessToken',
-  '*.refreshToken',
+  'authorization',
+  '*.authorization',
+  ...SECRET_KEYS,
+  ...SECRET_KEYS.map((k) => `*.${k}`),
+  ...SECRET_KEYS.map((k) => `*.*.${k}`),
 ];
 
 export function makeLogger(config: Pick<Config, 'LOG_LEVEL'>, destination?: DestinationStream): Logger {

@@ -1,25 +1,17 @@
-/** Admin data: the site's members and the dev mailbox (what the mail fake received). */
+/** Admin data and actions: the site's members, invitations, route versions, instrument changes and the dev mailbox (what the mail fake received). Wire schemas: shared/api/admin.ts. */
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { z } from 'zod';
-import type { Role } from '@/shared/api/auth';
+import {
+  InvitationResult,
+  MailboxResponse,
+  PublishVersionResponse,
+  type InvitationRequest,
+} from '@/shared/api/admin';
+import { InstrumentUpdateResponse, type InstrumentUpdateRequest } from '@/shared/api/instruments';
+import { instrumentKeys } from './instruments';
 import { SiteMembersResponse } from '@/shared/api/sites';
 import { useSession } from '../session';
 
-/** The dev mailbox's wire shape (server/dev/routes.ts MailboxResponse; no shared schema yet). */
-export const MailboxResponse = z.object({
-  messages: z.array(
-    z.object({
-      id: z.string(),
-      receivedAt: z.iso.datetime(),
-      from: z.string(),
-      to: z.array(z.string()),
-      subject: z.string(),
-      text: z.string(),
-      rawSize: z.number(),
-    }),
-  ),
-});
-export type MailboxResponse = z.infer<typeof MailboxResponse>;
+export { MailboxResponse };
 
 export const adminKeys = {
   members: (siteId: string) => ['admin', siteId, 'members'] as const,
@@ -62,19 +54,15 @@ export function useMailbox() {
   });
 }
 
-export interface InvitationInput {
-  email: string;
-  name: string;
-  role: Role;
-}
+export type InvitationInput = InvitationRequest;
 
 /** POST /api/sites/:siteId/invitations (server/admin): the person shows in the list at once, and leaves it if the server refuses. */
 export function useInvite() {
   const { request, membership } = useSession();
   const siteId = membership?.siteId ?? '';
   const qc = useQueryClient();
-  return useMutation<unknown, Error, InvitationInput, { before: SiteMembersResponse | undefined }>({
-    mutationFn: (body) => request(`/api/sites/${siteId}/invitations`, { method: 'POST', json: body }),
+  return useMutation<InvitationResult, Error, InvitationInput, { before: SiteMembersResponse | undefined }>({
+    mutationFn: async (body) => InvitationResult.parse(await request(`/api/sites/${siteId}/invitations`, { method: 'POST', json: body })),
     onMutate: async (v) => {
       await qc.cancelQueries({ queryKey: adminKeys.members(siteId) });
       const before = qc.getQueryData<SiteMembersResponse>(adminKeys.members(siteId));
@@ -89,5 +77,29 @@ export function useInvite() {
       if (ctx?.before) qc.setQueryData(adminKeys.members(siteId), ctx.before);
     },
     onSettled: () => void qc.invalidateQueries({ queryKey: adminKeys.members(siteId) }),
+  });
+}
+
+/** POST /api/sites/:siteId/routes/:routeId/versions: a 400 carries one detail per problem of the template (ApiError.details). */
+export function usePublishVersion() {
+  const { request, membership } = useSession();
+  const siteId = membership?.siteId ?? '';
+  const qc = useQueryClient();
+  return useMutation<PublishVersionResponse, Error, { routeId: string; template: unknown }>({
+    mutationFn: async ({ routeId, template }) =>
+      PublishVersionResponse.parse(await request(`/api/sites/${siteId}/routes/${routeId}/versions`, { method: 'POST', json: { template } })),
+    onSuccess: () => void qc.invalidateQueries({ queryKey: instrumentKeys.reference(siteId) }),
+  });
+}
+
+/** PATCH /api/sites/:siteId/instruments/:instrumentId; the site's reference data and health are read again after. */
+export function useUpdateInstrument() {
+  const { request, membership } = useSession();
+  const siteId = membership?.siteId ?? '';
+  const qc = useQueryClient();
+  return useMutation<InstrumentUpdateResponse, Error, { instrumentId: string; body: InstrumentUpdateRequest }>({
+    mutationFn: async ({ instrumentId, body }) =>
+      InstrumentUpdateResponse.parse(await request(`/api/sites/${siteId}/instruments/${instrumentId}`, { method: 'PATCH', json: body })),
+    onSuccess: () => void qc.invalidateQueries({ queryKey: instrumentKeys.all(siteId) }),
   });
 }

@@ -1,4 +1,5 @@
-/** The site's instruments as configured: range, accuracy, calibration interval, status. Read-only: no update endpoint exists yet. */
+/** The site's instruments as configured: range, accuracy, calibration interval, status; a row opens its change form. */
+import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { DataTable, type Column } from '@/components/data-table';
 import { InstrumentStatusMark, showDeltaOf, showValueOf } from '@/components/instrument-values';
@@ -6,6 +7,7 @@ import { ThemedText } from '@/components/themed-text';
 import { space } from '@/constants/theme';
 import { useSiteReference } from '@/hooks/queries/instruments';
 import type { SyncInstrument } from '@/shared/api/sync';
+import { InstrumentEditForm } from './instrument-edit-form';
 
 /** The accuracy spec as stored (shared/uncertainty's shapes), said briefly. */
 export function accuracyWords(a: unknown, q: SyncInstrument['quantity']): string {
@@ -49,13 +51,25 @@ const columns: Column<SyncInstrument>[] = [
 export function AdminInstrumentsScreen() {
   const q = useSiteReference();
   const rows = [...(q.data?.instruments ?? [])].sort((a, b) => a.tag.localeCompare(b.tag));
+  const [selected, setSelected] = useState<string | null>(null);
+  const editing = rows.find((i) => i.id === selected);
   return (
     <View style={styles.stack}>
       <ThemedText variant="heading">Instruments</ThemedText>
-      <ThemedText variant="label" muted>As configured for the site. Changing them needs a server endpoint that does not exist yet.</ThemedText>
+      <ThemedText variant="label" muted>As configured for the site. Press an instrument to change its range, accuracy class, calibration interval or status; phones get the change on their next sync.</ThemedText>
       {q.error ? <ThemedText tone="danger" testID="admin-instruments-error">{q.error.message}</ThemedText> : null}
       {q.isPending ? <ThemedText muted>Loading…</ThemedText> : null}
-      {q.data ? <DataTable rows={rows} columns={columns} rowKey={(i) => i.id} testID="admin-instruments" rowTestID={(i) => `admin-instrument-${i.tag}`} /> : null}
+      {editing ? <InstrumentEditForm key={editing.id} instrument={editing} onClose={() => setSelected(null)} /> : null}
+      {q.data && !editing ? (
+        <DataTable
+          rows={rows}
+          columns={columns}
+          rowKey={(i) => i.id}
+          onPressRow={(i) => setSelected(i.id)}
+          testID="admin-instruments"
+          rowTestID={(i) => `admin-instrument-${i.tag}`}
+        />
+      ) : null}
     </View>
   );
 }

@@ -2,76 +2,74 @@
  * A round's cycle: the state points (measured and reconciled), the cycle on the T–s chart with
  * the saturation dome and each turbine section's isentropic end point (IAPWS-IF97 ps(p_out, s_in)),
  * the balances with their residuals, and the performance figures.
+ *
+ * The analysis is unit-level: every state point of the unit is shown, also those the round's
+ * route does not read, whose readings were borrowed from other rounds of the unit (within 12 h;
+ * the analysis' readingOrigins). Those are marked in the table ("Read on") and on the chart
+ * (a dashed ring), and the rounds they came from are named with a link to their own cycle.
  */
+import { Link } from 'expo-router';
 import { useMemo, useState } from 'react';
-import { StyleSheet, View, type LayoutChangeEvent } from 'react-native';
+import { Pressable, StyleSheet, View, type LayoutChangeEvent } from 'react-native';
 import { Card } from '@/components/card';
 import { DataTable, type Column } from '@/components/data-table';
 import { SeverityMark } from '@/components/severity-mark';
 import { ThemedText } from '@/components/themed-text';
-import { TsChart, type TsLine, type TsPoint } from '@/components/ts-chart';
+import { TsChart } from '@/components/ts-chart';
 import { markOfFinding } from '@/components/work-order-evidence';
-import { space } from '@/constants/theme';
+import { space, touchTarget } from '@/constants/theme';
 import { useRoundAnalysis } from '@/hooks/queries/analysis';
 import { useSiteReference } from '@/hooks/queries/instruments';
-import type { RoundAnalysisResponse } from '@/shared/api/analysis';
+import type { ReadingOrigin, RoundAnalysisResponse } from '@/shared/api/analysis';
 import type { BalanceRow, PerformanceFigure, StatePointResult } from '@/shared/cycle/types';
-import { ps } from '@/shared/steam';
+import { tsFigure, turbineSections } from '@/shared/charts/ts-figure';
 
-interface Section {
-  id: string;
-  label: string;
-  inlet: string;
-  outlets: string[];
-}
-
-/** Turbine sections of a stored cycle model (loosely read: the model is the unit's, as stored). */
-export function turbineSections(model: unknown): Section[] {
-  const eq = (model as { equipment?: unknown[] } | null)?.equipment;
-  if (!Array.isArray(eq)) return [];
-  return eq.flatMap((e) => {
-    const x = e as { id?: string; kind?: string; label?: string; ports?: { inlet?: string; outlet?: string; extractions?: string[] } };
-    if (x.kind !== 'turbine-section' || !x.id || !x.ports?.inlet || !x.ports.outlet) return [];
-    return [{ id: x.id, label: x.label ?? x.id, inlet: x.ports.inlet, outlets: [...(x.ports.extractions ?? []), x.ports.outlet] }];
-  });
-}
-
-/** The points and lines of the T–s chart: measured (m-), reconciled (r-) and isentropic ends (s-). */
-export function tsFigure(statePoints: StatePointResult[], sections: Section[]): { points: TsPoint[]; lines: TsLine[] } {
-  const points: TsPoint[] = [];
-  const cycle = statePoints.filter((p) => p.circuit === 'cycle');
-  for (const p of cycle) {
-    if (p.measured.T !== null && p.measured.s !== null) points.push({ id: `m-${p.id}`, label: p.id, T: p.measured.T, s: p.measured.s, kind: 'measured' });
-    if (p.reconciled.T !== null && p.reconciled.s !== null) points.push({ id: `r-${p.id}`, label: p.id, T: p.reconciled.T, s: p.reconciled.s, kind: 'reconciled' });
-  }
-  const byId = Object.fromEntries(cycle.map((p) => [p.id, p]));
-  const lines: TsLine[] = [];
-  for (const sec of sections) {
-    const inl = byId[sec.inlet]?.reconciled;
-    if (!inl || inl.s === null || inl.T === null) continue;
-    for (const out of sec.outlets) {
-      const o = byId[out]?.reconciled;
-      if (!o || o.p === null) continue;
-      try {
-        const end = ps(o.p, inl.s);
-        const id = `s-${sec.id}-${out}`;
-        points.push({ id, label: `${out}s`, T: end.T, s: end.s, kind: 'isentropic' });
-        lines.push({ from: `r-${sec.inlet}`, to: id, dashed: true });
-        if (o.T !== null && o.s !== null) lines.push({ from: `r-${sec.inlet}`, to: `r-${out}` });
-      } catch {
-        // outside IF97: no isentropic end drawn for this outlet
-      }
-    }
-  }
-  return { points, lines };
-}
+export { tsFigure, turbineSections };
 
 /** toFixed without a "-0.00". */
 const fixed = (x: number, d: number) => (Math.abs(x) < 0.5 * 10 ** -d ? (0).toFixed(d) : x.toFixed(d));
 
 const f = (x: number | null, d: number, scale = 1, off = 0) => (x === null ? '—' : fixed(x * scale + off, d));
 
-const pointColumns: Column<StatePointResult>[] = [
+/** Where a state point's readings came from, said briefly. */
+export interface PointOrigin {
+  own: number;
+  borrowed: ReadingOrigin[];
+}
+
+/** The readings of each state point by origin (instruments sitting on the point). */
+export function originsByPoint(origins: ReadingOrigin[] | undefined): Map<string, PointOrigin> {
+  const out = new Map<string, PointOrigin>();
+  for (const o of origins ?? []) {
+    if (!o.pointId) continue;
+    const e = out.get(o.pointId) ?? { own: 0, borrowed: [] };
+    if (o.own) e.own++;
+    else e.borrowed.push(o);
+    out.set(o.pointId, e);
+  }
+  return out;
+}
+
+const shortTime = (iso: string) => new Date(iso).toLocaleString([], { month: 'short', day: 'numeric', hour: '2-digit', minute: '2-digit' });
+
+/** Why a point without a gauge of its own still has values. */
+const NO_GAUGE: Record<StatePointResult['pressureSource'], (p: StatePointResult) => string> = {
+  'same-as': (p) => `No gauge here (pressure of ${p.pressureFrom ?? 'another point'})`,
+  saturation: () => 'No gauge here (saturation)',
+  assumed: () => 'No gauge here (design pressure)',
+  measured: () => 'No gauge here',
+  unmeasured: () => 'No gauge here',
+};
+
+export function originWords(o: PointOrigin | undefined, p?: StatePointResult): string {
+  if (!o || (o.own === 0 && o.borrowed.length === 0)) return p ? NO_GAUGE[p.pressureSource](p) : 'No gauge here';
+  if (o.borrowed.length === 0) return 'This round';
+  const rounds = [...new Map(o.borrowed.map((b) => [b.roundId ?? '?', b])).values()];
+  const names = rounds.map((b) => (b.routeName && b.measuredAt ? `${b.routeName}, ${shortTime(b.measuredAt)}` : 'another round'));
+  return `◇ ${o.own ? 'This round and ' : ''}${names.join('; ')}`;
+}
+
+const pointColumns = (origins: Map<string, PointOrigin>): Column<StatePointResult>[] => [
   { key: 'id', label: 'Point', flex: 2.4, render: (p) => <ThemedText variant="label"><ThemedText variant="label" bold>{p.id}</ThemedText>{` ${p.label}`}</ThemedText> },
   { key: 'pm', label: 'p read, bar', flex: 1, numeric: true, render: (p) => f(p.measured.p, 3, 1e-5) },
   { key: 'pr', label: 'p balanced, bar', flex: 1, numeric: true, render: (p) => f(p.reconciled.p, 3, 1e-5) },
@@ -81,6 +79,19 @@ const pointColumns: Column<StatePointResult>[] = [
   { key: 's', label: 's, kJ/(kg·K)', flex: 1, numeric: true, render: (p) => f(p.reconciled.s, 4, 1e-3) },
   { key: 'x', label: 'x', flex: 0.7, numeric: true, render: (p) => f(p.reconciled.x, 3) },
   { key: 'm', label: 'ṁ, t/h', flex: 0.9, numeric: true, render: (p) => f(p.reconciled.m, 2, 3.6) },
+  {
+    key: 'from',
+    label: 'Read on',
+    flex: 1.6,
+    render: (p) => {
+      const o = origins.get(p.id);
+      return (
+        <ThemedText variant="label" tone={o?.borrowed.length ? 'info' : undefined} muted={!o} testID={`cycle-point-${p.id}-origin`}>
+          {originWords(o, p)}
+        </ThemedText>
+      );
+    },
+  },
 ];
 
 function showBalance(r: BalanceRow, v: number | null): string {
@@ -116,9 +127,9 @@ const figureColumns: Column<PerformanceFigure>[] = [
   { key: 'measured', label: 'As read', flex: 1, numeric: true, render: (p) => showFigure(p, p.measured) },
 ];
 
-function Chart({ a, model }: { a: RoundAnalysisResponse; model: unknown }) {
+function Chart({ a, model, borrowed }: { a: RoundAnalysisResponse; model: unknown; borrowed: ReadonlySet<string> }) {
   const [width, setWidth] = useState(0);
-  const fig = useMemo(() => tsFigure(a.statePoints, turbineSections(model)), [a, model]);
+  const fig = useMemo(() => tsFigure(a.statePoints, turbineSections(model), borrowed), [a, model, borrowed]);
   return (
     <View onLayout={(e: LayoutChangeEvent) => setWidth(Math.floor(e.nativeEvent.layout.width))}>
       {width > 0 ? <TsChart points={fig.points} lines={fig.lines} width={width} height={Math.min(520, Math.max(300, width * 0.7))} /> : null}
@@ -135,6 +146,9 @@ export function CycleScreen({ roundId }: { roundId: string }) {
   const model = ref.data?.units.find((u) => u.id === a.unitId)?.model ?? null;
   const r = a.reconciliation;
   const balances: BalanceLine[] = a.balances.flatMap((b) => b.rows.map((row) => ({ key: `${b.equipmentId}-${row.id}`, equipment: b.label, row })));
+  const origins = originsByPoint(a.readingOrigins);
+  const borrowed = new Set([...origins.entries()].filter(([, o]) => o.borrowed.length > 0).map(([id]) => id));
+  const others = [...new Map((a.readingOrigins ?? []).filter((o) => !o.own).map((o) => [o.roundId ?? '?', o])).values()];
   return (
     <View style={styles.stack} testID="cycle-page">
       <ThemedText variant="heading">Cycle of the round</ThemedText>
@@ -148,6 +162,25 @@ export function CycleScreen({ roundId }: { roundId: string }) {
         {r.suspects.length ? <ThemedText variant="label" tone="danger">{`◆ Suspect: ${r.suspects.join(', ')}`}</ThemedText> : null}
         {a.modelVersionMismatch ? <ThemedText variant="caption" muted>The phone recorded this round against an older model of the unit.</ThemedText> : null}
       </Card>
+      {others.length ? (
+        <Card testID="cycle-borrowed">
+          <ThemedText variant="label" bold>Readings from other rounds of the unit</ThemedText>
+          <ThemedText variant="caption" muted>The balances take the whole unit. What this round’s route does not read comes from the latest reading of another round within 12 hours; those points say “◇” in the table and have a dashed ring on the chart.</ThemedText>
+          {others.map((o) => {
+            const n = (a.readingOrigins ?? []).filter((x) => !x.own && x.roundId === o.roundId).length;
+            const words = `${n} reading${n === 1 ? '' : 's'}`;
+            return o.roundId ? (
+              <Link key={o.roundId} href={`/eng/rounds/${o.roundId}`} asChild>
+                <Pressable accessibilityRole="link" style={styles.link} testID={`cycle-borrowed-${o.roundId}`}>
+                  <ThemedText variant="label" tone="info">{`${o.routeName ?? 'Another round'}${o.measuredAt ? `, read ${new Date(o.measuredAt).toLocaleString()}` : ''} · ${words} →`}</ThemedText>
+                </Pressable>
+              </Link>
+            ) : (
+              <ThemedText key="unknown" variant="label" muted testID="cycle-borrowed-unknown">{`A round no longer told apart (re-taken since) · ${words}`}</ThemedText>
+            );
+          })}
+        </Card>
+      ) : null}
       {a.findings.length ? (
         <Card testID="cycle-findings">
           <ThemedText variant="label" bold>Findings</ThemedText>
@@ -161,11 +194,11 @@ export function CycleScreen({ roundId }: { roundId: string }) {
       ) : null}
       <Card>
         <ThemedText variant="label" bold>Temperature–entropy chart</ThemedText>
-        <ThemedText variant="caption" muted>Rings: as read. Discs: balanced. Crosses: where each turbine section would end if it expanded without loss (dashed).</ThemedText>
-        <Chart a={a} model={model} />
+        <ThemedText variant="caption" muted>Rings: as read (dashed: read on another round). Discs: balanced. Crosses: where each turbine section would end if it expanded without loss (dashed).</ThemedText>
+        <Chart a={a} model={model} borrowed={borrowed} />
       </Card>
       <ThemedText variant="title">State points</ThemedText>
-      <DataTable rows={a.statePoints} columns={pointColumns} rowKey={(p) => p.id} testID="cycle-points" rowTestID={(p) => `cycle-point-${p.id}`} />
+      <DataTable rows={a.statePoints} columns={pointColumns(origins)} rowKey={(p) => p.id} testID="cycle-points" rowTestID={(p) => `cycle-point-${p.id}`} />
       <ThemedText variant="title">Performance</ThemedText>
       <DataTable rows={a.performance} columns={figureColumns} rowKey={(p) => p.id} testID="cycle-figures" rowTestID={(p) => `cycle-figure-${p.id}`} />
       <ThemedText variant="title">Balances</ThemedText>
@@ -178,4 +211,5 @@ const styles = StyleSheet.create({
   stack: { gap: space.lg },
   finding: { flexDirection: 'row', gap: space.sm, alignItems: 'flex-start' },
   grow: { flex: 1 },
+  link: { minHeight: touchTarget, justifyContent: 'center' },
 });

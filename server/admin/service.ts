@@ -4,22 +4,14 @@
  */
 import { randomBytes } from 'node:crypto';
 import type { DataSource } from 'typeorm';
+import type { InvitationResult } from '../../shared/api/admin';
 import type { Role } from '../../shared/api/auth';
 import { hashPassword } from '../auth/passwords';
 import { AppError } from '../errors';
 import { enqueueMail } from '../mail';
 import { publishRouteVersion } from '../sync/route-versions';
 
-export interface InvitationResult {
-  userId: string;
-  email: string;
-  name: string;
-  role: Role;
-  /** false: the person already had an account and was added to the site */
-  created: boolean;
-  /** the mail waits in mail_outbox (sent by the mail sender when SMTP is configured) */
-  mailQueued: boolean;
-}
+export type { InvitationResult };
 
 /** A one-time password of 16 characters from 96 random bits (base64url). */
 export function oneTimePassword(): string {

@@ -1,6 +1,7 @@
 /**
  * Reading stored analyses and the analysis job queue.
- *  - roundAnalysis: a round's current analysis with its findings and the work orders they feed;
+ *  - roundAnalysis: a round's current analysis with its findings, the work orders they feed and
+ *    where each reading came from (this round or another round of the unit: reading-origins.ts);
  *  - analysisJobs: pg-boss jobs of the site's rounds (queued, active, retrying, failed), read from
  *    pg-boss' own tables (job, and archive for older ones); none before pg-boss first started.
  */
@@ -9,12 +10,20 @@ import type { AnalysisJob, AnalysisJobsResponse, FindingView, RoundAnalysisRespo
 import { AppError } from '../errors';
 import { reconciliationSummaryOf } from '../work-orders/service';
 import { ANALYSIS_QUEUE, PGBOSS_SCHEMA } from './queue';
+import { readingOrigins } from './reading-origins';
 
 const UUID_RE = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
+/** The round's stored skew (server receive − device send, ms) as device clock − server clock, s (ms resolution). */
+const clockSkewS = (serverMinusDeviceMs: string | number): number => -Number(serverMinusDeviceMs) / 1000 || 0;
+
 export async function roundAnalysis(ds: DataSource, siteId: string, roundId: string): Promise<RoundAnalysisResponse> {
   if (!UUID_RE.test(roundId)) throw new AppError(404, 'not_found', `Round ${roundId} not found on this site`);
-  const [round] = (await ds.query(`SELECT "id", "status" FROM "rounds" WHERE "id" = $1 AND "site_id" = $2`, [roundId, siteId])) as { id: string; status: string }[];
+  const [round] = (await ds.query(`SELECT "id", "status", "client_clock_skew_ms" FROM "rounds" WHERE "id" = $1 AND "site_id" = $2`, [roundId, siteId])) as {
+    id: string;
+    status: string;
+    client_clock_skew_ms: string;
+  }[];
   if (!round) throw new AppError(404, 'not_found', `Round ${roundId} not found on this site`);
   const [a] = (await ds.query(
     `SELECT "id", "round_id", "unit_id", "analysed_at", "input_hash", "model_version", "device_model_version", "model_version_mismatch", "barometric_pa",
@@ -66,6 +75,7 @@ export async function roundAnalysis(ds: DataSource, siteId: string, roundId: str
     evidence: Record<string, unknown>;
     work_orders: { id: string; number: string }[];
   }[];
+  const origins = await readingOrigins(ds, { id: a.id, roundId: a.round_id, unitId: a.unit_id, instruments: a.instruments });
   return {
     id: a.id,
     roundId: a.round_id,
@@ -75,6 +85,7 @@ export async function roundAnalysis(ds: DataSource, siteId: string, roundId: str
     modelVersion: a.model_version,
     deviceModelVersion: a.device_model_version,
     modelVersionMismatch: a.model_version_mismatch,
+    clockSkewS: clockSkewS(round.client_clock_skew_ms),
     barometricPa: a.barometric_pa,
     barometricSource: a.barometric_source,
     reconciliation: reconciliationSummaryOf(a.reconciliation),
@@ -96,6 +107,7 @@ export async function roundAnalysis(ds: DataSource, siteId: string, roundId: str
         workOrders: f.work_orders,
       }),
     ),
+    readingOrigins: origins,
   };
 }
 

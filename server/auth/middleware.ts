@@ -1,5 +1,8 @@
 /**
- * requireAuth: a valid `Authorization: Bearer <access token>` or 401 `unauthorized`.
+ * requireAuth: a valid `Authorization: Bearer <access token>` of a user who still exists and is
+ * not disabled, or 401 `unauthorized`. The user row is read on every request (one primary-key
+ * lookup), so disabling an account ends its access at once, not when its token expires; a
+ * request that passes several routers' requireAuth reads it once.
  * requireSiteRole(...roles): the caller's membership of `:siteId`. Not a member → 404
  * `not_found` (a site you do not belong to does not exist for you); a member without one of
  * the roles → 403 `forbidden`. No roles listed = any member.
@@ -8,13 +11,14 @@ import type { Request, RequestHandler } from 'express';
 import { z } from 'zod';
 import type { Role } from '../../shared/api/auth';
 import { deps, type AuthContext, type SiteContext } from '../context';
-import { MembershipEntity } from '../entities';
+import { MembershipEntity, UserEntity } from '../entities';
 import { AppError } from '../errors';
 import { verifyAccessToken } from './tokens';
 
 const unauthorized = (message: string) => new AppError(401, 'unauthorized', message);
 
-export const requireAuth: RequestHandler = (req, res, next) => {
+export const requireAuth: RequestHandler = async (req, res, next) => {
+  if (req.auth) return next(); // already checked by an earlier router of this request
   const header = req.get('authorization');
   if (!header) throw unauthorized('Sign in first: no access token was sent');
   const m = /^Bearer\s+(\S+)\s*$/i.exec(header);
@@ -23,6 +27,13 @@ export const requireAuth: RequestHandler = (req, res, next) => {
   if (!claims) {
     res.setHeader('WWW-Authenticate', 'Bearer error="invalid_token"');
     throw unauthorized('Access token is invalid or expired');
+  }
+  const user = await deps(req)
+    .dataSource.getRepository(UserEntity)
+    .findOne({ where: { id: claims.userId }, select: { id: true, disabled: true } });
+  if (!user || user.disabled) {
+    res.setHeader('WWW-Authenticate', 'Bearer error="invalid_token"');
+    throw unauthorized('This account no longer exists or is disabled');
   }
   req.auth = claims;
   next();

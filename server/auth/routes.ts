@@ -1,5 +1,14 @@
-/** /api/auth/* and /api/me: parse, call the use case, respond. */
-import { Router } from 'express';
+/**
+ * /api/auth/* and /api/me: parse, call the use case, respond.
+ *   POST /api/auth/sign-in  {email, password}                 → SignInResponse (429 when the address or the account is locked out)
+ *   POST /api/auth/refresh  {refreshToken}                    → TokenPair
+ *   POST /api/auth/sign-out {refreshToken}                    → 204 (signed in)
+ *   POST /api/auth/password {currentPassword, newPassword}    → TokenPair, every other session ended (signed in)
+ *   GET  /api/me                                              → UserView (signed in)
+ * The password request schema lives here until it moves to shared/api.
+ */
+import { Router, type Response } from 'express';
+import { z } from 'zod';
 import { rateLimit } from 'express-rate-limit';
 import { RefreshRequest, SignInRequest, SignOutRequest } from '../../shared/api/auth';
 import type { Config } from '../config';
@@ -7,7 +16,27 @@ import { deps } from '../context';
 import { AppError } from '../errors';
 import { parseBody } from '../http/validate';
 import { authOf, requireAuth } from './middleware';
-import { loadUserView, refreshTokens, signIn, signOut } from './service';
+import { PASSWORD_MAX } from './password-policy';
+import { changePassword, loadUserView, refreshTokens, signIn, signOut } from './service';
+
+const passwordText = (max: number) =>
+  z
+    .string({ error: (iss) => (iss.input === undefined ? 'Required' : 'Must be a string') })
+    .min(1, 'Required')
+    .max(max, `Must be at most ${max} characters`);
+
+export const ChangePasswordRequest = z.object({
+  currentPassword: passwordText(1024),
+  // The policy (length, common passwords, the e-mail) is checked by the use case with the account at hand.
+  newPassword: passwordText(PASSWORD_MAX * 2).refine((p) => !p.includes('\u0000'), 'Must not contain NUL characters'),
+});
+
+/** RFC 9110 §10.2.3 Retry-After on a 429 whose details say how long to wait. */
+function withRetryAfter(res: Response, err: unknown): never {
+  const d = err instanceof AppError ? (err.details as { retryAfterS?: unknown } | null) : null;
+  if (err instanceof AppError && err.status === 429 && typeof d?.retryAfterS === 'number') res.setHeader('Retry-After', String(d.retryAfterS));
+  throw err;
+}
 
 const WINDOW_MS = 15 * 60 * 1000;
 
@@ -31,7 +60,7 @@ export function authRouter(config: Config): Router {
   r.post('/sign-in', signInLimiter(config), async (req, res) => {
     const input = parseBody(SignInRequest, req);
     const { config, dataSource } = deps(req);
-    res.json(await signIn(dataSource, config, input));
+    res.json(await signIn(dataSource, config, input).catch((err: unknown) => withRetryAfter(res, err)));
   });
 
   r.post('/refresh', async (req, res) => {
@@ -44,6 +73,12 @@ export function authRouter(config: Config): Router {
     const { refreshToken } = parseBody(SignOutRequest, req);
     await signOut(deps(req).dataSource, authOf(req).userId, refreshToken);
     res.status(204).end();
+  });
+
+  r.post('/password', requireAuth, async (req, res) => {
+    const input = parseBody(ChangePasswordRequest, req);
+    const { config, dataSource } = deps(req);
+    res.json(await changePassword(dataSource, config, authOf(req).userId, input).catch((err: unknown) => withRetryAfter(res, err)));
   });
 
   return r;

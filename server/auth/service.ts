@@ -10,7 +10,9 @@ import type { SignInRequest, SignInResponse, TokenPair, UserView } from '../../s
 import type { Config } from '../config';
 import { MembershipEntity, RefreshTokenEntity, UserEntity, type Membership, type User } from '../entities';
 import { AppError } from '../errors';
-import { burnPasswordCheck, verifyPassword } from './passwords';
+import { assertNotLocked, lockedError, recordFailedSignIn, resetFailedSignIns } from './lockout';
+import { assertPasswordAllowed } from './password-policy';
+import { burnPasswordCheck, hashPassword, verifyPassword } from './passwords';
 import { hashRefreshToken, newRefreshToken, signAccessToken } from './tokens';
 
 type TokenConfig = Pick<Config, 'JWT_SECRET' | 'ACCESS_TOKEN_TTL_S' | 'REFRESH_TOKEN_TTL_S'>;
@@ -63,11 +65,18 @@ export async function signIn(ds: DataSource, config: TokenConfig, input: SignInR
     await burnPasswordCheck(input.password);
     throw badCredentials();
   }
-  if (!(await verifyPassword(user.passwordHash, input.password))) throw badCredentials();
+  // A locked account is refused before its password is looked at (./lockout.ts).
+  assertNotLocked(user);
+  if (!(await verifyPassword(user.passwordHash, input.password))) {
+    const lockedUntil = await recordFailedSignIn(ds, user.id);
+    if (lockedUntil) throw lockedError(lockedUntil);
+    throw badCredentials();
+  }
   // Said only to someone who knows the password.
   if (user.disabled) throw new AppError(403, 'account_disabled', 'This account is disabled; ask a site admin');
 
   return ds.transaction(async (em) => {
+    await resetFailedSignIns(em, user);
     const { accessToken, refreshToken } = await issuePair(em, config, user.id, randomUUID());
     const view = await loadUserView(em, user.id);
     return { accessToken, refreshToken, user: view! };
@@ -117,4 +126,39 @@ export async function signOut(ds: DataSource, userId: string, presented: string)
     .getRepository(RefreshTokenEntity)
     .findOne({ where: { tokenHash: hashRefreshToken(presented), userId } });
   if (row) await revokeFamily(ds, row.familyId);
+}
+
+/**
+ * Sets a new password chosen by the signed-in user (an invitee's first step after signing in with
+ * the one-time password of the invitation): the current password must be right (a wrong one counts
+ * towards the lockout like a failed sign-in), the new one must pass ./password-policy.ts. Every
+ * session of the user ends (all refresh tokens revoked) and a new pair is returned.
+ */
+export async function changePassword(
+  ds: DataSource,
+  config: TokenConfig,
+  userId: string,
+  input: { currentPassword: string; newPassword: string },
+): Promise<TokenPair> {
+  const user = await ds.getRepository(UserEntity).findOne({ where: { id: userId } });
+  if (!user || user.disabled) throw new AppError(401, 'unauthorized', 'This account no longer exists or is disabled');
+  assertNotLocked(user);
+  if (!(await verifyPassword(user.passwordHash, input.currentPassword))) {
+    const lockedUntil = await recordFailedSignIn(ds, user.id);
+    if (lockedUntil) throw lockedError(lockedUntil);
+    throw new AppError(403, 'forbidden', 'The current password is wrong', [{ path: 'currentPassword', message: 'Is wrong' }]);
+  }
+  assertPasswordAllowed(input.newPassword, user.email, 'newPassword');
+  if (input.newPassword === input.currentPassword) {
+    throw new AppError(400, 'validation', 'Invalid request body: newPassword: Must differ from the current password', [
+      { path: 'newPassword', message: 'Must differ from the current password' },
+    ]);
+  }
+  const hash = await hashPassword(input.newPassword);
+  return ds.transaction(async (em) => {
+    await em.getRepository(UserEntity).update({ id: userId }, { passwordHash: hash, failedSignIns: 0, failedSignInsSince: null, lockedUntil: null });
+    await em.getRepository(RefreshTokenEntity).update({ userId, revokedAt: IsNull() }, { revokedAt: new Date() });
+    const { accessToken, refreshToken } = await issuePair(em, config, userId, randomUUID());
+    return { accessToken, refreshToken };
+  });
 }

@@ -9,23 +9,12 @@
  */
 import { Router } from 'express';
 import { z } from 'zod';
+import type { MailboxMessage, MailboxResponse } from '../../shared/api/admin';
 import { requireAuth, authOf } from '../auth/middleware';
 import { deps } from '../context';
 import { AppError, validationError } from '../errors';
 
-export interface MailboxMessage {
-  id: string;
-  receivedAt: string;
-  from: string;
-  to: string[];
-  subject: string;
-  text: string;
-  rawSize: number;
-}
-
-export interface MailboxResponse {
-  messages: MailboxMessage[];
-}
+export type { MailboxMessage, MailboxResponse };
 
 const Query = z.object({
   limit: z

@@ -8,8 +8,10 @@ export function cors(origins: readonly string[]): RequestHandler {
   const allowed = new Set(origins);
   return (req, res, next) => {
     const origin = req.get('origin');
+    // The answer depends on Origin whether or not it is allowed, so caches must key on it
+    // (Fetch standard, "CORS protocol and HTTP caches").
+    if (origin) res.vary('Origin');
     if (!origin || !allowed.has(origin)) return next();
-    res.vary('Origin');
     res.setHeader('Access-Control-Allow-Origin', origin);
     res.setHeader('Access-Control-Expose-Headers', 'X-Request-Id, RateLimit, RateLimit-Policy, Retry-After');
     if (req.method === 'OPTIONS' && req.get('access-control-request-method')) {

@@ -1,13 +1,19 @@
 /**
  *   GET /api/sites/:siteId/instruments?unitId=&status=&q=                planners, engineers, admins → InstrumentListResponse
  *   GET /api/sites/:siteId/instruments/:tag/history?from=&to=&unitId=    planners, engineers, admins → InstrumentHistoryResponse
+ *   PATCH /api/sites/:siteId/instruments/:instrumentId  InstrumentUpdateRequest  admins → InstrumentUpdateResponse
+ *
+ * A configuration change is logged as an audit line (who, which instrument, each field before →
+ * after); the row's sync_version moves, so the next pull carries it to the phones.
  */
 import { Router } from 'express';
 import { InstrumentHistoryQuery, InstrumentListQuery } from '../../shared/api/analysis';
-import { requireAuth, requireSiteRole, siteOf } from '../auth/middleware';
+import { InstrumentUpdateRequest } from '../../shared/api/instruments';
+import { authOf, requireAuth, requireSiteRole, siteOf } from '../auth/middleware';
 import { deps } from '../context';
+import { parseBody } from '../http/validate';
 import { READ_ROLES, parseQuery } from '../work-orders/routes';
-import { instrumentHealth, instrumentHistory } from './service';
+import { instrumentHealth, instrumentHistory, updateInstrument } from './service';
 
 export function instrumentsRouter(): Router {
   const r = Router();
@@ -21,6 +27,17 @@ export function instrumentsRouter(): Router {
   r.get('/:siteId/instruments/:tag/history', requireSiteRole(...READ_ROLES), async (req, res) => {
     const q = parseQuery(InstrumentHistoryQuery, req);
     res.json(await instrumentHistory(deps(req).dataSource, siteOf(req).siteId, String(req.params.tag), q));
+  });
+
+  r.patch('/:siteId/instruments/:instrumentId', requireSiteRole('admin'), async (req, res) => {
+    const body = parseBody(InstrumentUpdateRequest, req);
+    const { dataSource, logger } = deps(req);
+    const { siteId } = siteOf(req);
+    const out = await updateInstrument(dataSource, siteId, String(req.params.instrumentId), body);
+    if (Object.keys(out.changes).length) {
+      logger.info({ audit: 'instrument.update', siteId, instrumentId: out.instrument.id, tag: out.instrument.tag, by: authOf(req).userId, changes: out.changes }, `instrument ${out.instrument.tag} changed`);
+    }
+    res.json(out);
   });
 
   return r;

@@ -21,8 +21,16 @@ import type {
   InstrumentListResponse,
 } from '../../shared/api/analysis';
 import type { InstrumentStatus } from '../../shared/api/sync';
-import { SI_UNIT, type Quantity } from '../../shared/units';
+import { ACCURACY_CLASSES, type InstrumentUpdateRequest as UpdateSchema, type InstrumentUpdateResponse } from '../../shared/api/instruments';
+import type { z } from 'zod';
+import { accuracySpecSchema, type AccuracySpec } from '../../shared/uncertainty';
+import { ELEVATION_MIN_M, SI_UNIT, barometricFromElevation, type Quantity } from '../../shared/units';
+import { InstrumentEntity } from '../entities';
+import type { Instrument } from '../entities/instrument';
 import { AppError } from '../errors';
+
+type InstrumentUpdateRequestOut = z.output<typeof UpdateSchema>;
+const UUID_RE = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 import { FLAG_KINDS } from '../work-orders/policy';
 
 export const HEALTH_WINDOW_DAYS = 30;
@@ -189,4 +197,132 @@ export async function instrumentHistory(
     points,
     truncated,
   };
+}
+
+// ------------------------------------------------------------------------------ configuration change
+
+/**
+ * The highest atmospheric pressure a site can see: the ICAO standard atmosphere at the lowest
+ * elevation the units module accepts (shared/units ELEVATION_MIN_M). A gauge reads at most this
+ * far below zero; a vacuum gauge at most this far.
+ */
+const ATMOSPHERE_MAX_PA = barometricFromElevation(ELEVATION_MIN_M);
+
+
+const bad = (path: string, message: string) => new AppError(400, 'validation', `Invalid request body: ${path}: ${message}`, [{ path, message }]);
+
+/** Quantity-specific limits of a range (SI, in the instrument's own reference). */
+function checkRange(i: Instrument, r: { min: number; max: number }): void {
+  const atLeast = (path: 'range.min' | 'range.max', v: number, lo: number, what: string) => {
+    if (v < lo) throw bad(path, `Must be at least ${lo} (${what}); got ${v}`);
+  };
+  const atMost = (path: 'range.min' | 'range.max', v: number, hi: number, what: string) => {
+    if (v > hi) throw bad(path, `Must be at most ${hi} (${what}); got ${v}`);
+  };
+  switch (i.quantity) {
+    case 'temperature':
+      atLeast('range.min', r.min, 0, 'K, absolute zero');
+      break;
+    case 'pressure':
+      if (i.reference === 'absolute' || i.reference === null) atLeast('range.min', r.min, 0, 'Pa absolute');
+      else if (i.reference === 'gauge') atLeast('range.min', r.min, -Math.round(ATMOSPHERE_MAX_PA), 'Pa gauge, a full vacuum at the highest atmospheric pressure');
+      else {
+        atLeast('range.min', r.min, 0, 'Pa of vacuum');
+        atMost('range.max', r.max, Math.round(ATMOSPHERE_MAX_PA), 'Pa of vacuum, the highest atmospheric pressure');
+      }
+      break;
+    case 'massFlow':
+      atLeast('range.min', r.min, 0, 'kg/s');
+      break;
+    case 'level':
+      atLeast('range.min', r.min, 0, 'fraction of the gauge glass');
+      atMost('range.max', r.max, 1, 'fraction of the gauge glass');
+      break;
+    case 'power':
+      break;
+  }
+}
+
+function withClass(i: Instrument, accuracy: unknown, cls: string): AccuracySpec {
+  const spec = accuracy as { kind?: string } | null;
+  if (!spec || typeof spec !== 'object' || !spec.kind) throw bad('accuracyClass', `${i.tag} has no accuracy specification to set a class on`);
+  const c = ACCURACY_CLASSES[spec.kind];
+  if (!c) throw bad('accuracyClass', `${i.tag}'s accuracy is given as ${spec.kind}, which has no class`);
+  const value = c.values.find((v) => String(v) === cls);
+  if (value === undefined) throw bad('accuracyClass', `Must be one of ${c.values.join(', ')} (${c.standard} ${c.field}es); got "${cls}"`);
+  return { ...(spec as object), [c.field]: value } as AccuracySpec;
+}
+
+export async function updateInstrument(
+  ds: DataSource,
+  siteId: string,
+  instrumentId: string,
+  body: InstrumentUpdateRequestOut,
+): Promise<InstrumentUpdateResponse> {
+  if (!UUID_RE.test(instrumentId)) throw new AppError(404, 'not_found', `Instrument ${instrumentId} not found on this site`);
+  return ds.transaction(async (em) => {
+    const repo = em.getRepository(InstrumentEntity);
+    const i = await repo
+      .createQueryBuilder('i')
+      .innerJoin('units', 'u', 'u.id = i.unit_id')
+      .where('i.id = :id AND u.site_id = :siteId', { id: instrumentId, siteId })
+      .setLock('pessimistic_write', undefined, ['i'])
+      .getOne();
+    if (!i) throw new AppError(404, 'not_found', `Instrument ${instrumentId} not found on this site`);
+    if (body.rowVersion !== undefined && body.rowVersion !== i.rowVersion) {
+      throw new AppError(409, 'conflict', `${i.tag} changed since you read it (row version ${body.rowVersion}, now ${i.rowVersion}); reload and try again`, {
+        rowVersion: i.rowVersion,
+      });
+    }
+    const changes: InstrumentUpdateResponse['changes'] = {};
+    const next = { range: i.range, accuracy: i.accuracy, calibrationIntervalDays: i.calibrationIntervalDays, status: i.status };
+    if (body.range) {
+      checkRange(i, body.range);
+      next.range = { min: body.range.min, max: body.range.max };
+      // EN 837-1 and ASME B40.100 give the error in % of the span: it follows the range
+      const a = next.accuracy as { spanPa?: number; span?: number; kind?: string } | null;
+      if (a && (a.kind === 'en837' || a.kind === 'asmeB40')) next.accuracy = { ...a, spanPa: body.range.max - body.range.min };
+      if (a && a.kind === 'percentSpan') next.accuracy = { ...a, span: body.range.max - body.range.min };
+    }
+    if (body.accuracyClass !== undefined) next.accuracy = withClass(i, next.accuracy, body.accuracyClass);
+    if (body.calibrationIntervalDays !== undefined) next.calibrationIntervalDays = body.calibrationIntervalDays;
+    if (body.status !== undefined) next.status = body.status;
+    if (next.accuracy !== null && next.accuracy !== undefined) {
+      const ok = accuracySpecSchema.safeParse(next.accuracy);
+      if (!ok.success) throw bad('accuracyClass', `The accuracy specification would be invalid: ${ok.error.issues.map((x) => `${x.path.join('.')}: ${x.message}`).join('; ')}`);
+    }
+    for (const k of ['range', 'accuracy', 'calibrationIntervalDays', 'status'] as const) {
+      if (JSON.stringify(next[k]) !== JSON.stringify(i[k])) changes[k] = { from: i[k] ?? null, to: next[k] ?? null };
+    }
+    if (Object.keys(changes).length) {
+      await em.query(
+        `UPDATE "instruments" SET "range" = $2, "accuracy" = $3, "calibration_interval_days" = $4, "status" = $5, "updated_at" = now(), "row_version" = "row_version" + 1
+          WHERE "id" = $1`,
+        [i.id, next.range === null ? null : JSON.stringify(next.range), next.accuracy === null ? null : JSON.stringify(next.accuracy), next.calibrationIntervalDays, next.status],
+      );
+    }
+    const u = await repo.findOneByOrFail({ id: i.id });
+    return {
+      changes,
+      instrument: {
+        id: u.id,
+        unitId: u.unitId,
+        tag: u.tag,
+        quantity: u.quantity,
+        pointRef: u.pointRef,
+        equipmentRef: u.equipmentRef,
+        reference: u.reference,
+        range: u.range,
+        accuracy: u.accuracy,
+        gaugeUnit: u.gaugeUnit,
+        calibrationDate: u.calibrationDate,
+        calibrationIntervalDays: u.calibrationIntervalDays,
+        status: u.status,
+        isBarometer: u.isBarometer,
+        updatedAt: new Date(u.updatedAt).toISOString(),
+        rowVersion: u.rowVersion,
+        syncVersion: Number(u.syncVersion),
+      },
+    };
+  });
 }

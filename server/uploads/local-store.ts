@@ -3,7 +3,7 @@
  * and are renamed into place, so a reader never sees half a photo.
  */
 import { createReadStream } from 'node:fs';
-import { mkdir, rename, stat, writeFile } from 'node:fs/promises';
+import { mkdir, rename, stat, unlink, writeFile } from 'node:fs/promises';
 import { randomBytes } from 'node:crypto';
 import path from 'node:path';
 import { assertSafeKey, UnsafeKeyError, type PhotoStore, type StoredObject } from './store';
@@ -27,8 +27,14 @@ export class LocalPhotoStore implements PhotoStore {
     const file = this.pathOf(key);
     await mkdir(path.dirname(file), { recursive: true });
     const tmp = `${file}.${randomBytes(6).toString('hex')}.tmp`;
-    await writeFile(tmp, bytes);
-    await rename(tmp, file);
+    try {
+      await writeFile(tmp, bytes);
+      await rename(tmp, file);
+    } catch (e) {
+      // a full disk leaves a torn temporary file behind: remove it (best effort)
+      await unlink(tmp).catch(() => undefined);
+      throw e;
+    }
   }
 
   async get(key: string): Promise<StoredObject | null> {

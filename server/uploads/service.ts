@@ -63,8 +63,12 @@ export async function storePhoto(ds: DataSource, store: PhotoStore, photo: Photo
   const img = await processPhoto(bytes);
   const key = photoKey(photo.id, img.ext);
   const tkey = thumbKey(photo.id);
-  await store.put(key, img.bytes, img.mime);
-  await store.put(tkey, img.thumb, 'image/jpeg');
+  try {
+    await store.put(key, img.bytes, img.mime);
+    await store.put(tkey, img.thumb, 'image/jpeg');
+  } catch (err) {
+    throw photoStoreError(photo.id, err);
+  }
   await ds.getRepository(PhotoEntity).update(
     { id: photo.id },
     { status: 'stored', storageKey: key, thumbKey: tkey, mime: img.mime, width: img.width, height: img.height, storedAt: new Date() },
@@ -79,6 +83,26 @@ export async function storePhoto(ds: DataSource, store: PhotoStore, photo: Photo
     thumbWidth: img.thumbWidth,
     thumbHeight: img.thumbHeight,
   };
+}
+
+/** errno codes of a full disk or quota (POSIX), answered 507 Insufficient Storage (RFC 4918 §11.5). */
+const FULL = new Set(['ENOSPC', 'EDQUOT']);
+
+/**
+ * A photo store that cannot take the bytes: 507 when it is full, else 503 (not writable, not
+ * reachable); either way the photo stays announced (its round and readings are stored already)
+ * and the device's photo queue uploads it again later. The cause goes to the log with the request.
+ */
+export function photoStoreError(photoId: string, err: unknown): AppError {
+  const code = typeof (err as { code?: unknown })?.code === 'string' ? (err as { code: string }).code : (err as { name?: string })?.name ?? 'unknown';
+  const full = FULL.has(code);
+  const why = full ? 'the photo store is full' : `the photo store cannot be written (${code})`;
+  const e = new AppError(full ? 507 : 503, 'storage_unavailable', `Photo ${photoId} was not stored: ${why}; its round and readings are kept, upload the photo again later`, {
+    photoId,
+    reason: code,
+  });
+  (e as { cause?: unknown }).cause = err;
+  return e;
 }
 
 function uploaded(photo: Photo, created: boolean): PhotoUploadResponse {

@@ -32,6 +32,25 @@ export const FindingView = z.object({
 });
 export type FindingView = z.infer<typeof FindingView>;
 
+/**
+ * Where a reading the analysis used came from: this round (`own`), or another round of the unit
+ * (the analysis is unit-level: for instruments the round's route does not read, the latest reading
+ * of the unit's other rounds within 12 h is borrowed). `roundId` null on a borrowed reading: its
+ * round could not be told again (a later re-take replaced it).
+ */
+export const ReadingOrigin = z.object({
+  tag: z.string(),
+  pointId: z.string().nullable(),
+  equipmentId: z.string().nullable(),
+  own: z.boolean(),
+  roundId: z.uuid().nullable(),
+  /** the route of the round a borrowed reading came from */
+  routeName: z.string().nullable(),
+  /** the reading's device time */
+  measuredAt: z.iso.datetime().nullable(),
+});
+export type ReadingOrigin = z.infer<typeof ReadingOrigin>;
+
 export const RoundAnalysisResponse = z.object({
   id: z.uuid(),
   roundId: z.uuid(),
@@ -44,6 +63,11 @@ export const RoundAnalysisResponse = z.object({
   deviceModelVersion: z.string().nullable(),
   /** the device recorded the round against another model version than the server analysed it with */
   modelVersionMismatch: z.boolean(),
+  /**
+   * The device's clock minus the server's when the round first arrived, s (positive: the device
+   * is ahead). Device times of the round are evidence; the server's order never uses them.
+   */
+  clockSkewS: z.number().optional(),
   barometricPa: z.number(),
   barometricSource: z.enum(['reading', 'elevation']),
   reconciliation: ReconciliationSummary,
@@ -52,6 +76,8 @@ export const RoundAnalysisResponse = z.object({
   performance: arrayOf<PerformanceFigure>(),
   instruments: arrayOf<InstrumentResult>(),
   findings: z.array(FindingView),
+  /** one per reading the analysis used (instruments with a reading) */
+  readingOrigins: z.array(ReadingOrigin).optional(),
 });
 export type RoundAnalysisResponse = z.infer<typeof RoundAnalysisResponse>;
 

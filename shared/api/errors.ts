@@ -20,6 +20,7 @@ export const ERROR_CODES = [
   'conflict',
   'rate_limited',
   'db_unavailable',
+  'storage_unavailable',
   'internal',
 ] as const;
 export type ErrorCode = (typeof ERROR_CODES)[number];

@@ -578,6 +578,22 @@ function makeBorders(kind: 0 | 1): Borders {
 
 const BORDERS: readonly [Borders, Borders] = [makeBorders(0), makeBorders(1)];
 
+/**
+ * How far (J/kg or J/(kg·K)) an h or s may lie beyond a limit of the range and still be taken:
+ * the round-off of evaluating h and s at the limit. Without it a state that pt accepts just inside
+ * the range (273.15000000000003 K, what 32 °F becomes in double precision) could be refused by
+ * ph or ps on its own h or s, whose last digits fall on the far side of the limit's.
+ */
+function limitSlack(kind: 0 | 1, yLimit: number, T: number): number {
+  return 1e-12 * Math.max(Math.abs(yLimit), kind === 0 ? R * T : R);
+}
+
+/** h or s of a region at a border temperature, moved by its round-off (limitSlack) towards `side`. */
+function yBorder(region: GibbsRegion, p: number, T: number, kind: 0 | 1, side: 1 | -1): number {
+  const y = yGibbs(region, p, T, kind);
+  return y + side * limitSlack(kind, y, T);
+}
+
 function inputName(kind: 0 | 1): 'h' | 's' {
   return kind === 0 ? 'h' : 's';
 }
@@ -590,7 +606,9 @@ function solveVapour(p: number, y: number, kind: 0 | 1, T0?: number): SteamState
   const b = BORDERS[kind];
   if (b.b25.side(p, y) >= 0) {
     const y25 = yGibbs(2, p, T_MAX_2, kind);
-    if (y > y25) {
+    // region 2 up to its 1073.15 K state, round-off included (a region-2 state a few ulps below
+    // 1073.15 K stays region 2); beyond it region 5, or above 50 MPa the end of the range
+    if (y > y25 + limitSlack(kind, y25, T_MAX_2)) {
       if (p > P_MAX_5) {
         throw rangeError(inputName(kind), y, y25, 'above', 'the IF97 limit', `at p = ${formatQuantity('p', p)} (1073.15 K)`);
       }
@@ -599,7 +617,7 @@ function solveVapour(p: number, y: number, kind: 0 | 1, T0?: number): SteamState
       const T5 = kind === 0 ? T_MAX_2 + (y - y25) / dy : T_MAX_2 * Math.exp((y - y25) / (dy * T_MAX_2));
       if (b.top.side(p, y) >= 0) {
         const yTop = yGibbs(5, p, T_MAX_5, kind);
-        if (y > yTop) {
+        if (y > yTop + limitSlack(kind, yTop, T_MAX_5)) {
           throw rangeError(inputName(kind), y, yTop, 'above', 'the IF97 limit', `at p = ${formatQuantity('p', p)} (2273.15 K)`);
         }
       }
@@ -649,7 +667,7 @@ function solvePY(p: number, y: number, kind: 0 | 1): SteamState {
   // bottom of the range: 273.15 K (liquid, or vapour below p_sat(273.15 K))
   if (p < P_SAT_MIN || b.bottom.side(p, y) <= 0) {
     const yMin = yGibbs(p >= P_SAT_MIN ? 1 : 2, p, T_MIN, kind); // leaves g at (p, 273.15 K)
-    if (y < yMin) {
+    if (y < yMin - limitSlack(kind, yMin, T_MIN)) {
       throw rangeError(inputName(kind), y, yMin, 'below', 'the IF97 limit', `at p = ${formatQuantity('p', p)} (273.15 K)`);
     }
     if (p < P_SAT_MIN) {
@@ -674,10 +692,11 @@ function solvePY(p: number, y: number, kind: 0 | 1): SteamState {
   }
 
   // p > p_sat(623.15 K): region 1 up to 623.15 K, region 3 up to B23, then region 2 (and 5)
+  // (the border states with their round-off: a state a few ulps inside region 1 or 2 stays there)
   const s13 = b.b13.side(p, y);
-  if (s13 < 0 || (s13 === 0 && y <= yGibbs(1, p, T_13, kind))) return solveLiquid(p, y, kind);
+  if (s13 < 0 || (s13 === 0 && y <= yBorder(1, p, T_13, kind, 1))) return solveLiquid(p, y, kind);
   const s23 = b.b23.side(p, y);
-  if (s23 > 0 || (s23 === 0 && y >= yGibbs(2, p, b23T(p), kind))) return solveVapour(p, y, kind);
+  if (s23 > 0 || (s23 === 0 && y >= yBorder(2, p, b23T(p), kind, -1))) return solveVapour(p, y, kind);
   let Ts = NaN;
   let vapourSide = false;
   if (p < P_CRIT && mayBeWet3(p, y, kind)) {

@@ -148,6 +148,23 @@ function checkValue(value: number, what: string, quantity: Quantity, unit: strin
   }
 }
 
+/**
+ * A conversion result that overflowed double precision (1e305 MPa, 1e306 kg/h shown in kg/h…)
+ * is refused rather than returned as ±Infinity.
+ */
+function finiteResult(result: number, input: string, quantity: Quantity, unit: string): number {
+  if (!Number.isFinite(result)) {
+    throw new UnitError(`${input} is too large to convert: the result ${String(result)} is not a finite number`, {
+      code: 'outOfRange',
+      input,
+      quantity,
+      unit,
+      allowed: [`|value| up to ${fmt(Number.MAX_VALUE)} after conversion`],
+    });
+  }
+  return result;
+}
+
 function checkReference(quantity: Quantity, reference: unknown, input: string): PressureRef | undefined {
   if (quantity !== 'pressure') {
     if (reference !== undefined) {
@@ -199,7 +216,7 @@ export function toSI(measure: Measure, ctx?: SiteContext): number {
   checkValue(value, `${QUANTITY_NAMES[quantity]} value`, quantity, u.unit);
   const input = describe(value, u.unit, quantity === 'pressure' ? measure.reference : undefined);
   const reference = checkReference(quantity, measure.reference, input);
-  const own = (value + u.shift) * u.factor;
+  const own = finiteResult((value + u.shift) * u.factor, input, quantity, u.unit);
 
   if (quantity === 'pressure') {
     if (reference === 'absolute') {
@@ -223,7 +240,7 @@ export function toSI(measure: Measure, ctx?: SiteContext): number {
         { code: 'nonPositiveAbsolute', input, quantity, unit: u.unit },
       );
     }
-    return abs;
+    return finiteResult(abs, input, quantity, u.unit);
   }
   if (quantity === 'temperature' && !(own > 0)) {
     throw new UnitError(`temperature ${input} is ${fmt(own)} K, not above absolute zero`, {
@@ -268,7 +285,7 @@ export function fromSI(
     const b = needBarometric(ctx, ref!, `${fmt(si)} Pa shown as ${u.unit} ${ref}`);
     own = ref === 'gauge' ? si - b : b - si;
   }
-  return own / u.factor - u.shift;
+  return finiteResult(own / u.factor - u.shift, `${fmt(si)} ${SI_SYMBOL[quantity]} shown in ${u.unit}`, quantity, u.unit);
 }
 
 /**
@@ -279,14 +296,14 @@ export function fromSI(
 export function toSIDelta(delta: { quantity: Quantity; value: number; unit: Unit | string }): number {
   const u = resolveUnit(delta.quantity, delta.unit);
   checkValue(delta.value, `${QUANTITY_NAMES[delta.quantity]} difference`, delta.quantity, u.unit);
-  return delta.value * u.factor;
+  return finiteResult(delta.value * u.factor, `${QUANTITY_NAMES[delta.quantity]} difference ${delta.value} ${u.unit}`, delta.quantity, u.unit);
 }
 
 /** An SI difference (Pa, K…) in `unit`; see toSIDelta. */
 export function fromSIDelta(quantity: Quantity, si: number, unit: Unit | string): number {
   const u = resolveUnit(quantity, unit);
   checkValue(si, `SI ${QUANTITY_NAMES[quantity]} difference`, quantity, u.unit);
-  return si / u.factor;
+  return finiteResult(si / u.factor, `${QUANTITY_NAMES[quantity]} difference ${fmt(si)} ${SI_SYMBOL[quantity]} shown in ${u.unit}`, quantity, u.unit);
 }
 
 /**

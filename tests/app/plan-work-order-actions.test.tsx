@@ -54,7 +54,7 @@ const wo: WorkOrderDetail = {
 };
 
 function setup() {
-  const qc = new QueryClient({ defaultOptions: { queries: { retry: false, staleTime: Infinity }, mutations: { retry: false } } });
+  const qc = new QueryClient({ defaultOptions: { queries: { retry: false, staleTime: Infinity, gcTime: Infinity }, mutations: { retry: false, gcTime: Infinity } } });
   qc.setQueryData(workOrderKeys.detail(SITE, wo.id), wo);
   const list: WorkOrderListResponse = { items: [wo], total: 1, limit: 25, offset: 0 };
   qc.setQueryData(workOrderKeys.list(SITE, {}), list);
@@ -119,7 +119,7 @@ test('a calibration order asks for as found and as left before it closes (the se
     if (path.includes('/work-orders/')) return Promise.resolve({ ...wo, status: 'done', allowedActions: [] });
     return Promise.resolve({ items: [], total: 0, limit: 50, offset: 0 });
   });
-  const qc = new QueryClient({ defaultOptions: { queries: { retry: false, staleTime: Infinity } } });
+  const qc = new QueryClient({ defaultOptions: { queries: { retry: false, staleTime: Infinity, gcTime: Infinity } } });
   qc.setQueryData(workOrderKeys.detail(SITE, wo.id), { ...wo, status: 'in-progress', allowedActions: ['close', 'cancel', 'comment'] });
   render(
     <QueryClientProvider client={qc}>

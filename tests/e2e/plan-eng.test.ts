@@ -12,7 +12,11 @@
  * engineer's health table then shows PI-302 back in service. The engineer opens the health table,
  * PI-302's trend (TrendChart with its band) and a round's cycle page, whose T–s chart carries the
  * saturation dome and a mark for every state point the analysis placed (checked against the
- * analysis the API returns). Screenshots at 390 px and 1280 px go to .tmp/screens/.
+ * analysis the API returns), and finds that round again in the list of analysed rounds. The admin
+ * invites an engineer, publishes a route version (the validator's refusal first, then the new
+ * version's number) and changes an instrument's calibration interval; the invited person reads
+ * the invitation in the dev mailbox, signs in with the one-time password it carries and lands on
+ * the engineer's screen, sets a password of their own and signs in with it. Screenshots at 390 px and 1280 px go to .tmp/screens/.
  */
 import { mkdirSync } from 'node:fs';
 import type { Browser, Page } from 'playwright-core';
@@ -106,6 +110,9 @@ test('the planner finds the priority-1 calibration order, reads its evidence, as
   await signIn(phone.page, server.url, 'planner@fernhallow.example', DEMO_PASSWORD);
   await phone.page.waitForURL('**/plan');
   await phone.page.goto(`${server.url}/plan/work-orders`);
+  // the six days of history open one order, closed above: show the done ones too
+  await phone.page.getByTestId('wo-filters-toggle').click();
+  await phone.page.getByTestId('wo-filter-status-done').click();
   await phone.page.locator('[data-testid^="wo-row-"]').first().waitFor();
   await shot(phone.page, 'plan-work-orders-phone');
   await phone.page.locator('[data-testid^="wo-row-"]').first().click();
@@ -154,6 +161,13 @@ test('the engineer sees the instrument back in service, its trend, and a round�
   }
   // the isentropic ends of the HP and LP sections (demo unit: hp ms→hpx, lp lpi→lpe, lpx)
   expect(await page.locator('[data-testid^="ts-point-s-"]').count()).toBeGreaterThanOrEqual(2);
+  // every state point of the unit's analysis is in the table, each saying where it was read
+  for (const p of a.statePoints) expect(await page.getByTestId(`cycle-point-${p.id}`).count()).toBe(1);
+  // no two point labels of the chart overlap (shared/charts label placement)
+  const boxes = (await page.locator('[data-testid^="ts-label-"]').evaluateAll((els) => els.map((e) => (e as unknown as { getBBox(): { x: number; y: number; width: number; height: number } }).getBBox()))).map((b) => ({ x: b.x, y: b.y, w: b.width, h: b.height }));
+  expect(boxes.length).toBeGreaterThan(10);
+  const overlap = (p: (typeof boxes)[number], q: (typeof boxes)[number]) => p.x < q.x + q.w && q.x < p.x + p.w && p.y < q.y + q.h && q.y < p.y + p.h;
+  for (let i = 0; i < boxes.length; i++) for (let j = i + 1; j < boxes.length; j++) expect(overlap(boxes[i], boxes[j])).toBe(false);
   await shot(page, 'eng-cycle-wide');
   await page.getByTestId('cycle-points').scrollIntoViewIfNeeded();
   await page.waitForTimeout(400); // let the scrolled tiles paint
@@ -161,6 +175,16 @@ test('the engineer sees the instrument back in service, its trend, and a round�
   await page.getByTestId('cycle-balances').scrollIntoViewIfNeeded();
   await page.waitForTimeout(400); // let the scrolled tiles paint
   await shot(page, 'eng-cycle-balances-wide');
+  // the analysed rounds, newest first; a row opens its cycle page
+  await page.getByTestId('nav-eng-cycle').click();
+  await page.getByTestId('rounds-table').waitFor();
+  const rows = page.locator('[data-testid^="round-row-"]');
+  expect(await rows.count()).toBeGreaterThan(1);
+  await shot(page, 'eng-rounds-wide');
+  const first = (await rows.first().getAttribute('data-testid'))!.replace('round-row-', '');
+  await rows.first().click();
+  await page.waitForURL(`**/eng/rounds/${first}`);
+  await page.getByTestId('ts-dome').waitFor();
   await context.close();
 
   const phone = await newPage(browser, PHONE);
@@ -205,11 +229,80 @@ test('the admin invites a person, sees the site’s people, its instruments as c
     // the invitation went through the outbox to the SMTP fake
     const invitation = page.locator('[data-testid^="mail-"]').filter({ hasText: 'Trueround: your access to Fernhallow Works' }).first();
     await invitation.waitFor({ timeout: 15_000 });
+    let password = '';
     if (size === 'wide') {
       await invitation.getByRole('button').click();
-      await page.locator('[data-testid$="-text"]').filter({ hasText: 'one-time password' }).waitFor();
+      const text = page.locator('[data-testid$="-text"]').filter({ hasText: 'one-time password' }).first();
+      await text.waitFor();
+      password = /one-time password:\s+(\S+)/.exec((await text.textContent()) ?? '')?.[1] ?? '';
+      expect(password).toHaveLength(16);
     }
     await shot(page, `admin-mailbox-${size}`);
     await context.close();
+
+    if (size === 'wide') {
+      // the invited person signs in with the one-time password from the mail and lands on the engineer's screen
+      const kim = await newPage(browser, PHONE);
+      await signIn(kim.page, server.url, 'kim.ward@fernhallow.example', password);
+      await kim.page.waitForURL('**/eng');
+      await kim.page.getByTestId('nav-eng-instruments').waitFor();
+      expect(await kim.page.getByTestId('nav-admin-people').count()).toBe(0);
+      await kim.context.close();
+      // sets a password of their own (POST /api/auth/password; the app has no screen for it yet) …
+      const s = await fetch(`${server.url}/api/auth/sign-in`, { method: 'POST', headers: { 'Content-Type': 'application/json' }, body: JSON.stringify({ email: 'kim.ward@fernhallow.example', password }) });
+      expect(s.status).toBe(200);
+      const { accessToken } = (await s.json()) as { accessToken: string };
+      const chosen = 'kestrel over the cooling tower 7';
+      const change = await fetch(`${server.url}/api/auth/password`, {
+        method: 'POST',
+        headers: { 'Content-Type': 'application/json', Authorization: `Bearer ${accessToken}` },
+        body: JSON.stringify({ currentPassword: password, newPassword: chosen }),
+      });
+      expect(change.status).toBe(200);
+      // … and from then on signs in with it, landing on the engineer's screen again; the one-time password is spent
+      const again = await newPage(browser, PHONE);
+      await signIn(again.page, server.url, 'kim.ward@fernhallow.example', password);
+      await again.page.getByTestId('sign-in-failure').waitFor();
+      await again.page.getByTestId('sign-in-password').fill(chosen);
+      await again.page.getByTestId('sign-in-submit').click();
+      await again.page.waitForURL('**/eng');
+      await again.page.getByTestId('nav-eng-instruments').waitFor();
+      await shot(again.page, 'invited-engineer-home-phone');
+      await again.context.close();
+    }
   }
+});
+
+test('the admin publishes a route version after the validator’s refusal, and changes an instrument’s calibration interval', async () => {
+  const { context, page } = await newPage(browser, WIDE);
+  await signIn(page, server.url, 'admin@fernhallow.example', DEMO_PASSWORD);
+  await page.waitForURL('**/admin');
+  await page.getByTestId('nav-admin-routes').click();
+  await page.getByTestId('publish-route-turbine-hall').click();
+  await page.getByTestId('publish-start-current').click();
+  const current = JSON.parse(await page.getByTestId('publish-json').inputValue()) as { stops: { readings: { tag: string }[] }[] };
+  current.stops[0].readings[1].tag = 'TI-999';
+  await page.getByTestId('publish-json').fill(JSON.stringify(current, null, 2));
+  await page.getByTestId('publish-submit').click();
+  await page.getByTestId('publish-issue-0').filter({ hasText: 'stops.0.readings.1.tag: TI-999 is not an instrument of unit' }).waitFor();
+  await shot(page, 'admin-routes-refused-wide');
+  current.stops[0].readings[1].tag = 'TI-102A';
+  await page.getByTestId('publish-json').fill(JSON.stringify(current, null, 2));
+  await page.getByTestId('publish-submit').click();
+  await page.getByTestId('publish-done').filter({ hasText: 'Published version 2 of Turbine hall' }).waitFor();
+  await shot(page, 'admin-routes-published-wide');
+
+  await page.getByTestId('nav-admin-instruments').click();
+  await page.getByTestId(`admin-instrument-${TAG}`).click();
+  await page.getByTestId('instrument-edit').waitFor();
+  await page.getByTestId('instrument-edit-interval').fill('0');
+  await page.getByTestId('instrument-edit-save').click();
+  await page.getByTestId('instrument-edit-interval-error').waitFor();
+  await page.getByTestId('instrument-edit-interval').fill('200');
+  await page.getByTestId('instrument-edit-save').click();
+  await page.getByTestId('instrument-edit-saved').filter({ hasText: 'calibration interval changed' }).waitFor();
+  await shot(page, 'admin-instrument-edit-wide');
+  await page.getByTestId('instrument-edit-close').click();
+  await page.getByTestId(`admin-instrument-${TAG}`).filter({ hasText: '200' }).waitFor();
+  await context.close();
 });

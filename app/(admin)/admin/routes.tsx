@@ -1,0 +1,5 @@
+import { RoutesScreen } from '@/screens/admin/routes-screen';
+
+export default function Page() {
+  return <RoutesScreen />;
+}

@@ -1,0 +1,256 @@
+/**
+ * Every route of the app and who may call it, checked against the running app's router stack:
+ * a route missing from GUARDS (a new route nobody thought to guard) or a GUARDS line whose route
+ * is gone fails the first test. Then, for each route: no token → 401 (RFC 6750 §3.1); each
+ * Fernhallow demo role gets past the guard or gets 403 (RFC 9110 §15.5.4) / 404 as designed; the
+ * Brackenmoor planner with Fernhallow ids gets 404 (RFC 9110 §15.5.5: a resource of another site
+ * does not exist for them), so nothing of one site leaks to another.
+ *
+ * "Gets past the guard" means: no 401, no 403, no 5xx and not the 404 the guards give outsiders
+ * (GUARD_404). A body of `{}` is sent to every POST, so a caller who passes the guard gets a 400 or
+ * 415 from validation and nothing is written.
+ *
+ * Adding a route = one line in GUARDS: `'METHOD /api/path/:param': site(ROLES)` (or `{ public: true }`,
+ * `signedIn()`…); path parameters take the fixture of the same name (FIXTURE_OF), `params` maps others.
+ */
+import type { Express } from 'express';
+import request from 'supertest';
+import { runAnalysisJob } from '../../server/analysis/job';
+import { createApp } from '../../server/app';
+import { memoryLogger, testConfig } from './helpers/app';
+import { makeWorld, pushRound, type World } from './analysis-helpers';
+
+type Who = 'tech' | 'planner' | 'engineer' | 'admin';
+const ALL: readonly Who[] = ['tech', 'planner', 'engineer', 'admin'];
+const READ: readonly Who[] = ['planner', 'engineer', 'admin'];
+const ACT: readonly Who[] = ['planner', 'admin'];
+const PUSH: readonly Who[] = ['tech', 'engineer', 'admin'];
+const ADMIN: readonly Who[] = ['admin'];
+
+interface Fixtures {
+  siteId: string;
+  workOrderId: string;
+  roundId: string;
+  routeId: string;
+  photoId: string;
+  instrumentId: string;
+  tag: string;
+  action: string;
+}
+
+interface Guard {
+  /** No token needed (and none checked). */
+  public?: true;
+  /** The Fernhallow demo roles that get past the guard; the other Fernhallow roles get `denied`. */
+  allow?: readonly Who[];
+  /** What a Fernhallow member without one of the roles gets; default 403. */
+  denied?: 403 | 404;
+  /** What the Brackenmoor planner gets with Fernhallow ids; default 404; 'allowed' for routes about oneself. */
+  outsider?: 403 | 404 | 'allowed';
+  /** Path parameter → the fixture to put there, where the parameter's name does not say it. */
+  params?: Record<string, keyof Fixtures>;
+  /** Query string; `:name` is replaced like a path parameter. */
+  query?: string;
+}
+
+const site = (allow: readonly Who[], more: Partial<Guard> = {}): Guard => ({ allow, ...more });
+const signedIn = (more: Partial<Guard> = {}): Guard => ({ allow: ALL, outsider: 'allowed', ...more });
+const PUBLIC: Guard = { public: true };
+
+/** Every route, method + path as mounted. */
+const GUARDS: Record<string, Guard> = {
+  'GET /api/health': PUBLIC,
+  'POST /api/auth/sign-in': PUBLIC,
+  'POST /api/auth/refresh': PUBLIC,
+  'POST /api/auth/sign-out': signedIn(),
+  'POST /api/auth/password': signedIn(),
+  'GET /api/me': signedIn(),
+  'GET /api/sites/:siteId': site(ALL),
+  'GET /api/sites/:siteId/members': site(ADMIN),
+  'GET /api/sites/:siteId/assignees': site(READ),
+  'GET /api/sites/:siteId/work-orders': site(READ),
+  'GET /api/sites/:siteId/work-orders/:id': site(READ, { params: { id: 'workOrderId' } }),
+  'POST /api/sites/:siteId/work-orders/:id/:action': site(ACT, { params: { id: 'workOrderId' } }),
+  'GET /api/sites/:siteId/instruments': site(READ),
+  'GET /api/sites/:siteId/instruments/:tag/history': site(READ),
+  'PATCH /api/sites/:siteId/instruments/:instrumentId': site(ADMIN),
+  'GET /api/sites/:siteId/rounds': site(['planner', 'engineer']),
+  'GET /api/sites/:siteId/rounds/:roundId/analysis': site(READ),
+  'GET /api/sites/:siteId/analysis-jobs': site(['engineer', 'admin']),
+  'GET /api/sites/:siteId/exports/readings.csv': site(READ),
+  'GET /api/sites/:siteId/exports/work-orders.csv': site(READ),
+  'POST /api/sites/:siteId/invitations': site(ADMIN),
+  'POST /api/sites/:siteId/routes/:routeId/versions': site(ADMIN),
+  // planners walk no rounds: no push role on any site, so 403 for them wherever they are
+  'POST /api/sync/push': site(PUSH, { outsider: 403 }),
+  'GET /api/sync/pull': site(ALL, { query: 'siteId=:siteId' }),
+  // uploads: the round's own technician or a site admin (server/sync/access.ts mayWriteRound)
+  'POST /api/photos/:id': site(['tech', 'admin'], { params: { id: 'photoId' } }),
+  'GET /api/photos/:id': site(ALL, { params: { id: 'photoId' } }),
+  'GET /api/photos/:id/thumb': site(ALL, { params: { id: 'photoId' } }),
+  // dev-only (404 unless the mail fake runs, checked below); admins of any site
+  'GET /api/dev/mailbox': site(ADMIN, { outsider: 403 }),
+};
+
+/** The 404 bodies' messages the guards give a caller who may not know the thing exists. */
+const GUARD_404 = new Set(['Site not found', 'Photo not found']);
+
+/** Default fixture of a path parameter by its name. */
+const FIXTURE_OF: Record<string, keyof Fixtures> = {
+  siteId: 'siteId',
+  roundId: 'roundId',
+  routeId: 'routeId',
+  tag: 'tag',
+  action: 'action',
+  workOrderId: 'workOrderId',
+  photoId: 'photoId',
+  instrumentId: 'instrumentId',
+};
+
+// ---------------------------------------------------------------------------------------------
+
+interface StackLayer {
+  route?: { path: string | string[]; methods: Record<string, boolean> };
+  handle?: { stack?: StackLayer[] };
+  rawPath?: string | string[] | RegExp;
+}
+
+/** `METHOD /path` of every route in an Express 5 app, nested routers included (router 2.x layers). */
+function routesOf(app: Express): string[] {
+  const out: string[] = [];
+  const norm = (p: string) => (p.length > 1 ? p.replace(/\/+$/, '') : p);
+  const walk = (stack: StackLayer[], prefix: string) => {
+    for (const layer of stack) {
+      if (layer.route) {
+        const paths = Array.isArray(layer.route.path) ? layer.route.path : [layer.route.path];
+        for (const p of paths) for (const m of Object.keys(layer.route.methods)) out.push(`${m.toUpperCase()} ${norm(prefix + p)}`);
+      } else if (layer.handle?.stack) {
+        if (typeof layer.rawPath !== 'string') throw new Error(`a router mounted at ${String(layer.rawPath)}: only string mount paths are understood here`);
+        walk(layer.handle.stack, layer.rawPath === '/' ? prefix : prefix + layer.rawPath);
+      }
+    }
+  };
+  walk((app as unknown as { router: { stack: StackLayer[] } }).router.stack, '');
+  return out;
+}
+
+let w: World;
+let app: Express;
+let f: Fixtures;
+const tokens = {} as Record<Who | 'brack', string>;
+
+beforeAll(async () => {
+  w = await makeWorld();
+  // the mail fake's mailbox on, as `npm run dev` has it
+  app = createApp({ config: testConfig(w.db.url), dataSource: w.db.dataSource, devMailbox: true });
+  Object.assign(tokens, { tech: w.tokens.tech, planner: w.tokens.planner, engineer: w.tokens.engineer, admin: w.tokens.admin, brack: w.tokens.brackPlanner });
+  // a round with a photo announced, and a thermometer biased far enough to open a work order
+  const r = await pushRound(w, { bias: { 'TI-102A': 10 }, photos: ['PI-101'] });
+  await runAnalysisJob({ dataSource: w.db.dataSource, logger: memoryLogger('silent').logger }, r.roundId);
+  const [wo] = (await w.db.dataSource.query(`SELECT "id" FROM "work_orders" WHERE "site_id" = $1 LIMIT 1`, [w.fernId])) as { id: string }[];
+  const [route] = (await w.db.dataSource.query(`SELECT "id" FROM "routes" WHERE "site_id" = $1 LIMIT 1`, [w.fernId])) as { id: string }[];
+  expect(wo).toBeDefined();
+  f = { siteId: w.fernId, workOrderId: wo.id, roundId: r.roundId, routeId: route.id, photoId: r.photoIds['PI-101'], instrumentId: w.inst['TI-102A'], tag: 'TI-102A', action: 'comment' };
+});
+afterAll(() => w?.db.drop());
+
+function urlOf(key: string, g: Guard): { method: string; url: string } {
+  const [method, path] = key.split(' ');
+  const fill = (s: string) =>
+    s.replace(/:(\w+)/g, (_m, name: string) => {
+      const which = g.params?.[name] ?? FIXTURE_OF[name];
+      if (!which) throw new Error(`${key}: no fixture for :${name}; add it to FIXTURE_OF or to the line's params`);
+      return encodeURIComponent(f[which]);
+    });
+  return { method, url: fill(path) + (g.query ? `?${fill(g.query)}` : '') };
+}
+
+function call(key: string, g: Guard, token?: string) {
+  const { method, url } = urlOf(key, g);
+  let req = request(app)[method.toLowerCase() as 'get' | 'post' | 'put' | 'patch' | 'delete'](url);
+  if (token) req = req.set('Authorization', `Bearer ${token}`);
+  if (method !== 'GET' && method !== 'HEAD') req = req.send({});
+  return req;
+}
+
+function expectPastGuard(key: string, who: string, res: request.Response) {
+  const why = `${key} as ${who}: ${res.status} ${JSON.stringify(res.body?.error ?? '')}`;
+  if ([401, 403].includes(res.status) || res.status >= 500 || (res.status === 404 && GUARD_404.has(res.body?.error?.message))) {
+    throw new Error(`expected to get past the guard: ${why}`);
+  }
+}
+
+test('GUARDS lists exactly the routes the app has (a new route needs its line here)', () => {
+  const actual = routesOf(app).sort();
+  const listed = Object.keys(GUARDS).sort();
+  expect(actual.length).toBeGreaterThan(20);
+  expect({ missingFromTable: actual.filter((r) => !(r in GUARDS)), goneFromApp: listed.filter((r) => !actual.includes(r)) }).toEqual({
+    missingFromTable: [],
+    goneFromApp: [],
+  });
+  // every table line says who may call it
+  for (const [k, g] of Object.entries(GUARDS)) expect({ k, ok: !!g.public || (g.allow?.length ?? 0) > 0 }).toEqual({ k, ok: true });
+});
+
+test('the route walker sees a route added later (so the check above can fail)', () => {
+  const extra = createApp({ config: testConfig(w.db.url), dataSource: w.db.dataSource });
+  const before = routesOf(extra).length;
+  // not reachable (after the catch-all); only its presence in the stack matters here
+  extra.patch('/api/sites/:siteId/instruments/:id', (_req, res) => void res.end());
+  expect(routesOf(extra)).toHaveLength(before + 1);
+  expect(routesOf(extra)).toContain('PATCH /api/sites/:siteId/instruments/:id');
+});
+
+describe.each(Object.entries(GUARDS))('%s', (key, g) => {
+  if (g.public) {
+    test('public: answers without a token', async () => {
+      const res = await call(key, g);
+      expect(res.status).not.toBe(401);
+      expect(res.status).toBeLessThan(500);
+    });
+    return;
+  }
+
+  test('no token or a garbage one → 401 unauthorized', async () => {
+    for (const t of [undefined, 'not-a-jwt']) {
+      const res = await call(key, g, t);
+      expect({ key, status: res.status, code: res.body?.error?.code }).toEqual({ key, status: 401, code: 'unauthorized' });
+    }
+  });
+
+  test(`Fernhallow roles: ${g.allow!.join(', ')} get past the guard, the others ${g.denied ?? 403}`, async () => {
+    for (const who of ALL) {
+      const res = await call(key, g, tokens[who]);
+      if (g.allow!.includes(who)) expectPastGuard(key, who, res);
+      else {
+        const denied = g.denied ?? 403;
+        expect({ who, status: res.status, code: res.body?.error?.code }).toEqual({ who, status: denied, code: denied === 403 ? 'forbidden' : 'not_found' });
+      }
+    }
+  });
+
+  test(`the Brackenmoor planner with Fernhallow ids → ${g.outsider ?? 404}`, async () => {
+    const res = await call(key, g, tokens.brack);
+    const outsider = g.outsider ?? 404;
+    if (outsider === 'allowed') return expectPastGuard(key, 'planner@brackenmoor', res);
+    expect(res.status).toBe(outsider);
+    if (outsider === 404) {
+      // the guard's own 404, not "your work order does not exist" (which would say the site does)
+      expect(GUARD_404.has(res.body.error.message)).toBe(true);
+    } else expect(res.body.error.code).toBe('forbidden');
+  });
+});
+
+test('dev-only: without the mail fake GET /api/dev/mailbox is 404 even for an admin', async () => {
+  const prod = createApp({ config: testConfig(w.db.url), dataSource: w.db.dataSource, devMailbox: false });
+  const res = await request(prod).get('/api/dev/mailbox').set('Authorization', `Bearer ${tokens.admin}`);
+  expect(res.status).toBe(404);
+  expect(res.body.error.code).toBe('not_found');
+});
+
+test('a Fernhallow work order asked for under the Brackenmoor site id → 404 for the Brackenmoor planner too', async () => {
+  const res = await request(app).get(`/api/sites/${w.brackId}/work-orders/${f.workOrderId}`).set('Authorization', `Bearer ${tokens.brack}`);
+  expect(res.status).toBe(404);
+  const round = await request(app).get(`/api/sites/${w.brackId}/rounds/${f.roundId}/analysis`).set('Authorization', `Bearer ${tokens.brack}`);
+  expect(round.status).toBe(404);
+});
