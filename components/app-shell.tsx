@@ -1,4 +1,4 @@
-import { Link, usePathname } from 'expo-router';
+import { Link, usePathname, useRouter } from 'expo-router';
 import type { ReactNode } from 'react';
 import { Pressable, ScrollView, StyleSheet, View } from 'react-native';
 import { SafeAreaView } from 'react-native-safe-area-context';
@@ -24,6 +24,8 @@ export function AppShell({ nav, title, children }: { nav: NavItem[]; title: stri
   const wide = useWide();
   const pathname = usePathname();
   const { user, membership, signOut } = useSession();
+  const router = useRouter();
+  const password = <Button testID="password-open" label="Password" kind="inverse" onPress={() => router.push('/password' as never)} />;
   // The group's title heads its home only; deeper screens carry their own heading.
   const heading = pathname === nav[0]?.href ? <ThemedText variant="heading" accessibilityRole="header">{title}</ThemedText> : null;
 
@@ -54,6 +56,7 @@ export function AppShell({ nav, title, children }: { nav: NavItem[]; title: stri
       <ThemedText variant="caption" style={{ color: wide ? colors.onPrimary : colors.textMuted }} testID="shell-user">
         {user?.name} · {membership?.siteName}
       </ThemedText>
+      {password}
       <Button testID="sign-out" label="Sign out" kind="inverse" onPress={() => void signOut()} />
     </View>
   );
@@ -77,7 +80,10 @@ export function AppShell({ nav, title, children }: { nav: NavItem[]; title: stri
     <SafeAreaView style={[styles.flex, { backgroundColor: colors.background }]}>
       <View style={[styles.top, { backgroundColor: colors.primary }]}>
         <ThemedText variant="title" style={{ color: colors.onPrimary }}>Trueround</ThemedText>
-        <Button testID="sign-out" label="Sign out" kind="inverse" onPress={() => void signOut()} />
+        <View style={styles.topActions}>
+          {password}
+          <Button testID="sign-out" label="Sign out" kind="inverse" onPress={() => void signOut()} />
+        </View>
       </View>
       <ScrollView style={styles.flex} contentContainerStyle={styles.content}>
         {heading}
@@ -102,5 +108,6 @@ const styles = StyleSheet.create({
   bottomItem: { flex: 1, minHeight: touchTarget + 8, alignItems: 'center', justifyContent: 'center', borderTopWidth: 4 },
   top: { flexDirection: 'row', alignItems: 'center', justifyContent: 'space-between', paddingHorizontal: space.lg, paddingVertical: space.sm },
   account: { gap: space.sm },
+  topActions: { flexDirection: 'row', gap: space.sm },
   content: { padding: space.lg, gap: space.lg, maxWidth: 1100, width: '100%' },
 });

@@ -7,7 +7,7 @@ import AsyncStorage from '@react-native-async-storage/async-storage';
 import { useQueryClient } from '@tanstack/react-query';
 import { createContext, useCallback, useContext, useEffect, useMemo, useRef, useState, type ReactNode } from 'react';
 import { z } from 'zod';
-import { RefreshResponse, SignInResponse, UserView } from '@/shared/api/auth';
+import { RefreshResponse, SignInResponse, TokenPair, UserView } from '@/shared/api/auth';
 import { ApiError, authedRequest, rawRequest, type TokenSource } from './api-client';
 
 const STORAGE_KEY = 'trueround.session';
@@ -40,6 +40,8 @@ interface SessionValue {
   membership: SessionUser['memberships'][number] | null;
   signIn(email: string, password: string): Promise<SessionUser>;
   signOut(): Promise<void>;
+  /** Sets a new password; the server ends every other session and hands this one new tokens. */
+  changePassword(currentPassword: string, newPassword: string): Promise<void>;
   chooseSite(siteId: string): void;
   request<T>(path: string, init?: RequestInit & { json?: unknown }): Promise<T>;
 }
@@ -129,6 +131,10 @@ export function SessionProvider({ children }: { children: ReactNode }) {
         }
         queryClient.clear();
         await save(null);
+      },
+      async changePassword(currentPassword, newPassword) {
+        const r = TokenPair.parse(await authedRequest(tokens, '/api/auth/password', { method: 'POST', json: { currentPassword, newPassword } }));
+        if (ref.current) await save({ ...ref.current, accessToken: r.accessToken, refreshToken: r.refreshToken });
       },
       chooseSite(siteId) {
         if (ref.current) void save({ ...ref.current, siteId });

@@ -247,18 +247,22 @@ test('the admin invites a person, sees the site’s people, its instruments as c
       await kim.page.waitForURL('**/eng');
       await kim.page.getByTestId('nav-eng-instruments').waitFor();
       expect(await kim.page.getByTestId('nav-admin-people').count()).toBe(0);
-      await kim.context.close();
-      // sets a password of their own (POST /api/auth/password; the app has no screen for it yet) …
-      const s = await fetch(`${server.url}/api/auth/sign-in`, { method: 'POST', headers: { 'Content-Type': 'application/json' }, body: JSON.stringify({ email: 'kim.ward@fernhallow.example', password }) });
-      expect(s.status).toBe(200);
-      const { accessToken } = (await s.json()) as { accessToken: string };
+      // sets a password of their own on the password screen (from the shell's "Password") …
       const chosen = 'kestrel over the cooling tower 7';
-      const change = await fetch(`${server.url}/api/auth/password`, {
-        method: 'POST',
-        headers: { 'Content-Type': 'application/json', Authorization: `Bearer ${accessToken}` },
-        body: JSON.stringify({ currentPassword: password, newPassword: chosen }),
-      });
-      expect(change.status).toBe(200);
+      await kim.page.getByTestId('password-open').click();
+      await kim.page.waitForURL('**/password');
+      await kim.page.getByTestId('password-currentPassword').fill(password);
+      await kim.page.getByTestId('password-newPassword').fill('trueround1234');
+      await kim.page.getByTestId('password-repeat').fill('trueround1234');
+      await kim.page.getByTestId('password-submit').click();
+      // the server's policy refuses a common password, under the field it names
+      await kim.page.getByTestId('password-newPassword-error').waitFor();
+      await kim.page.getByTestId('password-newPassword').fill(chosen);
+      await kim.page.getByTestId('password-repeat').fill(chosen);
+      await kim.page.getByTestId('password-submit').click();
+      await kim.page.getByTestId('password-done').waitFor();
+      await shot(kim.page, 'password-changed-phone');
+      await kim.context.close();
       // … and from then on signs in with it, landing on the engineer's screen again; the one-time password is spent
       const again = await newPage(browser, PHONE);
       await signIn(again.page, server.url, 'kim.ward@fernhallow.example', password);
