@@ -17,7 +17,7 @@
 import { randomUUID } from 'node:crypto';
 import type { Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
-import { Client } from 'pg';
+import { ADMIN_URL, admin, databaseUrl, pct } from './bench-db';
 import { createApp } from '../server/app';
 import { runAnalysisJob } from '../server/analysis/job';
 import { startAnalysisRuntime } from '../server/analysis/queue';
@@ -31,25 +31,10 @@ import { DEMO_PASSWORD } from '../server/seed/demo-users';
 import { analyseRound, demoDesignReadings, demoUnit, type RoundReading } from '../shared/cycle';
 import { barometricFromElevation, fromSI, type Unit } from '../shared/units';
 
-const ADMIN_URL = process.env.TR_TEST_ADMIN_URL || 'postgres://trueround@127.0.0.1:54330/postgres';
 const BARO = barometricFromElevation(112);
 const SEQUENTIAL = 50;
 const CONCURRENT = 20;
 
-async function admin(sql: string): Promise<void> {
-  const c = new Client({ connectionString: ADMIN_URL });
-  await c.connect();
-  try {
-    await c.query(sql);
-  } finally {
-    await c.end();
-  }
-}
-
-const pct = (xs: number[], p: number) => {
-  const s = [...xs].sort((a, b) => a - b);
-  return s[Math.min(s.length - 1, Math.ceil((p / 100) * s.length) - 1)];
-};
 const ms = (x: number) => x.toFixed(1);
 
 /** mulberry32, seeded: reproducible noise in [0, 1) */
@@ -127,9 +112,7 @@ export async function run(): Promise<void> {
   }
   const name = `tr_bench_${Date.now()}`;
   await admin(`create database "${name}"`);
-  const u = new URL(ADMIN_URL);
-  u.pathname = `/${name}`;
-  const url = u.toString();
+  const url = databaseUrl(name);
   const ds = makeDataSource(url, { poolSize: 12, applicationName: 'trueround-bench' });
   let server: Server | undefined;
   let stopRuntime: (() => Promise<void>) | undefined;

@@ -19,7 +19,7 @@
  */
 import type { Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
-import { Client } from 'pg';
+import { admin, databaseUrl, pct } from './bench-db';
 import { createApp } from '../server/app';
 import { loadConfig } from '../server/config';
 import { makeDataSource } from '../server/db';
@@ -29,33 +29,16 @@ import { DEMO_PASSWORD } from '../server/seed/demo-users';
 import { analyseRound, demoDesignReadings, demoUnit } from '../shared/cycle';
 import { barometricFromElevation } from '../shared/units';
 
-const ADMIN_URL = process.env.TR_TEST_ADMIN_URL || 'postgres://trueround@127.0.0.1:54330/postgres';
 const DAYS = Number(process.env.TR_BENCH_HISTORY_DAYS || 365);
 const COPIES = Number(process.env.TR_BENCH_HISTORY_COPIES || 10);
 const RUNS = 20;
 const BARO = barometricFromElevation(112);
 
-async function admin(sql: string): Promise<void> {
-  const c = new Client({ connectionString: ADMIN_URL });
-  await c.connect();
-  try {
-    await c.query(sql);
-  } finally {
-    await c.end();
-  }
-}
-
-const pct = (xs: number[], p: number) => {
-  const s = [...xs].sort((a, b) => a - b);
-  return s[Math.min(s.length - 1, Math.ceil((p / 100) * s.length) - 1)];
-};
 
 export async function run(): Promise<void> {
   const name = `tr_bench_history_${Date.now()}`;
   await admin(`create database "${name}"`);
-  const u = new URL(ADMIN_URL);
-  u.pathname = `/${name}`;
-  const url = u.toString();
+  const url = databaseUrl(name);
   const ds = makeDataSource(url, { poolSize: 6, applicationName: 'trueround-bench' });
   let server: Server | undefined;
   try {

@@ -8,16 +8,14 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { useRouter } from 'expo-router';
 import { useState } from 'react';
 import { Controller, useForm } from 'react-hook-form';
-import { KeyboardAvoidingView, ScrollView, StyleSheet, View } from 'react-native';
 import { z } from 'zod';
 import { Button } from '@/components/button';
 import { Card } from '@/components/card';
+import { FormPage } from '@/components/form-page';
 import { Field } from '@/components/field';
 import { ThemedText } from '@/components/themed-text';
-import { space } from '@/constants/theme';
 import { ApiError } from '@/hooks/api-client';
 import { homeFor, useSession } from '@/hooks/session';
-import { useTheme } from '@/hooks/use-theme';
 
 /** The server's minimum (server/auth/password-policy.ts PASSWORD_MIN), checked here first. */
 export const NEW_PASSWORD_MIN = 12;
@@ -33,7 +31,6 @@ type PasswordForm = z.infer<typeof passwordFormSchema>;
 const FIELDS = ['currentPassword', 'newPassword', 'repeat'] as const;
 
 export function PasswordScreen() {
-  const { colors } = useTheme();
   const { changePassword, membership } = useSession();
   const router = useRouter();
   const [failure, setFailure] = useState<string | null>(null);
@@ -87,38 +84,28 @@ export function PasswordScreen() {
   );
 
   return (
-    <KeyboardAvoidingView style={[styles.flex, { backgroundColor: colors.background }]} behavior="padding">
-      <ScrollView contentContainerStyle={styles.center}>
-        <View style={styles.column}>
-          <Card>
-            <ThemedText variant="title" accessibilityRole="header">Your password</ThemedText>
-            <ThemedText muted>
-              At least {NEW_PASSWORD_MIN} characters; a few unrelated words make a good one. Not your e-mail address, not a common password.
-            </ThemedText>
-            {field('currentPassword', 'Current password', 'current-password')}
-            {field('newPassword', 'New password', 'new-password')}
-            {field('repeat', 'New password again', 'new-password')}
-            {failure ? (
-              <ThemedText testID="password-failure" tone="danger" accessibilityRole="alert">
-                {failure}
-              </ThemedText>
-            ) : null}
-            {done ? (
-              <ThemedText testID="password-done" accessibilityRole="alert">
-                Password changed. Any other device signed in to this account has been signed out.
-              </ThemedText>
-            ) : null}
-            <Button testID="password-submit" label="Change password" onPress={onSubmit} busy={formState.isSubmitting} />
-            <Button testID="password-back" label="Back" kind="plain" onPress={() => router.replace(home)} />
-          </Card>
-        </View>
-      </ScrollView>
-    </KeyboardAvoidingView>
+    <FormPage>
+      <Card>
+        <ThemedText variant="title" accessibilityRole="header">Your password</ThemedText>
+        <ThemedText muted>
+          At least {NEW_PASSWORD_MIN} characters; a few unrelated words make a good one. Not your e-mail address, not a common password.
+        </ThemedText>
+        {field('currentPassword', 'Current password', 'current-password')}
+        {field('newPassword', 'New password', 'new-password')}
+        {field('repeat', 'New password again', 'new-password')}
+        {failure ? (
+          <ThemedText testID="password-failure" tone="danger" accessibilityRole="alert">
+            {failure}
+          </ThemedText>
+        ) : null}
+        {done ? (
+          <ThemedText testID="password-done" accessibilityRole="alert">
+            Password changed. Any other device signed in to this account has been signed out.
+          </ThemedText>
+        ) : null}
+        <Button testID="password-submit" label="Change password" onPress={onSubmit} busy={formState.isSubmitting} />
+        <Button testID="password-back" label="Back" kind="plain" onPress={() => router.replace(home)} />
+      </Card>
+    </FormPage>
   );
 }
-
-const styles = StyleSheet.create({
-  flex: { flex: 1 },
-  center: { flexGrow: 1, justifyContent: 'center', alignItems: 'center', padding: space.lg },
-  column: { width: '100%', maxWidth: 420, gap: space.xl },
-});

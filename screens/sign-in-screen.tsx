@@ -2,10 +2,11 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { useRouter } from 'expo-router';
 import { useState } from 'react';
 import { Controller, useForm } from 'react-hook-form';
-import { KeyboardAvoidingView, ScrollView, StyleSheet, View } from 'react-native';
+import { StyleSheet, View } from 'react-native';
 import { z } from 'zod';
 import { Button } from '@/components/button';
 import { Card } from '@/components/card';
+import { FormPage } from '@/components/form-page';
 import { Field } from '@/components/field';
 import { ThemedText } from '@/components/themed-text';
 import { space } from '@/constants/theme';
@@ -44,66 +45,59 @@ export function SignInScreen() {
   });
 
   return (
-    <KeyboardAvoidingView style={[styles.flex, { backgroundColor: colors.background }]} behavior="padding">
-      <ScrollView contentContainerStyle={styles.center}>
-        <View style={styles.column}>
-          <View style={styles.brand}>
-            <ThemedText variant="display" style={{ color: colors.primary }}>Trueround</ThemedText>
-            <ThemedText muted>Rounds readings, held against the steam tables.</ThemedText>
-          </View>
-          <Card>
-            <ThemedText variant="title" accessibilityRole="header">Sign in</ThemedText>
-            <Controller
-              control={control}
-              name="email"
-              render={({ field, fieldState }) => (
-                <Field
-                  testID="sign-in-email"
-                  label="E-mail"
-                  autoCapitalize="none"
-                  autoComplete="email"
-                  keyboardType="email-address"
-                  inputMode="email"
-                  value={field.value}
-                  onChangeText={field.onChange}
-                  onBlur={field.onBlur}
-                  error={fieldState.error?.message}
-                />
-              )}
+    <FormPage>
+      <View style={styles.brand}>
+        <ThemedText variant="display" style={{ color: colors.primary }}>Trueround</ThemedText>
+        <ThemedText muted>Rounds readings, held against the steam tables.</ThemedText>
+      </View>
+      <Card>
+        <ThemedText variant="title" accessibilityRole="header">Sign in</ThemedText>
+        <Controller
+          control={control}
+          name="email"
+          render={({ field, fieldState }) => (
+            <Field
+              testID="sign-in-email"
+              label="E-mail"
+              autoCapitalize="none"
+              autoComplete="email"
+              keyboardType="email-address"
+              inputMode="email"
+              value={field.value}
+              onChangeText={field.onChange}
+              onBlur={field.onBlur}
+              error={fieldState.error?.message}
             />
-            <Controller
-              control={control}
-              name="password"
-              render={({ field, fieldState }) => (
-                <Field
-                  testID="sign-in-password"
-                  label="Password"
-                  secureTextEntry
-                  autoComplete="current-password"
-                  value={field.value}
-                  onChangeText={field.onChange}
-                  onBlur={field.onBlur}
-                  onSubmitEditing={onSubmit}
-                  error={fieldState.error?.message}
-                />
-              )}
+          )}
+        />
+        <Controller
+          control={control}
+          name="password"
+          render={({ field, fieldState }) => (
+            <Field
+              testID="sign-in-password"
+              label="Password"
+              secureTextEntry
+              autoComplete="current-password"
+              value={field.value}
+              onChangeText={field.onChange}
+              onBlur={field.onBlur}
+              onSubmitEditing={onSubmit}
+              error={fieldState.error?.message}
             />
-            {failure ? (
-              <ThemedText testID="sign-in-failure" tone="danger" accessibilityRole="alert">
-                {failure}
-              </ThemedText>
-            ) : null}
-            <Button testID="sign-in-submit" label="Sign in" onPress={onSubmit} busy={formState.isSubmitting} />
-          </Card>
-        </View>
-      </ScrollView>
-    </KeyboardAvoidingView>
+          )}
+        />
+        {failure ? (
+          <ThemedText testID="sign-in-failure" tone="danger" accessibilityRole="alert">
+            {failure}
+          </ThemedText>
+        ) : null}
+        <Button testID="sign-in-submit" label="Sign in" onPress={onSubmit} busy={formState.isSubmitting} />
+      </Card>
+    </FormPage>
   );
 }
 
 const styles = StyleSheet.create({
-  flex: { flex: 1 },
-  center: { flexGrow: 1, justifyContent: 'center', alignItems: 'center', padding: space.lg },
-  column: { width: '100%', maxWidth: 420, gap: space.xl },
   brand: { gap: space.xs },
 });

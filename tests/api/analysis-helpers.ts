@@ -7,6 +7,7 @@
  */
 import { randomUUID } from 'node:crypto';
 import type { Express } from 'express';
+import type { DataSource } from 'typeorm';
 import request from 'supertest';
 import { createApp } from '../../server/app';
 import type { Notifier } from '../../server/notify';
@@ -83,14 +84,20 @@ export async function makeWorld(options: { hooks?: (ids: string[]) => void | Pro
     tokens[k] = s.accessToken;
     userIds[k] = s.user.id;
   }
-  const [fern] = (await db.dataSource.query(`SELECT "id" FROM "sites" WHERE "slug" = 'fernhallow'`)) as { id: string }[];
   const [brack] = (await db.dataSource.query(`SELECT "id" FROM "sites" WHERE "slug" = 'brackenmoor'`)) as { id: string }[];
+  const { fernId, version, inst, sigma } = await roundMaker(db.dataSource);
+  return { db, app, tokens, userIds, fernId, brackId: brack.id, version, inst, pushed, calls, notifier, sigma };
+}
+
+/** What designRound needs of a World, read from a seeded demo database. */
+export async function roundMaker(ds: DataSource): Promise<Pick<World, 'inst' | 'version' | 'sigma' | 'fernId'>> {
+  const [fern] = (await ds.query(`SELECT "id" FROM "sites" WHERE "slug" = 'fernhallow'`)) as { id: string }[];
   const version: Record<string, string> = {};
-  for (const r of (await db.dataSource.query(`SELECT "key", "current_version_id" FROM "routes"`)) as { key: string; current_version_id: string }[]) {
+  for (const r of (await ds.query(`SELECT "key", "current_version_id" FROM "routes"`)) as { key: string; current_version_id: string }[]) {
     version[r.key] = r.current_version_id;
   }
   const inst: Record<string, string> = {};
-  for (const r of (await db.dataSource.query(
+  for (const r of (await ds.query(
     `SELECT i."tag", i."id" FROM "instruments" i JOIN "units" u ON u."id" = i."unit_id" WHERE u."site_id" = $1`,
     [fern.id],
   )) as { tag: string; id: string }[]) {
@@ -99,7 +106,7 @@ export async function makeWorld(options: { hooks?: (ids: string[]) => void | Pro
   const design = analyseRound(demoUnit, demoDesignReadings(FERN_BARO), { barometricPa: FERN_BARO });
   const sigma: Record<string, number> = {};
   for (const i of design.instruments) if (i.sigma !== null) sigma[i.tag] = i.sigma;
-  return { db, app, tokens, userIds, fernId: fern.id, brackId: brack.id, version, inst, pushed, calls, notifier, sigma };
+  return { fernId: fern.id, version, inst, sigma };
 }
 
 export interface RoundOptions {

@@ -8,10 +8,9 @@ import { spawn, type ChildProcess } from 'node:child_process';
 import { createServer } from 'node:net';
 import { join } from 'node:path';
 import type { DataSource } from 'typeorm';
-import { analyseRound, demoDesignReadings, demoUnit } from '../../shared/cycle';
 import { demoUser } from '../../server/seed/demo-users';
 import { DEMO_PASSWORD } from '../../server/seed/demo-users';
-import { designRound, FERN_BARO, until, type BuiltRound, type RoundOptions, type World } from './analysis-helpers';
+import { designRound, until, type BuiltRound, type RoundOptions, type World } from './analysis-helpers';
 import { TEST_SECRET } from './helpers/app';
 
 export const ROOT = join(__dirname, '../..');
@@ -123,25 +122,7 @@ export async function http(url: string, path: string, token: string | null, body
   }
 }
 
-/** What designRound needs of a World, read from a seeded demo database. */
-export async function roundMaker(ds: DataSource): Promise<Pick<World, 'inst' | 'version' | 'sigma' | 'fernId'>> {
-  const [fern] = (await ds.query(`SELECT "id" FROM "sites" WHERE "slug" = 'fernhallow'`)) as { id: string }[];
-  const version: Record<string, string> = {};
-  for (const r of (await ds.query(`SELECT "key", "current_version_id" FROM "routes"`)) as { key: string; current_version_id: string }[]) {
-    version[r.key] = r.current_version_id;
-  }
-  const inst: Record<string, string> = {};
-  for (const r of (await ds.query(
-    `SELECT i."tag", i."id" FROM "instruments" i JOIN "units" u ON u."id" = i."unit_id" WHERE u."site_id" = $1`,
-    [fern.id],
-  )) as { tag: string; id: string }[]) {
-    inst[r.tag] = r.id;
-  }
-  const design = analyseRound(demoUnit, demoDesignReadings(FERN_BARO), { barometricPa: FERN_BARO });
-  const sigma: Record<string, number> = {};
-  for (const i of design.instruments) if (i.sigma !== null) sigma[i.tag] = i.sigma;
-  return { fernId: fern.id, version, inst, sigma };
-}
+export { roundMaker } from './analysis-helpers';
 
 export function buildRound(m: Pick<World, 'inst' | 'version' | 'sigma'>, o: RoundOptions = {}): BuiltRound {
   return designRound(m as World, o);
