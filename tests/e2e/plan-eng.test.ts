@@ -87,6 +87,15 @@ test('the planner finds the priority-1 calibration order, reads its evidence, as
   expect(await page.getByTestId(`wo-reading-${TAG}`).count()).toBeGreaterThan(0);
   await shot(page, 'plan-work-order-wide');
 
+  // markup in a comment is text on the screen: nothing runs, no element is made from it (React
+  // escapes text content; OWASP XSS prevention, rule "output encoding")
+  const hostile = `<img src=x onerror="window.__xss=1"><script>window.__xss=2</script>`;
+  await page.getByTestId('wo-comment-text').fill(hostile);
+  await page.getByTestId('wo-comment-submit').click();
+  await page.getByTestId('wo-history').getByText(hostile, { exact: false }).waitFor();
+  expect(await page.evaluate('window.__xss ?? null')).toBeNull();
+  expect(await page.locator('img[src="x"], #root script').count()).toBe(0);
+
   await page.getByTestId('wo-assign-me').click();
   await page.getByTestId('wo-assignee').filter({ hasText: 'Morgan Tilly' }).waitFor();
   await page.getByTestId('wo-triage-submit').click();
