@@ -53,8 +53,20 @@ export async function instrumentHealth(ds: DataSource, siteId: string, q: ListQu
             to_char(i."calibration_date", 'YYYY-MM-DD') AS "calibration_date", i."calibration_interval_days",
             to_char(i."calibration_date" + i."calibration_interval_days", 'YYYY-MM-DD') AS "due",
             coalesce(i."calibration_date" + i."calibration_interval_days" < (now() AT TIME ZONE 'UTC')::date, false) AS "overdue",
-            (SELECT count(*)::int FROM "findings" f JOIN "analyses" a ON a."id" = f."analysis_id" AND a."is_current"
-              WHERE f."site_id" = $1 AND f."instrument_ids" @> ARRAY[i."id"] AND f."created_at" >= $2 AND f."kind" = ANY($3::text[])) AS "flags",
+            -- A flag is one of the instrument's own readings of the window (its per-instrument row:
+            -- a reading borrowed by another route's round is not counted again) that a finding of
+            -- that analysis blames on it, as the work orders do (server/work-orders/from-findings.ts):
+            -- the only instrument named, or the reconciliation's suspect, or — no suspect among
+            -- those named — the one the balances correct most. The window runs on the reading's
+            -- time, not the analysis'.
+            (SELECT count(DISTINCT ai."analysis_id")::int FROM "analysis_instruments" ai
+               JOIN "findings" f ON f."analysis_id" = ai."analysis_id" AND f."instrument_ids" @> ARRAY[i."id"] AND f."kind" = ANY($3::text[])
+              WHERE ai."instrument_id" = i."id" AND ai."is_current" AND ai."measured_at" >= $2
+                AND (cardinality(f."instrument_ids") = 1 OR ai."suspect"
+                     OR (NOT EXISTS (SELECT 1 FROM "analysis_instruments" o
+                                      WHERE o."analysis_id" = ai."analysis_id" AND o."instrument_id" = ANY(f."instrument_ids") AND o."suspect")
+                         AND coalesce(abs(ai."z"), -1) >= ALL (SELECT coalesce(abs(o."z"), -1) FROM "analysis_instruments" o
+                                                               WHERE o."analysis_id" = ai."analysis_id" AND o."instrument_id" = ANY(f."instrument_ids"))))) AS "flags",
             s."n", s."mean_abs_z", s."bias"
        FROM "instruments" i
        JOIN "units" u ON u."id" = i."unit_id"

@@ -100,7 +100,7 @@ export const InstrumentHealth = z.object({
   siUnit: z.string(),
   gaugeUnit: z.string(),
   status: InstrumentStatus,
-  /** findings naming the instrument in the round analyses of the last 30 days (current analyses only) */
+  /** the instrument's own readings of the last 30 days (by reading time, current analyses only) that a finding blamed on it (the only one named, the suspect, or the most corrected) */
   flags30d: z.number().int(),
   /** analyses of the last 30 days that reconciled it */
   samples30d: z.number().int(),

@@ -22,8 +22,9 @@ const day = (n: number) => new Date(Date.now() - n * DAY).toISOString();
 beforeAll(async () => {
   w = await makeWorld();
   const deps = { dataSource: w.db.dataSource, logger: memoryLogger('silent').logger };
-  // oldest first: days 5 and 4 at design, days 3, 2, 1 with TI-102A 10σ high
-  for (const [n, biased] of [[5, false], [4, false], [3, true], [2, true], [1, true]] as const) {
+  // oldest first: day 40 with TI-102A 10σ high (pushed and analysed now, read outside the 30-day
+  // window), days 5 and 4 at design, days 3, 2, 1 with TI-102A 10σ high
+  for (const [n, biased] of [[40, true], [5, false], [4, false], [3, true], [2, true], [1, true]] as const) {
     const r = await pushRound(w, { deviceTime: day(n), ...(biased ? { bias: { 'TI-102A': 10 } } : {}) });
     expect((await runAnalysisJob(deps, r.roundId)).status).toBe('stored');
   }
@@ -43,8 +44,9 @@ test('health: flags, mean |z|, signed bias in SI, calibration due, status and op
   expect(all.instruments.length).toBe(demoUnit.instruments.length + 1);
 
   const a = by.get('TI-102A')!;
-  // 3 rounds × (gross error + twin disagreement) name it
-  expect(a.flags30d).toBe(6);
+  // 3 readings of the window named (each by a gross error and a twin disagreement); the day-40
+  // reading, analysed just now, is outside the window
+  expect(a.flags30d).toBe(3);
   expect(a.samples30d).toBe(5);
   expect(a.siUnit).toBe('K');
   expect(a.biasSi30d! / w.sigma['TI-102A']).toBeGreaterThan(5.5);
@@ -54,8 +56,9 @@ test('health: flags, mean |z|, signed bias in SI, calibration due, status and op
   expect(a.openWorkOrders).toMatchObject([{ number: 'WO-0001', kind: 'calibrate', status: 'open' }]);
 
   const b = by.get('TI-102B')!;
-  // the twin disagreement names both; the balances clear TI-102B
-  expect(b.flags30d).toBe(3);
+  // the twin disagreement names both on those 3 rounds, but the balances clear TI-102B and name
+  // TI-102A: the flag is TI-102A's
+  expect(b.flags30d).toBe(0);
   expect(Math.abs(b.biasSi30d!) / w.sigma['TI-102B']).toBeLessThan(1);
   expect(b.status).toBe('ok');
   expect(b.openWorkOrders).toEqual([]);
@@ -91,10 +94,12 @@ test('history: readings against reconciled values and σ, in device time, within
   const h = res.body as InstrumentHistoryResponse;
   expect(h.instrument).toMatchObject({ tag: 'TI-102A', quantity: 'temperature', siUnit: 'K', status: 'suspect' });
   expect(h.truncated).toBe(false);
-  expect(h.points).toHaveLength(5);
+  // the default 90 days hold the day-40 reading too
+  expect(h.points).toHaveLength(6);
   const times = h.points.map((p) => Date.parse(p.measuredAt));
   expect([...times].sort((x, y) => x - y)).toEqual(times);
-  const [d5, d4, d3] = h.points;
+  const [d40, d5, d4, d3] = h.points;
+  expect(d40.suspect).toBe(true);
   expect(d5.findings).toEqual([]);
   expect(d5.suspect).toBe(false);
   expect(d3.suspect).toBe(true);
