@@ -61,7 +61,7 @@ function server(path: string, init?: { method?: string; json?: { template: unkno
 
 function setup() {
   mockRequest.mockImplementation(server);
-  const qc = new QueryClient({ defaultOptions: { queries: { retry: false }, mutations: { retry: false } } });
+  const qc = new QueryClient({ defaultOptions: { queries: { retry: false, gcTime: Infinity }, mutations: { retry: false, gcTime: Infinity } } });
   render(
     <QueryClientProvider client={qc}>
       <RoutesScreen />

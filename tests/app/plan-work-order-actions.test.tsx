@@ -119,7 +119,7 @@ test('a calibration order asks for as found and as left before it closes (the se
     if (path.includes('/work-orders/')) return Promise.resolve({ ...wo, status: 'done', allowedActions: [] });
     return Promise.resolve({ items: [], total: 0, limit: 50, offset: 0 });
   });
-  const qc = new QueryClient({ defaultOptions: { queries: { retry: false, staleTime: Infinity, gcTime: Infinity } } });
+  const qc = new QueryClient({ defaultOptions: { queries: { retry: false, staleTime: Infinity, gcTime: Infinity }, mutations: { gcTime: Infinity } } });
   qc.setQueryData(workOrderKeys.detail(SITE, wo.id), { ...wo, status: 'in-progress', allowedActions: ['close', 'cancel', 'comment'] });
   render(
     <QueryClientProvider client={qc}>
