@@ -3,30 +3,16 @@
  * processor, several times that the first time, while the engine's code compiles) never holds
  * up a tap. Falls back to the page's thread when a worker cannot be started.
  */
-import { reviewRound, type ReviewInput } from '@/shared/review';
-import type { ReviewRun } from './review-runner';
+import type { ReviewInput } from '@/shared/review';
+import { reviewOnThisThread as mainThread, type ReviewRun } from './review-on-this-thread';
 
-export type { ReviewRun } from './review-runner';
+export type { ReviewRun } from './review-on-this-thread';
 
 type Reply = { id: number; ok: true; review: ReviewRun['review'] | null; ms: number } | { id: number; ok: false; message: string; ms: number };
 
 let worker: Worker | null | undefined;
 let seq = 0;
 const waiting = new Map<number, { resolve(r: Reply): void; reject(e: Error): void }>();
-
-function mainThread(input: ReviewInput): Promise<ReviewRun> {
-  return new Promise((resolve, reject) => {
-    setTimeout(() => {
-      try {
-        const t0 = performance.now();
-        const review = reviewRound(input);
-        resolve({ review, ms: performance.now() - t0, where: 'main thread' });
-      } catch (e) {
-        reject(e instanceof Error ? e : new Error(String(e)));
-      }
-    }, 0);
-  });
-}
 
 function theWorker(): Worker | null {
   if (worker !== undefined) return worker;

@@ -142,7 +142,7 @@ test('the unit-level analysis of a turbine-hall round holds every state point an
   const modelTags = new Set(demoUnit.instruments.map((i) => i.tag));
   expect(a.readingOrigins!.filter((o) => !o.own).length).toBe([...modelTags].filter((t) => !own.has(t)).length);
   expect(a.readingOrigins!.filter((o) => !o.own).length).toBeGreaterThan(5);
-  // the boiler-house round, 24 h before the biased round, is outside its 12 h window: nothing borrowed from it
+  // the boiler-house round, 24 h before the biased round, is outside its 4 h window: nothing borrowed from it
   const b = (await api(w, 'engineer').get(`${base()}/rounds/${biased.roundId}/analysis`)).body as RoundAnalysisResponse;
   expect(b.readingOrigins!.every((o) => o.own)).toBe(true);
 });
