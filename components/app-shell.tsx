@@ -4,6 +4,7 @@ import { Pressable, ScrollView, StyleSheet, View } from 'react-native';
 import { SafeAreaView } from 'react-native-safe-area-context';
 import { space, touchTarget } from '@/constants/theme';
 import { useSession } from '@/hooks/session';
+import { useSignOut } from '@/offline/use-offline';
 import { useTheme } from '@/hooks/use-theme';
 import { useWide } from '@/hooks/use-wide';
 import { Button } from './button';
@@ -23,7 +24,8 @@ export function AppShell({ nav, title, children }: { nav: NavItem[]; title: stri
   const { colors } = useTheme();
   const wide = useWide();
   const pathname = usePathname();
-  const { user, membership, signOut } = useSession();
+  const { user, membership } = useSession();
+  const signOut = useSignOut();
   const router = useRouter();
   const password = <Button testID="password-open" label="Password" kind="inverse" onPress={() => router.push('/password' as never)} />;
   // The group's title heads its home only; deeper screens carry their own heading.

@@ -55,6 +55,18 @@ export interface ActionDeps {
   clock: Clock;
   /** Lower-case hex SHA-256 of the bytes; defaults to Web Crypto (`crypto.subtle`). */
   sha256?: (bytes: Uint8Array) => Promise<string>;
+  /**
+   * Who is signed in: every record and outbox row carries them as its author, and is pushed only
+   * while they are signed in (./sync.ts). Null: nobody (the actions refuse). Omitted: no author
+   * is kept (tests of the store alone).
+   */
+  author?: () => Author | null;
+}
+
+/** The person who made a record on this device. */
+export interface Author {
+  id: string;
+  name: string;
 }
 
 export interface RecordReadingInput {
@@ -139,8 +151,34 @@ export function createActions(deps: ActionDeps): Actions {
     return ids.uuid();
   };
 
+  /** The signed-in author, or undefined when this store keeps no authors; refuses when nobody is signed in. */
+  const author = (): Author | undefined => {
+    if (!deps.author) return undefined;
+    const a = deps.author();
+    if (!a) throw new ActionError('author', null, 'nobody is signed in on this device; sign in to record');
+    return a;
+  };
+
   async function enqueue<K extends OutboxKind>(tx: LocalDbOps, kind: K, recordId: string, payload: OutboxPayloadOf<K>) {
-    await tx.run('INSERT INTO outbox (kind, record_id, payload, created_at) VALUES (?, ?, ?, ?)', [kind, recordId, JSON.stringify(payload), now()]);
+    const a = author();
+    await tx.run('INSERT INTO outbox (kind, record_id, payload, created_at, author_id, author_name) VALUES (?, ?, ?, ?, ?, ?)', [
+      kind,
+      recordId,
+      JSON.stringify(payload),
+      now(),
+      a?.id ?? null,
+      a?.name ?? null,
+    ]);
+  }
+
+  /** A round on this device is added to only by the person who started it (the server would refuse anyone else). */
+  async function assertAuthorOf(tx: LocalDbOps, roundId: string) {
+    const a = author();
+    if (!a) return;
+    const row = await tx.first<{ author_id: string | null; author_name: string | null }>('SELECT author_id, author_name FROM rounds WHERE id = ?', [roundId]);
+    if (row?.author_id && row.author_id !== a.id) {
+      throw new ActionError('roundId', roundId, `this round was started by ${row.author_name ?? 'another person'} on this device; only they add to it`);
+    }
   }
 
   async function roundPayload(tx: LocalDbOps, roundId: string): Promise<OutboxPayloadOf<'round'>> {
@@ -165,6 +203,7 @@ export function createActions(deps: ActionDeps): Actions {
   async function openRound(tx: LocalDbOps, roundId: string): Promise<{ round: LocalRound; version: LocalRouteVersion; unitId: string }> {
     const round = await store.getRound(roundId, tx);
     if (!round) throw new ActionError('roundId', roundId, 'no such round on this device');
+    await assertAuthorOf(tx, roundId);
     if (round.status !== 'in-progress') throw new ActionError('roundId', roundId, 'this round is finished; start a new round to record more');
     const version = await store.getRouteVersion(round.routeVersionId, tx);
     if (!version) throw new ActionError('roundId', roundId, `the round's route version ${round.routeVersionId} is missing or damaged on this device`);
@@ -190,10 +229,13 @@ export function createActions(deps: ActionDeps): Actions {
         const version = await store.getRouteVersion(routeVersionId, tx);
         if (!version) throw new ActionError('routeVersionId', routeVersionId, 'no such route version on this device; pull reference data first');
         const payload = wire(PushRound, { id, routeVersionId, startedAt: now(), finishedAt: null, status: 'in-progress', dismissals: [] });
-        await tx.run(`INSERT INTO rounds (id, route_version_id, status, started_at, finished_at) VALUES (?, ?, 'in-progress', ?, NULL)`, [
+        const a = author();
+        await tx.run(`INSERT INTO rounds (id, route_version_id, status, started_at, finished_at, author_id, author_name) VALUES (?, ?, 'in-progress', ?, NULL, ?, ?)`, [
           id,
           routeVersionId,
           payload.startedAt,
+          a?.id ?? null,
+          a?.name ?? null,
         ]);
         await enqueue(tx, 'round', id, payload);
         return (await store.getRound(id, tx))!;
@@ -340,9 +382,9 @@ export function createActions(deps: ActionDeps): Actions {
             bytes: input.bytes.length,
           });
           await tx.run(
-            `INSERT INTO photos (id, round_id, reading_id, check_id, mime, sha256, byte_size, data, device_time)
-             VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)`,
-            [id, payload.roundId, payload.readingId ?? null, payload.checkId ?? null, payload.mime, payload.sha256, payload.bytes, input.bytes, now()],
+            `INSERT INTO photos (id, round_id, reading_id, check_id, mime, sha256, byte_size, data, device_time, author_id)
+             VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+            [id, payload.roundId, payload.readingId ?? null, payload.checkId ?? null, payload.mime, payload.sha256, payload.bytes, input.bytes, now(), author()?.id ?? null],
           );
           await enqueue(tx, 'photo', id, payload);
         }
@@ -359,6 +401,7 @@ export function createActions(deps: ActionDeps): Actions {
         const r = await store.getRound(roundId, tx);
         if (!r) throw new ActionError('roundId', roundId, 'no such round on this device');
         if (r.status === 'finished') return r;
+        await assertAuthorOf(tx, roundId);
         await tx.run(`UPDATE rounds SET status = 'finished', finished_at = ? WHERE id = ?`, [now(), roundId]);
         await enqueue(tx, 'round', roundId, await roundPayload(tx, roundId));
         return (await store.getRound(roundId, tx))!;

@@ -11,6 +11,10 @@
  *  2. flags-and-dismissals: what the phone flagged at the gauge (reading flags, confirmed after a
  *     flag) and what the technician dismissed, for sync payload version 2; waiting outbox rows
  *     are rewritten to payload version 2.
+ *  3. authors: who made each outbox row, round and photo (the signed-in user's id and name). The
+ *     sync client pushes only the signed-in person's rows; another person's wait on the device
+ *     until they sign in here again (./sync.ts). Rows from before have no author and go with
+ *     whoever signs in next, as they did.
  */
 import { StoreVersionError } from './errors';
 import type { LocalDb, LocalDbOps } from './local-db';
@@ -186,7 +190,22 @@ const v2: Migration = {
   },
 };
 
-export const MIGRATIONS: readonly Migration[] = [v1, v2];
+const v3: Migration = {
+  version: 3,
+  name: 'authors',
+  async up(tx) {
+    await tx.exec(`
+      ALTER TABLE outbox ADD COLUMN author_id TEXT;
+      ALTER TABLE outbox ADD COLUMN author_name TEXT;
+      ALTER TABLE rounds ADD COLUMN author_id TEXT;
+      ALTER TABLE rounds ADD COLUMN author_name TEXT;
+      ALTER TABLE photos ADD COLUMN author_id TEXT;
+      CREATE INDEX ix_outbox_author ON outbox(state, author_id, seq);
+    `);
+  },
+};
+
+export const MIGRATIONS: readonly Migration[] = [v1, v2, v3];
 export const LATEST_SCHEMA_VERSION = MIGRATIONS[MIGRATIONS.length - 1].version;
 
 export async function schemaVersion(db: LocalDbOps): Promise<number> {

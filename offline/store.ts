@@ -112,9 +112,29 @@ export interface RefusedItem {
   refusedAt: string;
 }
 
+/**
+ * Whose outbox rows a sync run takes: the signed-in user's id (their rows and rows that carry no
+ * author), or undefined for every row (a store without authors).
+ */
+export type AuthorScope = string | undefined;
+
+/** `AND (<col> IS NULL OR <col> = ?)` for a scope, with its parameter. */
+function byAuthor(scope: AuthorScope, column = 'author_id'): { sql: string; params: string[] } {
+  return scope === undefined ? { sql: '', params: [] } : { sql: ` AND (${column} IS NULL OR ${column} = ?)`, params: [scope] };
+}
+
+/** Records another person made on this device, waiting until they sign in here again. */
+export interface OthersWaiting {
+  authorId: string;
+  authorName: string;
+  records: number;
+}
+
 export interface OutboxCounts {
-  /** Not yet on the server (waiting, or being pushed alone after its batch was refused). */
+  /** Not yet on the server (waiting, or being pushed alone after its batch was refused); the signed-in person's own. */
   waiting: number;
+  /** Other people's records on this device, by author: they wait for their author (never pushed as someone else). */
+  othersWaiting: OthersWaiting[];
   sent: number;
   refused: number;
   photosWaiting: number;
@@ -383,6 +403,12 @@ export class Store {
   }
 
   /** Rounds on the device, newest first; `siteId` limits to that site's routes. */
+  /** Who started the round on this device (null: not kept, a round from before authors were). */
+  async roundAuthor(roundId: string): Promise<{ id: string; name: string | null } | null> {
+    const r = await this.db.first<{ author_id: string | null; author_name: string | null }>('SELECT author_id, author_name FROM rounds WHERE id = ?', [roundId]);
+    return r?.author_id ? { id: r.author_id, name: r.author_name } : null;
+  }
+
   async listRounds(filter: { siteId?: string; status?: RoundStatus } = {}): Promise<LocalRound[]> {
     const where: string[] = [];
     const params: string[] = [];
@@ -494,13 +520,23 @@ export class Store {
 
   // ── outbox (used by the sync client) ───────────────────────────────────────────────────
 
-  async outboxCounts(): Promise<OutboxCounts> {
-    const rows = await this.db.all<{ state: string; n: number }>('SELECT state, COUNT(*) AS n FROM outbox GROUP BY state');
+  async outboxCounts(scope?: AuthorScope): Promise<OutboxCounts> {
+    const a = byAuthor(scope);
+    const rows = await this.db.all<{ state: string; n: number }>(`SELECT state, COUNT(*) AS n FROM outbox WHERE 1 = 1${a.sql} GROUP BY state`, a.params);
     const by = Object.fromEntries(rows.map((r) => [r.state, Number(r.n)]));
+    const others =
+      scope === undefined
+        ? []
+        : await this.db.all<{ author_id: string; author_name: string | null; n: number }>(
+            `SELECT author_id, MAX(author_name) AS author_name, COUNT(*) AS n FROM outbox
+              WHERE state IN ('waiting', 'isolating') AND author_id IS NOT NULL AND author_id <> ? GROUP BY author_id ORDER BY MIN(seq)`,
+            [scope],
+          );
     const photos = await this.db.all<{ upload_state: string; n: number }>('SELECT upload_state, COUNT(*) AS n FROM photos GROUP BY upload_state');
     const ph = Object.fromEntries(photos.map((r) => [r.upload_state, Number(r.n)]));
     return {
       waiting: (by.waiting ?? 0) + (by.isolating ?? 0),
+      othersWaiting: others.map((o) => ({ authorId: o.author_id, authorName: o.author_name ?? 'another person', records: Number(o.n) })),
       sent: by.sent ?? 0,
       refused: by.refused ?? 0,
       photosWaiting: (ph.local ?? 0) + (ph.announced ?? 0),
@@ -527,11 +563,12 @@ export class Store {
   }
 
   /** The oldest waiting rows, at most `limit` (damaged rows are set aside as refused on the way). */
-  async waitingBatch(limit: number): Promise<OutboxItem[]> {
+  async waitingBatch(limit: number, scope?: AuthorScope): Promise<OutboxItem[]> {
+    const a = byAuthor(scope);
     for (;;) {
       const rows = await this.db.all<{ seq: number; kind: string; record_id: string; payload: string }>(
-        `SELECT seq, kind, record_id, payload FROM outbox WHERE state = 'waiting' ORDER BY seq LIMIT ?`,
-        [limit],
+        `SELECT seq, kind, record_id, payload FROM outbox WHERE state = 'waiting'${a.sql} ORDER BY seq LIMIT ?`,
+        [...a.params, limit],
       );
       const items = await this.parseOutbox(rows);
       if (items.length > 0 || rows.length === 0) return items;
@@ -539,10 +576,12 @@ export class Store {
   }
 
   /** The oldest row being pushed alone after its batch was refused. */
-  async nextIsolated(): Promise<OutboxItem | null> {
+  async nextIsolated(scope?: AuthorScope): Promise<OutboxItem | null> {
+    const a = byAuthor(scope);
     for (;;) {
       const rows = await this.db.all<{ seq: number; kind: string; record_id: string; payload: string }>(
-        `SELECT seq, kind, record_id, payload FROM outbox WHERE state = 'isolating' ORDER BY seq LIMIT 1`,
+        `SELECT seq, kind, record_id, payload FROM outbox WHERE state = 'isolating'${a.sql} ORDER BY seq LIMIT 1`,
+        a.params,
       );
       if (rows.length === 0) return null;
       const items = await this.parseOutbox(rows);
@@ -652,17 +691,19 @@ export class Store {
   // ── photo upload queue ─────────────────────────────────────────────────────────────────
 
   /** Announced photos whose next attempt is due, oldest first. */
-  async photosDue(now: number, limit = 20): Promise<LocalPhoto[]> {
+  async photosDue(now: number, limit = 20, scope?: AuthorScope): Promise<LocalPhoto[]> {
+    const a = byAuthor(scope);
     const rows = await this.db.all<PhotoRow>(
-      `SELECT ${PHOTO_COLUMNS} FROM photos WHERE upload_state = 'announced' AND next_attempt_at <= ? ORDER BY next_attempt_at, rowid LIMIT ?`,
-      [now, limit],
+      `SELECT ${PHOTO_COLUMNS} FROM photos WHERE upload_state = 'announced' AND next_attempt_at <= ?${a.sql} ORDER BY next_attempt_at, rowid LIMIT ?`,
+      [now, ...a.params, limit],
     );
     return rows.map(toPhoto);
   }
 
   /** The earliest time (ms) an announced photo is due, or null when none waits. */
-  async nextPhotoDue(): Promise<number | null> {
-    const r = await this.db.first<{ t: number | null }>(`SELECT MIN(next_attempt_at) AS t FROM photos WHERE upload_state = 'announced'`);
+  async nextPhotoDue(scope?: AuthorScope): Promise<number | null> {
+    const a = byAuthor(scope);
+    const r = await this.db.first<{ t: number | null }>(`SELECT MIN(next_attempt_at) AS t FROM photos WHERE upload_state = 'announced'${a.sql}`, a.params);
     return r?.t === null || r?.t === undefined ? null : Number(r.t);
   }
 

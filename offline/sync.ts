@@ -13,6 +13,11 @@
  *    its id (and SHA-256), retried with its own backoff until the server has it. A reading never
  *    waits for its photo.
  *  - Pull: with the server's cursor for the site; applying the same pull twice gives the same state.
+ *  - Authors: every outbox row and photo carries the person who made it (./actions.ts). A run
+ *    pushes and uploads only the signed-in person's (`author()`); another person's records stay
+ *    on the device, listed as waiting for them (`othersWaiting`), and go when they sign in here
+ *    again. They are never sent with someone else's token: the server stores what a push brings
+ *    as the pusher's work, so that would record them as the wrong person's (or be refused).
  */
 import {
   CURRENT_PAYLOAD_VERSION,
@@ -125,6 +130,8 @@ export interface SyncClientOptions {
   random?: () => number;
   /** The site whose reference data to pull (null: no pull). */
   siteId?: () => string | null;
+  /** The signed-in user's id: only their outbox rows and photos are sent. Omitted: every row (a store without authors). */
+  author?: () => string | null;
   batchSize?: number;
   backoff?: BackoffPolicy;
   /** For `start()`: timers and the idle poll interval (ms). */
@@ -186,6 +193,7 @@ export class SyncClient {
   private readonly clock: Clock;
   private readonly random: () => number;
   private readonly siteId: () => string | null;
+  private readonly author?: () => string | null;
   private readonly batchSize: number;
   private readonly policy: BackoffPolicy;
   private readonly timers?: Timers;
@@ -209,6 +217,7 @@ export class SyncClient {
     this.clock = opts.clock;
     this.random = opts.random ?? Math.random;
     this.siteId = opts.siteId ?? (() => null);
+    this.author = opts.author;
     const size = opts.batchSize ?? MAX_PUSH_BATCH;
     const limit = Math.min(MAX_PUSH_BATCH, MAX_BATCH_ITEMS);
     if (!Number.isInteger(size) || size < 1 || size > limit) {
@@ -251,7 +260,7 @@ export class SyncClient {
   }
 
   async status(): Promise<SyncStatus> {
-    const [counts, meta, refusedItems] = await Promise.all([this.store.outboxCounts(), this.store.syncMeta(), this.store.refusedItems()]);
+    const [counts, meta, refusedItems] = await Promise.all([this.store.outboxCounts(this.scope() ?? undefined), this.store.syncMeta(), this.store.refusedItems()]);
     return {
       ...counts,
       ...meta,
@@ -301,7 +310,8 @@ export class SyncClient {
       let delay = inMs;
       if (delay === undefined) {
         const now = this.clock.now();
-        const photo = await this.store.nextPhotoDue().catch(() => null);
+        const scope = this.scope();
+        const photo = scope === null ? null : await this.store.nextPhotoDue(scope).catch(() => null);
         const candidates = [now + this.pollMs];
         if (this.backoffUntil !== null) candidates.push(this.backoffUntil);
         else if (photo !== null) candidates.push(Math.max(photo, now + 1_000));
@@ -325,6 +335,11 @@ export class SyncClient {
     } catch {
       // status is best effort (the store may be closing)
     }
+  }
+
+  /** Whose rows to send: the signed-in user's (a store without authors: all). Null while nobody is signed in. */
+  private scope(): string | undefined | null {
+    return this.author ? this.author() : undefined;
   }
 
   private note(kind: ProblemKind, message: string): SyncProblem {
@@ -376,11 +391,13 @@ export class SyncClient {
     const totals = { applied: zeroCounts(), duplicates: zeroCounts() };
     let pushed = false;
     let serverTime: string | null = null;
+    const scope = this.scope();
+    if (scope === null) return; // nobody signed in: nothing is anybody's to send
     try {
       for (;;) {
         // Rows of a refused batch go first, one by one, in recording order.
-        const alone = await this.store.nextIsolated();
-        const items = alone ? [alone] : await this.store.waitingBatch(this.batchSize);
+        const alone = await this.store.nextIsolated(scope);
+        const items = alone ? [alone] : await this.store.waitingBatch(this.batchSize, scope);
         if (items.length === 0) break;
         deviceId ??= await this.store.deviceId(this.ids);
         const body = buildPushBody(items, deviceId, isoTime(this.clock.now()));
@@ -425,8 +442,10 @@ export class SyncClient {
   private async uploadPhotos(result: SyncResult): Promise<void> {
     // Each photo is tried at most once per run (a zero jitter must not spin on a failing one).
     const tried = new Set<string>();
+    const scope = this.scope();
+    if (scope === null) return;
     for (;;) {
-      const due = (await this.store.photosDue(this.clock.now(), tried.size + 10)).filter((p) => !tried.has(p.id));
+      const due = (await this.store.photosDue(this.clock.now(), tried.size + 10, scope)).filter((p) => !tried.has(p.id));
       if (due.length === 0) return;
       for (const p of due) {
         tried.add(p.id);

@@ -7,7 +7,10 @@
  *   const readings = useStoreQuery((s) => s.roundReadings(roundId), [roundId]);
  *   const status = useOutboxStatus();                          // counts, refused items, last sync…
  *   const { syncNow, retryRefused, running } = useSyncNow();
+ *   const signOut = useSignOut();                               // sends the person's own records first, then signs out
  *
+ * Records carry the signed-in person as their author and are sent only while that person is
+ * signed in (./sync.ts): on a shared phone, another person's records wait for them.
  * A second browser tab gets state "locked" and `error.message` saying the app is open in another tab.
  */
 import * as Crypto from 'expo-crypto';
@@ -51,6 +54,8 @@ export function OfflineProvider({ children }: { children: ReactNode }) {
   requestRef.current = session.request;
   const siteRef = useRef<string | null>(session.membership?.siteId ?? null);
   siteRef.current = session.membership?.siteId ?? null;
+  const authorRef = useRef<{ id: string; name: string } | null>(null);
+  authorRef.current = session.status === 'signed-in' && session.user ? { id: session.user.id, name: session.user.name } : null;
 
   // Open after mount, never at module load.
   useEffect(() => {
@@ -60,13 +65,14 @@ export function OfflineProvider({ children }: { children: ReactNode }) {
       try {
         db = await openExpoDb();
         const store = await openStore(db, { clock: systemClock });
-        const actions = createActions({ store, ids: deviceIds, clock: systemClock, sha256 });
+        const actions = createActions({ store, ids: deviceIds, clock: systemClock, sha256, author: () => authorRef.current });
         const sync = createSyncClient({
           store,
           transport: createHttpTransport(() => requestRef.current),
           ids: deviceIds,
           clock: systemClock,
           siteId: () => siteRef.current,
+          author: () => authorRef.current?.id ?? null,
           timers: browserTimers,
         });
         if (!live) return;
@@ -165,6 +171,23 @@ export function useOutboxStatus(): SyncStatus | null {
     };
   }, [sync]);
   return status;
+}
+
+/**
+ * Sign-out that first tries to send the person's own waiting records (they would otherwise wait
+ * on this device until the same person signs in here again); then signs out whatever the network said.
+ */
+export function useSignOut(): () => Promise<void> {
+  // outside the technician's screens there is no device store: a plain sign-out
+  const sync = useContext(OfflineContext)?.sync ?? null;
+  const session = useSession();
+  return useCallback(async () => {
+    if (sync) {
+      const s = await sync.status().catch(() => null);
+      if (s && s.waiting > 0) await sync.syncNow({ force: true }).catch(() => null);
+    }
+    await session.signOut();
+  }, [sync, session]);
 }
 
 export function useSyncNow(): { syncNow: () => Promise<SyncResult | null>; retryRefused: (seqs?: number[]) => Promise<number>; running: boolean } {

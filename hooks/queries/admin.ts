@@ -16,7 +16,7 @@ export { MailboxResponse };
 export const adminKeys = {
   members: (siteId: string) => ['admin', siteId, 'members'] as const,
   assignees: (siteId: string) => ['sites', siteId, 'assignees'] as const,
-  mailbox: () => ['admin', 'mailbox'] as const,
+  mailbox: (siteId: string) => ['admin', siteId, 'mailbox'] as const,
 };
 
 /** Members of the site (GET /api/sites/:siteId/members is for admins today). */
@@ -43,14 +43,16 @@ export function useAssignees(enabled = true) {
   });
 }
 
+/** The mail about the admin's current site (GET /api/dev/mailbox?siteId=: the server gives no other site's). */
 export function useMailbox() {
-  const { request, status } = useSession();
+  const { request, status, membership } = useSession();
+  const siteId = membership?.siteId ?? '';
   return useQuery<MailboxResponse>({
-    queryKey: adminKeys.mailbox(),
-    enabled: status === 'signed-in',
+    queryKey: adminKeys.mailbox(siteId),
+    enabled: status === 'signed-in' && !!siteId,
     retry: false,
     refetchInterval: 15_000,
-    queryFn: async () => MailboxResponse.parse(await request('/api/dev/mailbox?limit=100')),
+    queryFn: async () => MailboxResponse.parse(await request(`/api/dev/mailbox?siteId=${encodeURIComponent(siteId)}&limit=100`)),
   });
 }
 

@@ -5,14 +5,18 @@ import { Card } from '@/components/card';
 import { ThemedText } from '@/components/themed-text';
 import { space, touchTarget } from '@/constants/theme';
 import { useMailbox } from '@/hooks/queries/admin';
+import { useSession } from '@/hooks/session';
 
 export function MailboxScreen() {
   const q = useMailbox();
+  const { membership } = useSession();
   const [open, setOpen] = useState<string | null>(null);
   return (
     <View style={styles.stack}>
       <ThemedText variant="heading">Dev mailbox</ThemedText>
-      <ThemedText variant="label" muted>Mail the server sent while no real mail server is set up. Nothing here left the machine.</ThemedText>
+      <ThemedText variant="label" muted>
+        {`Mail the server sent about ${membership?.siteName ?? 'this site'} while no real mail server is set up. Other sites' mail is not shown. Nothing here left the machine.`}
+      </ThemedText>
       {q.error ? <ThemedText tone="danger" testID="mailbox-error">{q.error.message}</ThemedText> : null}
       {q.isPending ? <ThemedText muted>Loading…</ThemedText> : null}
       {q.data && q.data.messages.length === 0 ? <ThemedText muted testID="mailbox-empty">No mail yet.</ThemedText> : null}

@@ -4,6 +4,7 @@ import { Card } from '@/components/card';
 import { ThemedText } from '@/components/themed-text';
 import { space } from '@/constants/theme';
 import { useOutboxStatus, useSyncNow } from '@/offline/use-offline';
+import { OthersWaitingNote } from './others-waiting-note';
 
 function when(iso: string | null): string {
   return iso ? new Date(iso).toLocaleString() : 'never';
@@ -24,6 +25,7 @@ export function OutboxScreen() {
         <Row label="Photos on the server" value={status.photosStored} testID="outbox-photos-stored" />
         <ThemedText variant="caption" muted testID="outbox-last-sync">Last sync: {when(status.lastSyncAt)}</ThemedText>
         {status.problem ? <ThemedText tone="warning" testID="outbox-problem">{status.problem.message}</ThemedText> : null}
+        <OthersWaitingNote status={status} />
         <Button testID="sync-now" label="Sync now" onPress={() => void syncNow()} busy={running || status.running} />
       </Card>
       {status.refusedItems.length ? (

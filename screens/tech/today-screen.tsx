@@ -12,19 +12,23 @@ import { useSession } from '@/hooks/session';
 import { SITE_ELEVATION_META } from '@/hooks/use-round';
 import type { LocalRoute, Store } from '@/offline/store';
 import { useOutboxStatus, useStore, useStoreQuery } from '@/offline/use-offline';
+import { OthersWaitingNote } from './others-waiting-note';
 
 interface TodayData {
   routes: { route: LocalRoute; stops: number; readings: number; openRoundId: string | null }[];
   finished: { id: string; routeName: string; finishedAt: string }[];
 }
 
-async function loadToday(store: Store, siteId: string): Promise<TodayData> {
+async function loadToday(store: Store, siteId: string, userId: string | null): Promise<TodayData> {
   const routes = await store.listRoutes(siteId);
   const open = await store.listRounds({ siteId, status: 'in-progress' });
   const done = await store.listRounds({ siteId, status: 'finished' });
   const versionRoute = async (versionId: string) => (await store.getRouteVersion(versionId))?.routeId ?? null;
   const openByRoute: Record<string, string> = {};
   for (const r of open) {
+    // another person's round on this shared device is theirs to carry on, not this person's
+    const author = await store.roundAuthor(r.id);
+    if (author && author.id !== userId) continue;
     const rid = await versionRoute(r.routeVersionId);
     if (rid && !openByRoute[rid]) openByRoute[rid] = r.id;
   }
@@ -61,7 +65,7 @@ export function TodayScreen() {
   const me = useMe();
   const router = useRouter();
   const [busy, setBusy] = useState<string | null>(null);
-  const { data } = useStoreQuery((s) => loadToday(s, siteId), [siteId]);
+  const { data } = useStoreQuery((s) => loadToday(s, siteId, user?.id ?? null), [siteId, user?.id]);
 
   // Keep the site's elevation on the device: gauge pressures need a barometric pressure offline.
   useEffect(() => {
@@ -86,6 +90,7 @@ export function TodayScreen() {
           {status ? `${status.waiting} waiting to send · ${status.photosWaiting} photos waiting · last sync ${time(status.lastSyncAt)}` : 'Opening the device store…'}
         </ThemedText>
         {status && status.refused > 0 ? <ThemedText tone="danger" testID="sync-refused">{status.refused} refused by the server — see the outbox.</ThemedText> : null}
+        <OthersWaitingNote status={status} />
         <Link href="/tech/outbox" testID="open-outbox">
           <ThemedText variant="label" bold tone="accent">Open the outbox</ThemedText>
         </Link>

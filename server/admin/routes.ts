@@ -28,7 +28,7 @@ export function adminRouter(): Router {
 
   r.post('/:siteId/routes/:routeId/versions', requireSiteRole('admin'), async (req, res) => {
     const routeId = String(req.params.routeId);
-    if (!UUID.test(routeId)) throw new AppError(404, 'not_found', `Route ${routeId} not found`);
+    if (!UUID.test(routeId)) throw new AppError(404, 'not_found', 'Route not found on this site');
     const body = PublishVersionRequest.safeParse(req.body);
     if (!body.success) throw validationError(body.error, 'route version');
     const out: PublishVersionResponse = await publishVersion(deps(req).dataSource, siteOf(req).siteId, routeId, body.data.template, authOf(req).userId);

@@ -11,6 +11,7 @@
  *    ANALYSIS_RETRY_DELAY_S; a job still active after ANALYSIS_JOB_EXPIRE_S (its worker died) is
  *    retried the same way by pg-boss' maintenance. Failed jobs stay in pg-boss' tables and are
  *    listed at GET /api/sites/:siteId/analysis-jobs.
+ *  - workers also run the hourly pruning of refresh tokens (server/auth/prune.ts, a pg-boss schedule).
  *  - the sweeper (workers only, every ANALYSIS_SWEEP_INTERVAL_S and once at start) queues finished
  *    rounds of the last 7 days with no analysis of their latest readings — a push whose queueing
  *    failed is not lost.
@@ -22,6 +23,7 @@ import type { Logger } from '../logger';
 import type { Notifier } from '../notify';
 import type { SyncHooks } from '../sync/hooks';
 import { runAnalysisJob, type AnalysisDeps } from './job';
+import { schedulePruning } from '../auth/prune';
 
 export const ANALYSIS_QUEUE = 'analyse-round';
 export const PGBOSS_SCHEMA = 'pgboss';
@@ -85,7 +87,8 @@ export async function startAnalysisRuntime(o: AnalysisRuntimeOptions): Promise<A
     schema: PGBOSS_SCHEMA,
     max: o.poolSize ?? 4,
     application_name: o.work ? 'trueround-worker' : 'trueround-queue',
-    schedule: false,
+    // pg-boss' cron clock runs where the workers do (the refresh-token pruning, server/auth/prune.ts)
+    schedule: o.work,
     supervise: true,
     migrate: true,
   });
@@ -124,6 +127,7 @@ export async function startAnalysisRuntime(o: AnalysisRuntimeOptions): Promise<A
 
   let sweeper: NodeJS.Timeout | undefined;
   if (o.work) {
+    await schedulePruning(boss, dataSource, logger);
     const faultMs = config.ANALYSIS_FAULT_DELAY_MS;
     const deps: AnalysisDeps = {
       dataSource,

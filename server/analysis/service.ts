@@ -18,13 +18,13 @@ const UUID_RE = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/
 const clockSkewS = (serverMinusDeviceMs: string | number): number => -Number(serverMinusDeviceMs) / 1000 || 0;
 
 export async function roundAnalysis(ds: DataSource, siteId: string, roundId: string): Promise<RoundAnalysisResponse> {
-  if (!UUID_RE.test(roundId)) throw new AppError(404, 'not_found', `Round ${roundId} not found on this site`);
+  if (!UUID_RE.test(roundId)) throw new AppError(404, 'not_found', 'Round not found on this site');
   const [round] = (await ds.query(`SELECT "id", "status", "client_clock_skew_ms" FROM "rounds" WHERE "id" = $1 AND "site_id" = $2`, [roundId, siteId])) as {
     id: string;
     status: string;
     client_clock_skew_ms: string;
   }[];
-  if (!round) throw new AppError(404, 'not_found', `Round ${roundId} not found on this site`);
+  if (!round) throw new AppError(404, 'not_found', 'Round not found on this site');
   const [a] = (await ds.query(
     `SELECT "id", "round_id", "unit_id", "analysed_at", "input_hash", "model_version", "device_model_version", "model_version_mismatch", "barometric_pa",
             "barometric_source", "reconciliation", "state_points", "balances", "performance", "instruments"

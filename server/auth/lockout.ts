@@ -4,32 +4,38 @@
  * separate). OWASP Authentication Cheat Sheet "Account Lockout" and NIST SP 800-63B §5.2.2 (limit
  * failed attempts on one account); the numbers are the project's choice (common practice).
  * Counted in the users row (failed_sign_ins, failed_sign_ins_since, locked_until), so every server
- * process sees the same count; a successful sign-in resets it.
+ * process sees the same count; a successful sign-in resets it. While locked, a sign-in answers
+ * exactly like a wrong password (401 bad_credentials), so the lock reveals no account; the
+ * owner gets an e-mail when it locks (lockedNotice, through the mail outbox).
  */
 import type { DataSource, EntityManager } from 'typeorm';
 import { UserEntity, type User } from '../entities';
-import { AppError } from '../errors';
+import { queueMail, type OutgoingMail } from '../mail/outbox';
 
 export const LOCKOUT_THRESHOLD = 10;
 export const LOCKOUT_WINDOW_MS = 15 * 60 * 1000;
 export const LOCKOUT_MS = 15 * 60 * 1000;
 
-/** The 429 a locked account gets; details carry when to retry. */
-export function lockedError(until: Date, now = new Date()): AppError {
-  const retryAfterS = Math.max(1, Math.ceil((until.getTime() - now.getTime()) / 1000));
-  const minutes = Math.ceil(retryAfterS / 60);
-  return new AppError(
-    429,
-    'rate_limited',
-    `This account is locked after ${LOCKOUT_THRESHOLD} failed sign-ins within ${LOCKOUT_WINDOW_MS / 60000} minutes; ` +
-      `try again after ${until.toISOString()} (in ${minutes} minute${minutes === 1 ? '' : 's'})`,
-    { lockedUntil: until.toISOString(), retryAfterS },
-  );
+/** True while the account is locked. A locked account's sign-in answers like a wrong password (./service.ts). */
+export function isLocked(user: Pick<User, 'lockedUntil'>, now = new Date()): boolean {
+  return !!user.lockedUntil && user.lockedUntil.getTime() > now.getTime();
 }
 
-/** Throws the 429 when the account is locked now. */
-export function assertNotLocked(user: Pick<User, 'lockedUntil'>, now = new Date()): void {
-  if (user.lockedUntil && user.lockedUntil.getTime() > now.getTime()) throw lockedError(user.lockedUntil, now);
+/** The notice its owner gets when the account locks: the sign-in answer itself says nothing of it. */
+export function lockedNotice(user: Pick<User, 'id' | 'email' | 'name'>, until: Date): OutgoingMail {
+  return {
+    to: user.email,
+    subject: 'Trueround: your account is locked for 15 minutes',
+    text: [
+      `Hello ${user.name},`,
+      '',
+      `Trueround locked your account after ${LOCKOUT_THRESHOLD} failed sign-ins within ${LOCKOUT_WINDOW_MS / 60000} minutes.`,
+      `It opens again at ${until.toISOString()}. Until then every sign-in answers "E-mail or password is wrong", even with the right password.`,
+      '',
+      'If these attempts were not yours, tell a site admin.',
+    ].join('\n'),
+    dedupeKey: `locked|${user.id}|${until.toISOString()}`,
+  };
 }
 
 /**
@@ -46,6 +52,7 @@ export async function recordFailedSignIn(ds: DataSource, userId: string, now = n
     if (count >= LOCKOUT_THRESHOLD) {
       const until = new Date(now.getTime() + LOCKOUT_MS);
       await users.update({ id: userId }, { failedSignIns: 0, failedSignInsSince: null, lockedUntil: until });
+      await queueMail(em, [lockedNotice(u, until)]);
       return until;
     }
     await users.update({ id: userId }, { failedSignIns: count, failedSignInsSince: fresh ? now : u.failedSignInsSince });

@@ -10,7 +10,7 @@ import type { SignInRequest, SignInResponse, TokenPair, UserView } from '../../s
 import type { Config } from '../config';
 import { MembershipEntity, RefreshTokenEntity, UserEntity, type Membership, type User } from '../entities';
 import { AppError } from '../errors';
-import { assertNotLocked, lockedError, recordFailedSignIn, resetFailedSignIns } from './lockout';
+import { isLocked, recordFailedSignIn, resetFailedSignIns } from './lockout';
 import { assertPasswordAllowed } from './password-policy';
 import { burnPasswordCheck, hashPassword, verifyPassword } from './passwords';
 import { hashRefreshToken, newRefreshToken, signAccessToken } from './tokens';
@@ -65,11 +65,15 @@ export async function signIn(ds: DataSource, config: TokenConfig, input: SignInR
     await burnPasswordCheck(input.password);
     throw badCredentials();
   }
-  // A locked account is refused before its password is looked at (./lockout.ts).
-  assertNotLocked(user);
+  // A locked account answers exactly like a wrong password (status, code, message; the same
+  // argon2 work as an unknown address), so the lock does not tell anyone the account exists; its
+  // owner is told by e-mail when it locks (./lockout.ts). The password is not looked at.
+  if (isLocked(user)) {
+    await burnPasswordCheck(input.password);
+    throw badCredentials();
+  }
   if (!(await verifyPassword(user.passwordHash, input.password))) {
-    const lockedUntil = await recordFailedSignIn(ds, user.id);
-    if (lockedUntil) throw lockedError(lockedUntil);
+    await recordFailedSignIn(ds, user.id);
     throw badCredentials();
   }
   // Said only to someone who knows the password.
@@ -142,13 +146,17 @@ export async function changePassword(
 ): Promise<TokenPair> {
   const user = await ds.getRepository(UserEntity).findOne({ where: { id: userId } });
   if (!user || user.disabled) throw new AppError(401, 'unauthorized', 'This account no longer exists or is disabled');
-  assertNotLocked(user);
-  if (!(await verifyPassword(user.passwordHash, input.currentPassword))) {
-    const lockedUntil = await recordFailedSignIn(ds, user.id);
-    if (lockedUntil) throw lockedError(lockedUntil);
-    throw new AppError(403, 'forbidden', 'The current password is wrong', [{ path: 'currentPassword', message: 'Is wrong' }]);
+  const wrongCurrent = () => new AppError(403, 'forbidden', 'The current password is wrong', [{ path: 'currentPassword', message: 'Is wrong' }]);
+  // as at sign-in: a locked account's password is not looked at, and the answer is the wrong-password one
+  if (isLocked(user)) {
+    await burnPasswordCheck(input.currentPassword);
+    throw wrongCurrent();
   }
-  assertPasswordAllowed(input.newPassword, user.email, 'newPassword');
+  if (!(await verifyPassword(user.passwordHash, input.currentPassword))) {
+    await recordFailedSignIn(ds, user.id);
+    throw wrongCurrent();
+  }
+  assertPasswordAllowed(input.newPassword, user.email, 'newPassword', user.name);
   if (input.newPassword === input.currentPassword) {
     throw new AppError(400, 'validation', 'Invalid request body: newPassword: Must differ from the current password', [
       { path: 'newPassword', message: 'Must differ from the current password' },

@@ -1,11 +1,13 @@
 /**
  * Development tools, mounted at /api/dev.
  *
- *   GET /api/dev/mailbox?limit=50  → { messages: MailboxMessage[] }, newest first
+ *   GET /api/dev/mailbox?siteId=…&limit=50  → { messages: MailboxMessage[] }, newest first
  *
- * What the local SMTP fake (server/mail/fake-smtp.ts) received. Only when the fake is in use
+ * What the local SMTP fake (server/mail/fake-smtp.ts) received about one site: the messages whose
+ * outbox row (named by their Message-ID) was about that site. Only when the fake is in use
  * (SMTP_FAKE_PORT set, or createApp's `devMailbox`); otherwise 404, as if the route did not
- * exist. For a user who is an admin of at least one site; any other signed-in user gets 403.
+ * exist. For the site's admins: another member gets 403, someone not on the site the same 404 as
+ * an unknown site. Mail about no site (an account's lock notice) is in no site's mailbox.
  */
 import { Router } from 'express';
 import { z } from 'zod';
@@ -17,6 +19,7 @@ import { AppError, validationError } from '../errors';
 export type { MailboxMessage, MailboxResponse };
 
 const Query = z.object({
+  siteId: z.uuid({ error: (iss) => (iss.input === undefined ? 'Required' : 'Must be a site UUID') }),
   limit: z
     .string()
     .regex(/^\d{1,4}$/, 'Must be a whole number from 1 to 500')
@@ -36,14 +39,17 @@ export function devRouter(mailboxEnabled: boolean): Router {
     requireAuth,
     async (req, res) => {
       const { dataSource } = deps(req);
-      const admin = (await dataSource.query(`SELECT 1 FROM "memberships" WHERE "user_id" = $1 AND "role" = 'admin' LIMIT 1`, [authOf(req).userId])) as unknown[];
-      if (admin.length === 0) throw new AppError(403, 'forbidden', 'The dev mailbox is for site admins; you are not an admin of any site');
       const q = Query.safeParse(req.query);
       if (!q.success) throw validationError(q.error, 'query');
+      const [m] = (await dataSource.query(`SELECT "role" FROM "memberships" WHERE "user_id" = $1 AND "site_id" = $2`, [authOf(req).userId, q.data.siteId])) as {
+        role: string;
+      }[];
+      if (!m) throw new AppError(404, 'not_found', 'Site not found');
+      if (m.role !== 'admin') throw new AppError(403, 'forbidden', `The dev mailbox is for the site's admins; you are ${m.role}`);
       const rows = (await dataSource.query(
         `SELECT "id", "received_at", "from_address", "to_addresses", "subject", "text", "raw_size"
-           FROM "mail_messages" ORDER BY "received_at" DESC, "id" DESC LIMIT $1`,
-        [q.data.limit],
+           FROM "mail_messages" WHERE "site_id" = $1 ORDER BY "received_at" DESC, "id" DESC LIMIT $2`,
+        [q.data.siteId, q.data.limit],
       )) as { id: string; received_at: Date; from_address: string; to_addresses: string[]; subject: string; text: string; raw_size: number }[];
       const body: MailboxResponse = {
         messages: rows.map((m) => ({

@@ -1,4 +1,5 @@
 import { EntitySchema } from 'typeorm';
+import type { Site } from './site';
 
 /**
  * A message the local SMTP fake received (server/mail/fake-smtp.ts), parsed: what the dev
@@ -15,6 +16,9 @@ export interface MailMessage {
   text: string;
   /** size of the message as received (headers and body), bytes */
   rawSize: number;
+  /** the site the message is about (from the outbox row its Message-ID names); null: none known */
+  siteId: string | null;
+  site?: Site | null;
 }
 
 export const MailMessageEntity = new EntitySchema<MailMessage>({
@@ -28,8 +32,15 @@ export const MailMessageEntity = new EntitySchema<MailMessage>({
     subject: { type: 'text' },
     text: { type: 'text' },
     rawSize: { name: 'raw_size', type: 'int' },
+    siteId: { name: 'site_id', type: 'uuid', nullable: true },
   },
-  indices: [{ name: 'ix_mail_messages_received', columns: ['receivedAt'] }],
+  relations: {
+    site: { type: 'many-to-one', target: 'Site', nullable: true, onDelete: 'SET NULL', joinColumn: { name: 'site_id', foreignKeyConstraintName: 'fk_mail_messages_site' } },
+  },
+  indices: [
+    { name: 'ix_mail_messages_received', columns: ['receivedAt'] },
+    { name: 'ix_mail_messages_site_received', columns: ['siteId', 'receivedAt'] },
+  ],
 });
 
 /**
@@ -49,6 +60,9 @@ export interface MailOutbox {
   sentAt: Date | null;
   lastError: string | null;
   createdAt: Date;
+  /** the site the notice is about; null: about no site (an account's own notice) */
+  siteId: string | null;
+  site?: Site | null;
 }
 
 export const MailOutboxEntity = new EntitySchema<MailOutbox>({
@@ -65,6 +79,10 @@ export const MailOutboxEntity = new EntitySchema<MailOutbox>({
     sentAt: { name: 'sent_at', type: 'timestamptz', nullable: true },
     lastError: { name: 'last_error', type: 'text', nullable: true },
     createdAt: { name: 'created_at', type: 'timestamptz', default: () => 'now()' },
+    siteId: { name: 'site_id', type: 'uuid', nullable: true },
+  },
+  relations: {
+    site: { type: 'many-to-one', target: 'Site', nullable: true, onDelete: 'SET NULL', joinColumn: { name: 'site_id', foreignKeyConstraintName: 'fk_mail_outbox_site' } },
   },
   uniques: [{ name: 'uq_mail_outbox_dedupe', columns: ['dedupeKey'] }],
   indices: [{ name: 'ix_mail_outbox_due', columns: ['nextAttemptAt'], where: '"sent_at" IS NULL' }],

@@ -11,6 +11,8 @@ export interface Membership {
   userId: string;
   siteId: string;
   role: Role;
+  /** The name the inviting admin typed, shown on this site instead of the account's own (null: the account's own). */
+  displayName: string | null;
   createdAt: Date;
   user?: User;
   site?: Site;
@@ -24,6 +26,7 @@ export const MembershipEntity = new EntitySchema<Membership>({
     userId: { name: 'user_id', type: 'uuid' },
     siteId: { name: 'site_id', type: 'uuid' },
     role: { type: 'enum', enum: [...ROLES], enumName: 'membership_role' },
+    displayName: { name: 'display_name', type: 'varchar', length: 200, nullable: true },
     createdAt: { name: 'created_at', type: 'timestamptz', createDate: true },
   },
   relations: {

@@ -3,6 +3,7 @@ import { PRESSURE_REFERENCES, type PressureRef } from '../../shared/units';
 import type { ReadingFlag } from '../../shared/api/sync';
 import type { Instrument } from './instrument';
 import type { Round } from './round';
+import type { User } from './user';
 import { numberFromText } from './transformers';
 
 /**
@@ -26,7 +27,10 @@ export interface Reading {
   supersedes: string | null;
   confirmedAfterFlag: boolean;
   flags: ReadingFlag[];
+  /** Who pushed it: the round's technician, or a site admin acting on the round; null on readings stored before this was kept. */
+  recordedBy: string | null;
   round?: Round;
+  recorder?: User | null;
   instrument?: Instrument;
   superseded?: Reading | null;
 }
@@ -49,6 +53,7 @@ export const ReadingEntity = new EntitySchema<Reading>({
     supersedes: { type: 'uuid', nullable: true },
     confirmedAfterFlag: { name: 'confirmed_after_flag', type: 'boolean', default: false },
     flags: { type: 'jsonb', default: () => `'[]'` },
+    recordedBy: { name: 'recorded_by', type: 'uuid', nullable: true },
   },
   relations: {
     round: {
@@ -61,6 +66,12 @@ export const ReadingEntity = new EntitySchema<Reading>({
       type: 'many-to-one',
       target: 'Instrument',
       joinColumn: { name: 'instrument_id', foreignKeyConstraintName: 'fk_readings_instrument' },
+    },
+    recorder: {
+      type: 'many-to-one',
+      target: 'User',
+      nullable: true,
+      joinColumn: { name: 'recorded_by', foreignKeyConstraintName: 'fk_readings_recorded_by' },
     },
     superseded: {
       type: 'many-to-one',

@@ -52,5 +52,6 @@ export const RefreshTokenEntity = new EntitySchema<RefreshToken>({
   indices: [
     { name: 'ix_refresh_tokens_family', columns: ['familyId'] },
     { name: 'ix_refresh_tokens_user', columns: ['userId'] },
+    { name: 'ix_refresh_tokens_expires', columns: ['expiresAt'] },
   ],
 });

@@ -143,7 +143,7 @@ export async function instrumentHistory(
               WHERE u."site_id" = $1 AND upper(i."tag") = upper($2)`;
   if (q.unitId) sql += ` AND i."unit_id" = $${params.push(q.unitId)}`;
   const found = (await ds.query(sql, params)) as { id: string; unit_id: string; tag: string; quantity: Quantity; status: InstrumentStatus }[];
-  if (found.length === 0) throw new AppError(404, 'not_found', `No instrument ${tag} on this site${q.unitId ? ` in unit ${q.unitId}` : ''}`);
+  if (found.length === 0) throw new AppError(404, 'not_found', `No instrument with this tag on this site${q.unitId ? ' in that unit' : ''}`);
   if (found.length > 1) {
     throw new AppError(400, 'validation', `Invalid query: unitId: ${tag} exists in ${found.length} units of this site; say which with unitId`, [
       { path: 'unitId', message: `Required: one of ${found.map((f) => f.unit_id).join(', ')}` },
@@ -271,7 +271,7 @@ export async function updateInstrument(
   instrumentId: string,
   body: InstrumentUpdateRequestOut,
 ): Promise<InstrumentUpdateResponse> {
-  if (!UUID_RE.test(instrumentId)) throw new AppError(404, 'not_found', `Instrument ${instrumentId} not found on this site`);
+  if (!UUID_RE.test(instrumentId)) throw new AppError(404, 'not_found', 'Instrument not found on this site');
   return ds.transaction(async (em) => {
     const repo = em.getRepository(InstrumentEntity);
     const i = await repo
@@ -280,7 +280,7 @@ export async function updateInstrument(
       .where('i.id = :id AND u.site_id = :siteId', { id: instrumentId, siteId })
       .setLock('pessimistic_write', undefined, ['i'])
       .getOne();
-    if (!i) throw new AppError(404, 'not_found', `Instrument ${instrumentId} not found on this site`);
+    if (!i) throw new AppError(404, 'not_found', 'Instrument not found on this site');
     if (body.rowVersion !== undefined && body.rowVersion !== i.rowVersion) {
       throw new AppError(409, 'conflict', `${i.tag} changed since you read it (row version ${body.rowVersion}, now ${i.rowVersion}); reload and try again`, {
         rowVersion: i.rowVersion,

@@ -12,6 +12,7 @@ import type { AddressInfo } from 'node:net';
 import { SMTPServer, type SMTPServerDataStream, type SMTPServerSession } from 'smtp-server';
 import type { DataSource } from 'typeorm';
 import type { Logger } from '../logger';
+import { outboxIdOf } from './outbox';
 import { parseMessage } from './parse';
 
 export interface FakeSmtpOptions {
@@ -85,9 +86,11 @@ export async function startFakeSmtp(options: FakeSmtpOptions): Promise<FakeSmtp>
           const envelopeTo = session.envelope.rcptTo.map((r) => r.address.toLowerCase());
           const envelopeFrom = session.envelope.mailFrom ? session.envelope.mailFrom.address : '';
           const to = [...parsed.to, ...parsed.cc];
+          // the site comes from the outbox row the Message-ID names (server/mail/outbox.ts), never from the message's own words
           const rows = (await dataSource.query(
-            `INSERT INTO "mail_messages" ("from_address", "to_addresses", "subject", "text", "raw_size") VALUES ($1, $2, $3, $4, $5) RETURNING "id"`,
-            [parsed.from || envelopeFrom, to.length ? to : envelopeTo, parsed.subject, parsed.text, raw.length],
+            `INSERT INTO "mail_messages" ("from_address", "to_addresses", "subject", "text", "raw_size", "site_id")
+             VALUES ($1, $2, $3, $4, $5, (SELECT "site_id" FROM "mail_outbox" WHERE "id" = $6::uuid)) RETURNING "id"`,
+            [parsed.from || envelopeFrom, to.length ? to : envelopeTo, parsed.subject, parsed.text, raw.length, outboxIdOf(parsed.messageId)],
           )) as { id: string }[];
           count++;
           logger?.debug({ id: rows[0].id, to, subject: parsed.subject }, 'mail fake: message stored');

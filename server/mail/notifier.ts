@@ -199,6 +199,7 @@ export function openedMessage(w: WorkOrderFacts, to: Recipient, linkBase = ''): 
       ...footer(`you are a planner on ${w.siteName}`),
     ].join('\n'),
     dedupeKey: `wo-opened|${w.id}|${w.reopenCount}|${to.userId}`,
+    siteId: w.siteId,
   };
 }
 
@@ -215,6 +216,7 @@ export function assignedMessage(w: WorkOrderFacts, to: Recipient, linkBase = '')
       ...footer(`the work order was assigned to you on ${w.siteName}`),
     ].join('\n'),
     dedupeKey: null,
+    siteId: w.siteId,
   };
 }
 
@@ -254,6 +256,7 @@ export function digestMessage(site: SiteFacts, shift: ShiftWindow, findings: rea
       ...footer(`you are an engineer on ${site.name}`),
     ].join('\n'),
     dedupeKey: `digest|${site.id}|${shift.start.toISOString()}|${to.userId}`,
+    siteId: site.id,
   };
 }
 

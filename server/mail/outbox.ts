@@ -10,7 +10,7 @@
  * process that dies between the send and the mark sends that one message again after the lease.
  */
 import nodemailer, { type Transporter } from 'nodemailer';
-import type { DataSource } from 'typeorm';
+import type { DataSource, EntityManager } from 'typeorm';
 import type { Logger } from '../logger';
 
 export interface OutgoingMail {
@@ -19,6 +19,8 @@ export interface OutgoingMail {
   text: string;
   /** a second enqueue with the same key is ignored (one notice per work order, per shift digest…) */
   dedupeKey?: string | null;
+  /** the site the notice is about (the dev mailbox shows it to that site's admins only); none: an account's own notice */
+  siteId?: string | null;
 }
 
 export interface BackoffOptions {
@@ -41,28 +43,45 @@ const EMAIL_RE = /^[^\s@<>]+@[^\s@<>]+$/;
  * (a message whose dedupeKey is already there is skipped).
  */
 export async function enqueueMail(ds: DataSource, messages: readonly OutgoingMail[]): Promise<number> {
+  checkMessages(messages);
+  if (messages.length === 0) return 0;
+  return ds.transaction((em) => queueMail(em, messages));
+}
+
+function checkMessages(messages: readonly OutgoingMail[]): void {
   messages.forEach((m, i) => {
     if (!EMAIL_RE.test(m.to)) throw new Error(`enqueueMail: messages[${i}].to must be an e-mail address, got "${m.to}"`);
     if (!m.subject.trim()) throw new Error(`enqueueMail: messages[${i}].subject must not be empty`);
   });
-  if (messages.length === 0) return 0;
-  return ds.transaction(async (em) => {
-    let n = 0;
-    for (const m of messages) {
-      const rows = (await em.query(
-        `INSERT INTO "mail_outbox" ("to_address", "subject", "text", "dedupe_key") VALUES ($1, $2, $3, $4)
-         ON CONFLICT ("dedupe_key") DO NOTHING RETURNING "id"`,
-        [m.to, m.subject, m.text, m.dedupeKey ?? null],
-      )) as { id: string }[];
-      n += rows.length;
-    }
-    return n;
-  });
+}
+
+/** enqueueMail inside a transaction the caller holds: the notice commits (or not) with its cause. */
+export async function queueMail(em: EntityManager, messages: readonly OutgoingMail[]): Promise<number> {
+  checkMessages(messages);
+  let n = 0;
+  for (const m of messages) {
+    const rows = (await em.query(
+      `INSERT INTO "mail_outbox" ("to_address", "subject", "text", "dedupe_key", "site_id") VALUES ($1, $2, $3, $4, $5)
+       ON CONFLICT ("dedupe_key") DO NOTHING RETURNING "id"`,
+      [m.to, m.subject, m.text, m.dedupeKey ?? null, m.siteId ?? null],
+    )) as { id: string }[];
+    n += rows.length;
+  }
+  return n;
+}
+
+/** The Message-ID of an outbox row (RFC 5322 §3.6.4): the mail fake reads the row, and its site, back from it. */
+export const OUTBOX_ID_DOMAIN = 'outbox.trueround.invalid';
+export const outboxMessageId = (rowId: string) => `<${rowId}@${OUTBOX_ID_DOMAIN}>`;
+/** The outbox row id a Message-ID names, or null when it is not one of ours. */
+export function outboxIdOf(messageId: string | null): string | null {
+  const m = /^<?([0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12})@outbox\.trueround\.invalid>?$/i.exec((messageId ?? '').trim());
+  return m ? m[1].toLowerCase() : null;
 }
 
 /** What the sender needs of a transport (nodemailer's Transporter has it). */
 export interface MailTransport {
-  sendMail(message: { from: string; to: string; subject: string; text: string; textEncoding: 'quoted-printable' }): Promise<unknown>;
+  sendMail(message: { from: string; to: string; subject: string; text: string; textEncoding: 'quoted-printable'; messageId?: string }): Promise<unknown>;
   close?(): void;
 }
 
@@ -110,7 +129,7 @@ export async function deliverDue(ds: DataSource, transport: MailTransport, o: De
   const out: DeliverResult = { sent: 0, failed: 0 };
   for (const r of rows) {
     try {
-      await transport.sendMail({ from: o.from, to: r.to_address, subject: r.subject, text: r.text, textEncoding: 'quoted-printable' });
+      await transport.sendMail({ from: o.from, to: r.to_address, subject: r.subject, text: r.text, textEncoding: 'quoted-printable', messageId: outboxMessageId(r.id) });
       await ds.query(`UPDATE "mail_outbox" SET "sent_at" = $2, "last_error" = NULL WHERE "id" = $1`, [r.id, (o.now ?? (() => new Date()))()]);
       out.sent++;
     } catch (err) {

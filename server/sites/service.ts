@@ -25,7 +25,8 @@ export async function listMembers(ds: DataSource, siteId: string): Promise<SiteM
   return rows
     .map((m) => ({
       userId: m.userId,
-      name: m.user!.name,
+      // the name this site's admin gave at the invitation; the account's own name where none was given
+      name: m.displayName ?? m.user!.name,
       email: m.user!.email,
       role: m.role,
       disabled: m.user!.disabled,

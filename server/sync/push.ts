@@ -12,6 +12,15 @@
  *     (400 `validation`, details[].path like `readings.3.unit`) and nothing of the batch is stored.
  *  4. Inserts with `on conflict (id) do nothing`: ids already there count as duplicates.
  *
+ * Ids that point at stored records (a round, a route version, an instrument, a superseded reading,
+ * a photo's reading) are looked up only on the caller's own sites: a record of another site gets
+ * the very answer an unknown id gets, so a push cannot tell whether an id exists elsewhere. The
+ * one exception is a round id itself that another site already holds (ids are made on the device,
+ * so only someone who knows it can send it): it cannot be stored, and answers the 403 a round of
+ * another technician gets. A re-take (`supersedes`) names a reading of the same round only; the
+ * round is written by its technician or a site admin, and each reading keeps who pushed it
+ * (`recorded_by`), so an admin's re-take is recorded as the admin's.
+ *
  * Readings are stored as typed (value, unit in its canonical spelling, reference) and in SI. Gauge
  * and vacuum pressures refer to the round's barometric pressure: the latest barometer reading of
  * the round (in this batch, else stored), else the site's elevation through the ICAO standard
@@ -34,7 +43,7 @@ import {
 import type { ValidationIssue } from '../../shared/api/errors';
 import { InstrumentEntity, type Instrument } from '../entities';
 import { AppError } from '../errors';
-import { assertMayPush, mayWriteRound, rolesOf } from './access';
+import { assertMayPush, mayWriteRound } from './access';
 
 export interface PushOutcome {
   response: PushResponse;
@@ -122,6 +131,29 @@ async function existingIds(em: EntityManager, table: string, ids: string[]): Pro
   return new Set(rows.map((r) => r.id));
 }
 
+/** A uuid no site has, for an `IN` list that would otherwise be empty. */
+const NO_SITE = '00000000-0000-0000-0000-000000000000';
+
+/** The 403 for a stored round the caller may not write: another technician's, or another site's. */
+const roundNotYours = (roundId: string) =>
+  new AppError(403, 'forbidden', `Round ${roundId} cannot take this push: only the technician who recorded it, or an admin of its site, adds to it`);
+
+/** Stored readings among `ids` whose rounds are on `siteIds` (readings elsewhere are left out, as if unknown). */
+async function storedReadingsOn(
+  em: EntityManager,
+  siteIds: string[],
+  ids: (string | null | undefined)[],
+): Promise<Map<string, { round_id: string; instrument_id: string }>> {
+  const wanted = [...new Set(ids.filter((x): x is string => !!x))];
+  if (wanted.length === 0 || siteIds.length === 0) return new Map();
+  const rows = (await em.query(
+    `SELECT x."id", x."round_id", x."instrument_id" FROM "readings" x JOIN "rounds" r ON r."id" = x."round_id"
+      WHERE x."id" = ANY($1::uuid[]) AND r."site_id" = ANY($2::uuid[])`,
+    [wanted, siteIds],
+  )) as { id: string; round_id: string; instrument_id: string }[];
+  return new Map(rows.map((r) => [r.id, r]));
+}
+
 const zero = (): PushCounts => ({ rounds: 0, readings: 0, checkAnswers: 0, photos: 0 });
 
 export async function pushBatch(ds: DataSource, userId: string, batch: PushBatch, receivedAt = new Date()): Promise<PushOutcome> {
@@ -147,6 +179,20 @@ export async function pushBatch(ds: DataSource, userId: string, batch: PushBatch
       for (const r of rows) storedRounds.set(r.id, r);
     }
 
+    // Every site the caller is a member of, with the role: records elsewhere do not exist for this push.
+    const roles: Map<string, Role> = new Map(
+      ((await em.query(`SELECT "site_id", "role" FROM "memberships" WHERE "user_id" = $1`, [userId])) as { site_id: string; role: Role }[]).map((m) => [
+        m.site_id,
+        m.role,
+      ]),
+    );
+    const batchRoundIds = new Set(batch.rounds.map((r) => r.id));
+    for (const s of [...storedRounds.values()]) {
+      if (roles.has(s.site_id)) continue;
+      if (batchRoundIds.has(s.id)) throw roundNotYours(s.id);
+      storedRounds.delete(s.id); // only pointed at by readings, answers or photos: as if unknown
+    }
+
     const versionIds = new Set<string>([
       ...batch.rounds.filter((r) => !storedRounds.has(r.id)).map((r) => r.routeVersionId),
       ...[...storedRounds.values()].map((r) => r.route_version_id),
@@ -161,7 +207,7 @@ export async function pushBatch(ds: DataSource, userId: string, batch: PushBatch
           WHERE v."id" = ANY($1::uuid[])`,
         [[...versionIds]],
       )) as VersionRow[];
-      for (const v of rows) versions.set(v.id, v);
+      for (const v of rows) if (roles.has(v.site_id)) versions.set(v.id, v);
     }
 
     const rounds = new Map<string, RoundCtx>();
@@ -172,29 +218,26 @@ export async function pushBatch(ds: DataSource, userId: string, batch: PushBatch
     for (const { item, index } of newRounds) {
       const version = versions.get(item.routeVersionId);
       if (!version) {
-        issue(`rounds.${index}.routeVersionId`, `route version ${item.routeVersionId} does not exist (pull again for the current routes)`);
+        issue(`rounds.${index}.routeVersionId`, 'this route version does not exist (pull again for the current routes)');
         continue;
       }
       rounds.set(item.id, { id: item.id, siteId: version.site_id, version, stored: false });
     }
 
     // 2. authorisation -----------------------------------------------------------------------
-    const roles: Map<string, Role> = await rolesOf(em, userId, [...new Set([...rounds.values()].map((r) => r.siteId))]);
     for (const { item, index } of newRounds) {
       const ctx = rounds.get(item.id);
       if (ctx) assertMayPush(roles.get(ctx.siteId), `rounds.${index} (route version ${item.routeVersionId})`);
     }
     for (const s of storedRounds.values()) {
-      if (!mayWriteRound({ technicianId: s.technician_id }, userId, roles.get(s.site_id))) {
-        throw new AppError(403, 'forbidden', `Round ${s.id} was recorded by another technician; only they or a site admin may add to it`);
-      }
+      if (!mayWriteRound({ technicianId: s.technician_id }, userId, roles.get(s.site_id))) throw roundNotYours(s.id);
     }
 
     // 3. validation of new items -------------------------------------------------------------
     const roundOf = (roundId: string, path: string): RoundCtx | undefined => {
       const ctx = rounds.get(roundId);
       if (!ctx && !batch.rounds.some((r) => r.id === roundId)) {
-        issue(path, `round ${roundId} is neither in this push nor stored; push the round with its readings`);
+        issue(path, 'this round is neither in this push nor stored; push the round with its readings');
       }
       return ctx;
     };
@@ -205,18 +248,20 @@ export async function pushBatch(ds: DataSource, userId: string, batch: PushBatch
     const instrumentIds = [...new Set(newReadings.map(({ item }) => item.instrumentId))];
     const instruments = new Map<string, Instrument>();
     if (instrumentIds.length) {
-      const rows = await em.getRepository(InstrumentEntity).createQueryBuilder('i').where('i.id IN (:...ids)', { ids: instrumentIds }).getMany();
+      const rows = await em
+        .getRepository(InstrumentEntity)
+        .createQueryBuilder('i')
+        .innerJoin('units', 'u', 'u.id = i.unit_id')
+        .where('i.id IN (:...ids)', { ids: instrumentIds })
+        .andWhere('u.site_id IN (:...sites)', { sites: roles.size ? [...roles.keys()] : [NO_SITE] })
+        .getMany();
       for (const i of rows) instruments.set(i.id, i);
     }
     const batchReadings = new Map(newReadings.map(({ item }) => [item.id, item]));
-    const supersededIds = [...new Set(newReadings.map(({ item }) => item.supersedes).filter((s): s is string => !!s))];
-    const storedSuperseded = new Map<string, { round_id: string; instrument_id: string }>();
-    if (supersededIds.length) {
-      const rows = (await em.query(`SELECT "id", "round_id", "instrument_id" FROM "readings" WHERE "id" = ANY($1::uuid[])`, [
-        supersededIds,
-      ])) as { id: string; round_id: string; instrument_id: string }[];
-      for (const r of rows) storedSuperseded.set(r.id, r);
-    }
+    const pointedReadings = await storedReadingsOn(em, [...roles.keys()], [
+      ...newReadings.map(({ item }) => item.supersedes),
+      ...batch.photos.map((ph) => ph.readingId),
+    ]);
 
     interface ReadyReading {
       item: PushReading;
@@ -231,7 +276,7 @@ export async function pushBatch(ds: DataSource, userId: string, batch: PushBatch
       const ctx = roundOf(item.roundId, `${p}.roundId`);
       const inst = instruments.get(item.instrumentId);
       if (!inst) {
-        issue(`${p}.instrumentId`, `instrument ${item.instrumentId} does not exist`);
+        issue(`${p}.instrumentId`, 'this instrument does not exist');
         continue;
       }
       if (!ctx) continue;
@@ -240,11 +285,14 @@ export async function pushBatch(ds: DataSource, userId: string, batch: PushBatch
         continue;
       }
       if (item.supersedes) {
-        const old = batchReadings.get(item.supersedes);
-        const oldInstrument = old?.instrumentId ?? storedSuperseded.get(item.supersedes)?.instrument_id;
+        const inBatch = batchReadings.get(item.supersedes);
+        const stored = pointedReadings.get(item.supersedes);
+        const old = inBatch ? { roundId: inBatch.roundId, instrumentId: inBatch.instrumentId } : stored ? { roundId: stored.round_id, instrumentId: stored.instrument_id } : null;
         if (item.supersedes === item.id) issue(`${p}.supersedes`, 'a reading cannot supersede itself');
-        else if (!oldInstrument) issue(`${p}.supersedes`, `reading ${item.supersedes} is neither in this push nor stored`);
-        else if (oldInstrument !== inst.id) issue(`${p}.supersedes`, `reading ${item.supersedes} is of another instrument than ${inst.tag}`);
+        else if (!old) issue(`${p}.supersedes`, 'the reading it supersedes is neither in this push nor stored');
+        else if (old.roundId !== item.roundId) {
+          issue(`${p}.supersedes`, 'the reading it supersedes is of another round: a re-take replaces a reading of its own round only');
+        } else if (old.instrumentId !== inst.id) issue(`${p}.supersedes`, `the reading it supersedes is of another instrument than ${inst.tag}`);
       }
       let unit: string;
       try {
@@ -326,6 +374,7 @@ export async function pushBatch(ds: DataSource, userId: string, batch: PushBatch
         it.supersedes ?? null,
         it.confirmedAfterFlag,
         JSON.stringify(it.flags),
+        userId,
       ]);
     }
 
@@ -354,24 +403,15 @@ export async function pushBatch(ds: DataSource, userId: string, batch: PushBatch
 
     // photos
     const photosSeen = await existingIds(em, 'photos', [...new Set(batch.photos.map((p) => p.id))]);
-    const photoReadingIds = [...new Set(batch.photos.map((p) => p.readingId).filter((x): x is string => !!x))];
-    const storedPhotoReadings = new Map<string, string>();
-    if (photoReadingIds.length) {
-      const rows = (await em.query(`SELECT "id", "round_id" FROM "readings" WHERE "id" = ANY($1::uuid[])`, [photoReadingIds])) as {
-        id: string;
-        round_id: string;
-      }[];
-      for (const r of rows) storedPhotoReadings.set(r.id, r.round_id);
-    }
     const photoRows: unknown[][] = [];
     for (const { item, index } of firstById(batch.photos).filter(({ item }) => !photosSeen.has(item.id))) {
       const p = `photos.${index}`;
       const ctx = roundOf(item.roundId, `${p}.roundId`);
       if (!ctx) continue;
       if (item.readingId) {
-        const readingRound = batchReadings.get(item.readingId)?.roundId ?? storedPhotoReadings.get(item.readingId);
-        if (!readingRound) issue(`${p}.readingId`, `reading ${item.readingId} is neither in this push nor stored`);
-        else if (readingRound !== item.roundId) issue(`${p}.readingId`, `reading ${item.readingId} is of another round than ${item.roundId}`);
+        const readingRound = batchReadings.get(item.readingId)?.roundId ?? pointedReadings.get(item.readingId)?.round_id;
+        if (!readingRound) issue(`${p}.readingId`, 'this reading is neither in this push nor stored');
+        else if (readingRound !== item.roundId) issue(`${p}.readingId`, 'this reading is of another round than the photo');
       }
       if (item.checkId && !checksById(ctx.version.template).has(item.checkId)) {
         issue(`${p}.checkId`, `check "${item.checkId}" is not on route "${ctx.version.template.id}"`);
@@ -458,7 +498,7 @@ export async function pushBatch(ds: DataSource, userId: string, batch: PushBatch
     const insertedReadings = await insertIgnoring(
       em,
       'readings',
-      ['id', 'round_id', 'instrument_id', 'value_typed', 'unit', 'reference', 'value_si', 'device_time', 'note', 'skip_reason', 'supersedes', 'confirmed_after_flag', 'flags'],
+      ['id', 'round_id', 'instrument_id', 'value_typed', 'unit', 'reference', 'value_si', 'device_time', 'note', 'skip_reason', 'supersedes', 'confirmed_after_flag', 'flags', 'recorded_by'],
       readingRows,
       '"id", "round_id"',
     );

@@ -20,7 +20,13 @@ import { photoKey, thumbKey, type PhotoStore } from './store';
 /** 409: the bytes do not match the photo announced in the push. */
 const CONFLICT: ErrorCode = 'conflict';
 
+/**
+ * The one 404 of a photo the caller cannot see: unknown, or on a site they are not a member of
+ * (the two answer byte for byte alike, so an id of another site reveals nothing).
+ */
 const photoNotFound = () => new AppError(404, 'not_found', 'Photo not found');
+/** The one 404 of a photo the caller cannot upload to: not announced, or on another site. */
+const uploadNotFound = () => new AppError(404, 'not_found', 'No photo with this id was announced on your sites: push its round with the photo first');
 
 async function photoWithRound(ds: DataSource, id: string) {
   const photo = await ds.getRepository(PhotoEntity).findOneBy({ id });
@@ -32,9 +38,9 @@ async function photoWithRound(ds: DataSource, id: string) {
 /** The photo row if the caller may upload it: announced on a round they may write; 404 otherwise. */
 export async function photoForUpload(ds: DataSource, userId: string, id: string): Promise<Photo> {
   const found = await photoWithRound(ds, id);
-  if (!found) throw new AppError(404, 'not_found', 'No photo with this id was announced: push its round with the photo first');
+  if (!found) throw uploadNotFound();
   const m = await ds.getRepository(MembershipEntity).findOneBy({ userId, siteId: found.round.siteId });
-  if (!m) throw photoNotFound();
+  if (!m) throw uploadNotFound();
   if (!mayWriteRound(found.round, userId, m.role)) {
     throw new AppError(403, 'forbidden', 'Only the technician of the round (or a site admin) uploads its photos');
   }

@@ -42,7 +42,8 @@ export interface ActionDeps {
 }
 
 const UUID_RE = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
-const notFound = (id: string) => new AppError(404, 'not_found', `Work order ${id} not found on this site`);
+// No id in the message: an unknown id and another site's answer byte for byte alike (tests/api/security-route-guards).
+const notFound = () => new AppError(404, 'not_found', 'Work order not found on this site');
 const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
 
 // ------------------------------------------------------------------------------------ reading
@@ -308,9 +309,9 @@ async function evidenceOf(ds: DataSource | EntityManager, workOrderId: string): 
 }
 
 export async function getWorkOrder(ds: DataSource, siteId: string, id: string): Promise<WorkOrderDetail> {
-  if (!UUID_RE.test(id)) throw notFound(id);
+  if (!UUID_RE.test(id)) throw notFound();
   const [row] = (await ds.query(`SELECT ${SUMMARY_COLUMNS} FROM ${SUMMARY_FROM} WHERE w."id" = $1 AND w."site_id" = $2`, [id, siteId])) as SummaryRow[];
-  if (!row) throw notFound(id);
+  if (!row) throw notFound();
   const events = (await ds.query(
     `SELECT e."id", e."at", e."actor_id", u."name" AS "actor_name", e."type", e."from_status", e."to_status", e."changes", e."comment"
        FROM "work_order_events" e LEFT JOIN "users" u ON u."id" = e."actor_id"
@@ -374,9 +375,9 @@ const LOCK_COLUMNS = `"id", "code", "site_id", "kind", "status", "priority", "in
   to_char("due_date", 'YYYY-MM-DD') AS "due_date", to_char("scheduled_for", 'YYYY-MM-DD') AS "scheduled_for"`;
 
 async function lockOrder(em: EntityManager, siteId: string, id: string): Promise<LockedRow> {
-  if (!UUID_RE.test(id)) throw notFound(id);
+  if (!UUID_RE.test(id)) throw notFound();
   const [row] = (await em.query(`SELECT ${LOCK_COLUMNS} FROM "work_orders" WHERE "id" = $1 AND "site_id" = $2 FOR UPDATE`, [id, siteId])) as LockedRow[];
-  if (!row) throw notFound(id);
+  if (!row) throw notFound();
   return row;
 }
 
@@ -465,7 +466,7 @@ export async function actOnWorkOrder(deps: ActionDeps, siteId: string, id: strin
         assertMay('assign', wo);
         const [member] = (await em.query(`SELECT "user_id" FROM "memberships" WHERE "user_id" = $1 AND "site_id" = $2`, [a.body.userId, siteId])) as unknown[];
         if (!member) {
-          throw new AppError(400, 'validation', `Invalid request body: userId: ${a.body.userId} is not a member of this site`, [
+          throw new AppError(400, 'validation', 'Invalid request body: userId: is not a member of this site', [
             { path: 'userId', message: 'Must be a member of the work order’s site' },
           ]);
         }
@@ -577,7 +578,7 @@ async function merge(em: EntityManager, siteId: string, targetId: string, actorI
       { path: 'duplicateIds', message: 'Must not contain the target work order' },
     ]);
   }
-  if (!UUID_RE.test(targetId)) throw notFound(targetId);
+  if (!UUID_RE.test(targetId)) throw notFound();
   await lockSiteCounter(em, siteId);
   const ids = [targetId, ...dupIds].sort();
   const rows = (await em.query(`SELECT ${LOCK_COLUMNS} FROM "work_orders" WHERE "id" = ANY($1::uuid[]) AND "site_id" = $2 ORDER BY "id" FOR UPDATE`, [
@@ -585,7 +586,7 @@ async function merge(em: EntityManager, siteId: string, targetId: string, actorI
     siteId,
   ])) as LockedRow[];
   const byId = new Map(rows.map((r) => [r.id, r]));
-  for (const id of ids) if (!byId.has(id)) throw notFound(id);
+  for (const id of ids) if (!byId.has(id)) throw notFound();
   const target = byId.get(targetId)!;
   assertMay('merge', target);
   const dups = dupIds.map((d) => byId.get(d)!);

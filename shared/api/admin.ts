@@ -6,7 +6,7 @@
  *   POST /api/sites/:siteId/routes/:routeId/versions {template}          admins → 201 PublishVersionResponse
  *        400 validation: one detail per problem of the template, path `template.<path>` (checklists validateRoute)
  *   PATCH /api/sites/:siteId/instruments/:instrumentId                   admins → shared/api/instruments.ts
- *   GET  /api/dev/mailbox?limit=                                         admins, only with the mail fake → MailboxResponse
+ *   GET  /api/dev/mailbox?siteId=&limit=                                 that site's admins, only with the mail fake → MailboxResponse (the site's mail only)
  */
 import { z } from 'zod';
 import { Email, Role } from './auth';
@@ -21,10 +21,9 @@ export type InvitationRequest = z.input<typeof InvitationRequest>;
 export const InvitationResult = z.object({
   userId: z.uuid(),
   email: z.string(),
+  /** the name the admin typed: the site shows the person by it (an account of another site keeps its own name there) */
   name: z.string(),
   role: Role,
-  /** false: the person already had an account and was added to the site */
-  created: z.boolean(),
   /** the mail waits in mail_outbox (sent by the mail sender when SMTP is configured) */
   mailQueued: z.boolean(),
 });

@@ -16,7 +16,7 @@ import { PushResponse, type PushRequestV2 } from '../../shared/api/sync';
 import { createApp } from '../../server/app';
 import { InstrumentEntity, RouteEntity, SiteEntity } from '../../server/entities';
 import { demoUser } from '../../server/seed/demo-users';
-import { bearer, signIn, testApp, testConfig } from './helpers/app';
+import { addMember, bearer, signIn, testApp, testConfig } from './helpers/app';
 import { createTestDatabase, type TestDb } from './helpers/db';
 
 function icaoPressure(zMetres: number): number {
@@ -32,6 +32,7 @@ let app: Express;
 let hookedApp: Express;
 const hookCalls: string[][] = [];
 const tokens: Record<string, string> = {};
+const userIds: Record<string, string> = {};
 const version: Record<string, string> = {};
 const inst: Record<string, string> = {};
 const brackInst: Record<string, string> = {};
@@ -53,6 +54,13 @@ beforeAll(async () => {
   ] as const) {
     tokens[key] = (await signIn(app, demoUser(role, site).email)).accessToken;
   }
+  // invented people of this file: a second Fernhallow technician, and an admin of Brackenmoor (a push role there)
+  userIds.tech = (await signIn(app, demoUser('technician').email)).user.id;
+  userIds.admin = (await signIn(app, demoUser('admin').email)).user.id;
+  userIds.tech2 = await addMember(db.dataSource, 'fernhallow', 'ash.renner@fernhallow.example', 'Ash Renner', 'technician');
+  tokens.tech2 = (await signIn(app, 'ash.renner@fernhallow.example')).accessToken;
+  await addMember(db.dataSource, 'brackenmoor', 'admin@brackenmoor.example', 'Lee Harrow', 'admin');
+  tokens.brackAdmin = (await signIn(app, 'admin@brackenmoor.example')).accessToken;
   const routes = await db.dataSource.getRepository(RouteEntity).find();
   for (const r of routes) version[r.key] = r.currentVersionId!;
   const fern = await db.dataSource.getRepository(SiteEntity).findOneByOrFail({ slug: 'fernhallow' });
@@ -289,16 +297,20 @@ test('payloadVersion 1 (the previous) and 2 (current) are accepted; 3 is refused
   expect(await counts(v3.roundId)).toEqual({ rounds: 0, readings: 0, checkAnswers: 0, photos: 0 });
 });
 
-test("a push on another site's route → 403, nothing stored", async () => {
+test("a push on another site's route answers byte for byte what an unknown route version answers; nothing stored", async () => {
   const b = batch('brackenmoor-boiler-house', [{ tag: 'PI-101', value: 9.5, unit: 'bar', reference: 'gauge' }]);
   const res = await push(b);
-  expect(res.status).toBe(403);
-  expect(res.body.error.code).toBe('forbidden');
+  const unknown = batch('brackenmoor-boiler-house', [{ tag: 'PI-101', value: 9.5, unit: 'bar', reference: 'gauge' }], {}, b.roundId);
+  unknown.rounds[0].routeVersionId = randomUUID();
+  const res2 = await push(unknown);
+  expect(res.status).toBe(400);
+  expect(res.body.error.details[0]).toEqual({ path: 'rounds.0.routeVersionId', message: 'this route version does not exist (pull again for the current routes)' });
+  expect({ status: res.status, body: res.text }).toEqual({ status: res2.status, body: res2.text });
   expect(await counts(b.roundId)).toEqual({ rounds: 0, readings: 0, checkAnswers: 0, photos: 0 });
   // mixed with a good round of the caller's own site: the whole batch is refused
   const own = batch('boiler-house', [{ tag: 'PI-101', value: 67, unit: 'bar', reference: 'gauge' }]);
   const mixed = { ...own, rounds: [...own.rounds, ...b.rounds], readings: [...own.readings, ...b.readings] };
-  expect((await push(mixed)).status).toBe(403);
+  expect((await push(mixed)).status).toBe(400);
   expect(await counts(own.roundId)).toEqual({ rounds: 0, readings: 0, checkAnswers: 0, photos: 0 });
 });
 
@@ -464,4 +476,143 @@ test('the model version the device held is kept on the round', async () => {
   expect((await push(b)).status).toBe(200);
   const [row] = (await db.dataSource.query(`SELECT device_model_version FROM rounds WHERE id = $1`, [b.roundId])) as { device_model_version: string }[];
   expect(row.device_model_version).toBe('fnv1a64:0123456789abcdef');
+});
+
+// ---------------------------------------------------------------------------------------------
+// Re-takes and every other field that points at a stored record (issue "tighter guards").
+
+/** Every row of these rounds, and which readings are superseded: to show that a refused push changed nothing. */
+async function snapshot(roundIds: string[]) {
+  return db.dataSource.query(
+    `SELECT x."id", x."round_id", x."supersedes", x."recorded_by",
+            EXISTS (SELECT 1 FROM "readings" s WHERE s."supersedes" = x."id") AS "superseded"
+       FROM "readings" x WHERE x."round_id" = ANY($1::uuid[]) ORDER BY x."id"`,
+    [roundIds],
+  ) as Promise<{ id: string; round_id: string; supersedes: string | null; recorded_by: string | null; superseded: boolean }[]>;
+}
+
+describe("a re-take supersedes only a reading of the same round, pushed by that round's technician or a site admin", () => {
+  let techRound: ReturnType<typeof batch>;
+  beforeAll(async () => {
+    techRound = batch('boiler-house', [{ tag: 'TI-103', value: 194.9, unit: '°C' }]);
+    expect((await push(techRound)).status).toBe(200);
+  });
+  const retake = (roundId: string, supersedes: string) => {
+    const b = batch('boiler-house', [{ tag: 'TI-103', value: 150.1, unit: '°C' }], {}, roundId);
+    b.readings[0].supersedes = supersedes;
+    return b;
+  };
+
+  test("an engineer's own round superseding the technician's reading → 400 on readings.0.supersedes; their round, their reading and the mark are not stored", async () => {
+    const before = await snapshot([techRound.roundId]);
+    const b = retake(randomUUID(), techRound.readings[0].id); // a new round of the engineer's, in the same push
+    const res = await push(b, tokens.engineer);
+    expect(res.status).toBe(400);
+    expect(res.body.error.details).toEqual([
+      { path: 'readings.0.supersedes', message: 'the reading it supersedes is of another round: a re-take replaces a reading of its own round only' },
+    ]);
+    expect(await counts(b.roundId)).toEqual({ rounds: 0, readings: 0, checkAnswers: 0, photos: 0 });
+    expect(await snapshot([techRound.roundId])).toEqual(before);
+    expect(before.every((r) => !r.superseded)).toBe(true);
+  });
+
+  test('another technician of the site, from a round of their own → the same 400, nothing stored', async () => {
+    const b = retake(randomUUID(), techRound.readings[0].id);
+    const res = await push(b, tokens.tech2);
+    expect(res.status).toBe(400);
+    expect(res.body.error.details[0].path).toBe('readings.0.supersedes');
+    expect(await counts(b.roundId)).toEqual({ rounds: 0, readings: 0, checkAnswers: 0, photos: 0 });
+  });
+
+  test("the same technician, from another round of theirs → 400 (a re-take belongs to its round), nothing stored", async () => {
+    const b = retake(randomUUID(), techRound.readings[0].id);
+    expect((await push(b)).status).toBe(400);
+    expect(await counts(b.roundId)).toEqual({ rounds: 0, readings: 0, checkAnswers: 0, photos: 0 });
+  });
+
+  test("another technician writing into the technician's round itself → 403, nothing stored", async () => {
+    const b = retake(techRound.roundId, techRound.readings[0].id);
+    b.rounds = [];
+    const res = await push(b, tokens.tech2);
+    expect(res.status).toBe(403);
+    expect(res.body.error.message).toBe(`Round ${techRound.roundId} cannot take this push: only the technician who recorded it, or an admin of its site, adds to it`);
+    expect((await snapshot([techRound.roundId])).length).toBe(1);
+  });
+
+  test("the round's technician re-takes in the round → 200, kept as theirs; a site admin's re-take is recorded as the admin's", async () => {
+    const own = retake(techRound.roundId, techRound.readings[0].id);
+    own.rounds = [];
+    expect((await push(own)).body.applied.readings).toBe(1);
+    const byAdmin = retake(techRound.roundId, own.readings[0].id);
+    byAdmin.rounds = [];
+    expect((await push(byAdmin, tokens.admin)).body.applied.readings).toBe(1);
+    const rows = await snapshot([techRound.roundId]);
+    const by = Object.fromEntries(rows.map((r) => [r.id, r]));
+    expect(by[own.readings[0].id]).toMatchObject({ supersedes: techRound.readings[0].id, recorded_by: userIds.tech, superseded: true });
+    expect(by[byAdmin.readings[0].id]).toMatchObject({ supersedes: own.readings[0].id, recorded_by: userIds.admin, superseded: false });
+    expect(by[techRound.readings[0].id]).toMatchObject({ recorded_by: userIds.tech, superseded: true });
+  });
+
+  test('a re-take in one push with the round: the superseded reading of the same batch is accepted, of another round of the batch refused', async () => {
+    const b = batch('boiler-house', [
+      { tag: 'TI-103', value: 194.9, unit: '°C' },
+      { tag: 'TI-103', value: 150.2, unit: '°C' },
+    ]);
+    b.readings[1].supersedes = b.readings[0].id;
+    const other = batch('boiler-house', [{ tag: 'TI-103', value: 150.3, unit: '°C' }]);
+    other.readings[0].supersedes = b.readings[0].id;
+    const both = { ...b, rounds: [...b.rounds, ...other.rounds], readings: [...b.readings, ...other.readings] };
+    const res = await push(both);
+    expect(res.status).toBe(400);
+    expect(res.body.error.details.map((d: { path: string }) => d.path)).toEqual(['readings.2.supersedes']);
+    expect(await counts(b.roundId)).toEqual({ rounds: 0, readings: 0, checkAnswers: 0, photos: 0 });
+    expect((await push(b)).body.applied.readings).toBe(2);
+  });
+});
+
+describe("ids of another site answer exactly what unknown ids answer (Brackenmoor's admin pushing with Fernhallow ids)", () => {
+  let fernRound: ReturnType<typeof batch>;
+  beforeAll(async () => {
+    fernRound = batch('boiler-house', [{ tag: 'PI-101', value: 67, unit: 'bar', reference: 'gauge' }]);
+    expect((await push(fernRound)).status).toBe(200);
+  });
+  const brack = () => batch('brackenmoor-boiler-house', [{ tag: 'PI-101', value: 9.5, unit: 'bar', reference: 'gauge' }]);
+  /** Both pushes are refused; status and body must be equal byte for byte. */
+  async function same(outside: object, unknown: object) {
+    const a = await push(outside, tokens.brackAdmin);
+    const b = await push(unknown, tokens.brackAdmin);
+    expect(a.status).toBe(400);
+    expect({ status: a.status, body: a.text }).toEqual({ status: b.status, body: b.text });
+    return a.body.error.details as { path: string; message: string }[];
+  }
+
+  test('a reading for a Fernhallow round (not in the push) vs an unknown round', async () => {
+    const [o, u] = [brack(), brack()];
+    o.readings[0].roundId = fernRound.roundId;
+    u.readings[0].roundId = randomUUID();
+    expect(await same(o, u)).toEqual([{ path: 'readings.0.roundId', message: 'this round is neither in this push nor stored; push the round with its readings' }]);
+  });
+
+  test("a Fernhallow instrument on a Brackenmoor round vs an unknown instrument (the other site's tag is not named)", async () => {
+    const [o, u] = [brack(), brack()];
+    o.readings[0].instrumentId = inst['PI-101'];
+    u.readings[0].instrumentId = randomUUID();
+    expect(await same(o, u)).toEqual([{ path: 'readings.0.instrumentId', message: 'this instrument does not exist' }]);
+  });
+
+  test('supersedes naming a Fernhallow reading vs an unknown reading', async () => {
+    const [o, u] = [brack(), brack()];
+    o.readings[0].supersedes = fernRound.readings[0].id;
+    u.readings[0].supersedes = randomUUID();
+    expect(await same(o, u)).toEqual([{ path: 'readings.0.supersedes', message: 'the reading it supersedes is neither in this push nor stored' }]);
+    expect((await snapshot([fernRound.roundId]))[0].superseded).toBe(false);
+  });
+
+  test("a photo of a Fernhallow reading vs of an unknown reading", async () => {
+    const photo = (readingId: string, roundId: string) => ({ id: randomUUID(), roundId, readingId, checkId: null, sha256: 'a'.repeat(64), mime: 'image/jpeg' as const, bytes: 10 });
+    const [o, u] = [brack(), brack()];
+    o.photos = [photo(fernRound.readings[0].id, o.roundId)];
+    u.photos = [photo(randomUUID(), u.roundId)];
+    expect(await same(o, u)).toEqual([{ path: 'photos.0.readingId', message: 'this reading is neither in this push nor stored' }]);
+  });
 });

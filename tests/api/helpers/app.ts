@@ -6,6 +6,7 @@ import type { DataSource } from 'typeorm';
 import { createApp } from '../../../server/app';
 import { loadConfig, type Config } from '../../../server/config';
 import { makeLogger, type Logger } from '../../../server/logger';
+import { hashPassword } from '../../../server/auth/passwords';
 import { DEMO_PASSWORD } from '../../../server/seed/demo-users';
 
 export const TEST_SECRET = 'test-secret-of-the-api-tests-0123456789';
@@ -50,3 +51,17 @@ export async function signIn(app: Express, email: string, password = DEMO_PASSWO
 }
 
 export const bearer = (token: string) => ({ Authorization: `Bearer ${token}` });
+
+/**
+ * Adds an invented person to a demo site with the demo password (for tests that need a second
+ * technician, or an admin of the other site); returns their user id.
+ */
+export async function addMember(ds: DataSource, siteSlug: string, email: string, name: string, role: string): Promise<string> {
+  const [u] = (await ds.query(`INSERT INTO "users" ("email", "name", "password_hash") VALUES ($1, $2, $3) RETURNING "id"`, [
+    email,
+    name,
+    await hashPassword(DEMO_PASSWORD),
+  ])) as { id: string }[];
+  await ds.query(`INSERT INTO "memberships" ("user_id", "site_id", "role") SELECT $1, "id", $3 FROM "sites" WHERE "slug" = $2`, [u.id, siteSlug, role]);
+  return u.id;
+}
