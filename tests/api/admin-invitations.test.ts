@@ -28,7 +28,7 @@ afterAll(() => db?.drop());
 test('an admin invites a new person: 201, the e-mail carries a one-time password that signs in with the given role', async () => {
   const res = await request(app).post(`/api/sites/${siteId}/invitations`).set(bearer(admin)).send({ email: ' Kim.Ward@Fernhallow.example ', name: 'Kim Ward', role: 'engineer' });
   expect(res.status).toBe(201);
-  expect(res.body).toMatchObject({ email: 'kim.ward@fernhallow.example', name: 'Kim Ward', role: 'engineer', created: true, mailQueued: true });
+  expect(res.body).toEqual({ userId: expect.any(String), email: 'kim.ward@fernhallow.example', name: 'Kim Ward', role: 'engineer', mailQueued: true });
   const [mail] = (await db.dataSource.query(`SELECT "subject", "text" FROM "mail_outbox" WHERE "to_address" = $1`, ['kim.ward@fernhallow.example'])) as { subject: string; text: string }[];
   expect(mail.subject).toBe('Trueround: your access to Fernhallow Works');
   const password = /one-time password:\s+(\S+)/.exec(mail.text)![1];
@@ -40,13 +40,26 @@ test('an admin invites a new person: 201, the e-mail carries a one-time password
   expect(members.body.members).toContainEqual(expect.objectContaining({ email: 'kim.ward@fernhallow.example', role: 'engineer' }));
 });
 
-test('inviting someone already on the site → 409; an existing user of another site is added without a new password', async () => {
+test('inviting someone already on the site → 409; an existing user of another site is added without a new password, and nothing of theirs shows', async () => {
   const again = await request(app).post(`/api/sites/${siteId}/invitations`).set(bearer(admin)).send({ email: 'planner@fernhallow.example', name: 'X', role: 'engineer' });
   expect(again.status).toBe(409);
   expect(again.body.error.message).toBe('planner@fernhallow.example is already a member of this site (as planner)');
-  const other = await request(app).post(`/api/sites/${siteId}/invitations`).set(bearer(admin)).send({ email: 'planner@brackenmoor.example', name: 'ignored', role: 'planner' });
+  const other = await request(app).post(`/api/sites/${siteId}/invitations`).set(bearer(admin)).send({ email: 'planner@brackenmoor.example', name: 'A. Pryce', role: 'planner' });
+  const fresh = await request(app).post(`/api/sites/${siteId}/invitations`).set(bearer(admin)).send({ email: 'robin.new@fernhallow.example', name: 'Robin New', role: 'planner' });
   expect(other.status).toBe(201);
-  expect(other.body).toMatchObject({ created: false, name: 'Alex Pryce' });
+  // the same shape as for a new person: the name typed here, no word of an account elsewhere
+  expect(Object.keys(other.body).sort()).toEqual(Object.keys(fresh.body).sort());
+  expect(other.body).toEqual({ userId: expect.any(String), email: 'planner@brackenmoor.example', name: 'A. Pryce', role: 'planner', mailQueued: true });
+  expect(other.text).not.toContain('Alex Pryce');
+  // the site's lists show the person by the name this site gave, and the e-mail greets them by it
+  for (const path of ['members', 'assignees']) {
+    const list = await request(app).get(`/api/sites/${siteId}/${path}`).set(bearer(admin));
+    expect(list.text).not.toContain('Alex Pryce');
+    expect(list.body.members).toContainEqual(expect.objectContaining({ email: 'planner@brackenmoor.example', name: 'A. Pryce' }));
+  }
+  const [mail] = (await db.dataSource.query(`SELECT "text", "site_id" FROM "mail_outbox" WHERE "to_address" = 'planner@brackenmoor.example'`)) as { text: string; site_id: string }[];
+  expect(mail.text).toMatch(/^Hello A\. Pryce,/);
+  expect(mail.site_id).toBe(siteId);
   const s = await signIn(app, 'planner@brackenmoor.example'); // the demo password still works
   expect(s.user.memberships.map((m) => m.siteId)).toContain(siteId);
 });

@@ -10,14 +10,22 @@
  * (GUARD_404). A body of `{}` is sent to every POST, so a caller who passes the guard gets a 400 or
  * 415 from validation and nothing is written.
  *
+ * Outside ids answer like unknown ones: for every route, an admin of Brackenmoor (who gets past
+ * every role guard on their own site) calls it with Fernhallow's ids and with ids that exist
+ * nowhere — once with every id so, once with their own site id and the inner ids so — and the two
+ * answers must be equal byte for byte (status and body). A line's `body` is a valid request body,
+ * so the call gets past validation to the look-up. Routes without ids (and the public ones but
+ * sign-in, whose e-mail is the id) make the two calls alike and pass as such.
+ *
  * Adding a route = one line in GUARDS: `'METHOD /api/path/:param': site(ROLES)` (or `{ public: true }`,
  * `signedIn()`…); path parameters take the fixture of the same name (FIXTURE_OF), `params` maps others.
  */
+import { randomUUID } from 'node:crypto';
 import type { Express } from 'express';
 import request from 'supertest';
 import { runAnalysisJob } from '../../server/analysis/job';
 import { createApp } from '../../server/app';
-import { memoryLogger, testConfig } from './helpers/app';
+import { addMember, memoryLogger, signIn, testConfig } from './helpers/app';
 import { makeWorld, pushRound, type World } from './analysis-helpers';
 
 type Who = 'tech' | 'planner' | 'engineer' | 'admin';
@@ -36,6 +44,8 @@ interface Fixtures {
   instrumentId: string;
   tag: string;
   action: string;
+  routeVersionId: string;
+  email: string;
 }
 
 interface Guard {
@@ -51,7 +61,21 @@ interface Guard {
   params?: Record<string, keyof Fixtures>;
   /** Query string; `:name` is replaced like a path parameter. */
   query?: string;
+  /** A valid body for the fixtures (default `{}`), so the outside/unknown comparison reaches the look-up. */
+  body?: (f: Fixtures) => object;
 }
+
+/** A push of one new round on the fixture's route version (the round id is the same in every call). */
+const PUSH_ROUND_ID = '6f1d3c2a-5b4e-4f70-9a18-2c3d4e5f6a7b';
+const pushBody = (f: Fixtures) => ({
+  payloadVersion: 2,
+  deviceId: 'guard-table',
+  sentAt: '2026-12-01T06:00:00Z',
+  rounds: [{ id: PUSH_ROUND_ID, routeVersionId: f.routeVersionId, startedAt: '2026-12-01T06:00:00Z', finishedAt: null, status: 'in-progress', dismissals: [] }],
+  readings: [],
+  checkAnswers: [],
+  photos: [],
+});
 
 const site = (allow: readonly Who[], more: Partial<Guard> = {}): Guard => ({ allow, ...more });
 const signedIn = (more: Partial<Guard> = {}): Guard => ({ allow: ALL, outsider: 'allowed', ...more });
@@ -60,7 +84,8 @@ const PUBLIC: Guard = { public: true };
 /** Every route, method + path as mounted. */
 const GUARDS: Record<string, Guard> = {
   'GET /api/health': PUBLIC,
-  'POST /api/auth/sign-in': PUBLIC,
+  // the e-mail is the id here: an account that exists and one that does not answer alike
+  'POST /api/auth/sign-in': { public: true, body: (f) => ({ email: f.email, password: 'not the password at all' }) },
   'POST /api/auth/refresh': PUBLIC,
   'POST /api/auth/sign-out': signedIn(),
   'POST /api/auth/password': signedIn(),
@@ -70,30 +95,30 @@ const GUARDS: Record<string, Guard> = {
   'GET /api/sites/:siteId/assignees': site(READ),
   'GET /api/sites/:siteId/work-orders': site(READ),
   'GET /api/sites/:siteId/work-orders/:id': site(READ, { params: { id: 'workOrderId' } }),
-  'POST /api/sites/:siteId/work-orders/:id/:action': site(ACT, { params: { id: 'workOrderId' } }),
+  'POST /api/sites/:siteId/work-orders/:id/:action': site(ACT, { params: { id: 'workOrderId' }, body: () => ({ comment: 'seen on the round' }) }),
   'GET /api/sites/:siteId/instruments': site(READ),
   'GET /api/sites/:siteId/instruments/:tag/history': site(READ),
-  'PATCH /api/sites/:siteId/instruments/:instrumentId': site(ADMIN),
+  'PATCH /api/sites/:siteId/instruments/:instrumentId': site(ADMIN, { body: () => ({ status: 'suspect' }) }),
   'GET /api/sites/:siteId/rounds': site(['planner', 'engineer']),
   'GET /api/sites/:siteId/rounds/:roundId/analysis': site(READ),
   'GET /api/sites/:siteId/analysis-jobs': site(['engineer', 'admin']),
   'GET /api/sites/:siteId/exports/readings.csv': site(READ),
   'GET /api/sites/:siteId/exports/work-orders.csv': site(READ),
   'POST /api/sites/:siteId/invitations': site(ADMIN),
-  'POST /api/sites/:siteId/routes/:routeId/versions': site(ADMIN),
+  'POST /api/sites/:siteId/routes/:routeId/versions': site(ADMIN, { body: () => ({ template: { id: 'x' } }) }),
   // planners walk no rounds: no push role on any site, so 403 for them wherever they are
-  'POST /api/sync/push': site(PUSH, { outsider: 403 }),
+  'POST /api/sync/push': site(PUSH, { outsider: 403, body: pushBody }),
   'GET /api/sync/pull': site(ALL, { query: 'siteId=:siteId' }),
   // uploads: the round's own technician or a site admin (server/sync/access.ts mayWriteRound)
   'POST /api/photos/:id': site(['tech', 'admin'], { params: { id: 'photoId' } }),
   'GET /api/photos/:id': site(ALL, { params: { id: 'photoId' } }),
   'GET /api/photos/:id/thumb': site(ALL, { params: { id: 'photoId' } }),
-  // dev-only (404 unless the mail fake runs, checked below); admins of any site
-  'GET /api/dev/mailbox': site(ADMIN, { outsider: 403 }),
+  // dev-only (404 unless the mail fake runs, checked below); the site's admins, its mail only
+  'GET /api/dev/mailbox': site(ADMIN, { query: 'siteId=:siteId' }),
 };
 
 /** The 404 bodies' messages the guards give a caller who may not know the thing exists. */
-const GUARD_404 = new Set(['Site not found', 'Photo not found']);
+const GUARD_404 = new Set(['Site not found', 'Photo not found', 'No photo with this id was announced on your sites: push its round with the photo first']);
 
 /** Default fixture of a path parameter by its name. */
 const FIXTURE_OF: Record<string, keyof Fixtures> = {
@@ -137,7 +162,9 @@ function routesOf(app: Express): string[] {
 let w: World;
 let app: Express;
 let f: Fixtures;
-const tokens = {} as Record<Who | 'brack', string>;
+/** Ids that exist nowhere, in the same shapes as f's. */
+let unknown: Fixtures;
+const tokens = {} as Record<Who | 'brack' | 'brackAdmin', string>;
 
 beforeAll(async () => {
   w = await makeWorld();
@@ -150,26 +177,53 @@ beforeAll(async () => {
   const [wo] = (await w.db.dataSource.query(`SELECT "id" FROM "work_orders" WHERE "site_id" = $1 LIMIT 1`, [w.fernId])) as { id: string }[];
   const [route] = (await w.db.dataSource.query(`SELECT "id" FROM "routes" WHERE "site_id" = $1 LIMIT 1`, [w.fernId])) as { id: string }[];
   expect(wo).toBeDefined();
-  f = { siteId: w.fernId, workOrderId: wo.id, roundId: r.roundId, routeId: route.id, photoId: r.photoIds['PI-101'], instrumentId: w.inst['TI-102A'], tag: 'TI-102A', action: 'comment' };
+  f = {
+    siteId: w.fernId,
+    workOrderId: wo.id,
+    roundId: r.roundId,
+    routeId: route.id,
+    photoId: r.photoIds['PI-101'],
+    instrumentId: w.inst['TI-102A'],
+    tag: 'TI-102A',
+    action: 'comment',
+    routeVersionId: w.version['boiler-house'],
+    email: 'tech@fernhallow.example',
+  };
+  unknown = {
+    siteId: randomUUID(),
+    workOrderId: randomUUID(),
+    roundId: randomUUID(),
+    routeId: randomUUID(),
+    photoId: randomUUID(),
+    instrumentId: randomUUID(),
+    tag: 'TI-909',
+    action: 'comment',
+    routeVersionId: randomUUID(),
+    email: 'nobody.here@fernhallow.example',
+  };
+  // an admin of Brackenmoor: past every role guard on their own site, a member of no Fernhallow thing
+  await addMember(w.db.dataSource, 'brackenmoor', 'admin@brackenmoor.example', 'Lee Harrow', 'admin');
+  tokens.brackAdmin = (await signIn(app, 'admin@brackenmoor.example')).accessToken;
 });
 afterAll(() => w?.db.drop());
 
-function urlOf(key: string, g: Guard): { method: string; url: string } {
+function urlOf(key: string, g: Guard, fx: Fixtures = f): { method: string; url: string } {
   const [method, path] = key.split(' ');
   const fill = (s: string) =>
     s.replace(/:(\w+)/g, (_m, name: string) => {
       const which = g.params?.[name] ?? FIXTURE_OF[name];
       if (!which) throw new Error(`${key}: no fixture for :${name}; add it to FIXTURE_OF or to the line's params`);
-      return encodeURIComponent(f[which]);
+      return encodeURIComponent(fx[which]);
     });
   return { method, url: fill(path) + (g.query ? `?${fill(g.query)}` : '') };
 }
 
-function call(key: string, g: Guard, token?: string) {
-  const { method, url } = urlOf(key, g);
+/** The route called with the fixtures `fx` (default Fernhallow's) and, with `withBody`, the line's valid body. */
+function call(key: string, g: Guard, token?: string, fx: Fixtures = f, withBody = false) {
+  const { method, url } = urlOf(key, g, fx);
   let req = request(app)[method.toLowerCase() as 'get' | 'post' | 'put' | 'patch' | 'delete'](url);
   if (token) req = req.set('Authorization', `Bearer ${token}`);
-  if (method !== 'GET' && method !== 'HEAD') req = req.send({});
+  if (method !== 'GET' && method !== 'HEAD') req = req.send(withBody && g.body ? g.body(fx) : {});
   return req;
 }
 
@@ -208,8 +262,29 @@ describe.each(Object.entries(GUARDS))('%s', (key, g) => {
       expect(res.status).not.toBe(401);
       expect(res.status).toBeLessThan(500);
     });
+    test('an id that exists and one that exists nowhere answer byte for byte alike', async () => {
+      const known = await call(key, g, undefined, f, true);
+      const none = await call(key, g, undefined, unknown, true);
+      expect({ status: known.status, body: known.text }).toEqual({ status: none.status, body: none.text });
+    });
     return;
   }
+
+  test("Brackenmoor's admin: Fernhallow ids and ids that exist nowhere answer byte for byte alike (all ids, and under their own site id)", async () => {
+    const own = (fx: Fixtures): Fixtures => ({ ...fx, siteId: w.brackId });
+    for (const [outside, none] of [
+      [f, unknown],
+      [own(f), own(unknown)],
+    ]) {
+      // under their own site a route without inner ids makes the same request twice: nothing to compare (its clock fields differ)
+      const sameRequest = (x: Fixtures) => JSON.stringify([urlOf(key, g, x), g.body?.(x) ?? null]);
+      if (sameRequest(outside) === sameRequest(none)) continue;
+      const a = await call(key, g, tokens.brackAdmin, outside, true);
+      const b = await call(key, g, tokens.brackAdmin, none, true);
+      expect({ key, status: a.status, body: a.text }).toEqual({ key, status: b.status, body: b.text });
+      expect(a.status).toBeLessThan(500);
+    }
+  });
 
   test('no token or a garbage one → 401 unauthorized', async () => {
     for (const t of [undefined, 'not-a-jwt']) {
