@@ -10,6 +10,7 @@ const mockRetryRefused = jest.fn(async () => 1);
 const mockSyncNow = jest.fn(async () => null);
 const mockStatus = {
   waiting: 3,
+  othersWaiting: [{ authorId: 'user-a', authorName: 'Robin Aske', records: 12 }],
   sent: 41,
   refused: 1,
   photosWaiting: 1,
@@ -54,4 +55,11 @@ test('sending the refused again and syncing now reach the sync client', () => {
   fireEvent.press(screen.getByTestId('sync-now'));
   expect(mockRetryRefused).toHaveBeenCalledTimes(1);
   expect(mockSyncNow).toHaveBeenCalledTimes(1);
+});
+
+test("another person's records on this device are shown as waiting for them, to be sent as theirs", () => {
+  render(<OutboxScreen />);
+  expect(screen.getByTestId('others-waiting-user-a')).toHaveTextContent(
+    "Waiting for Robin Aske: 12 records made on this device. They are sent as Robin Aske's when Robin Aske signs in here again, never as yours.",
+  );
 });

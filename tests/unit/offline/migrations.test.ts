@@ -14,9 +14,9 @@ const tables = async (db: { all<T>(sql: string): Promise<T[]> }) =>
 const columns = async (db: { all<T>(sql: string): Promise<T[]> }, table: string) =>
   (await db.all<{ name: string }>(`PRAGMA table_info(${table})`)).map((c) => c.name);
 
-test('the migrations are numbered 1…n and the latest is 2', () => {
-  expect(MIGRATIONS.map((m) => m.version)).toEqual([1, 2]);
-  expect(LATEST_SCHEMA_VERSION).toBe(2);
+test('the migrations are numbered 1…n and the latest is 3', () => {
+  expect(MIGRATIONS.map((m) => m.version)).toEqual([1, 2, 3]);
+  expect(LATEST_SCHEMA_VERSION).toBe(3);
 });
 
 describe('migration 1 (initial)', () => {
@@ -38,10 +38,23 @@ describe('migration 2 (flags-and-dismissals)', () => {
   test('adds reading flags, confirmed-after-flag and the dismissals table', async () => {
     const db = await openSqlJsDb();
     await migrate(db, MIGRATIONS, 1);
-    const r = await migrate(db);
+    const r = await migrate(db, MIGRATIONS, 2);
     expect(r).toEqual({ from: 1, to: 2, applied: ['2 flags-and-dismissals'] });
     expect(await columns(db, 'readings')).toEqual(expect.arrayContaining(['flags_json', 'confirmed_after_flag']));
     expect(await tables(db)).toContain('dismissals');
+  });
+});
+
+describe('migration 3 (authors)', () => {
+  test('adds the author to outbox rows, rounds and photos; rows from before have none', async () => {
+    const db = await openSqlJsDb();
+    await migrate(db, MIGRATIONS, 2);
+    await db.run(`INSERT INTO outbox (kind, record_id, payload, created_at) VALUES ('round', 'r1', '{}', '2026-12-01T06:00:00Z')`);
+    expect(await migrate(db)).toEqual({ from: 2, to: 3, applied: ['3 authors'] });
+    expect(await columns(db, 'outbox')).toEqual(expect.arrayContaining(['author_id', 'author_name']));
+    expect(await columns(db, 'rounds')).toEqual(expect.arrayContaining(['author_id', 'author_name']));
+    expect(await columns(db, 'photos')).toEqual(expect.arrayContaining(['author_id']));
+    expect(await db.all('SELECT author_id, author_name FROM outbox')).toEqual([{ author_id: null, author_name: null }]);
   });
 });
 
@@ -85,7 +98,7 @@ describe('upgrading a version-1 store that holds data', () => {
     const { db, round, r1, r2 } = await v1StoreWithData();
     const clock = manualClock();
     const store = await openStore(db, { clock });
-    expect(store.migration).toEqual({ from: 1, to: 2, applied: ['2 flags-and-dismissals'] });
+    expect(store.migration).toEqual({ from: 1, to: 3, applied: ['2 flags-and-dismissals', '3 authors'] });
     const readings = await store.roundReadings(round.id, { all: true });
     expect(readings.map((r) => [r.id, r.valueTyped, r.flags, r.confirmedAfterFlag, r.supersededBy])).toEqual([
       [r1.id, 1.02, [], false, r2.id],
@@ -109,7 +122,7 @@ describe('upgrading a version-1 store that holds data', () => {
     const { db } = await v1StoreWithData();
     await openStore(db);
     const again = await openStore(db);
-    expect(again.migration).toEqual({ from: 2, to: 2, applied: [] });
+    expect(again.migration).toEqual({ from: 3, to: 3, applied: [] });
   });
 
   test('the upgraded bytes, reopened as a file, read the same (sql.js export → new database)', async () => {
@@ -129,7 +142,7 @@ describe('refusals', () => {
     const err = await openStore(db).catch((e: unknown) => e);
     expect(err).toBeInstanceOf(StoreVersionError);
     expect((err as Error).message).toBe(
-      'The device store is at schema version 7, newer than this app understands (2). Reload to get the current app; nothing has been changed.',
+      'The device store is at schema version 7, newer than this app understands (3). Reload to get the current app; nothing has been changed.',
     );
   });
 
@@ -137,7 +150,7 @@ describe('refusals', () => {
     const db = await openSqlJsDb();
     await migrate(db, MIGRATIONS, 1);
     const broken: Migration = {
-      version: 3,
+      version: 4,
       name: 'broken',
       async up(tx) {
         await tx.exec('CREATE TABLE half_done (x INTEGER)');
@@ -145,8 +158,8 @@ describe('refusals', () => {
       },
     };
     await expect(migrate(db, [...MIGRATIONS, broken])).rejects.toThrow('step failed');
-    // Migration 2 ran in its own transaction and stays; 3 left nothing behind.
-    expect(await schemaVersion(db)).toBe(2);
+    // Migrations 2 and 3 ran in their own transactions and stay; 4 left nothing behind.
+    expect(await schemaVersion(db)).toBe(3);
     expect(await tables(db)).not.toContain('half_done');
   });
 
