@@ -15,7 +15,7 @@ import { hashPassword } from '@/server/auth/passwords';
 import { DEMO_PASSWORD } from '@/server/seed/demo-users';
 import { demoDesignReadings } from '@/shared/cycle';
 import { barometricFromElevation } from '@/shared/units';
-import { launch, newPage, PHONE, shot, signIn, WIDE } from './helpers/browser';
+import { beginRoundOffline, launch, newPage, PHONE, shot, signIn, WIDE } from './helpers/browser';
 import { startTestServer, type RunningServer } from './helpers/server';
 
 let server: RunningServer;
@@ -63,17 +63,8 @@ async function signOut(page: Page) {
 
 test("A records offline and signs out; B signs in: A's readings wait for A, and are stored as A's when A signs in again", async () => {
   const { context, page } = await newPage(browser, PHONE);
-  await signIn(page, server.url, 'tech@fernhallow.example', DEMO_PASSWORD);
-  await page.waitForURL('**/tech');
-  await page.getByTestId('route-boiler-house-begin').waitFor();
-  await page.evaluate('navigator.serviceWorker.ready.then(() => true)');
-  await page.waitForFunction('!!navigator.serviceWorker.controller');
-
-  // A, offline: a round with the first stop's readings
-  await context.setOffline(true);
-  await page.getByTestId('route-boiler-house-begin').click();
-  await page.waitForURL('**/tech/round/**');
-  const roundId = page.url().split('/').pop()!;
+  // A, offline: a round with the first two stops' readings
+  const roundId = await beginRoundOffline(context, page, server.url, 'tech@fernhallow.example', DEMO_PASSWORD);
   const tags: string[] = [];
   for (const [s, stop] of boilerHouseRoute.stops.slice(0, 2).entries()) {
     await page.getByTestId('stop-name').filter({ hasText: stop.name }).waitFor();

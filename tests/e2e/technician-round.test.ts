@@ -15,7 +15,7 @@ import sharp from 'sharp';
 import { boilerHouseRoute } from '@/checklists/demo/boiler-house';
 import { demoDesignReadings } from '@/shared/cycle';
 import { barometricFromElevation } from '@/shared/units';
-import { launch, newPage, PHONE, shot, signIn } from './helpers/browser';
+import { beginRoundOffline, launch, newPage, PHONE, shot } from './helpers/browser';
 import { startTestServer, type RunningServer } from './helpers/server';
 
 const photoDir = mkdtempSync(join(tmpdir(), 'tr-photos-'));
@@ -53,17 +53,8 @@ async function enter(page: Page, tag: string, value: string) {
 
 test('a technician walks the boiler-house round offline, reloads mid-round, finishes and syncs', async () => {
   const { context, page } = await newPage(browser, PHONE);
-  await signIn(page, server.url, 'tech@fernhallow.example', 'trueround-demo');
-  await page.waitForURL('**/tech');
-  // Reference data has come down once, and the service worker holds the app shell.
-  await page.getByTestId('route-boiler-house-begin').waitFor();
-  await page.evaluate('navigator.serviceWorker.ready.then(() => true)');
-  await page.waitForFunction('!!navigator.serviceWorker.controller');
-
-  await context.setOffline(true);
-  await page.getByTestId('route-boiler-house-begin').click();
-  await page.waitForURL('**/tech/round/**');
-  const roundId = page.url().split('/').pop()!;
+  // Reference data has come down once, and the service worker holds the app shell; then offline.
+  const roundId = await beginRoundOffline(context, page, server.url, 'tech@fernhallow.example', 'trueround-demo');
 
   const stops = boilerHouseRoute.stops;
   for (let s = 0; s < stops.length; s++) {

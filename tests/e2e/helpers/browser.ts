@@ -46,3 +46,19 @@ export async function signIn(page: Page, baseUrl: string, email: string, passwor
   await page.getByTestId('sign-in-password').fill(password);
   await page.getByTestId('sign-in-submit').click();
 }
+
+/**
+ * Signs in as a technician, waits until reference data has come down and the service worker
+ * holds the app shell, goes offline and begins a boiler-house round; returns the round's id.
+ */
+export async function beginRoundOffline(context: BrowserContext, page: Page, baseUrl: string, email: string, password: string): Promise<string> {
+  await signIn(page, baseUrl, email, password);
+  await page.waitForURL('**/tech');
+  await page.getByTestId('route-boiler-house-begin').waitFor();
+  await page.evaluate('navigator.serviceWorker.ready.then(() => true)');
+  await page.waitForFunction('!!navigator.serviceWorker.controller');
+  await context.setOffline(true);
+  await page.getByTestId('route-boiler-house-begin').click();
+  await page.waitForURL('**/tech/round/**');
+  return page.url().split('/').pop()!;
+}
