@@ -57,7 +57,7 @@ export function exportsRouter(): Router {
       const params: unknown[] = [siteId, from, to, EXPORT_PAGE];
       const keyset = after ? `AND (r."device_time", r."id") > ($${params.push(after.t)}::timestamptz, $${params.push(after.id)}::uuid)` : '';
       const rows = (await dataSource.query(
-        `SELECT r."id", r."device_time"::text AS "time_key", r."round_id", rt."key" AS "route", u."name" AS "technician", r."device_time", r."received_at", i."tag", i."quantity",
+        `SELECT r."id", r."device_time"::text AS "time_key", r."round_id", rt."key" AS "route", COALESCE(tm."display_name", u."name") AS "technician", r."device_time", r."received_at", i."tag", i."quantity",
                 r."value_typed", r."unit", r."reference", r."value_si", r."skip_reason", r."note", r."supersedes",
                 EXISTS (SELECT 1 FROM "readings" s WHERE s."supersedes" = r."id") AS "superseded",
                 ai."reconciled_si", ai."reconciled_sigma_si", ai."z", ai."suspect"
@@ -66,6 +66,7 @@ export function exportsRouter(): Router {
            JOIN "route_versions" v ON v."id" = ro."route_version_id"
            JOIN "routes" rt ON rt."id" = v."route_id"
            JOIN "users" u ON u."id" = ro."technician_id"
+           LEFT JOIN "memberships" tm ON tm."user_id" = ro."technician_id" AND tm."site_id" = ro."site_id"
            JOIN "instruments" i ON i."id" = r."instrument_id"
            LEFT JOIN "analysis_instruments" ai ON ai."reading_id" = r."id" AND ai."is_current"
           WHERE ro."site_id" = $1 AND r."device_time" >= $2 AND r."device_time" < $3 ${keyset}
@@ -107,11 +108,13 @@ export function exportsRouter(): Router {
 
   r.get('/:siteId/exports/work-orders.csv', requireSiteRole(...READ_ROLES), async (req, res) => {
     const rows = (await deps(req).dataSource.query(
-      `SELECT w."code", w."kind", w."status", w."priority", w."title", w."instrument_tag", w."equipment_ref", u."name" AS "assignee",
+      `SELECT w."code", w."kind", w."status", w."priority", w."title", w."instrument_tag", w."equipment_ref", COALESCE(am."display_name", u."name") AS "assignee",
               to_char(w."due_date", 'YYYY-MM-DD') AS "due_date", to_char(w."scheduled_for", 'YYYY-MM-DD') AS "scheduled_for", w."opened_at", w."closed_at",
               (SELECT count(*)::int FROM "work_order_findings" wf WHERE wf."work_order_id" = w."id") AS "findings", w."reopen_count", w."cancel_reason",
               m."code" AS "merged_into"
-         FROM "work_orders" w LEFT JOIN "users" u ON u."id" = w."assignee_id" LEFT JOIN "work_orders" m ON m."id" = w."merged_into_id"
+         FROM "work_orders" w LEFT JOIN "users" u ON u."id" = w."assignee_id"
+         LEFT JOIN "memberships" am ON am."user_id" = w."assignee_id" AND am."site_id" = w."site_id"
+         LEFT JOIN "work_orders" m ON m."id" = w."merged_into_id"
         WHERE w."site_id" = $1 ORDER BY w."number"`,
       [siteOf(req).siteId],
     )) as Record<string, unknown>[];

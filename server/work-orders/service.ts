@@ -50,12 +50,15 @@ const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
 
 const SUMMARY_COLUMNS = `
   w."id", w."code", w."site_id", w."unit_id", w."kind", w."status", w."priority", w."title", w."instrument_id", w."instrument_tag",
-  w."equipment_ref", w."assignee_id", u."name" AS "assignee_name", to_char(w."due_date", 'YYYY-MM-DD') AS "due_date",
+  w."equipment_ref", w."assignee_id", COALESCE(am."display_name", u."name") AS "assignee_name", to_char(w."due_date", 'YYYY-MM-DD') AS "due_date",
   to_char(w."scheduled_for", 'YYYY-MM-DD') AS "scheduled_for", w."cancel_reason", w."merged_into_id", m."code" AS "merged_into_code",
   w."reopen_count", w."opened_at", w."updated_at", w."closed_at",
   (SELECT count(*)::int FROM "work_order_findings" wf WHERE wf."work_order_id" = w."id") AS "finding_count",
   (SELECT max(f."created_at") FROM "work_order_findings" wf JOIN "findings" f ON f."id" = wf."finding_id" WHERE wf."work_order_id" = w."id") AS "last_finding_at"`;
-const SUMMARY_FROM = `"work_orders" w LEFT JOIN "users" u ON u."id" = w."assignee_id" LEFT JOIN "work_orders" m ON m."id" = w."merged_into_id"`;
+// People by the name this site knows them by (memberships.display_name, set at an invitation), else their account's.
+const SUMMARY_FROM = `"work_orders" w LEFT JOIN "users" u ON u."id" = w."assignee_id"
+  LEFT JOIN "memberships" am ON am."user_id" = w."assignee_id" AND am."site_id" = w."site_id"
+  LEFT JOIN "work_orders" m ON m."id" = w."merged_into_id"`;
 
 interface SummaryRow {
   id: string;
@@ -313,17 +316,19 @@ export async function getWorkOrder(ds: DataSource, siteId: string, id: string): 
   const [row] = (await ds.query(`SELECT ${SUMMARY_COLUMNS} FROM ${SUMMARY_FROM} WHERE w."id" = $1 AND w."site_id" = $2`, [id, siteId])) as SummaryRow[];
   if (!row) throw notFound();
   const events = (await ds.query(
-    `SELECT e."id", e."at", e."actor_id", u."name" AS "actor_name", e."type", e."from_status", e."to_status", e."changes", e."comment"
+    `SELECT e."id", e."at", e."actor_id", COALESCE(em."display_name", u."name") AS "actor_name", e."type", e."from_status", e."to_status", e."changes", e."comment"
        FROM "work_order_events" e LEFT JOIN "users" u ON u."id" = e."actor_id"
+       LEFT JOIN "memberships" em ON em."user_id" = e."actor_id" AND em."site_id" = $2
       WHERE e."work_order_id" = $1 ORDER BY e."at", e."id"`,
-    [id],
+    [id, siteId],
   )) as { id: string; at: Date; actor_id: string | null; actor_name: string | null; type: string; from_status: WorkOrderStatus | null; to_status: WorkOrderStatus | null; changes: Record<string, unknown>; comment: string | null }[];
   const calibrations = (await ds.query(
     `SELECT c."id", c."work_order_id", c."instrument_id", c."as_found", c."as_left", c."unit", c."reference", to_char(c."calibrated_on", 'YYYY-MM-DD') AS "calibrated_on",
-            c."calibrated_by", u."name" AS "calibrated_by_name", c."note"
+            c."calibrated_by", COALESCE(cm."display_name", u."name") AS "calibrated_by_name", c."note"
        FROM "calibration_records" c JOIN "users" u ON u."id" = c."calibrated_by"
+       LEFT JOIN "memberships" cm ON cm."user_id" = c."calibrated_by" AND cm."site_id" = $2
       WHERE c."work_order_id" = $1 ORDER BY c."created_at"`,
-    [id],
+    [id, siteId],
   )) as { id: string; work_order_id: string; instrument_id: string; as_found: number; as_left: number; unit: string; reference: CalibrationRecordView['reference']; calibrated_on: string; calibrated_by: string; calibrated_by_name: string; note: string | null }[];
   return {
     ...summaryOf(row),

@@ -374,3 +374,19 @@ test('a balance that does not close because of a suspect instrument on it joins 
   expect(wo).toMatchObject({ kind: 'calibrate', instrumentTag: 'TI-206' });
   expect(l.items.filter((x) => x.kind === 'inspect')).toEqual([]);
 });
+
+test("a person invited from another site shows by the name this site gave them, in the work order and its CSV, never their account's own", async () => {
+  // planner@brackenmoor.example is "Alex Pryce" on their account; Fernhallow's admin invites them as "A. Pryce"
+  const inv = await api(w, 'admin').post(`${base()}/invitations`, { email: 'planner@brackenmoor.example', name: 'A. Pryce', role: 'engineer' });
+  expect(inv.status).toBe(201);
+  await analysed({ bias: { 'TI-102A': 10 } });
+  const open = (await list()).items.find((o) => ['open', 'triaged'].includes(o.status));
+  expect(open).toBeDefined();
+  const assigned = await api(w, 'planner').post(`${base()}/work-orders/${open!.id}/assign`, { userId: w.userIds.brackPlanner });
+  expect(assigned.status).toBe(200);
+  expect(assigned.body.assignee).toEqual({ id: w.userIds.brackPlanner, name: 'A. Pryce' });
+  expect(JSON.stringify(await detail(open!.id))).not.toContain('Alex Pryce');
+  const csv = await api(w, 'planner').get(`${base()}/exports/work-orders.csv`);
+  expect(csv.text).toContain('A. Pryce');
+  expect(csv.text).not.toContain('Alex Pryce');
+});
