@@ -651,9 +651,12 @@ export class Store {
     });
   }
 
-  async refusedItems(): Promise<RefusedItem[]> {
+  /** Refused rows (of the scope's author, and those without one). */
+  async refusedItems(scope?: AuthorScope): Promise<RefusedItem[]> {
+    const a = byAuthor(scope);
     const rows = await this.db.all<{ seq: number; kind: string; record_id: string; refused_message: string | null; refused_details: string | null; refused_at: string | null }>(
-      `SELECT seq, kind, record_id, refused_message, refused_details, refused_at FROM outbox WHERE state = 'refused' ORDER BY seq`,
+      `SELECT seq, kind, record_id, refused_message, refused_details, refused_at FROM outbox WHERE state = 'refused'${a.sql} ORDER BY seq`,
+      a.params,
     );
     return rows.map((r) => {
       let details: unknown = null;

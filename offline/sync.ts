@@ -260,7 +260,8 @@ export class SyncClient {
   }
 
   async status(): Promise<SyncStatus> {
-    const [counts, meta, refusedItems] = await Promise.all([this.store.outboxCounts(this.scope() ?? undefined), this.store.syncMeta(), this.store.refusedItems()]);
+    const scope = this.scope() ?? undefined;
+    const [counts, meta, refusedItems] = await Promise.all([this.store.outboxCounts(scope), this.store.syncMeta(), this.store.refusedItems(scope)]);
     return {
       ...counts,
       ...meta,
