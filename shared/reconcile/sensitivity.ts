@@ -39,6 +39,12 @@ export interface ReconciledSensitivity {
   covariance(a: string, b: string): number;
   /** redundancy number r_ii = 1 − ∂x̂_i/∂x_m,i of a measurement (0: no balance checks it; 1: the rest fixes it alone) */
   redundancy(id: string): number;
+  /**
+   * Minimal detectable bias of a measurement (Baarda 1968): the bias ∇ that moves its normalised
+   * correction z_i = |e_i|/√V_e,ii by δ0, i.e. ∇ = δ0·√V_e,ii / (V_e·Σ⁻¹)_ii — for uncorrelated
+   * measurements δ0·σ_i/√r_ii. Same unit as the measurement; null when no balance checks it.
+   */
+  minimalDetectableBias(id: string, delta0: number): number | null;
 }
 
 const FD_STEP = Math.cbrt(2.220446049250313e-16);
@@ -159,5 +165,17 @@ export function reconciledSensitivity(input: ReconcileInput, result: ReconcileRe
     const r = 1 - sXi.get(i, i);
     return r < 1e-12 ? 0 : r;
   };
-  return { inputs, inputSigmas: sig, inputCorrelation: corrData, outputs, gain, covariance, redundancy };
+  const minimalDetectableBias = (id: string, delta0: number): number | null => {
+    const r = redundancy(id);
+    if (r === 0) return null;
+    const i = idx.get(id)!;
+    // (R·C)_ii in σ units, R = I − S_ξ
+    let rc = r;
+    if (corr) {
+      rc = 0;
+      for (let j = 0; j < n; j++) rc += ((i === j ? 1 : 0) - sXi.get(i, j)) * corr.get(j, i);
+    }
+    return rc > 0 ? (delta0 * sig[i] * Math.sqrt(rc)) / r : null;
+  };
+  return { inputs, inputSigmas: sig, inputCorrelation: corrData, outputs, gain, covariance, redundancy, minimalDetectableBias };
 }
