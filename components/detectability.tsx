@@ -26,10 +26,10 @@ export function detectabilityWords(d: InstrumentDetectability): string {
       return `${d.tag} was not read in the latest analysed round: no figure.`;
     case 'unchecked':
       return d.quantity === 'level'
-        ? `No balance can check ${d.tag}: levels enter no balance; compare it with the next gauge by eye.`
+        ? `No balance can check ${d.tag}: levels enter no balance; only a second gauge glass, compared by eye, would show a fault.`
         : `No balance can check ${d.tag}: a bias of any size stays unseen.`;
     case 'weak':
-      return `The balances notice ${d.tag} only from ${showDeltaOf(d.quantity, d.mdb!)} off (redundancy ${d.redundancy!.toFixed(3)}: weakly checked).`;
+      return `The balances notice ${d.tag} only from ${showDeltaOf(d.quantity, d.mdb!)} off (redundancy ${d.redundancy!.toPrecision(2)}: weakly checked).`;
     default:
       return `The balances notice ${d.tag} from ${showDeltaOf(d.quantity, d.mdb!)} off (redundancy ${d.redundancy!.toFixed(2)}).`;
   }
@@ -49,7 +49,7 @@ export function DetectabilitySummary({ unit, testID }: { unit: UnitDetectability
     <View style={styles.stack} testID={testID}>
       <ThemedText variant="label" bold>{`What the balances can check — ${unit.unitName}`}</ThemedText>
       <ThemedText variant="caption" muted>
-        {`At the round analysed ${new Date(unit.analysedAt).toLocaleString()}: ${checked} of ${rows.length} instruments are checked by the balances; ${open.filter((r) => r.status === 'unchecked').length} no balance can check, ${open.filter((r) => r.status === 'weak').length} only weakly. “Notice from” is the smallest bias the balances find: ${powerWords(unit)} (Baarda's minimal detectable bias).`}
+        {`At the unit's latest analysed round (analysed ${new Date(unit.analysedAt).toLocaleString()}): ${checked} of ${rows.length} instruments are checked by the balances; ${open.filter((r) => r.status === 'unchecked').length} no balance can check, ${open.filter((r) => r.status === 'weak').length} only weakly. “Notice from” is the smallest bias the balances find: ${powerWords(unit)} (Baarda's minimal detectable bias).`}
       </ThemedText>
       {open.map((r) => (
         <View key={r.tag} style={styles.item} testID={`${testID}-${r.tag}`}>

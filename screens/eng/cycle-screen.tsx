@@ -139,6 +139,7 @@ export function figureIntervalWords(p: PerformanceFigure): string {
   const u = p.uncertainty;
   if (p.value === null) return '—';
   if (!u) return 'no interval (the balances did not close)';
+  if (u.U === 0) return 'fixed by the model (no reading moves it)';
   if (u.determinable) return `${showFigure(p, p.value - u.U)} to ${showFigure(p, p.value + u.U)}`;
   const tags = u.budget.map((b) => b.tag);
   const share = Math.round(100 * u.budget.reduce((a, b) => a + b.share, 0));

@@ -43,7 +43,7 @@ export function InstrumentScreen({ tag }: { tag: string }) {
         <Card testID="instrument-detectability">
           <ThemedText variant="label" tone={det.status === 'unchecked' ? 'danger' : undefined}>{detectabilityWords(det)}</ThemedText>
           {det.remedy ? <ThemedText variant="label">{`What would check it: ${remedyWords(det.remedy)}`}</ThemedText> : null}
-          <ThemedText variant="caption" muted>{`At the round analysed ${new Date(detUnit.analysedAt).toLocaleString()}; ${powerWords(detUnit)}.`}</ThemedText>
+          <ThemedText variant="caption" muted>{`At the unit's latest analysed round (analysed ${new Date(detUnit.analysedAt).toLocaleString()}); ${powerWords(detUnit)}.`}</ThemedText>
         </Card>
       ) : null}
       <View style={styles.row}>

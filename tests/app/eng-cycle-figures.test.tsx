@@ -33,3 +33,9 @@ test('the condensate pump efficiency (a 0.1 K rise between two plant thermometer
   const row = screen.getByTestId('cycle-figure-eta:cep');
   expect(within(row).queryByText('70.0 %')).toBeNull();
 });
+
+test('a figure the model fixes (the hotwell is taken as saturated: no subcooling) says so instead of a zero-width interval', () => {
+  expect(fig('subcooling:cond').uncertainty!.U).toBe(0);
+  expect(figureIntervalWords(fig('subcooling:cond'))).toBe('fixed by the model (no reading moves it)');
+});
+
