@@ -140,7 +140,13 @@ export function figureIntervalWords(p: PerformanceFigure): string {
   if (p.value === null) return '—';
   if (!u) return 'no interval (the balances did not close)';
   if (u.U === 0) return 'fixed by the model (no reading moves it)';
-  if (u.determinable) return `${showFigure(p, p.value - u.U)} to ${showFigure(p, p.value + u.U)}`;
+  if (u.determinable) {
+    // a fraction cannot leave 0–100 %: the interval is cut there, and says so
+    const lo = p.unit === '1' ? Math.max(0, p.value - u.U) : p.value - u.U;
+    const hi = p.unit === '1' ? Math.min(1, p.value + u.U) : p.value + u.U;
+    const cut = lo !== p.value - u.U ? ' (cut at 0 %)' : hi !== p.value + u.U ? ' (cut at 100 %)' : '';
+    return `${showFigure(p, lo)} to ${showFigure(p, hi)}${cut}`;
+  }
   const tags = u.budget.map((b) => b.tag);
   const share = Math.round(100 * u.budget.reduce((a, b) => a + b.share, 0));
   const who = `${joinTags(tags)} carr${tags.length > 1 ? 'y' : 'ies'} ${share} % of its variance`;

@@ -39,3 +39,8 @@ test('a figure the model fixes (the hotwell is taken as saturated: no subcooling
   expect(figureIntervalWords(fig('subcooling:cond'))).toBe('fixed by the model (no reading moves it)');
 });
 
+test('an efficiency interval that reaches past 100 % is cut there and says so (a fraction lies in 0–100 %)', () => {
+  const f = { ...fig('eta:bfp'), value: 0.9, uncertainty: { ...fig('eta:bfp').uncertainty!, U: 0.2, determinable: true } };
+  expect(figureIntervalWords(f)).toBe('70.0 % to 100.0 % (cut at 100 %)');
+});
+
