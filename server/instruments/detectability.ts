@@ -3,7 +3,7 @@
  * current analysis: its per-instrument rows hold the readings (SI absolute) and the σ the
  * analysis gave them, which are the operating point. The map is a pure function of the analysis
  * and the model, so it is kept per (analysis, model version) in a small in-process cache: the
- * search over candidate measurements reconciles the unit some forty times (about 2 s on the demo
+ * search over candidate measurements reconciles the unit some forty times (about 0.5 s on the demo
  * unit on this machine), and every process may compute it again.
  */
 import type { DataSource } from 'typeorm';

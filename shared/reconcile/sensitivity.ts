@@ -8,9 +8,12 @@
  * covariances too. This module computes them from reconcile()'s input and result alone, without
  * touching the solver: the constraints are linearised once at the returned values
  * (f + A·Δx + B·Δu = 0, analytic gradients where the constraint has them, else central
- * differences), the unmeasured variables are projected out (P = I − B·B⁺, G = P·A), and
- *   S_ξ = I − C·Gᵀ·(G·C·Gᵀ)⁺·G        (σ-scaled measured variables, C their correlation matrix),
- *   ∂û/∂x_m = −B⁺·A·S_x               (observable unmeasured variables),
+ * differences), the unmeasured variables are projected out (Householder QR with column pivoting of B, as reconcile() does: G = the rows of Qᵀ·A
+ * beyond the rank of B), and
+ *   S_ξ = I − C·Gᵀ·(G·C·Gᵀ)⁻¹·G       (σ-scaled measured variables, C their correlation matrix;
+ *                                     G a row-independent subset of the reduced constraints),
+ *   ∂û/∂x_m = −R11⁻¹·T1·S_x           (observable unmeasured variables: the basic ones of the
+ *                                     pivoted QR of B, T1 the leading rows of Qᵀ·A),
  * which is the linearised WLS estimator of VDI 2048 part 1 (cov(x̂) = Σ − Σ·Gᵀ(G·Σ·Gᵀ)⁻¹G·Σ) and
  * of Narasimhan & Jordache, Data Reconciliation and Gross Error Detection (2000), ch. 3.
  * The diagonal of S·Σ·Sᵀ reproduces reconcile()'s sigmas (tests/unit/reconcile/sensitivity.test.ts).
@@ -21,8 +24,9 @@
  *
  * Pure TypeScript, no Node built-ins.
  */
-import { Matrix, pseudoInverse } from 'ml-matrix';
+import { CholeskyDecomposition, Matrix } from 'ml-matrix';
 import type { Constraint, ReconcileInput, ReconcileResult } from './index';
+import { applyQt, pivotedQr, solveR11 } from './pivoted-qr';
 
 export interface ReconciledSensitivity {
   /** measurements the reconciliation used (inputs), in input order */
@@ -48,7 +52,8 @@ export interface ReconciledSensitivity {
 }
 
 const FD_STEP = Math.cbrt(2.220446049250313e-16);
-const PINV_TOL = 1e-10;
+/** reconcile()'s own rank tolerance */
+const RANK_TOL = 1e-9;
 
 function gradientOf(c: Constraint, at: Record<string, number>, ids: string[]): Record<string, number> {
   if (c.grad) return c.grad(at);
@@ -124,24 +129,49 @@ export function reconciledSensitivity(input: ReconcileInput, result: ReconcileRe
     corr.set(i, j, c.rho);
     corr.set(j, i, c.rho);
   }
-  // project the unmeasured variables out
-  const bPinv = q > 0 ? pseudoInverse(bS, PINV_TOL) : new Matrix(0, m);
-  const proj = q > 0 ? Matrix.eye(m).sub(bS.mmul(bPinv)) : Matrix.eye(m);
-  const gMat = proj.mmul(aS);
-  const cg = corr ? corr.mmul(gMat.transpose()) : gMat.transpose();
-  const mMat = gMat.mmul(cg);
-  const mSym = mMat.add(mMat.transpose()).mul(0.5);
-  const sXi = Matrix.eye(n).sub(cg.mmul(pseudoInverse(mSym, PINV_TOL)).mmul(gMat));
-  // outputs: measured (original units), then observable unmeasured
+  // project the unmeasured variables out: B_s·P = Q·[R11 R12; 0 0] (Householder QR with column
+  // pivoting, as reconcile() does); the last m − rank rows of Qᵀ·A_s are the reduced constraints G
+  const qrB = q > 0 ? pivotedQr(Float64Array.from(bS.to1DArray()), m, q, RANK_TOL) : null;
+  const rB = qrB?.rank ?? 0;
+  const qa = Float64Array.from(aS.to1DArray());
+  if (qrB) applyQt(qrB, qa, n);
+  const nr = m - rB;
+  // a row-independent subset of G: pivoted QR of Gᵀ
+  const gt = new Float64Array(n * nr);
+  for (let r = 0; r < nr; r++) for (let i = 0; i < n; i++) gt[i * nr + r] = qa[(rB + r) * n + i];
+  const qrG = pivotedQr(gt, n, nr, RANK_TOL);
+  const dof = qrG.rank;
+  const gSel = new Matrix(dof, n);
+  for (let k = 0; k < dof; k++) {
+    const r = qrG.perm[k];
+    for (let i = 0; i < n; i++) gSel.set(k, i, qa[(rB + r) * n + i]);
+  }
+  let sXi = Matrix.eye(n);
+  if (dof > 0) {
+    const cg = corr ? corr.mmul(gSel.transpose()) : gSel.transpose();
+    const mMat = gSel.mmul(cg);
+    const chol = new CholeskyDecomposition(mMat.add(mMat.transpose()).mul(0.5));
+    if (!chol.isPositiveDefinite()) throw new RangeError('the reduced constraint matrix G·C·Gᵀ is numerically singular');
+    sXi = Matrix.eye(n).sub(cg.mmul(chol.solve(gSel)));
+  }
+  // outputs: measured (original units), then observable unmeasured (basic variables of the QR whose
+  // value the measured ones fix: reconcile() returns a value for exactly those)
   const obs = unmeasured.map((u, j) => ({ id: u.id, j })).filter((u) => u.id in values);
   const outputs = [...inputs, ...obs.map((u) => u.id)];
   const gain = new Float64Array(outputs.length * n);
   for (let k = 0; k < n; k++) for (let j = 0; j < n; j++) gain[k * n + j] = (sig[k] * sXi.get(k, j)) / sig[j];
-  if (obs.length > 0) {
-    // Δη_s = −B_s⁺·A_s·S_ξ·Δξ_m ; Δu = cScale·Δη_s ; Δξ_m = Δx_m / σ
-    const uG = bPinv.mmul(aS).mmul(sXi).mul(-1);
+  if (obs.length > 0 && qrB && rB > 0) {
+    // R11·Δη_basic = −T1·Δξ, T1 = the first rank rows of Qᵀ·A_s; Δξ = S_ξ·Δξ_m; Δu = cScale·Δη
+    const t1s = new Matrix(rB, n);
+    for (let r = 0; r < rB; r++) for (let i = 0; i < n; i++) t1s.set(r, i, qa[r * n + i]);
+    const rhs = Float64Array.from(t1s.mmul(sXi).to1DArray());
+    const y = solveR11(qrB, rhs, n);
+    const rowOf = new Map<number, number>();
+    for (let r = 0; r < rB; r++) rowOf.set(qrB.perm[r], r);
     obs.forEach((u, k) => {
-      for (let j = 0; j < n; j++) gain[(n + k) * n + j] = (cScale[u.j] * uG.get(u.j, j)) / sig[j];
+      const r = rowOf.get(u.j);
+      if (r === undefined) return;
+      for (let j = 0; j < n; j++) gain[(n + k) * n + j] = (-cScale[u.j] * y[r * n + j]) / sig[j];
     });
   }
   const outIdx = new Map(outputs.map((id, k) => [id, k]));
