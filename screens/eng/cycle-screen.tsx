@@ -1,7 +1,8 @@
 /**
  * A round's cycle: the state points (measured and reconciled), the cycle on the T–s chart with
  * the saturation dome and each turbine section's isentropic end point (IAPWS-IF97 ps(p_out, s_in)),
- * the balances with their residuals, and the performance figures.
+ * the balances with their residuals, and the performance figures with their 95 % intervals (or the
+ * words "not determinable from these instruments" and the readings that carry the variance).
  *
  * The analysis is unit-level: every state point of the unit is shown, also those the round's
  * route does not read, whose readings were borrowed from other rounds of the unit (within REVIEW_WINDOW_HOURS, 4 h;
@@ -122,11 +123,78 @@ const balanceColumns: Column<BalanceLine>[] = [
   { key: 'rec', label: 'Residual balanced', flex: 1.2, numeric: true, render: (b) => showBalance(b.row, b.row.reconciled?.residual ?? null) },
 ];
 
+export const NOT_DETERMINABLE = 'not determinable from these instruments';
+
+const joinTags = (t: string[]) => (t.length <= 1 ? t.join('') : `${t.slice(0, -1).join(', ')} and ${t[t.length - 1]}`);
+
+/** The balanced value, or the words that say it cannot be had from these instruments. */
+export function figureValueWords(p: PerformanceFigure): string {
+  if (p.value === null) return '—';
+  if (p.uncertainty && !p.uncertainty.determinable) return NOT_DETERMINABLE;
+  return showFigure(p, p.value);
+}
+
+/** The 95 % interval of a balanced figure, or what would make a figure determinable. */
+export function figureIntervalWords(p: PerformanceFigure): string {
+  const u = p.uncertainty;
+  if (p.value === null) return '—';
+  if (!u) return 'no interval (the balances did not close)';
+  if (u.U === 0) return 'fixed by the model (no reading moves it)';
+  if (u.determinable) {
+    // a fraction cannot leave 0–100 %: the interval is cut there, and says so
+    const lo = p.unit === '1' ? Math.max(0, p.value - u.U) : p.value - u.U;
+    const hi = p.unit === '1' ? Math.min(1, p.value + u.U) : p.value + u.U;
+    const cut = lo !== p.value - u.U ? ' (cut at 0 %)' : hi !== p.value + u.U ? ' (cut at 100 %)' : '';
+    return `${showFigure(p, lo)} to ${showFigure(p, hi)}${cut}`;
+  }
+  const tags = u.budget.map((b) => b.tag);
+  const share = Math.round(100 * u.budget.reduce((a, b) => a + b.share, 0));
+  const who = `${joinTags(tags)} carr${tags.length > 1 ? 'y' : 'ies'} ${share} % of its variance`;
+  return u.reduceBy !== null
+    ? `±${showFigure(p, u.U)}: ${who}; ${tags.length > 1 ? 'their' : 'its'} σ would have to be ${u.reduceBy.toFixed(1)} times smaller`
+    : `±${showFigure(p, u.U)}: ${who}; better instruments there alone would not do`;
+}
+
 const figureColumns: Column<PerformanceFigure>[] = [
   { key: 'label', label: 'Figure', flex: 2.5, render: (p) => p.label },
-  { key: 'value', label: 'Balanced', flex: 1, numeric: true, render: (p) => showFigure(p, p.value) },
-  { key: 'measured', label: 'As read', flex: 1, numeric: true, render: (p) => showFigure(p, p.measured) },
+  {
+    key: 'value',
+    label: 'Balanced',
+    flex: 1.2,
+    numeric: true,
+    render: (p) => (
+      <ThemedText variant="label" numeric muted={figureValueWords(p) === NOT_DETERMINABLE} testID={`cycle-figure-${p.id}-value`}>
+        {figureValueWords(p)}
+      </ThemedText>
+    ),
+  },
+  {
+    key: 'interval',
+    label: '95 % interval',
+    flex: 2,
+    numeric: true,
+    render: (p) => (
+      <ThemedText variant="label" numeric={!!p.uncertainty?.determinable} testID={`cycle-figure-${p.id}-interval`}>
+        {figureIntervalWords(p)}
+      </ThemedText>
+    ),
+  },
+  { key: 'measured', label: 'As read', flex: 1, numeric: true, render: (p) => (p.uncertainty && !p.uncertainty.determinable ? '—' : showFigure(p, p.measured)) },
 ];
+
+/** The performance figures with their intervals. */
+export function PerformanceTable({ figures }: { figures: PerformanceFigure[] }) {
+  return (
+    <View style={styles.stack}>
+      <ThemedText variant="caption" muted>
+        {'Balanced: from the reconciled state, with the 95 % interval propagated from every reading’s uncertainty through the balances (GUM law of propagation, JCGM 100:2008). A figure whose interval is wider than half its meaningful span (0–100 % for an efficiency, 20 K for a temperature difference, ±25 % for a power or the heat rate) is '}
+        {NOT_DETERMINABLE}
+        {'; the line names the readings that carry its variance. As read: the readings alone, without the balances; their uncertainty is never smaller than the balanced one.'}
+      </ThemedText>
+      <DataTable rows={figures} columns={figureColumns} rowKey={(p) => p.id} testID="cycle-figures" rowTestID={(p) => `cycle-figure-${p.id}`} />
+    </View>
+  );
+}
 
 function Chart({ a, model, borrowed }: { a: RoundAnalysisResponse; model: unknown; borrowed: ReadonlySet<string> }) {
   const [width, setWidth] = useState(0);
@@ -201,7 +269,7 @@ export function CycleScreen({ roundId }: { roundId: string }) {
       <ThemedText variant="title">State points</ThemedText>
       <DataTable rows={a.statePoints} columns={pointColumns(origins)} rowKey={(p) => p.id} testID="cycle-points" rowTestID={(p) => `cycle-point-${p.id}`} />
       <ThemedText variant="title">Performance</ThemedText>
-      <DataTable rows={a.performance} columns={figureColumns} rowKey={(p) => p.id} testID="cycle-figures" rowTestID={(p) => `cycle-figure-${p.id}`} />
+      <PerformanceTable figures={a.performance} />
       <ThemedText variant="title">Balances</ThemedText>
       <DataTable rows={balances} columns={balanceColumns} rowKey={(b) => b.key} testID="cycle-balances" />
     </View>

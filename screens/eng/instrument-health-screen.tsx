@@ -1,19 +1,24 @@
 /**
  * Instrument health: every instrument of the site with the flags of the last 30 days, the mean
  * normalised correction, the estimated bias with its sign, calibration and status; worst first,
- * sortable by any column. Below it, recent analysed rounds to open a round's cycle.
+ * sortable by any column; each row says from how large a bias the balances notice the instrument
+ * (the detectability map), and a card lists the instruments no balance can check with the one
+ * measurement that would. Below it, recent analysed rounds to open a round's cycle.
  */
 import { Link, useRouter } from 'expo-router';
 import { useMemo, useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 import { Card } from '@/components/card';
 import { DataTable, ExportButton, type Column } from '@/components/data-table';
-import { biasWords, InstrumentStatusMark } from '@/components/instrument-values';
+import { DetectabilitySummary } from '@/components/detectability';
+import { biasWords, InstrumentStatusMark, showDeltaOf } from '@/components/instrument-values';
 import { ThemedText } from '@/components/themed-text';
 import { space, touchTarget } from '@/constants/theme';
 import { useSession } from '@/hooks/session';
+import { useDetectability } from '@/hooks/queries/detectability';
 import { useInstrumentHealth, useInstrumentHistory } from '@/hooks/queries/instruments';
 import type { InstrumentHealth } from '@/shared/api/analysis';
+import type { DetectabilityResponse, InstrumentDetectability } from '@/shared/api/detectability';
 
 const statusRank: Record<string, number> = { suspect: 0, 'out-of-service': 1, ok: 2 };
 
@@ -36,6 +41,37 @@ const sorters: Record<string, (a: InstrumentHealth, b: InstrumentHealth) => numb
   bias: (a, b) => Math.abs(a.biasSi30d ?? 0) - Math.abs(b.biasSi30d ?? 0),
   due: (a, b) => (a.calibrationDue ?? '9999').localeCompare(b.calibrationDue ?? '9999'),
 };
+
+/** "0.96 K", "not checked", "—": the smallest bias the balances notice, in the instrument's unit. */
+export function noticeFromWords(d: InstrumentDetectability | undefined): string {
+  if (!d || d.status === 'not-read') return '—';
+  if (d.status === 'unchecked') return 'no balance checks it';
+  return `${showDeltaOf(d.quantity, d.mdb!)}${d.status === 'weak' ? ' (weak)' : ''}`;
+}
+
+const detectabilityOf = (map: DetectabilityResponse | undefined) => {
+  const out = new Map<string, InstrumentDetectability>();
+  for (const u of map?.units ?? []) for (const i of u.instruments) out.set(`${u.unitId}|${i.tag}`, i);
+  return out;
+};
+
+const columnsWith = (det: Map<string, InstrumentDetectability>): Column<InstrumentHealth>[] => [
+  ...columns,
+  {
+    key: 'mdb',
+    label: 'Balances notice from',
+    flex: 1.3,
+    numeric: true,
+    render: (i) => {
+      const d = det.get(`${i.unitId}|${i.tag}`);
+      return (
+        <ThemedText variant="label" numeric tone={d?.status === 'unchecked' ? 'danger' : undefined} testID={`health-${i.tag}-mdb`}>
+          {noticeFromWords(d)}
+        </ThemedText>
+      );
+    },
+  },
+];
 
 const columns: Column<InstrumentHealth>[] = [
   { key: 'tag', label: 'Tag', flex: 1, sortKey: 'tag', render: (i) => <ThemedText variant="label" bold>{i.tag}</ThemedText> },
@@ -79,6 +115,8 @@ export function InstrumentHealthScreen() {
   const router = useRouter();
   const { membership } = useSession();
   const q = useInstrumentHealth();
+  const det = useDetectability();
+  const detByTag = useMemo(() => detectabilityOf(det.data), [det.data]);
   const [sort, setSort] = useState('worst');
   const rows = useMemo(() => {
     const all = [...(q.data?.instruments ?? [])];
@@ -106,7 +144,7 @@ export function InstrumentHealthScreen() {
       {q.data ? (
         <DataTable
           rows={rows}
-          columns={columns}
+          columns={columnsWith(detByTag)}
           rowKey={(i) => i.id}
           testID="health-table"
           rowTestID={(i) => `health-row-${i.tag}`}
@@ -115,6 +153,12 @@ export function InstrumentHealthScreen() {
           onPressRow={(i) => router.push(`/eng/instruments/${encodeURIComponent(i.tag)}`)}
         />
       ) : null}
+      {det.error ? <ThemedText tone="danger" testID="detectability-error">{det.error.message}</ThemedText> : null}
+      {(det.data?.units ?? []).map((u) => (
+        <Card key={u.unitId}>
+          <DetectabilitySummary unit={u} testID={`detectability-${u.unitId}`} />
+        </Card>
+      ))}
       <RecentRounds tag={common} roundHref={(id) => `/eng/rounds/${id}`} />
     </View>
   );

@@ -1,13 +1,18 @@
-/** One instrument: its readings against what the balances say, with the ±2σ band, and the rounds behind each point. */
+/**
+ * One instrument: its readings against what the balances say, with the ±2σ band, the rounds behind
+ * each point, and from how large a bias the balances notice it (or that none can, and what would).
+ */
 import { Link } from 'expo-router';
 import { useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 import { Button } from '@/components/button';
 import { Card } from '@/components/card';
 import { InstrumentTrend } from '@/components/instrument-trend';
+import { detectabilityWords, powerWords, remedyWords } from '@/components/detectability';
 import { biasWords, InstrumentStatusMark, showDeltaOf, showValueOf } from '@/components/instrument-values';
 import { ThemedText } from '@/components/themed-text';
 import { space, touchTarget } from '@/constants/theme';
+import { useDetectability } from '@/hooks/queries/detectability';
 import { useInstrumentHealth, useInstrumentHistory } from '@/hooks/queries/instruments';
 
 const RANGES = [7, 30, 90] as const;
@@ -18,6 +23,9 @@ export function InstrumentScreen({ tag }: { tag: string }) {
   const h = useInstrumentHistory(tag, from);
   const health = useInstrumentHealth().data?.instruments.find((i) => i.tag === tag);
   const q = h.data?.instrument.quantity ?? health?.quantity ?? null;
+  const unitId = h.data?.instrument.unitId ?? health?.unitId;
+  const detUnit = useDetectability().data?.units.find((u) => u.unitId === unitId);
+  const det = detUnit?.instruments.find((i) => i.tag === tag);
   const last = [...(h.data?.points ?? [])].reverse().slice(0, 12);
   return (
     <View style={styles.stack} testID="instrument-page">
@@ -29,6 +37,13 @@ export function InstrumentScreen({ tag }: { tag: string }) {
         <Card>
           <ThemedText variant="label">{`Over 30 days: ${health.flags30d} flags in ${health.samples30d} analysed rounds; ${biasWords(q, health.biasSi30d)}${health.meanAbsZ30d !== null ? `; mean |z| ${health.meanAbsZ30d.toFixed(2)}` : ''}.`}</ThemedText>
           <ThemedText variant="label" muted>{`Last calibrated ${health.lastCalibration ?? 'never'}${health.calibrationDue ? `, due ${health.calibrationDue}${health.calibrationOverdue ? ' (overdue)' : ''}` : ''}.`}</ThemedText>
+        </Card>
+      ) : null}
+      {det && detUnit ? (
+        <Card testID="instrument-detectability">
+          <ThemedText variant="label" tone={det.status === 'unchecked' ? 'danger' : undefined}>{detectabilityWords(det)}</ThemedText>
+          {det.remedy ? <ThemedText variant="label">{`What would check it: ${remedyWords(det.remedy)}`}</ThemedText> : null}
+          <ThemedText variant="caption" muted>{`At the unit's latest analysed round (analysed ${new Date(detUnit.analysedAt).toLocaleString()}); ${powerWords(detUnit)}.`}</ThemedText>
         </Card>
       ) : null}
       <View style={styles.row}>

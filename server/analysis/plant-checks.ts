@@ -7,7 +7,9 @@
  * → saturation temperature with IAPWS-IF97, cooling-water outlet temperature); a condenser without
  * both nominal values is not checked. A TTD growing at a steady load is the classic sign of fouled
  * tubes (or air in-leakage), which is why the order it opens is "clean". The 3 K margin is common
- * practice for condenser performance monitoring, not a standard's number.
+ * practice for condenser performance monitoring, not a standard's number. A TTD whose 95 % interval
+ * says it is not determinable from the instruments (shared/cycle/figure-uncertainty.ts) is not
+ * checked; the message carries the interval.
  *
  * missing-reading findings are dropped for instruments the round's route does not read (a route
  * covers part of the unit; the rest is read on other routes).
@@ -40,6 +42,8 @@ export function condenserChecks(model: CycleModel, performance: readonly Perform
   const out: ServerFinding[] = [];
   for (const f of performance) {
     if (f.kind !== 'condenser-ttd' || !f.equipmentId || typeof f.value !== 'number' || !Number.isFinite(f.value)) continue;
+    // a TTD the instruments cannot determine says nothing about the tubes
+    if (f.uncertainty && !f.uncertainty.determinable) continue;
     const design = designTtd(model, f.equipmentId);
     if (design === null) continue;
     const limit = design + CONDENSER_TTD_MARGIN_K;
@@ -51,8 +55,8 @@ export function condenserChecks(model: CycleModel, performance: readonly Perform
       instrumentTags: [],
       instrumentIds: [],
       equipmentId: f.equipmentId,
-      message: `${label}: terminal temperature difference ${f.value.toFixed(1)} K against ${design.toFixed(1)} K at design, more than the ${CONDENSER_TTD_MARGIN_K} K allowed over design: the tubes may be fouled (or air is leaking in).`,
-      evidence: { ttd: f.value, measuredTtd: f.measured, designTtd: design, limit, marginK: CONDENSER_TTD_MARGIN_K },
+      message: `${label}: terminal temperature difference ${f.value.toFixed(1)} K${f.uncertainty ? ` ± ${f.uncertainty.U.toFixed(1)} K (95 %)` : ''} against ${design.toFixed(1)} K at design, more than the ${CONDENSER_TTD_MARGIN_K} K allowed over design: the tubes may be fouled (or air is leaking in).`,
+      evidence: { ttd: f.value, ttdU95: f.uncertainty?.U ?? null, measuredTtd: f.measured, designTtd: design, limit, marginK: CONDENSER_TTD_MARGIN_K },
     });
   }
   return out;

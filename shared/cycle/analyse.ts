@@ -15,13 +15,14 @@
  * Deterministic: no clock, no randomness, every list in model order or sorted; the same inputs give
  * the same output bit for bit. Never NaN: a number that cannot be formed is null.
  */
-import { reconcile, type ReconcileResult } from '../reconcile';
+import { reconcile, type ReconcileInput, type ReconcileResult } from '../reconcile';
 import { P_MAX, T_MAX_5, type SteamPhase } from '../steam';
 import { sigmaFor } from '../uncertainty';
 import { BAROMETRIC_MAX_PA, BAROMETRIC_MIN_PA, fromSI, fromSIDelta, unitLabel, type PressureRef, type Unit } from '../units';
 import { buildEquations, SCALE, SI_UNIT_OF, type AcceptedReading, type BalanceSpec, type EquationSystem, type HExpr } from './equations';
 import { showDelta, showKPa, showSI, showValue, showWithSpread, type Shown } from './format';
 import { portUses, type Equipment, type Instrument } from './model';
+import { withUncertainty } from './figure-uncertainty';
 import { performanceFigures, type FigureState } from './performance';
 import { P_LOW, propsPT, propsSat, stateFromPH, stateFromPT, stateFromPX, tsatSafe } from './properties';
 import type {
@@ -341,18 +342,19 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
   const eq: EquationSystem = buildEquations(model, acc);
   let res: ReconcileResult | null = null;
   let recError: { code: string; message: string } | null = null;
+  const recInput: ReconcileInput = {
+    measured: eq.measured,
+    unmeasured: eq.unmeasured,
+    constraints: eq.constraints,
+    confidence: opt.confidence,
+    maxIterations: opt.maxIterations,
+    tolerance: opt.tolerance,
+  };
   if (eq.measured.length === 0 || eq.constraints.length === 0) {
     recError = { code: 'NO_DATA', message: 'no reading of this round enters a balance: nothing to reconcile' };
   } else {
     try {
-      res = reconcile({
-        measured: eq.measured,
-        unmeasured: eq.unmeasured,
-        constraints: eq.constraints,
-        confidence: opt.confidence,
-        maxIterations: opt.maxIterations,
-        tolerance: opt.tolerance,
-      });
+      res = reconcile(recInput);
     } catch (e) {
       const code = e && typeof e === 'object' && 'code' in e ? String((e as { code: unknown }).code) : 'ERROR';
       recError = { code, message: e instanceof Error ? e.message : String(e) };
@@ -622,7 +624,8 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
     const m = getMeas(id);
     return m.m !== null ? m : { ...m, m: getRec(id).m, sm: getRec(id).sm };
   };
-  const performance = performanceFigures(model, getRec, recPower, getMeasFlows, measPower);
+  const figures = performanceFigures(model, getRec, recPower, getMeasFlows, measPower);
+  const performance = res ? withUncertainty({ model, eq, reconcileInput: recInput, result: res, accepted, figures }) : figures;
 
   // ---------------------------------------------------------------- 4. findings
   const constraintsOf = new Map<string, string[]>();

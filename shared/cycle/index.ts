@@ -39,7 +39,17 @@ export {
   type VarKind,
 } from './equations';
 export { analyseRound, CycleError, type CycleErrorCode } from './analyse';
-export { performanceFigures, type FigureState, type StateOf } from './performance';
+export { performanceFigures, figureValues, type FigureState, type StateOf } from './performance';
+export { withUncertainty, reconciledStates, meaningfulSpan, K95 } from './figure-uncertainty';
+export {
+  detectabilityMap,
+  nonCentrality,
+  WEAK_REDUNDANCY,
+  type DetectabilityMap,
+  type DetectabilityOptions,
+  type InstrumentDetectability,
+  type Remedy,
+} from './detectability';
 export { propsPT, propsSat, tsatSafe, enthalpyOf, type PTProps, type SatProps } from './properties';
 export * from './types';
 export {

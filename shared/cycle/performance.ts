@@ -338,3 +338,14 @@ export function performanceFigures(
     };
   });
 }
+
+/** The value of every figure (in the order performanceFigures gives them) from one state; null where it cannot be formed. */
+export function figureValues(model: CycleModel, get: StateOf, power: (genId: string) => number | null): (number | null)[] {
+  return figureDefs(model).map((d) => {
+    try {
+      return out(d.f(get, power));
+    } catch {
+      return null;
+    }
+  });
+}

@@ -166,6 +166,30 @@ export interface PerformanceFigure {
   /** from the readings as they are (a flow nobody reads taken from the reconciliation); null where a needed pressure or temperature is not read */
   measured: number | null;
   note?: string;
+  /** the balanced value's uncertainty, propagated from the readings through the reconciliation (shared/cycle/figure-uncertainty.ts) */
+  uncertainty?: FigureUncertainty;
+}
+
+/**
+ * Uncertainty of a balanced figure: GUM law of propagation of uncertainty (JCGM 100:2008, 5.1.2)
+ * with numerical sensitivity coefficients (5.1.3, note 2) through the linearised reconciliation.
+ */
+export interface FigureUncertainty {
+  method: 'gum-lpu';
+  /** standard uncertainty, in the figure's unit */
+  u: number;
+  /** coverage factor for 95 % (normal distribution) */
+  k: number;
+  /** expanded uncertainty k·u: the 95 % interval is value ± U */
+  U: number;
+  /** false: the interval is wider than half the figure's meaningful span ("not determinable from these instruments") */
+  determinable: boolean;
+  /** the span the interval is held against, in the figure's unit (1 = 0–100 % for a fraction) */
+  span: number;
+  /** the readings carrying the variance, largest share first (shares of u², at most three, up to 90 % together) */
+  budget: { tag: string; share: number }[];
+  /** not determinable: how many times smaller the σ of the readings in `budget` would have to be to make it determinable; null when those alone cannot */
+  reduceBy: number | null;
 }
 
 export interface InstrumentResult {

@@ -99,6 +99,7 @@ const GUARDS: Record<string, Guard> = {
   'GET /api/sites/:siteId/instruments': site(READ),
   'GET /api/sites/:siteId/instruments/:tag/history': site(READ),
   'PATCH /api/sites/:siteId/instruments/:instrumentId': site(ADMIN, { body: () => ({ status: 'suspect' }) }),
+  'GET /api/sites/:siteId/detectability': site(['engineer', 'admin']),
   'GET /api/sites/:siteId/rounds': site(['planner', 'engineer']),
   'GET /api/sites/:siteId/rounds/:roundId/analysis': site(READ),
   'GET /api/sites/:siteId/analysis-jobs': site(['engineer', 'admin']),

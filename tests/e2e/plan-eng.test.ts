@@ -151,6 +151,8 @@ test('the engineer sees the instrument back in service, its trend, and a roundâ€
   await page.waitForURL(`**/eng/instruments/${TAG}`);
   await page.getByTestId('trend-chart').waitFor();
   expect(await page.getByTestId('trend-chart-band').count()).toBe(1);
+  // the detectability map: the balances check PI-302 through the deaerator's saturation and its twin
+  await page.getByTestId('instrument-detectability').filter({ hasText: `The balances notice ${TAG} from` }).waitFor();
   await shot(page, 'eng-instrument-wide');
 
   await page.getByTestId('instrument-point-0').click();
@@ -178,6 +180,23 @@ test('the engineer sees the instrument back in service, its trend, and a roundâ€
   const overlap = (p: (typeof boxes)[number], q: (typeof boxes)[number]) => p.x < q.x + q.w && q.x < p.x + p.w && p.y < q.y + q.h && q.y < p.y + p.h;
   for (let i = 0; i < boxes.length; i++) for (let j = i + 1; j < boxes.length; j++) expect(overlap(boxes[i], boxes[j])).toBe(false);
   await shot(page, 'eng-cycle-wide');
+  // every balanced figure with its 95 % interval (GUM), or the words that it is not determinable
+  const figs = (
+    await api<{ performance: { id: string; value: number | null; uncertainty?: { U: number; determinable: boolean } }[] }>(`/api/sites/${eng.siteId}/rounds/${roundId}/analysis`, eng.token)
+  ).performance.filter((f) => f.value !== null && f.uncertainty && f.uncertainty.U > 0);
+  expect(figs.length).toBeGreaterThan(3);
+  for (const f of figs) {
+    const value = await page.getByTestId(`cycle-figure-${f.id}-value`).innerText();
+    const interval = await page.getByTestId(`cycle-figure-${f.id}-interval`).innerText();
+    if (f.uncertainty!.determinable) expect(interval).toMatch(/^-?\d[\d.]* (%|K|MW|kJ\/kWh) to -?\d[\d.]* (%|K|MW|kJ\/kWh)( \(cut at (0|100) %\))?$/);
+    else {
+      expect(value).toBe('not determinable from these instruments');
+      expect(interval).toMatch(/carr(y|ies) \d+ % of its variance/);
+    }
+  }
+  await page.getByTestId('cycle-figures').scrollIntoViewIfNeeded();
+  await page.waitForTimeout(400); // let the scrolled tiles paint
+  await shot(page, 'eng-cycle-figures-wide');
   await page.getByTestId('cycle-points').scrollIntoViewIfNeeded();
   await page.waitForTimeout(400); // let the scrolled tiles paint
   await shot(page, 'eng-cycle-points-wide');
