@@ -1,4 +1,4 @@
-import { Link, usePathname, useRouter } from 'expo-router';
+import { Link, usePathname, useRouter, type Href } from 'expo-router';
 import type { ReactNode } from 'react';
 import { Pressable, ScrollView, StyleSheet, View } from 'react-native';
 import { SafeAreaView } from 'react-native-safe-area-context';
@@ -10,7 +10,7 @@ import { Button } from './button';
 import { ThemedText } from './themed-text';
 
 export interface NavItem {
-  href: string;
+  href: Extract<Href, string>;
   label: string;
   testID: string;
 }
@@ -25,7 +25,7 @@ export function AppShell({ nav, title, children }: { nav: NavItem[]; title: stri
   const pathname = usePathname();
   const { user, membership, signOut } = useSession();
   const router = useRouter();
-  const password = <Button testID="password-open" label="Password" kind="inverse" onPress={() => router.push('/password' as never)} />;
+  const password = <Button testID="password-open" label="Password" kind="inverse" onPress={() => router.push('/password')} />;
   // The group's title heads its home only; deeper screens carry their own heading.
   const heading = pathname === nav[0]?.href ? <ThemedText variant="heading" accessibilityRole="header">{title}</ThemedText> : null;
 

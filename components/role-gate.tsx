@@ -9,6 +9,6 @@ export function RoleGate({ roles, children }: { roles: Role[]; children: ReactNo
   if (status === 'loading') return <Splash />;
   if (status === 'signed-out') return <Redirect href="/sign-in" />;
   if (!membership) return <Redirect href="/sign-in" />;
-  if (!roles.includes(membership.role)) return <Redirect href={homeFor[membership.role] as never} />;
+  if (!roles.includes(membership.role)) return <Redirect href={homeFor[membership.role]} />;
   return <>{children}</>;
 }

@@ -56,7 +56,7 @@ function remember(key: string, run: ReviewRun) {
 
 export function useReview(roundId: string): ReviewState {
   const { store } = useStore();
-  const { data: load, error } = useStoreQuery((s) => loadReviewInput(s, roundId), [roundId]);
+  const { data: load, error } = useStoreQuery((s) => loadReviewInput(s, roundId), roundId);
   const key = useMemo(() => (load && load.ok ? reviewKey(load) : null), [load]);
   const [done, setDone] = useState<{ key: string; run: ReviewRun } | null>(null);
   const [failure, setFailure] = useState<Error | null>(null);

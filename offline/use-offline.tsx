@@ -4,14 +4,14 @@
  * service worker, and runs the sync client while someone is signed in.
  *
  *   const { state, store, actions, error } = useStore();       // state: opening | ready | locked | error
- *   const readings = useStoreQuery((s) => s.roundReadings(roundId), [roundId]);
+ *   const readings = useStoreQuery((s) => s.roundReadings(roundId), roundId);
  *   const status = useOutboxStatus();                          // counts, refused items, last sync…
  *   const { syncNow, retryRefused, running } = useSyncNow();
  *
  * A second browser tab gets state "locked" and `error.message` saying the app is open in another tab.
  */
 import * as Crypto from 'expo-crypto';
-import { createContext, useCallback, useContext, useEffect, useRef, useState, type DependencyList, type ReactNode } from 'react';
+import { createContext, useCallback, useContext, useEffect, useRef, useState, type ReactNode } from 'react';
 import { useSession } from '@/hooks/session';
 import { createActions, toHex, type Actions } from './actions';
 import { StoreLockedError } from './errors';
@@ -120,10 +120,11 @@ export function useStore(): Pick<OfflineValue, 'state' | 'error' | 'store' | 'ac
 }
 
 /**
- * Reads from the store and reads again after every write. `data` is undefined until the first
- * read; a failed read gives `error`.
+ * Reads from the store and reads again after every write and whenever `key` changes (the values
+ * the read depends on, joined into one string, so the effect's dependencies stay a fixed list).
+ * `data` is undefined until the first read; a failed read gives `error`.
  */
-export function useStoreQuery<T>(read: (store: Store) => Promise<T>, deps: DependencyList): { data: T | undefined; error: Error | null } {
+export function useStoreQuery<T>(read: (store: Store) => Promise<T>, key: string): { data: T | undefined; error: Error | null } {
   const { store } = useOffline();
   const [data, setData] = useState<T | undefined>(undefined);
   const [error, setError] = useState<Error | null>(null);
@@ -146,7 +147,7 @@ export function useStoreQuery<T>(read: (store: Store) => Promise<T>, deps: Depen
       live = false;
       off();
     };
-  }, [store, ...deps]);
+  }, [store, key]);
   return { data, error };
 }
 

@@ -39,7 +39,7 @@ export function PasswordScreen() {
     resolver: zodResolver(passwordFormSchema),
     defaultValues: { currentPassword: '', newPassword: '', repeat: '' },
   });
-  const home = (membership ? homeFor[membership.role] : '/') as never;
+  const home = membership ? homeFor[membership.role] : '/';
 
   const onSubmit = handleSubmit(async ({ currentPassword, newPassword }) => {
     setFailure(null);

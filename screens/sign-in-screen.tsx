@@ -35,7 +35,7 @@ export function SignInScreen() {
     try {
       const user = await signIn(email, password);
       const role = user.memberships[0]?.role;
-      router.replace((role ? homeFor[role] : '/') as never);
+      router.replace(role ? homeFor[role] : '/');
     } catch (e) {
       if (e instanceof ApiError && e.status === 401) setFailure('E-mail or password is wrong. Check both and try again.');
       else if (e instanceof ApiError && e.status === 429) setFailure('Too many attempts. Wait a few minutes, then try again.');

@@ -6,6 +6,6 @@ import { SignInScreen } from '@/screens/sign-in-screen';
 export default function SignInRoute() {
   const { status, membership } = useSession();
   if (status === 'loading') return <Splash />;
-  if (status === 'signed-in' && membership) return <Redirect href={homeFor[membership.role] as never} />;
+  if (status === 'signed-in' && membership) return <Redirect href={homeFor[membership.role]} />;
   return <SignInScreen />;
 }

@@ -3,7 +3,7 @@
  * normalised correction, the estimated bias with its sign, calibration and status; worst first,
  * sortable by any column. Below it, recent analysed rounds to open a round's cycle.
  */
-import { Link, useRouter } from 'expo-router';
+import { Link, useRouter, type Href } from 'expo-router';
 import { useMemo, useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 import { Card } from '@/components/card';
@@ -53,7 +53,7 @@ function daysAgo(n: number): string {
 }
 
 /** Recent analysed rounds, from the history of one instrument that every round reads. */
-export function RecentRounds({ tag, roundHref }: { tag: string | undefined; roundHref: (roundId: string) => string }) {
+export function RecentRounds({ tag, roundHref }: { tag: string | undefined; roundHref: (roundId: string) => Href }) {
   const h = useInstrumentHistory(tag, daysAgo(7));
   const rounds = useMemo(() => {
     const seen = new Map<string, string>();

@@ -1,5 +1,6 @@
 /** One work order: what and where, the evidence in plain words, the actions, and its history. */
 import { StyleSheet, View } from 'react-native';
+import type { Href } from 'expo-router';
 import { Card } from '@/components/card';
 import { Caution } from '@/components/caution';
 import { SeverityMark } from '@/components/severity-mark';
@@ -43,7 +44,7 @@ function History({ wo }: { wo: WorkOrderDetail }) {
   );
 }
 
-export function WorkOrderScreen({ id, cycleHref }: { id: string; cycleHref: (roundId: string) => string }) {
+export function WorkOrderScreen({ id, cycleHref }: { id: string; cycleHref: (roundId: string) => Href }) {
   const q = useWorkOrder(id);
   const wide = useWide();
   if (q.error) return <ThemedText tone="danger" testID="wo-error">{q.error.message}</ThemedText>;

@@ -33,7 +33,7 @@ export function RoundScreen({ roundId, initialStop = 0 }: { roundId: string; ini
   const [stopIndex, setStopIndex] = useState(initialStop);
   const [finishing, setFinishing] = useState(false);
   const [problem, setProblem] = useState<string | null>(null);
-  const { data, error: readError } = useStoreQuery((s) => loadRound(s, roundId, membership?.siteId ?? null), [roundId, membership?.siteId]);
+  const { data, error: readError } = useStoreQuery((s) => loadRound(s, roundId, membership?.siteId ?? null), `${roundId}|${membership?.siteId ?? ''}`);
   // the round check's engine gets compiled while the technician walks (a worker on the web)
   useEffect(() => warmUpReview(), []);
 

@@ -61,7 +61,7 @@ export function TodayScreen() {
   const me = useMe();
   const router = useRouter();
   const [busy, setBusy] = useState<string | null>(null);
-  const { data } = useStoreQuery((s) => loadToday(s, siteId), [siteId]);
+  const { data } = useStoreQuery((s) => loadToday(s, siteId), siteId);
 
   // Keep the site's elevation on the device: gauge pressures need a barometric pressure offline.
   useEffect(() => {

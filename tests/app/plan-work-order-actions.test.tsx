@@ -123,7 +123,7 @@ test('a calibration order asks for as found and as left before it closes (the se
   qc.setQueryData(workOrderKeys.detail(SITE, wo.id), { ...wo, status: 'in-progress', allowedActions: ['close', 'cancel', 'comment'] });
   render(
     <QueryClientProvider client={qc}>
-      <WorkOrderScreen id={wo.id} cycleHref={(r) => r} />
+      <WorkOrderScreen id={wo.id} cycleHref={(r) => `/plan/rounds/${r}`} />
     </QueryClientProvider>,
   );
   expect(screen.getByTestId('wo-close-submit')).toBeDisabled();
