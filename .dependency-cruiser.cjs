@@ -2,7 +2,8 @@
  * The walls between layers, checked on every `npm run lint` (dependency-cruiser reads the imports
  * of every source file, type-only ones included, and resolves `@/` through tsconfig.json).
  */
-const SOURCES = '^(app|screens|components|hooks|lib|constants|offline|checklists|shared|server|scripts|bench|tests)/';
+const SOURCES =
+  '^(app|screens|components|hooks|lib|constants|offline|checklists|shared|demo|server|scripts|bench|tests)/';
 module.exports = {
   forbidden: [
     {
@@ -46,6 +47,23 @@ module.exports = {
       comment: 'The device store and sync client sit below hooks/; hooks may use offline/, never the reverse.',
       from: { path: '^offline/' },
       to: { path: '^hooks/' },
+    },
+    {
+      name: 'hooks-below-screens',
+      severity: 'error',
+      comment: 'hooks/ serve screens and routes; they never import them.',
+      from: { path: '^hooks/' },
+      to: { path: '^(app|screens)/' },
+    },
+    {
+      name: 'engine-not-demo',
+      severity: 'error',
+      comment: 'Demo data (demo/) is for the seed, tests and benchmarks; engine and app code never import it.',
+      from: {
+        path: '^(app|screens|components|hooks|lib|constants|offline|checklists|shared|server)/',
+        pathNot: '^server/(seed|cli)/',
+      },
+      to: { path: '^demo/' },
     },
     {
       name: 'no-unresolved',

@@ -28,7 +28,8 @@ import { makeLogger } from '../server/logger';
 import type { Notifier } from '../server/notify';
 import { seedDemo } from '../server/seed/demo';
 import { DEMO_PASSWORD } from '../server/seed/demo-users';
-import { analyseRound, demoDesignReadings, demoUnit, type RoundReading } from '../shared/cycle';
+import { analyseRound, type RoundReading } from '../shared/cycle';
+import { demoDesignReadings, demoUnit } from '../demo/unit';
 import { barometricFromElevation, fromSI, type Unit } from '../shared/units';
 
 const BARO = barometricFromElevation(112);

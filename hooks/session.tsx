@@ -9,7 +9,7 @@ import { createContext, useCallback, useContext, useEffect, useMemo, useRef, use
 import type { Href } from 'expo-router';
 import { z } from 'zod';
 import { RefreshResponse, SignInResponse, TokenPair, UserView } from '@/shared/api/auth';
-import { ApiError, authedRequest, rawRequest, type TokenSource } from './api-client';
+import { ApiError, authedRequest, rawRequest, type TokenSource } from '../lib/api-client';
 
 const STORAGE_KEY = 'trueround.session';
 

@@ -1,5 +1,5 @@
 /**
- * The offline store for the screens: <OfflineProvider> (inside <SessionProvider>) opens the
+ * The offline store for the screens: <OfflineProvider session={…}> opens the
  * device database after mount, runs its migrations, asks for persistent storage, registers the
  * service worker, and runs the sync client while someone is signed in.
  *
@@ -12,7 +12,6 @@
  */
 import * as Crypto from 'expo-crypto';
 import { createContext, useCallback, useContext, useEffect, useRef, useState, type ReactNode } from 'react';
-import { useSession } from '@/hooks/session';
 import { createActions, toHex, type Actions } from './actions';
 import { StoreLockedError } from './errors';
 import { openExpoDb } from './expo-db';
@@ -44,13 +43,20 @@ const browserTimers = {
   clearTimeout: (h: unknown) => clearTimeout(h as ReturnType<typeof setTimeout>),
 };
 
-export function OfflineProvider({ children }: { children: ReactNode }) {
-  const session = useSession();
+/** What the offline store needs of the signed-in session (hooks/session.tsx supplies it). */
+export interface OfflineSession {
+  /** the session's authorised request (refreshes the access token on 401) */
+  request: AuthedRequest;
+  signedIn: boolean;
+  siteId: string | null;
+}
+
+export function OfflineProvider({ session, children }: { session: OfflineSession; children: ReactNode }) {
   const [value, setValue] = useState<OfflineValue>({ state: 'opening', error: null, store: null, actions: null, sync: null });
   const requestRef = useRef<AuthedRequest>(session.request);
   requestRef.current = session.request;
-  const siteRef = useRef<string | null>(session.membership?.siteId ?? null);
-  siteRef.current = session.membership?.siteId ?? null;
+  const siteRef = useRef<string | null>(session.siteId);
+  siteRef.current = session.siteId;
 
   // Open after mount, never at module load.
   useEffect(() => {
@@ -87,8 +93,7 @@ export function OfflineProvider({ children }: { children: ReactNode }) {
 
   // Sync while signed in; a site change pulls that site's reference data.
   const { sync } = value;
-  const signedIn = session.status === 'signed-in';
-  const siteId = session.membership?.siteId ?? null;
+  const { signedIn, siteId } = session;
   useEffect(() => {
     if (!sync || !signedIn) return;
     sync.start();

@@ -14,7 +14,7 @@ import { Card } from '@/components/card';
 import { FormPage } from '@/components/form-page';
 import { Field } from '@/components/field';
 import { ThemedText } from '@/components/themed-text';
-import { ApiError } from '@/hooks/api-client';
+import { ApiError } from '@/lib/api-client';
 import { homeFor, useSession } from '@/hooks/session';
 
 /** The server's minimum (server/auth/password-policy.ts PASSWORD_MIN), checked here first. */

@@ -10,7 +10,7 @@ import { FormPage } from '@/components/form-page';
 import { Field } from '@/components/field';
 import { ThemedText } from '@/components/themed-text';
 import { space } from '@/constants/theme';
-import { ApiError } from '@/hooks/api-client';
+import { ApiError } from '@/lib/api-client';
 import { homeFor, useSession } from '@/hooks/session';
 import { useTheme } from '@/hooks/use-theme';
 

@@ -23,7 +23,7 @@ import { useSiteReference } from '@/hooks/queries/instruments';
 import type { ReadingOrigin, RoundAnalysisResponse } from '@/shared/api/analysis';
 import type { BalanceRow, PerformanceFigure, StatePointResult } from '@/shared/cycle/types';
 import { tsFigure, turbineSections } from '@/shared/charts/ts-figure';
-import { REVIEW_WINDOW_HOURS } from '@/shared/review/assemble';
+import { REVIEW_WINDOW_HOURS } from '@/shared/round-check/assemble';
 
 export { tsFigure, turbineSections };
 

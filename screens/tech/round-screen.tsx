@@ -6,18 +6,18 @@ import { Card } from '@/components/card';
 import { Caution } from '@/components/caution';
 import { CheckField, type CheckValue } from '@/components/check-field';
 import { PhotoThumb } from '@/components/photo-thumb';
-import { ReviewSummary } from '@/components/review-summary';
+import { ReviewSummary } from '@/components/round-check-summary';
 import { parseTyped, ReadingField } from '@/components/reading-field';
 import { StopList, type StopSummary } from '@/components/stop-list';
 import { ThemedText } from '@/components/themed-text';
 import { space } from '@/constants/theme';
-import { pickPhoto } from '@/hooks/pick-photo';
-import { warmUpReview } from '@/hooks/review-runner';
+import { pickPhoto } from '@/lib/pick-photo';
+import { warmUpReview } from '@/lib/round-check-runner';
 import { useSession } from '@/hooks/session';
-import { flagCodes, flagsFor, loadRound, missingOf, siOf, type RoundData } from '@/hooks/use-round';
+import { flagCodes, flagsFor, loadRound, missingOf, siOf, type RoundData } from '@/offline/round';
 import { useWide } from '@/hooks/use-wide';
 import { useStore, useStoreQuery } from '@/offline/use-offline';
-import type { RouteReading } from '@/checklists/schema';
+import type { RouteReading } from '@/shared/route/template';
 import { UnitError, unitLabel, type Unit } from '@/shared/units';
 
 function bandText(r: RouteReading): string {

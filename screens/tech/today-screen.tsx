@@ -9,7 +9,7 @@ import { useMe } from '@/hooks/queries/me';
 import { useSite } from '@/hooks/queries/sites';
 import { roleNames } from '@/screens/role-home-screen';
 import { useSession } from '@/hooks/session';
-import { SITE_ELEVATION_META } from '@/hooks/use-round';
+import { SITE_ELEVATION_META } from '@/offline/round';
 import type { LocalRoute, Store } from '@/offline/store';
 import { useOutboxStatus, useStore, useStoreQuery } from '@/offline/use-offline';
 

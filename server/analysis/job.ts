@@ -24,9 +24,9 @@
  */
 import { createHash } from 'node:crypto';
 import type { DataSource } from 'typeorm';
-import type { RouteTemplate } from '../../checklists/schema';
+import type { RouteTemplate } from '../../shared/route/template';
 import { analyseRound, canonicalJson, type CycleModel, type RoundAnalysis, type RoundReading } from '../../shared/cycle';
-import { assembleReview, roundsFromRows, type ReadingRow } from '../../shared/review';
+import { assembleReview, roundsFromRows, type ReadingRow } from '../../shared/round-check';
 import { barometricFromElevation } from '../../shared/units';
 import type { Logger } from '../logger';
 import { notifySafely, type Notifier } from '../notify';

@@ -9,7 +9,7 @@
 import type { DataSource } from 'typeorm';
 import type { ReadingOrigin } from '../../shared/api/analysis';
 import type { InstrumentResult } from '../../shared/cycle/types';
-import { REVIEW_WINDOW_HOURS } from '../../shared/review';
+import { REVIEW_WINDOW_HOURS } from '../../shared/round-check';
 
 /** Relative agreement for "the same value" (both sides are the same double, stored and read back). */
 const SAME = 1e-9;

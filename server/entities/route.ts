@@ -1,5 +1,5 @@
 import { EntitySchema } from 'typeorm';
-import type { RouteTemplate } from '../../checklists/schema';
+import type { RouteTemplate } from '../../shared/route/template';
 import type { Site } from './site';
 import type { Unit } from './unit';
 import type { User } from './user';

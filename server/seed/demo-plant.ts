@@ -8,13 +8,13 @@
  * thermocouples and RTDs every two years, level glasses every six months).
  */
 import type { EntityManager } from 'typeorm';
-import { brackenmoorRoutes, fernhallowBarometer, fernhallowRoutes } from '../../checklists/demo';
-import type { RouteTemplate } from '../../checklists/schema';
-import { demoUnit } from '../../shared/cycle/demo-unit';
+import { brackenmoorRoutes, fernhallowBarometer, fernhallowRoutes } from '../../demo/routes';
+import type { RouteTemplate } from '../../shared/route/template';
+import { demoUnit } from '../../demo/unit';
 import type { CycleModel, Instrument as ModelInstrument } from '../../shared/cycle/model';
 import { InstrumentEntity, MembershipEntity, SiteEntity, UnitEntity, type Instrument } from '../entities';
 import { createRoute } from '../sync/route-versions';
-import { brackenmoorUnit } from './brackenmoor-unit';
+import { brackenmoorUnit } from '../../demo/brackenmoor-unit';
 import { demoSites, type DemoSiteSlug } from './demo-users';
 
 export interface DemoPlant {

@@ -45,11 +45,11 @@
  * barometric offset of a gauge read as absolute.
  */
 import { createHash } from 'node:crypto';
-import { fernhallowRoutes } from '../../checklists/demo';
-import { fernhallowBarometer } from '../../checklists/demo/fernhallow-site';
-import type { RouteCheck, RouteTemplate } from '../../checklists/schema';
+import { fernhallowRoutes } from '../../demo/routes';
+import { fernhallowBarometer } from '../../demo/routes/fernhallow-site';
+import type { RouteCheck, RouteTemplate } from '../../shared/route/template';
 import type { PushRequestV2 } from '../../shared/api/sync';
-import { demoUnit, designPoint, DESIGN_PARAMETERS, type DesignParameters, type DesignPoint } from '../../shared/cycle';
+import { demoUnit, designPoint, DESIGN_PARAMETERS, type DesignParameters, type DesignPoint } from '../../demo/unit';
 import type { Instrument } from '../../shared/cycle/model';
 import { psat, tsat } from '../../shared/steam';
 import { sigmaFor } from '../../shared/uncertainty';

@@ -5,7 +5,7 @@
  */
 import type { EntityManager } from 'typeorm';
 import { validateRoute, type RouteModel } from '../../checklists/validate';
-import type { RouteTemplate } from '../../checklists/schema';
+import type { RouteTemplate } from '../../shared/route/template';
 import { InstrumentEntity, RouteEntity, RouteVersionEntity, UnitEntity, type Route, type RouteVersion } from '../entities';
 import { AppError } from '../errors';
 

@@ -9,11 +9,11 @@
  * pushed, and the findings rows the job stored.
  */
 import { runAnalysisJob } from '../../server/analysis/job';
-import { boilerHouseRoute, condenserCoolingWaterRoute, turbineHallRoute } from '../../checklists/demo';
-import type { RouteTemplate } from '../../checklists/schema';
+import { boilerHouseRoute, condenserCoolingWaterRoute, turbineHallRoute } from '../../demo/routes';
+import type { RouteTemplate } from '../../shared/route/template';
 import type { RoundAnalysisResponse } from '../../shared/api/analysis';
 import { AnalysedRoundsResponse } from '../../shared/api/rounds';
-import { demoUnit } from '../../shared/cycle';
+import { demoUnit } from '../../demo/unit';
 import { memoryLogger } from './helpers/app';
 import { api, designRound, push, makeWorld, type RoundOptions, type World } from './analysis-helpers';
 

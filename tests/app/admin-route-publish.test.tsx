@@ -8,9 +8,9 @@
  */
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { fireEvent, render, screen, waitFor } from '@testing-library/react-native';
-import { fernhallowRouteModel, turbineHallRoute } from '@/checklists/demo';
+import { fernhallowRouteModel, turbineHallRoute } from '@/demo/routes';
 import { validateRoute } from '@/checklists/validate';
-import { ApiError } from '@/hooks/api-client';
+import { ApiError } from '@/lib/api-client';
 import { RoutesScreen } from '@/screens/admin/routes-screen';
 import type { PullResponse } from '@/shared/api/sync';
 

@@ -5,7 +5,7 @@
  * NIST SP 800-63B §5.1.1.2's minimum of 8; the server is a jest mock of the session.
  */
 import { fireEvent, render, screen, waitFor } from '@testing-library/react-native';
-import { ApiError } from '@/hooks/api-client';
+import { ApiError } from '@/lib/api-client';
 import { PasswordScreen } from '@/screens/password-screen';
 
 const mockChange = jest.fn();

@@ -6,7 +6,7 @@
  */
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { act, fireEvent, render, screen, waitFor } from '@testing-library/react-native';
-import { ApiError } from '@/hooks/api-client';
+import { ApiError } from '@/lib/api-client';
 import { workOrderKeys, workOrderQuery } from '@/hooks/queries/work-orders';
 import { WorkOrderScreen } from '@/screens/plan/work-order-screen';
 import type { WorkOrderDetail, WorkOrderListResponse } from '@/shared/api/work-orders';

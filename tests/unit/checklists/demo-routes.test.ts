@@ -12,8 +12,8 @@ import {
   fernhallowRouteModel,
   fernhallowRoutes,
   turbineHallRoute,
-} from '@/checklists/demo';
-import { demoDesignReadings, demoUnit } from '@/shared/cycle/demo-unit';
+} from '@/demo/routes';
+import { demoDesignReadings, demoUnit } from '@/demo/unit';
 import { validateModel } from '@/shared/cycle/validate';
 import { barometricFromElevation } from '@/shared/units';
 

@@ -7,7 +7,8 @@
  *   heater TTD = Tsat(p_shell) − T_feed,out, DCA = T_drain − T_feed,in
  *   η_cycle = P_el / Q_boiler, heat rate = 3600/η kJ/kWh
  */
-import { analyseRound, demoDesignPoint, demoDesignReadings, demoUnit, type PerformanceFigure } from '@/shared/cycle';
+import { analyseRound, type PerformanceFigure } from '@/shared/cycle';
+import { demoDesignPoint, demoDesignReadings, demoUnit } from '@/demo/unit';
 import { ps, tsat } from '@/shared/steam';
 import { python, withValue } from './helpers';
 

@@ -1,5 +1,5 @@
 import { useLocalSearchParams } from 'expo-router';
-import { ReviewScreen } from '@/screens/tech/review-screen';
+import { ReviewScreen } from '@/screens/tech/round-check-screen';
 
 export default function RoundReviewRoute() {
   const { roundId } = useLocalSearchParams<{ roundId: string }>();

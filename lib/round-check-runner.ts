@@ -1,0 +1,16 @@
+/**
+ * Runs the round check off the tap that asked for it. This file serves native builds and the
+ * tests: the check runs on the JavaScript thread (./review-on-this-thread.ts). The web build
+ * uses review-runner.web.ts (a Web Worker).
+ */
+import type { ReviewInput } from '@/shared/round-check';
+import { reviewOnThisThread, type ReviewRun } from './round-check-on-this-thread';
+
+export type { ReviewRun } from './round-check-on-this-thread';
+
+export function runReview(input: ReviewInput): Promise<ReviewRun> {
+  return reviewOnThisThread(input);
+}
+
+/** Gets the check's code ready before it is needed; nothing to do on the JavaScript thread. */
+export function warmUpReview(): void {}
