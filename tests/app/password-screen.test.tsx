@@ -6,7 +6,7 @@
  */
 import { fireEvent, render, screen, waitFor } from '@testing-library/react-native';
 import { ApiError } from '@/lib/api-client';
-import { PasswordScreen } from '@/screens/password-screen';
+import { PasswordScreen } from '@/screens/account/password-screen';
 
 const mockChange = jest.fn();
 jest.mock('@/hooks/session', () => ({

@@ -1,14 +1,12 @@
 import { Slot } from 'expo-router';
 import { AppShell } from '@/components/app-shell';
-import { RoleGate } from '@/components/role-gate';
 import { navFor } from '@/constants/navigation';
 
+/** The admin's area; who may enter it is decided once, in app/_layout.tsx. */
 export default function Layout() {
   return (
-    <RoleGate roles={['admin']}>
-      <AppShell nav={navFor.admin} title="Site">
-        <Slot />
-      </AppShell>
-    </RoleGate>
+    <AppShell nav={navFor.admin} title="Site">
+      <Slot />
+    </AppShell>
   );
 }

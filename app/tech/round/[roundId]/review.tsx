@@ -1,5 +1,5 @@
 import { useLocalSearchParams } from 'expo-router';
-import { ReviewScreen } from '@/screens/tech/round-check-screen';
+import { ReviewScreen } from '@/screens/rounds/round-check-screen';
 
 export default function RoundReviewRoute() {
   const { roundId } = useLocalSearchParams<{ roundId: string }>();

@@ -1,4 +1,4 @@
-import { TodayScreen } from '@/screens/tech/today-screen';
+import { TodayScreen } from '@/screens/rounds/today-screen';
 
 export default function TechToday() {
   return <TodayScreen />;

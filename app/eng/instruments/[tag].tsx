@@ -1,5 +1,5 @@
 import { useLocalSearchParams } from 'expo-router';
-import { InstrumentScreen } from '@/screens/eng/instrument-screen';
+import { InstrumentScreen } from '@/screens/instruments/instrument-screen';
 
 export default function Instrument() {
   const { tag } = useLocalSearchParams<{ tag: string }>();

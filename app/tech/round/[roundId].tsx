@@ -1,5 +1,5 @@
 import { useLocalSearchParams } from 'expo-router';
-import { RoundScreen } from '@/screens/tech/round-screen';
+import { RoundScreen } from '@/screens/rounds/round-screen';
 
 export default function RoundRoute() {
   const { roundId, stop } = useLocalSearchParams<{ roundId: string; stop?: string }>();

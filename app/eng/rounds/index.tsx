@@ -1,4 +1,4 @@
-import { RoundsScreen } from '@/screens/eng/rounds-screen';
+import { RoundsScreen } from '@/screens/cycle/rounds-screen';
 
 export default function Rounds() {
   return <RoundsScreen />;

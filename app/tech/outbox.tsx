@@ -1,4 +1,4 @@
-import { OutboxScreen } from '@/screens/tech/outbox-screen';
+import { OutboxScreen } from '@/screens/rounds/outbox-screen';
 
 export default function OutboxRoute() {
   return <OutboxScreen />;

@@ -1,5 +1,5 @@
 import { useLocalSearchParams } from 'expo-router';
-import { WorkOrderScreen } from '@/screens/plan/work-order-screen';
+import { WorkOrderScreen } from '@/screens/work-orders/work-order-screen';
 
 export default function WorkOrder() {
   const { id } = useLocalSearchParams<{ id: string }>();
