@@ -1,5 +1,5 @@
 /**
- * The round check on a phone-class processor: shared/review reviewRound on a demo round (the
+ * The round check on a phone-class processor: shared/review checkRound on a demo round (the
  * turbine hall with TI-206 6 K high, the boiler-house and condenser rounds borrowed for the rest of
  * the unit — what the review screen runs at the finish), bundled with esbuild and run in Debian's
  * chromium with the CPU unthrottled and throttled 4× (Chrome DevTools Protocol
@@ -15,7 +15,7 @@ import { join } from 'node:path';
 const ENTRY = `
 import { fernhallowRoutes } from '@/demo/routes';
 import { demoDesignReadings, demoUnit } from '@/demo/unit';
-import { reviewRound, stopsOf } from '@/shared/round-check';
+import { checkRound, stopsOf } from '@/shared/round-check';
 import { barometricFromElevation } from '@/shared/units';
 const B = barometricFromElevation(112);
 const design = demoDesignReadings(B);
@@ -32,12 +32,12 @@ export function input() {
 export function once() {
   const i = input();
   const t = performance.now();
-  const r = reviewRound(i);
+  const r = checkRound(i);
   const ms = performance.now() - t;
   if (r.retakes[0]?.tag !== 'TI-206') throw new Error('the check did not name TI-206');
   return ms;
 }
-globalThis.__reviewBench = once;
+globalThis.__roundCheckBench = once;
 `;
 
 const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
@@ -61,10 +61,10 @@ export async function run(): Promise<void> {
   const code = built.outputFiles[0].text;
 
   // baseline: the same bundle's function in node (first call, then the median of 15)
-  const sandbox: { __reviewBench?: () => number } = {};
+  const sandbox: { __roundCheckBench?: () => number } = {};
   new Function('globalThis', code)(sandbox);
-  const nodeFirst = sandbox.__reviewBench!();
-  const nodeAgain = median(Array.from({ length: 15 }, () => sandbox.__reviewBench!()));
+  const nodeFirst = sandbox.__roundCheckBench!();
+  const nodeAgain = median(Array.from({ length: 15 }, () => sandbox.__roundCheckBench!()));
 
   const { launch } = await import('../tests/e2e/helpers/browser');
   const browser = await launch();
@@ -79,9 +79,9 @@ export async function run(): Promise<void> {
         const cdp = await context.newCDPSession(page);
         await cdp.send('Emulation.setCPUThrottlingRate', { rate });
         await page.addScriptTag({ content: code });
-        firsts.push((await page.evaluate('globalThis.__reviewBench()')) as number);
+        firsts.push((await page.evaluate('globalThis.__roundCheckBench()')) as number);
         const xs: number[] = [];
-        for (let i = 0; i < 10; i++) xs.push((await page.evaluate('globalThis.__reviewBench()')) as number);
+        for (let i = 0; i < 10; i++) xs.push((await page.evaluate('globalThis.__roundCheckBench()')) as number);
         agains.push(median(xs));
         await context.close();
       }
@@ -96,7 +96,7 @@ export async function run(): Promise<void> {
         const page = await context.newPage();
         const cdp = await context.newCDPSession(page);
         await cdp.send('Emulation.setCPUThrottlingRate', { rate });
-        await page.evaluate(`globalThis.__code = ${JSON.stringify(code + ';onmessage = () => { const xs = []; for (let i = 0; i < 11; i++) xs.push(globalThis.__reviewBench()); postMessage(xs); };')}`);
+        await page.evaluate(`globalThis.__code = ${JSON.stringify(code + ';onmessage = () => { const xs = []; for (let i = 0; i < 11; i++) xs.push(globalThis.__roundCheckBench()); postMessage(xs); };')}`);
         const xs = (await page.evaluate(`new Promise((resolve) => {
           const w = new Worker(URL.createObjectURL(new Blob([globalThis.__code], { type: 'text/javascript' })));
           w.onmessage = (e) => resolve(e.data);
@@ -111,7 +111,7 @@ export async function run(): Promise<void> {
   } finally {
     await browser.close();
   }
-  console.log('round check of a demo round (reviewRound: assembly, analyseRound, re-take list)');
+  console.log('round check of a demo round (checkRound: assembly, analyseRound, re-take list)');
   console.log('| where | first check (ms) | again (ms, median) | ratio to node (again) |');
   console.log('| --- | ---: | ---: | ---: |');
   for (const r of rows) console.log(`| ${r.where} | ${r.first.toFixed(1)} | ${r.again.toFixed(1)} | ${(r.again / nodeAgain).toFixed(2)} |`);

@@ -12,7 +12,7 @@ export const balanceWords: Record<BalanceLine['status'], { glyph: string; word: 
 };
 
 /** One piece of equipment: whether its balances close, in plain words. */
-export function ReviewBalanceLine({ line }: { line: BalanceLine }) {
+export function RoundCheckBalanceLine({ line }: { line: BalanceLine }) {
   const { colors } = useTheme();
   const w = balanceWords[line.status];
   return (

@@ -9,7 +9,7 @@ import { ThemedText } from './themed-text';
 /** The engine's 3 (urgent) … 1 (note) in the app's severity marks (1 urgent … 3 note). */
 export const markOf = (s: 1 | 2 | 3): Severity => (4 - s) as Severity;
 
-export interface ReviewRetakeItemProps {
+export interface RoundCheckRetakeItemProps {
   item: RetakeItem;
   /** on a wide screen: this item's detail stands beside the list */
   selected?: boolean;
@@ -19,7 +19,7 @@ export interface ReviewRetakeItemProps {
 }
 
 /** One line of the re-take list: where to go, what to read again and why. */
-export function ReviewRetakeItem({ item, selected, onSelect, onRetake }: ReviewRetakeItemProps) {
+export function RoundCheckRetakeItem({ item, selected, onSelect, onRetake }: RoundCheckRetakeItemProps) {
   const { colors } = useTheme();
   const id = `retake-${item.tag}`;
   return (

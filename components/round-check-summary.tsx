@@ -1,12 +1,12 @@
 import { StyleSheet, View } from 'react-native';
 import { space } from '@/constants/theme';
-import { useReview } from '@/hooks/use-round-check';
-import type { RoundReview } from '@/shared/round-check';
+import { useRoundCheck } from '@/hooks/use-round-check';
+import type { RoundCheck } from '@/shared/round-check';
 import { Button } from './button';
 import { ThemedText } from './themed-text';
 
 /** The headline of a round check, in one sentence. */
-export function reviewHeadline(r: RoundReview): { text: string; tone: 'ok' | 'warning' | 'danger' } {
+export function roundCheckHeadline(r: RoundCheck): { text: string; tone: 'ok' | 'warning' | 'danger' } {
   const open = r.retakes.filter((i) => i.dismissed === null);
   if (open.length) {
     return {
@@ -22,12 +22,12 @@ export function reviewHeadline(r: RoundReview): { text: string; tone: 'ok' | 'wa
 }
 
 /** The round check in the finish panel: its headline and the way to the full check. */
-export function ReviewSummary({ roundId, onOpen }: { roundId: string; onOpen(): void }) {
-  const { load, review, checking, error } = useReview(roundId);
+export function RoundCheckSummary({ roundId, onOpen }: { roundId: string; onOpen(): void }) {
+  const { load, review, checking, error } = useRoundCheck(roundId);
   let line: { text: string; tone?: 'ok' | 'warning' | 'danger' } = { text: 'Checking the round on this device…' };
   if (error) line = { text: error.message, tone: 'danger' };
   else if (load && !load.ok) line = { text: load.problem, tone: 'warning' };
-  else if (review && !checking) line = reviewHeadline(review);
+  else if (review && !checking) line = roundCheckHeadline(review);
   return (
     <View style={styles.box} testID="review-summary">
       <ThemedText variant="label" bold tone={line.tone} testID="review-summary-text">{line.text}</ThemedText>

@@ -13,7 +13,7 @@ export const DISMISS_REASONS = [
   'Plant not steady (load change during the round)',
 ] as const;
 
-export interface ReviewSuspectProps {
+export interface RoundCheckSuspectProps {
   item: RetakeItem;
   suspect?: SuspectView;
   /** null when the round can no longer take a dismissal (finished) */
@@ -24,7 +24,7 @@ export interface ReviewSuspectProps {
  * The detail of one flagged instrument: what the check says about it, what it reads against what
  * the rest of the plant says it should, and a way to dismiss the flag with a reason.
  */
-export function ReviewSuspect({ item, suspect, onDismiss }: ReviewSuspectProps) {
+export function RoundCheckSuspect({ item, suspect, onDismiss }: RoundCheckSuspectProps) {
   const [reason, setReason] = useState('');
   const [problem, setProblem] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);

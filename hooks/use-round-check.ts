@@ -1,6 +1,6 @@
 /**
  * The round check on the device: reads the inputs from the device store (offline/review.ts),
- * runs shared/review's reviewRound on them — no network — and runs it again whenever they change
+ * runs shared/review's checkRound on them — no network — and runs it again whenever they change
  * (a re-take, a dismissal, another round finished on the device). The device keeps what the last
  * check used and found (model version, result fingerprint, the readings) in its store's meta.
  *
@@ -10,27 +10,27 @@
  */
 import { useEffect, useMemo, useRef, useState } from 'react';
 import { isoTime } from '@/offline/ids';
-import { loadReviewInput, REVIEW_META, type DeviceReviewLoad, type ReviewRecord } from '@/offline/round-check';
+import { loadRoundCheckInput, ROUND_CHECK_META, type DeviceRoundCheckLoad, type RoundCheckRecord } from '@/offline/round-check';
 import { useStore, useStoreQuery } from '@/offline/use-offline';
-import type { RoundReview } from '@/shared/round-check';
-import { runReview, type ReviewRun } from '../lib/round-check-runner';
+import type { RoundCheck } from '@/shared/round-check';
+import { runRoundCheck, type RoundCheckRun } from '../lib/round-check-runner';
 
-export interface ReviewState {
+export interface RoundCheckState {
   /** the inputs as read from the store (or why they cannot be) */
-  load: DeviceReviewLoad | undefined;
-  review: RoundReview | null;
+  load: DeviceRoundCheckLoad | undefined;
+  review: RoundCheck | null;
   /** the check's duration on this device (asked → answered), ms */
   ms: number | null;
   /** where it ran: the page's thread or a Web Worker */
-  where: ReviewRun['where'] | null;
+  where: RoundCheckRun['where'] | null;
   checking: boolean;
   error: Error | null;
 }
 
-type Ready = Extract<DeviceReviewLoad, { ok: true }>;
+type Ready = Extract<DeviceRoundCheckLoad, { ok: true }>;
 
 /** What the check depends on: readings used (by id), dismissals, model, barometric pressure. */
-export function reviewKey(load: Ready): string {
+export function roundCheckKey(load: Ready): string {
   const i = load.input;
   return JSON.stringify([
     i.round.id,
@@ -44,21 +44,21 @@ export function reviewKey(load: Ready): string {
 }
 
 /** User Timing entry of each check, for the browser tests and benches */
-export const REVIEW_MEASURE = 'trueround:round-check';
+export const ROUND_CHECK_MEASURE = 'trueround:round-check';
 
 /** The last few checks by their inputs: a screen that mounts again (a layout change) shows them at once. */
-const recent = new Map<string, ReviewRun>();
-function remember(key: string, run: ReviewRun) {
+const recent = new Map<string, RoundCheckRun>();
+function remember(key: string, run: RoundCheckRun) {
   recent.delete(key);
   recent.set(key, run);
   while (recent.size > 4) recent.delete(recent.keys().next().value!);
 }
 
-export function useReview(roundId: string): ReviewState {
+export function useRoundCheck(roundId: string): RoundCheckState {
   const { store } = useStore();
-  const { data: load, error } = useStoreQuery((s) => loadReviewInput(s, roundId), roundId);
-  const key = useMemo(() => (load && load.ok ? reviewKey(load) : null), [load]);
-  const [done, setDone] = useState<{ key: string; run: ReviewRun } | null>(null);
+  const { data: load, error } = useStoreQuery((s) => loadRoundCheckInput(s, roundId), roundId);
+  const key = useMemo(() => (load && load.ok ? roundCheckKey(load) : null), [load]);
+  const [done, setDone] = useState<{ key: string; run: RoundCheckRun } | null>(null);
   const [failure, setFailure] = useState<Error | null>(null);
   const doneKey = done?.key ?? null;
   // one check in flight per key: a store change that leaves the inputs as they were does not restart it
@@ -82,17 +82,17 @@ export function useReview(roundId: string): ReviewState {
     }
     inFlight.current = key;
     const started = performance.now();
-    runReview(load.input).then(
+    runRoundCheck(load.input).then(
       (run) => {
         if (inFlight.current === key) inFlight.current = null;
         if (!mounted.current || latest.current !== key) return;
-        performance.measure?.(REVIEW_MEASURE, { start: started, end: started + run.ms, detail: { where: run.where, roundId } });
+        performance.measure?.(ROUND_CHECK_MEASURE, { start: started, end: started + run.ms, detail: { where: run.where, roundId } });
         remember(key, run);
         setDone({ key, run });
         setFailure(null);
         const review = run.review;
         if (store) {
-          const record: ReviewRecord = {
+          const record: RoundCheckRecord = {
             modelVersion: review.modelVersion,
             fingerprint: review.fingerprint,
             checkedAt: isoTime(Date.now()),
@@ -100,7 +100,7 @@ export function useReview(roundId: string): ReviewState {
             retakes: review.retakes.map((r) => r.tag),
             ms: run.ms,
           };
-          void store.setMeta(REVIEW_META(roundId), JSON.stringify(record));
+          void store.setMeta(ROUND_CHECK_META(roundId), JSON.stringify(record));
         }
       },
       (e: unknown) => {

@@ -3,21 +3,21 @@
  * "Checking…" first: what native builds and the tests run, and the web build's fallback when no
  * worker can be started (./review-runner.ts, ./review-runner.web.ts).
  */
-import { reviewRound, type ReviewInput, type RoundReview } from '@/shared/round-check';
+import { checkRound, type RoundCheckInput, type RoundCheck } from '@/shared/round-check';
 
-export interface ReviewRun {
-  review: RoundReview;
+export interface RoundCheckRun {
+  review: RoundCheck;
   /** from asking to having the answer, ms */
   ms: number;
   where: 'main thread' | 'worker';
 }
 
-export function reviewOnThisThread(input: ReviewInput): Promise<ReviewRun> {
+export function roundCheckOnThisThread(input: RoundCheckInput): Promise<RoundCheckRun> {
   return new Promise((resolve, reject) => {
     setTimeout(() => {
       try {
         const t0 = performance.now();
-        const review = reviewRound(input);
+        const review = checkRound(input);
         resolve({ review, ms: performance.now() - t0, where: 'main thread' });
       } catch (e) {
         reject(e instanceof Error ? e : new Error(String(e)));

@@ -3,14 +3,14 @@
  * tests: the check runs on the JavaScript thread (./review-on-this-thread.ts). The web build
  * uses review-runner.web.ts (a Web Worker).
  */
-import type { ReviewInput } from '@/shared/round-check';
-import { reviewOnThisThread, type ReviewRun } from './round-check-on-this-thread';
+import type { RoundCheckInput } from '@/shared/round-check';
+import { roundCheckOnThisThread, type RoundCheckRun } from './round-check-on-this-thread';
 
-export type { ReviewRun } from './round-check-on-this-thread';
+export type { RoundCheckRun } from './round-check-on-this-thread';
 
-export function runReview(input: ReviewInput): Promise<ReviewRun> {
-  return reviewOnThisThread(input);
+export function runRoundCheck(input: RoundCheckInput): Promise<RoundCheckRun> {
+  return roundCheckOnThisThread(input);
 }
 
 /** Gets the check's code ready before it is needed; nothing to do on the JavaScript thread. */
-export function warmUpReview(): void {}
+export function warmUpRoundCheck(): void {}

@@ -3,12 +3,12 @@
  * processor, several times that the first time, while the engine's code compiles) never holds
  * up a tap. Falls back to the page's thread when a worker cannot be started.
  */
-import type { ReviewInput } from '@/shared/round-check';
-import { reviewOnThisThread as mainThread, type ReviewRun } from './round-check-on-this-thread';
+import type { RoundCheckInput } from '@/shared/round-check';
+import { roundCheckOnThisThread as mainThread, type RoundCheckRun } from './round-check-on-this-thread';
 
-export type { ReviewRun } from './round-check-on-this-thread';
+export type { RoundCheckRun } from './round-check-on-this-thread';
 
-type Reply = { id: number; ok: true; review: ReviewRun['review'] | null; ms: number } | { id: number; ok: false; message: string; ms: number };
+type Reply = { id: number; ok: true; review: RoundCheckRun['review'] | null; ms: number } | { id: number; ok: false; message: string; ms: number };
 
 let worker: Worker | null | undefined;
 let seq = 0;
@@ -38,7 +38,7 @@ function theWorker(): Worker | null {
   return worker;
 }
 
-function ask(kind: 'review' | 'warm', input?: ReviewInput): Promise<Reply> | null {
+function ask(kind: 'review' | 'warm', input?: RoundCheckInput): Promise<Reply> | null {
   const w = theWorker();
   if (!w) return null;
   const id = ++seq;
@@ -48,7 +48,7 @@ function ask(kind: 'review' | 'warm', input?: ReviewInput): Promise<Reply> | nul
   });
 }
 
-export async function runReview(input: ReviewInput): Promise<ReviewRun> {
+export async function runRoundCheck(input: RoundCheckInput): Promise<RoundCheckRun> {
   const t0 = performance.now();
   const reply = ask('review', input);
   if (!reply) return mainThread(input);
@@ -64,7 +64,7 @@ export async function runReview(input: ReviewInput): Promise<ReviewRun> {
 
 /** Starts the worker and has it compile the engine on a demo round, once. */
 let warmed = false;
-export function warmUpReview(): void {
+export function warmUpRoundCheck(): void {
   if (warmed) return;
   warmed = true;
   void ask('warm')?.catch(() => undefined);

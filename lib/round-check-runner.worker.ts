@@ -5,11 +5,11 @@
  * far off, WARM_PASSES times) so the engine's code is optimised before the technician's first check.
  */
 import type { CycleModel } from '@/shared/cycle';
-import { reviewRound, type ReviewInput } from '@/shared/round-check';
+import { checkRound, type RoundCheckInput } from '@/shared/round-check';
 import warmUp from './round-check-warm-up.json';
 
 interface Scope {
-  onmessage: ((e: { data: { id: number; kind: 'review' | 'warm'; input?: ReviewInput } }) => void) | null;
+  onmessage: ((e: { data: { id: number; kind: 'review' | 'warm'; input?: RoundCheckInput } }) => void) | null;
   postMessage(message: unknown): void;
 }
 const scope = self as unknown as Scope;
@@ -21,13 +21,13 @@ const scope = self as unknown as Scope;
  * 4× CPU throttling against ~60 ms once warm.
  */
 const WARM_PASSES = 4;
-function warmInputs(): ReviewInput[] {
+function warmInputs(): RoundCheckInput[] {
   const b = warmUp.barometricPa;
   const t = Date.UTC(2025, 0, 1);
   // the fixture is the demo unit frozen as JSON (tests/unit/round-check/warm-up-fixture.test.ts
   // holds it equal to demo/unit.ts), so its string unions are widened here and nowhere else
   const model = warmUp.model as unknown as CycleModel;
-  const make = (biasTag: string | null): ReviewInput => {
+  const make = (biasTag: string | null): RoundCheckInput => {
     const readings = warmUp.readings.map((r, i) => ({
       id: `warm-${i}`,
       tag: r.tag,
@@ -42,7 +42,7 @@ function warmInputs(): ReviewInput[] {
       at: t,
     };
   };
-  const inputs: ReviewInput[] = [];
+  const inputs: RoundCheckInput[] = [];
   for (let k = 0; k < WARM_PASSES; k++) inputs.push(make(null), make(warmUp.biasTag));
   return inputs;
 }
@@ -51,8 +51,8 @@ scope.onmessage = (e) => {
   const { id, kind, input } = e.data;
   const t0 = performance.now();
   try {
-    if (kind === 'warm') for (const w of warmInputs()) reviewRound(w);
-    const review = kind === 'warm' ? null : reviewRound(input!);
+    if (kind === 'warm') for (const w of warmInputs()) checkRound(w);
+    const review = kind === 'warm' ? null : checkRound(input!);
     scope.postMessage({ id, ok: true, review, ms: performance.now() - t0 });
   } catch (err) {
     scope.postMessage({ id, ok: false, message: err instanceof Error ? err.message : String(err), ms: performance.now() - t0 });

@@ -5,17 +5,17 @@
  * The assembly and the analysis are in shared/review (the server runs the same).
  */
 import { validateModel, type CycleModel } from '@/shared/cycle';
-import { stopsOf, type ReviewInput, type ReviewRound, type ReviewRouteInfo } from '@/shared/round-check';
+import { stopsOf, type RoundCheckInput, type CheckedRound, type RoundCheckRouteInfo } from '@/shared/round-check';
 import { BAROMETER_MAX_PA, BAROMETER_MIN_PA } from '@/shared/round-check/rows';
-import { HISTORY_ROUNDS, REVIEW_WINDOW_HOURS } from '@/shared/round-check/assemble';
+import { HISTORY_ROUNDS, ROUND_CHECK_WINDOW_HOURS } from '@/shared/round-check/assemble';
 import { barometricFromElevation } from '@/shared/units';
 import { SITE_ELEVATION_META, siOf } from '@/offline/round';
 import type { LocalInstrument, LocalRound, LocalRoute, LocalRouteVersion, Store } from './store';
 
-export type DeviceReviewLoad =
+export type DeviceRoundCheckLoad =
   | {
       ok: true;
-      input: ReviewInput & { model: CycleModel };
+      input: RoundCheckInput & { model: CycleModel };
       round: LocalRound;
       routeName: string;
       /** the model version the server published with the unit (SyncUnit.modelVersion) */
@@ -24,9 +24,9 @@ export type DeviceReviewLoad =
   | { ok: false; problem: string; round: LocalRound | null };
 
 /** meta key under which the device keeps what its last check of a round used and found */
-export const REVIEW_META = (roundId: string) => `round-review:${roundId}`;
+export const ROUND_CHECK_META = (roundId: string) => `round-review:${roundId}`;
 
-export interface ReviewRecord {
+export interface RoundCheckRecord {
   modelVersion: string;
   fingerprint: string;
   /** device time of the check, ISO 8601 */
@@ -44,7 +44,7 @@ const ms = (iso: string | null): number | null => {
 };
 
 /** Reads everything the check of `roundId` needs from the device store. `now` stands in for the clock while the round is under way. */
-export async function loadReviewInput(store: Store, roundId: string, opts: { now?: number; windowHours?: number } = {}): Promise<DeviceReviewLoad> {
+export async function loadRoundCheckInput(store: Store, roundId: string, opts: { now?: number; windowHours?: number } = {}): Promise<DeviceRoundCheckLoad> {
   const round = await store.getRound(roundId);
   if (!round) return { ok: false, problem: 'This round is not on this device.', round: null };
   const versions = new Map<string, LocalRouteVersion | null>();
@@ -69,12 +69,12 @@ export async function loadReviewInput(store: Store, roundId: string, opts: { now
   const elev = await store.getMeta(SITE_ELEVATION_META(route.siteId));
   const elevationPa = elev !== null && Number.isFinite(Number(elev)) ? barometricFromElevation(Number(elev)) : undefined;
 
-  const windowHours = opts.windowHours ?? REVIEW_WINDOW_HOURS;
+  const windowHours = opts.windowHours ?? ROUND_CHECK_WINDOW_HOURS;
   const now = opts.now ?? Date.now();
   const at = round.status === 'finished' ? (ms(round.finishedAt) ?? now) : now;
 
   /** a round as the check sees it: current readings in SI with the round's own barometric pressure */
-  const asReview = async (r: LocalRound, v: LocalRouteVersion, rt: LocalRoute): Promise<ReviewRound | null> => {
+  const asRoundCheck = async (r: LocalRound, v: LocalRouteVersion, rt: LocalRoute): Promise<CheckedRound | null> => {
     const current = await store.roundReadings(r.id);
     // the barometric rule of hooks/use-round.ts: this round's barometer (50–110 kPa), else the site's elevation
     let b: number | undefined;
@@ -89,7 +89,7 @@ export async function loadReviewInput(store: Store, roundId: string, opts: { now
     }
     b ??= elevationPa;
     if (b === undefined) return null;
-    const readings: ReviewRound['readings'] = [];
+    const readings: CheckedRound['readings'] = [];
     for (const x of current) {
       const inst = instruments[x.tag];
       const time = ms(x.deviceTime);
@@ -117,13 +117,13 @@ export async function loadReviewInput(store: Store, roundId: string, opts: { now
     };
   };
 
-  const mine = await asReview(round, version, route);
+  const mine = await asRoundCheck(round, version, route);
   if (!mine) {
     return { ok: false, problem: 'No barometric pressure for this round: read the site barometer, or connect once so the device knows the site’s elevation.', round };
   }
 
   const from = at - windowHours * 3.6e6;
-  const others: ReviewRound[] = [];
+  const others: CheckedRound[] = [];
   let history = 0;
   for (const o of await store.listRounds({ siteId: route.siteId })) {
     if (o.id === round.id) continue;
@@ -134,11 +134,11 @@ export async function loadReviewInput(store: Store, roundId: string, opts: { now
     const inWindow = (ms(o.finishedAt) ?? now) >= from && (ms(o.startedAt) ?? 0) <= at;
     if (!inWindow && !(sameRoute && history < HISTORY_ROUNDS)) continue;
     if (sameRoute) history++;
-    const rr = await asReview(o, ov, ort);
+    const rr = await asRoundCheck(o, ov, ort);
     if (rr) others.push(rr);
   }
 
-  const unitRoutes: ReviewRouteInfo[] = (await store.listRoutes(route.siteId))
+  const unitRoutes: RoundCheckRouteInfo[] = (await store.listRoutes(route.siteId))
     .filter((r) => r.unitId === route.unitId)
     .map((r) => ({ id: r.id, name: r.name, stops: stopsOf(r.version.template) }));
 

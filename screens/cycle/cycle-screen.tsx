@@ -4,7 +4,7 @@
  * the balances with their residuals, and the performance figures.
  *
  * The analysis is unit-level: every state point of the unit is shown, also those the round's
- * route does not read, whose readings were borrowed from other rounds of the unit (within REVIEW_WINDOW_HOURS, 4 h;
+ * route does not read, whose readings were borrowed from other rounds of the unit (within ROUND_CHECK_WINDOW_HOURS, 4 h;
  * the analysis' readingOrigins). Those are marked in the table ("Read on") and on the chart
  * (a dashed ring), and the rounds they came from are named with a link to their own cycle.
  */
@@ -23,7 +23,7 @@ import { useSiteReference } from '@/hooks/queries/instruments';
 import type { ReadingOrigin, RoundAnalysisResponse } from '@/shared/api/analysis';
 import type { BalanceRow, PerformanceFigure, StatePointResult } from '@/shared/cycle/types';
 import { tsFigure, turbineSections } from '@/shared/charts/ts-figure';
-import { REVIEW_WINDOW_HOURS } from '@/shared/round-check/assemble';
+import { ROUND_CHECK_WINDOW_HOURS } from '@/shared/round-check/assemble';
 
 export { tsFigure, turbineSections };
 
@@ -166,7 +166,7 @@ export function CycleScreen({ roundId }: { roundId: string }) {
       {others.length ? (
         <Card testID="cycle-borrowed">
           <ThemedText variant="label" bold>Readings from other rounds of the unit</ThemedText>
-          <ThemedText variant="caption" muted>The balances take the whole unit. What this round’s route does not read comes from the latest reading of another round within {REVIEW_WINDOW_HOURS} hours; those points say “◇” in the table and have a dashed ring on the chart.</ThemedText>
+          <ThemedText variant="caption" muted>The balances take the whole unit. What this round’s route does not read comes from the latest reading of another round within {ROUND_CHECK_WINDOW_HOURS} hours; those points say “◇” in the table and have a dashed ring on the chart.</ThemedText>
           {others.map((o) => {
             const n = (a.readingOrigins ?? []).filter((x) => !x.own && x.roundId === o.roundId).length;
             const words = `${n} reading${n === 1 ? '' : 's'}`;

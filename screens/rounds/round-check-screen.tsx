@@ -3,16 +3,16 @@ import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { Button } from '@/components/button';
 import { Card } from '@/components/card';
-import { ReviewBalanceLine } from '@/components/round-check-balance-line';
-import { ReviewRetakeItem } from '@/components/round-check-retake-item';
-import { reviewHeadline } from '@/components/round-check-summary';
-import { ReviewSuspect } from '@/components/round-check-suspect';
+import { RoundCheckBalanceLine } from '@/components/round-check-balance-line';
+import { RoundCheckRetakeItem } from '@/components/round-check-retake-item';
+import { roundCheckHeadline } from '@/components/round-check-summary';
+import { RoundCheckSuspect } from '@/components/round-check-suspect';
 import { ThemedText } from '@/components/themed-text';
 import { space } from '@/constants/theme';
-import { useReview } from '@/hooks/use-round-check';
+import { useRoundCheck } from '@/hooks/use-round-check';
 import { useWide } from '@/hooks/use-wide';
 import { useStore } from '@/offline/use-offline';
-import type { RetakeItem, RoundReview } from '@/shared/round-check';
+import type { RetakeItem, RoundCheck } from '@/shared/round-check';
 
 /** "07:40": the device's local time, 24-hour, as shift logs write it */
 function clock(ms: number): string {
@@ -28,7 +28,7 @@ function joinNames(names: string[]): string {
 }
 
 /** "For the instruments not on this route, the check uses the boiler house round of 07:40 …" */
-function borrowedText(r: RoundReview): string {
+function borrowedText(r: RoundCheck): string {
   const b = r.assembled.borrowed;
   const h = r.assembled.windowHours;
   if (b.length === 0) return `Only this round's readings are used: no other round of this unit in the last ${h} h is on this device.`;
@@ -37,11 +37,11 @@ function borrowedText(r: RoundReview): string {
 }
 
 /** The round check: balances, suspects and the re-take list, from the device alone. */
-export function ReviewScreen({ roundId }: { roundId: string }) {
+export function RoundCheckScreen({ roundId }: { roundId: string }) {
   const { actions } = useStore();
   const router = useRouter();
   const wide = useWide();
-  const { load, review, ms, checking, error } = useReview(roundId);
+  const { load, review, ms, checking, error } = useRoundCheck(roundId);
   const [picked, setPicked] = useState<string | null>(null);
   const [finishing, setFinishing] = useState(false);
 
@@ -71,7 +71,7 @@ export function ReviewScreen({ roundId }: { roundId: string }) {
     );
   }
 
-  const headline = reviewHeadline(review);
+  const headline = roundCheckHeadline(review);
   const flagged = [...review.retakes, ...review.elsewhere];
   const selected = flagged.find((i) => i.tag === picked) ?? flagged[0];
   const suspectOf = (tag: string) => review.suspects.find((s) => s.tag === tag);
@@ -103,7 +103,7 @@ export function ReviewScreen({ roundId }: { roundId: string }) {
         {review.retakes.length === 0 ? <ThemedText testID="review-retakes-none">Nothing to re-take on this route.</ThemedText> : null}
         {!inProgress && review.retakes.length ? <ThemedText variant="caption" muted>This round is finished: a re-take now goes on the next round of this route.</ThemedText> : null}
         {review.retakes.map((i) => (
-          <ReviewRetakeItem key={i.tag} item={i} selected={wide && selected?.tag === i.tag} onSelect={wide ? () => setPicked(i.tag) : undefined} onRetake={retake(i)} />
+          <RoundCheckRetakeItem key={i.tag} item={i} selected={wide && selected?.tag === i.tag} onSelect={wide ? () => setPicked(i.tag) : undefined} onRetake={retake(i)} />
         ))}
       </View>
       {review.elsewhere.length ? (
@@ -111,7 +111,7 @@ export function ReviewScreen({ roundId }: { roundId: string }) {
           <ThemedText variant="title">Read on other rounds</ThemedText>
           <ThemedText variant="caption" muted>These cannot be re-taken on this round: tell the next round of that route, or the shift lead.</ThemedText>
           {review.elsewhere.map((i) => (
-            <ReviewRetakeItem key={i.tag} item={i} selected={wide && selected?.tag === i.tag} onSelect={wide ? () => setPicked(i.tag) : undefined} />
+            <RoundCheckRetakeItem key={i.tag} item={i} selected={wide && selected?.tag === i.tag} onSelect={wide ? () => setPicked(i.tag) : undefined} />
           ))}
         </View>
       ) : null}
@@ -120,9 +120,9 @@ export function ReviewScreen({ roundId }: { roundId: string }) {
 
   const details = wide
     ? selected
-      ? [<ReviewSuspect key={selected.tag} item={selected} suspect={suspectOf(selected.tag)} onDismiss={dismiss ? dismiss(selected.tag) : null} />]
+      ? [<RoundCheckSuspect key={selected.tag} item={selected} suspect={suspectOf(selected.tag)} onDismiss={dismiss ? dismiss(selected.tag) : null} />]
       : []
-    : flagged.map((i) => <ReviewSuspect key={i.tag} item={i} suspect={suspectOf(i.tag)} onDismiss={dismiss ? dismiss(i.tag) : null} />);
+    : flagged.map((i) => <RoundCheckSuspect key={i.tag} item={i} suspect={suspectOf(i.tag)} onDismiss={dismiss ? dismiss(i.tag) : null} />);
 
   const notRead = review.assembled.notRead;
   const byRoute = new Map<string, string[]>();
@@ -138,7 +138,7 @@ export function ReviewScreen({ roundId }: { roundId: string }) {
       ) : null}
       <Card testID="review-balances">
         <ThemedText variant="title">Balances</ThemedText>
-        {review.balances.map((l) => <ReviewBalanceLine key={l.equipmentId} line={l} />)}
+        {review.balances.map((l) => <RoundCheckBalanceLine key={l.equipmentId} line={l} />)}
         {review.notes.map((n, i) => <ThemedText key={i} variant="label" tone="warning" testID={`review-note-${i}`}>{n}</ThemedText>)}
       </Card>
       {notRead.length ? (

@@ -6,13 +6,13 @@ import { Card } from '@/components/card';
 import { Caution } from '@/components/caution';
 import { CheckField, type CheckValue } from '@/components/check-field';
 import { PhotoThumb } from '@/components/photo-thumb';
-import { ReviewSummary } from '@/components/round-check-summary';
+import { RoundCheckSummary } from '@/components/round-check-summary';
 import { parseTyped, ReadingField } from '@/components/reading-field';
 import { StopList, type StopSummary } from '@/components/stop-list';
 import { ThemedText } from '@/components/themed-text';
 import { space } from '@/constants/theme';
 import { pickPhoto } from '@/lib/pick-photo';
-import { warmUpReview } from '@/lib/round-check-runner';
+import { warmUpRoundCheck } from '@/lib/round-check-runner';
 import { useSession } from '@/hooks/session';
 import { flagCodes, flagsFor, loadRound, missingOf, siOf, type RoundData } from '@/offline/round';
 import { useWide } from '@/hooks/use-wide';
@@ -35,7 +35,7 @@ export function RoundScreen({ roundId, initialStop = 0 }: { roundId: string; ini
   const [problem, setProblem] = useState<string | null>(null);
   const { data, error: readError } = useStoreQuery((s) => loadRound(s, roundId, membership?.siteId ?? null), `${roundId}|${membership?.siteId ?? ''}`);
   // the round check's engine gets compiled while the technician walks (a worker on the web)
-  useEffect(() => warmUpReview(), []);
+  useEffect(() => warmUpRoundCheck(), []);
 
   const stops: StopSummary[] = useMemo(
     () =>
@@ -195,7 +195,7 @@ export function RoundScreen({ roundId, initialStop = 0 }: { roundId: string; ini
           {missing.checks.map((m) => <ThemedText key={m.id} testID={`missing-check-${m.id}`}>Not answered: {m.prompt} ({m.stop})</ThemedText>)}
         </View>
       )}
-      <ReviewSummary roundId={roundId} onOpen={() => router.push(`/tech/round/${roundId}/review`)} />
+      <RoundCheckSummary roundId={roundId} onOpen={() => router.push(`/tech/round/${roundId}/review`)} />
       <View style={styles.nav}>
         <Button testID="finish-back" label="Back to the stops" kind="plain" onPress={() => setFinishing(false)} />
         <Button

@@ -15,7 +15,7 @@ import { space } from '@/constants/theme';
 import { useSession } from '@/hooks/session';
 import { useWide } from '@/hooks/use-wide';
 import { useWorkOrders, type WorkOrderFilters } from '@/hooks/queries/work-orders';
-import { WORK_ORDER_KINDS, type WorkOrderKind, type WorkOrderStatus, type WorkOrderSummary } from '@/shared/api/work-orders';
+import { WORK_ORDER_KINDS, WORK_ORDER_SORTS, type WorkOrderKind, type WorkOrderSort, type WorkOrderStatus, type WorkOrderSummary } from '@/shared/api/work-orders';
 
 export const statusWords: Record<WorkOrderStatus, string> = {
   open: 'New',
@@ -28,6 +28,7 @@ export const statusWords: Record<WorkOrderStatus, string> = {
 export const kindWords: Record<WorkOrderKind, string> = { calibrate: 'Calibrate', repair: 'Repair', inspect: 'Inspect', clean: 'Clean' };
 
 const PAGE = 20;
+const isSort = (s: string): s is WorkOrderSort => (WORK_ORDER_SORTS as readonly string[]).includes(s);
 
 const columns: Column<WorkOrderSummary>[] = [
   { key: 'number', label: 'No.', flex: 0.8, sortKey: 'number', render: (w) => w.number, wideOnly: true },
@@ -48,7 +49,7 @@ export function WorkOrdersScreen() {
   const [kind, setKind] = useState<WorkOrderKind[]>([]);
   const [tag, setTag] = useState('');
   const [q, setQ] = useState('');
-  const [sort, setSort] = useState('priority');
+  const [sort, setSort] = useState<WorkOrderSort>('priority');
   const [offset, setOffset] = useState(0);
   const wide = useWide();
   const [showFilters, setShowFilters] = useState(false);
@@ -93,12 +94,14 @@ export function WorkOrdersScreen() {
       {wide || showFilters ? (
       <View style={styles.sortRow}>
         <ThemedText variant="caption" muted>Sort</ThemedText>
-        {[
-          ['priority', 'Most urgent'],
-          ['dueDate', 'Due first'],
-          ['-openedAt', 'Newest'],
-          ['number', 'Number'],
-        ].map(([k, label]) => (
+        {(
+          [
+            ['priority', 'Most urgent'],
+            ['dueDate', 'Due first'],
+            ['-openedAt', 'Newest'],
+            ['number', 'Number'],
+          ] as const
+        ).map(([k, label]) => (
           <Button key={k} label={label} kind={sort === k ? 'primary' : 'plain'} selected={sort === k} testID={`wo-sort-${k}`} onPress={() => setSort(k)} />
         ))}
       </View>
@@ -119,7 +122,7 @@ export function WorkOrdersScreen() {
               <ThemedText variant="label" bold>{`${w.number} · ${w.title}`}</ThemedText>
             )}
             sort={sort}
-            onSort={setSort}
+            onSort={(s) => isSort(s) && setSort(s)}
             onPressRow={(w) => router.push(`/plan/work-orders/${w.id}`)}
             empty="No work orders match these filters."
           />

@@ -12,7 +12,7 @@ import { brackenmoorRoutes, fernhallowBarometer, fernhallowRoutes } from '../../
 import type { RouteTemplate } from '../../shared/route/template';
 import { demoUnit } from '../../demo/unit';
 import type { CycleModel, Instrument as ModelInstrument } from '../../shared/cycle/model';
-import { InstrumentEntity, MembershipEntity, SiteEntity, UnitEntity, type Instrument } from '../entities';
+import { InstrumentEntity, MembershipEntity, SiteEntity, PlantUnitEntity, type Instrument } from '../entities';
 import { createRoute } from '../sync/route-versions';
 import { brackenmoorUnit } from '../../demo/brackenmoor-unit';
 import { demoSites, type DemoSiteSlug } from './demo-users';
@@ -84,9 +84,9 @@ export async function seedDemoPlant(em: EntityManager, now = new Date()): Promis
     const demoName = demoSites.find((d) => d.slug === plant.site)!.name;
     const site = await em.getRepository(SiteEntity).findOneBy({ slug: plant.site, name: demoName });
     if (!site) continue;
-    if ((await em.getRepository(UnitEntity).countBy({ siteId: site.id })) > 0) continue;
+    if ((await em.getRepository(PlantUnitEntity).countBy({ siteId: site.id })) > 0) continue;
 
-    const unit = await em.getRepository(UnitEntity).save({
+    const unit = await em.getRepository(PlantUnitEntity).save({
       siteId: site.id,
       name: plant.model.name,
       model: plant.model,

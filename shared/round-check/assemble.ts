@@ -7,7 +7,7 @@
  *    earlier reading, both stay stored);
  *  - for each instrument of the model that is NOT on this round's route (and not read on it), the
  *    most recent reading with a value from another round of the same unit, taken within the
- *    window (REVIEW_WINDOW_HOURS, 4 h) before the reference time `at`.
+ *    window (ROUND_CHECK_WINDOW_HOURS, 4 h) before the reference time `at`.
  * Instruments on this route that this round has not read stay missing: the technician is still
  * there to read them.
  *
@@ -30,11 +30,11 @@ import type { AnalysisOptions, RoundContext, RoundReading } from '../cycle/types
  * flow meters for the change of load. With 12 h the 90-day demo history named healthy flow
  * meters in up to a third of its rounds; with 4 h, none.
  */
-export const REVIEW_WINDOW_HOURS = 4;
+export const ROUND_CHECK_WINDOW_HOURS = 4;
 /** Earlier rounds of the same route handed to the stuck-value check. */
 export const HISTORY_ROUNDS = 4;
 
-export interface ReviewReading {
+export interface RoundCheckReading {
   /** the reading's client id */
   id: string;
   tag: string;
@@ -46,17 +46,17 @@ export interface ReviewReading {
   order: number;
 }
 
-export interface ReviewStop {
+export interface RoundCheckStop {
   name: string;
   /** the tags read at this stop, in walking order */
   tags: string[];
 }
 
-export interface ReviewRound {
+export interface CheckedRound {
   id: string;
   routeId: string;
   routeName: string;
-  stops: ReviewStop[];
+  stops: RoundCheckStop[];
   /** ms since the epoch (device time) */
   startedAt: number;
   finishedAt: number | null;
@@ -64,34 +64,34 @@ export interface ReviewRound {
   /** the round's barometric pressure, Pa absolute */
   barometricPa: number;
   /** current readings only (a superseded reading is left out) */
-  readings: ReviewReading[];
+  readings: RoundCheckReading[];
 }
 
-export interface ReviewDismissal {
+export interface RoundCheckDismissal {
   tag: string;
   note: string;
   /** the reading it was made on; a re-take after it makes it lapse */
   readingId?: string;
 }
 
-export interface ReviewRouteInfo {
+export interface RoundCheckRouteInfo {
   id: string;
   name: string;
-  stops: ReviewStop[];
+  stops: RoundCheckStop[];
 }
 
-export interface ReviewInput {
+export interface RoundCheckInput {
   /** the unit's cycle model (validated by analyseRound) */
   model: unknown;
-  round: ReviewRound;
+  round: CheckedRound;
   /** other rounds of the same unit (any order); the reviewed round among them is ignored */
-  others: ReviewRound[];
+  others: CheckedRound[];
   /** reference time, ms: the round's finish time, or now while it is under way */
   at: number;
   windowHours?: number;
-  dismissals?: ReviewDismissal[];
+  dismissals?: RoundCheckDismissal[];
   /** the unit's routes, to say on which route a missing instrument is read */
-  routes?: ReviewRouteInfo[];
+  routes?: RoundCheckRouteInfo[];
   options?: AnalysisOptions;
 }
 
@@ -118,7 +118,7 @@ export interface NotRead {
   onThisRoute: boolean;
 }
 
-export interface AssembledReview {
+export interface AssembledRoundCheck {
   readings: RoundReading[];
   sources: Record<string, ReadingSource>;
   borrowed: BorrowedRound[];
@@ -129,55 +129,55 @@ export interface AssembledReview {
   windowHours: number;
 }
 
-export class ReviewInputError extends Error {
+export class RoundCheckInputError extends Error {
   constructor(
     readonly field: string,
     readonly value: unknown,
     message: string,
   ) {
     super(`${field}: ${message} (got ${typeof value === 'number' || typeof value === 'string' ? JSON.stringify(value) : typeof value})`);
-    this.name = 'ReviewInputError';
+    this.name = 'RoundCheckInputError';
   }
 }
 
 const fin = (x: unknown): x is number => typeof x === 'number' && Number.isFinite(x);
 
 /** later first: time, then order, then id (code-unit order) */
-const newer = (a: ReviewReading, b: ReviewReading) => (a.time !== b.time ? a.time > b.time : a.order !== b.order ? a.order > b.order : a.id > b.id);
+const newer = (a: RoundCheckReading, b: RoundCheckReading) => (a.time !== b.time ? a.time > b.time : a.order !== b.order ? a.order > b.order : a.id > b.id);
 
 function modelTags(model: unknown): string[] {
   const list = (model as { instruments?: { tag?: unknown }[] } | null)?.instruments;
-  if (!Array.isArray(list)) throw new ReviewInputError('model.instruments', list, 'the cycle model has no instrument list');
+  if (!Array.isArray(list)) throw new RoundCheckInputError('model.instruments', list, 'the cycle model has no instrument list');
   return list.map((i) => i?.tag).filter((t): t is string => typeof t === 'string');
 }
 
-function checkRound(r: ReviewRound, field: string) {
-  if (!r || typeof r !== 'object') throw new ReviewInputError(field, r, 'must be a round');
-  if (!fin(r.startedAt)) throw new ReviewInputError(`${field}.startedAt`, r.startedAt, 'must be a time in ms since the epoch');
-  if (!Array.isArray(r.readings)) throw new ReviewInputError(`${field}.readings`, r.readings, 'must be an array');
+function assertRoundShape(r: CheckedRound, field: string) {
+  if (!r || typeof r !== 'object') throw new RoundCheckInputError(field, r, 'must be a round');
+  if (!fin(r.startedAt)) throw new RoundCheckInputError(`${field}.startedAt`, r.startedAt, 'must be a time in ms since the epoch');
+  if (!Array.isArray(r.readings)) throw new RoundCheckInputError(`${field}.readings`, r.readings, 'must be an array');
   for (const [i, x] of r.readings.entries()) {
-    if (x.valueSI !== null && !fin(x.valueSI)) throw new ReviewInputError(`${field}.readings.${i}.valueSI`, x.valueSI, `${x.tag}: must be a finite SI value or null`);
-    if (!fin(x.time)) throw new ReviewInputError(`${field}.readings.${i}.time`, x.time, `${x.tag}: must be a time in ms since the epoch`);
+    if (x.valueSI !== null && !fin(x.valueSI)) throw new RoundCheckInputError(`${field}.readings.${i}.valueSI`, x.valueSI, `${x.tag}: must be a finite SI value or null`);
+    if (!fin(x.time)) throw new RoundCheckInputError(`${field}.readings.${i}.time`, x.time, `${x.tag}: must be a time in ms since the epoch`);
   }
 }
 
 /** The unit-level readings and context of the round, by the rule above. */
-export function assembleReview(input: ReviewInput): AssembledReview {
+export function assembleRoundCheck(input: RoundCheckInput): AssembledRoundCheck {
   const { round } = input;
-  checkRound(round, 'round');
-  if (!fin(input.at)) throw new ReviewInputError('at', input.at, 'must be a time in ms since the epoch');
-  if (!fin(round.barometricPa)) throw new ReviewInputError('round.barometricPa', round.barometricPa, 'must be a barometric pressure in Pa');
-  const windowHours = input.windowHours ?? REVIEW_WINDOW_HOURS;
-  if (!fin(windowHours) || windowHours <= 0) throw new ReviewInputError('windowHours', windowHours, 'must be a positive number of hours');
+  assertRoundShape(round, 'round');
+  if (!fin(input.at)) throw new RoundCheckInputError('at', input.at, 'must be a time in ms since the epoch');
+  if (!fin(round.barometricPa)) throw new RoundCheckInputError('round.barometricPa', round.barometricPa, 'must be a barometric pressure in Pa');
+  const windowHours = input.windowHours ?? ROUND_CHECK_WINDOW_HOURS;
+  if (!fin(windowHours) || windowHours <= 0) throw new RoundCheckInputError('windowHours', windowHours, 'must be a positive number of hours');
   const tags = modelTags(input.model);
   const others = (input.others ?? []).filter((o) => o.id !== round.id);
-  others.forEach((o, i) => checkRound(o, `others.${i}`));
+  others.forEach((o, i) => assertRoundShape(o, `others.${i}`));
 
-  const walk: AssembledReview['walk'] = {};
+  const walk: AssembledRoundCheck['walk'] = {};
   round.stops.forEach((s, si) => s.tags.forEach((t, pi) => (walk[t] ??= { stop: si, position: pi })));
 
   // own readings: the latest current one of each tag (a round holds one current reading per tag)
-  const own = new Map<string, ReviewReading>();
+  const own = new Map<string, RoundCheckReading>();
   for (const r of round.readings) {
     const had = own.get(r.tag);
     if (!had || newer(r, had)) own.set(r.tag, r);
@@ -185,7 +185,7 @@ export function assembleReview(input: ReviewInput): AssembledReview {
 
   // borrowed: most recent reading with a value in [at − window, at] from another round
   const from = input.at - windowHours * 3.6e6;
-  const best = new Map<string, { r: ReviewReading; round: ReviewRound }>();
+  const best = new Map<string, { r: RoundCheckReading; round: CheckedRound }>();
   for (const o of others) {
     for (const r of o.readings) {
       if (r.valueSI === null || r.time < from || r.time > input.at) continue;

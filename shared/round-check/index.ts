@@ -3,20 +3,28 @@
  * the server. Pure, browser-safe.
  */
 export {
-  assembleReview,
-  ReviewInputError,
-  REVIEW_WINDOW_HOURS,
+  assembleRoundCheck,
+  RoundCheckInputError,
+  ROUND_CHECK_WINDOW_HOURS,
   HISTORY_ROUNDS,
-  type AssembledReview,
+  type AssembledRoundCheck,
   type BorrowedRound,
   type NotRead,
   type ReadingSource,
-  type ReviewDismissal,
-  type ReviewInput,
-  type ReviewReading,
-  type ReviewRound,
-  type ReviewRouteInfo,
-  type ReviewStop,
+  type RoundCheckDismissal,
+  type RoundCheckInput,
+  type RoundCheckReading,
+  type CheckedRound,
+  type RoundCheckRouteInfo,
+  type RoundCheckStop,
 } from './assemble';
-export { reviewRound, reviewFingerprint, type BalanceLine, type BalanceStatus, type RetakeItem, type RoundReview, type SuspectView } from './review';
+export {
+  checkRound,
+  roundCheckFingerprint,
+  type BalanceLine,
+  type BalanceStatus,
+  type RetakeItem,
+  type RoundCheck,
+  type SuspectView,
+} from './check';
 export { roundsFromRows, stopsOf, BAROMETER_MIN_PA, BAROMETER_MAX_PA, type ReadingRow, type RoundRow } from './rows';

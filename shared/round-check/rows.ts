@@ -9,7 +9,7 @@
  */
 import type { RouteTemplate } from '../route/template';
 import { barometricFromElevation } from '../units';
-import type { ReviewRound } from './assemble';
+import type { CheckedRound } from './assemble';
 
 export interface RoundRow {
   id: string;
@@ -47,12 +47,12 @@ const ms = (iso: string, field: string): number => {
 };
 
 /** The template's stops as the review needs them: names and tags in walking order. */
-export function stopsOf(template: RouteTemplate): ReviewRound['stops'] {
+export function stopsOf(template: RouteTemplate): CheckedRound['stops'] {
   return template.stops.map((s) => ({ name: s.name, tags: s.readings.map((r) => r.tag) }));
 }
 
 /** Rounds with their current readings (superseded rows left out) and barometric pressure. */
-export function roundsFromRows(rounds: RoundRow[], readings: ReadingRow[], siteElevationM: number): ReviewRound[] {
+export function roundsFromRows(rounds: RoundRow[], readings: ReadingRow[], siteElevationM: number): CheckedRound[] {
   const superseded = new Set(readings.map((r) => r.supersedes).filter((x): x is string => !!x));
   const byRound = new Map<string, ReadingRow[]>();
   for (const r of readings) {

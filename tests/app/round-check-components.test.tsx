@@ -6,19 +6,19 @@
  */
 import { fireEvent, render, screen, waitFor } from '@testing-library/react-native';
 import { fernhallowRoutes } from '@/demo/routes';
-import { ReviewBalanceLine } from '@/components/round-check-balance-line';
-import { ReviewRetakeItem } from '@/components/round-check-retake-item';
-import { reviewHeadline } from '@/components/round-check-summary';
-import { ReviewSuspect } from '@/components/round-check-suspect';
+import { RoundCheckBalanceLine } from '@/components/round-check-balance-line';
+import { RoundCheckRetakeItem } from '@/components/round-check-retake-item';
+import { roundCheckHeadline } from '@/components/round-check-summary';
+import { RoundCheckSuspect } from '@/components/round-check-suspect';
 import { demoDesignReadings, demoUnit } from '@/demo/unit';
-import { reviewRound, stopsOf, type ReviewRound, type RoundReview } from '@/shared/round-check';
+import { checkRound, stopsOf, type CheckedRound, type RoundCheck } from '@/shared/round-check';
 import { barometricFromElevation } from '@/shared/units';
 
 const B = barometricFromElevation(112);
 const design = demoDesignReadings(B);
 const T0 = Date.UTC(2025, 10, 30, 7, 0);
 
-function roundOf(key: string, start: number, change: Record<string, number> = {}): ReviewRound {
+function roundOf(key: string, start: number, change: Record<string, number> = {}): CheckedRound {
   const t = fernhallowRoutes.find((r) => r.id === key)!;
   const tags = t.stops.flatMap((s) => s.readings.map((r) => r.tag));
   return {
@@ -36,8 +36,8 @@ function roundOf(key: string, start: number, change: Record<string, number> = {}
   };
 }
 
-function check(change: Record<string, number>, dismissals: { tag: string; note: string }[] = []): RoundReview {
-  return reviewRound({
+function check(change: Record<string, number>, dismissals: { tag: string; note: string }[] = []): RoundCheck {
+  return checkRound({
     model: demoUnit,
     round: roundOf('turbine-hall', T0 + 2 * 3.6e6, change),
     others: [roundOf('boiler-house', T0), roundOf('condenser-cooling-water', T0 + 3.6e6)],
@@ -50,7 +50,7 @@ const faulty = check({ 'TI-206': 6 });
 
 test('the re-take line names the stop and the instrument, and its button goes to the stop', () => {
   const onRetake = jest.fn();
-  render(<ReviewRetakeItem item={faulty.retakes[0]} onRetake={onRetake} />);
+  render(<RoundCheckRetakeItem item={faulty.retakes[0]} onRetake={onRetake} />);
   expect(screen.getByTestId('retake-TI-206-line')).toHaveTextContent('Stop 3, LP extraction and LP heater: TI-206 — reads about 6 K high against the LP feedwater heater and deaerator balances');
   fireEvent.press(screen.getByTestId('retake-TI-206-go'));
   expect(onRetake).toHaveBeenCalledTimes(1);
@@ -62,7 +62,7 @@ test('the re-take line names the stop and the instrument, and its button goes to
 test('an instrument of another round has no re-take button', () => {
   const r = check({});
   const item = { ...faulty.retakes[0], own: false, stop: null, stopName: null };
-  render(<ReviewRetakeItem item={item} />);
+  render(<RoundCheckRetakeItem item={item} />);
   expect(screen.queryByTestId('retake-TI-206-go')).toBeNull();
   expect(r.retakes).toEqual([]);
 });
@@ -72,8 +72,8 @@ test('balance lines say their status in a word and a glyph', () => {
   const closes = faulty.balances.find((l) => l.equipmentId === 'gen')!;
   render(
     <>
-      <ReviewBalanceLine line={open} />
-      <ReviewBalanceLine line={closes} />
+      <RoundCheckBalanceLine line={open} />
+      <RoundCheckBalanceLine line={closes} />
     </>,
   );
   expect(screen.getByTestId('balance-da-status')).toHaveTextContent('✗ Does not close');
@@ -83,7 +83,7 @@ test('balance lines say their status in a word and a glyph', () => {
 
 test('a dismissal needs a reason; a quick reason dismisses in one tap', async () => {
   const onDismiss = jest.fn(async () => null);
-  render(<ReviewSuspect item={faulty.retakes[0]} suspect={faulty.suspects[0]} onDismiss={onDismiss} />);
+  render(<RoundCheckSuspect item={faulty.retakes[0]} suspect={faulty.suspects[0]} onDismiss={onDismiss} />);
   expect(screen.getByTestId('suspect-TI-206-estimate')).toHaveTextContent(/^130\.\d °C ± \d\.\d K$/);
   fireEvent.press(screen.getByTestId('suspect-TI-206-dismiss'));
   await waitFor(() => expect(screen.getByTestId('suspect-TI-206-reason-error')).toHaveTextContent('Say why the flag is dismissed.'));
@@ -93,8 +93,8 @@ test('a dismissal needs a reason; a quick reason dismisses in one tap', async ()
 });
 
 test('the headline counts what is left to re-take, and says when the round holds together', () => {
-  expect(reviewHeadline(faulty)).toEqual({ text: 'One reading to re-take before you leave the unit: TI-206.', tone: 'danger' });
-  expect(reviewHeadline(check({}))).toEqual({ text: 'The round holds together: every balance closes and no reading stands out.', tone: 'ok' });
+  expect(roundCheckHeadline(faulty)).toEqual({ text: 'One reading to re-take before you leave the unit: TI-206.', tone: 'danger' });
+  expect(roundCheckHeadline(check({}))).toEqual({ text: 'The round holds together: every balance closes and no reading stands out.', tone: 'ok' });
   const dismissed = check({ 'TI-206': 6 }, [{ tag: 'TI-206', note: 'Known to read high' }]);
-  expect(reviewHeadline(dismissed).tone).toBe('warning');
+  expect(roundCheckHeadline(dismissed).tone).toBe('warning');
 });

@@ -22,7 +22,7 @@ import type { Browser } from 'playwright-core';
 import { fernhallowRoutes } from '@/demo/routes';
 import type { RouteTemplate } from '@/shared/route/template';
 import { demoDesignReadings, demoUnit } from '@/demo/unit';
-import { reviewRound, roundsFromRows, type ReadingRow, type RoundRow } from '@/shared/round-check';
+import { checkRound, roundsFromRows, type ReadingRow, type RoundRow } from '@/shared/round-check';
 import { barometricFromElevation } from '@/shared/units';
 import { launch, newPage, PHONE, shot, signIn, WIDE } from './helpers/browser';
 import { startTestServer, type RunningServer } from './helpers/server';
@@ -251,11 +251,11 @@ test('the phone checks the whole round offline, sends the technician back to TI-
     const serverCheck = (readings: ReadingRow[]) => {
       const all = roundsFromRows(roundRows, readings, rounds.rows[0].elevation_m);
       const me = all.find((r) => r.id === roundId)!;
-      return reviewRound({ model: unit.rows[0].model, round: me, others: all.filter((r) => r.id !== roundId), at: me.finishedAt! });
+      return checkRound({ model: unit.rows[0].model, round: me, others: all.filter((r) => r.id !== roundId), at: me.finishedAt! });
     };
     const serverCheckAlone = (readings: ReadingRow[]) => {
       const me = roundsFromRows(roundRows, readings, rounds.rows[0].elevation_m).find((r) => r.id === roundId)!;
-      return reviewRound({ model: unit.rows[0].model, round: me, others: [], at: me.finishedAt! });
+      return checkRound({ model: unit.rows[0].model, round: me, others: [], at: me.finishedAt! });
     };
     const now = serverCheck(readingRows(() => true));
     expect(now.assembled.sources[FAULT].readingId).toBe(retake.id); // the server's rows use the re-take

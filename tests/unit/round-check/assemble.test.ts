@@ -4,14 +4,14 @@
  * last 4 h (project rule, stated on the review screen). Device time decides "within 4 h";
  * values are the design point of the demo unit typed as the gauges show it.
  */
-import { assembleReview, ReviewInputError, reviewRound, type ReviewInput } from '@/shared/round-check';
-import { loadReviewInput } from '@/offline/round-check';
+import { assembleRoundCheck, RoundCheckInputError, checkRound, type RoundCheckInput } from '@/shared/round-check';
+import { loadRoundCheckInput } from '@/offline/round-check';
 import { demoDevice, designTyped, ROUTE_NAME, TEMPLATE, walk, type Device } from './helpers';
 
 const HOUR = 3.6e6;
 
-async function inputOf(d: Device, roundId: string): Promise<ReviewInput> {
-  const load = await loadReviewInput(d.store, roundId, { now: d.clock.now() });
+async function inputOf(d: Device, roundId: string): Promise<RoundCheckInput> {
+  const load = await loadRoundCheckInput(d.store, roundId, { now: d.clock.now() });
   if (!load.ok) throw new Error(load.problem);
   return load.input;
 }
@@ -25,7 +25,7 @@ describe('the unit-level readings of a round', () => {
     const bh = await walk(d, 'boiler-house', typed, { finish: true });
     const cw = await walk(d, 'condenser-cooling-water', typed, { finish: true });
     const th = await walk(d, 'turbine-hall', typed);
-    const a = assembleReview(await inputOf(d, th.roundId));
+    const a = assembleRoundCheck(await inputOf(d, th.roundId));
     expect(a.borrowed.map((b) => [b.roundId, b.routeName])).toEqual([
       [bh.roundId, ROUTE_NAME['boiler-house']],
       [cw.roundId, ROUTE_NAME['condenser-cooling-water']],
@@ -44,7 +44,7 @@ describe('the unit-level readings of a round', () => {
     d.clock.advance(5 * HOUR);
     await walk(d, 'boiler-house', typed, { finish: true });
     const th = await walk(d, 'turbine-hall', typed);
-    const review = reviewRound(await inputOf(d, th.roundId));
+    const review = checkRound(await inputOf(d, th.roundId));
     const cwTags = tagsOf('condenser-cooling-water');
     expect(review.assembled.notRead.map((n) => n.tag).sort()).toEqual([...cwTags].sort());
     expect(new Set(review.assembled.notRead.map((n) => n.routeName))).toEqual(new Set([ROUTE_NAME['condenser-cooling-water']]));
@@ -62,7 +62,7 @@ describe('the unit-level readings of a round', () => {
     const later = await walk(d, 'boiler-house', { ...typed, 'TI-302': typed['TI-302'] + 0.5 }, { finish: true });
     await walk(d, 'condenser-cooling-water', typed, { finish: true });
     const th = await walk(d, 'turbine-hall', typed);
-    const a = assembleReview(await inputOf(d, th.roundId));
+    const a = assembleRoundCheck(await inputOf(d, th.roundId));
     expect(a.sources['TI-302']).toEqual({ roundId: later.roundId, readingId: later.readingIds['TI-302'], own: false });
     // °C → K (ITS-90: T/K = t/°C + 273.15)
     expect(a.readings.find((r) => r.instrumentTag === 'TI-302')!.valueSI).toBeCloseTo(typed['TI-302'] + 0.5 + 273.15, 9);
@@ -73,7 +73,7 @@ describe('the unit-level readings of a round', () => {
     const typed = designTyped();
     await walk(d, 'turbine-hall', typed, { finish: true });
     const th = await walk(d, 'turbine-hall', typed, { skip: ['TI-206'] });
-    const a = assembleReview(await inputOf(d, th.roundId));
+    const a = assembleRoundCheck(await inputOf(d, th.roundId));
     expect(a.sources['TI-206']).toBeUndefined();
     expect(a.notRead.find((n) => n.tag === 'TI-206')).toEqual({ tag: 'TI-206', routeName: ROUTE_NAME['turbine-hall'], onThisRoute: true });
   });
@@ -84,7 +84,7 @@ describe('the unit-level readings of a round', () => {
     await walk(d, 'turbine-hall', typed, { finish: true });
     await walk(d, 'turbine-hall', { ...typed, 'TI-204': typed['TI-204'] + 1 }, { finish: true });
     const th = await walk(d, 'turbine-hall', typed);
-    const a = assembleReview(await inputOf(d, th.roundId));
+    const a = assembleRoundCheck(await inputOf(d, th.roundId));
     const prev = a.context.previousRounds!;
     expect(prev).toHaveLength(2);
     const t204 = (i: number) => prev[i].readings.find((r) => r.instrumentTag === 'TI-204')!.valueSI;
@@ -95,10 +95,10 @@ describe('the unit-level readings of a round', () => {
     const d = await demoDevice();
     const th = await walk(d, 'turbine-hall', designTyped());
     const input = await inputOf(d, th.roundId);
-    expect(() => assembleReview({ ...input, at: Number.NaN })).toThrow(ReviewInputError);
-    expect(() => assembleReview({ ...input, at: Number.NaN })).toThrow(/^at: must be a time in ms/);
-    expect(() => assembleReview({ ...input, windowHours: -1 })).toThrow(/windowHours: must be a positive number of hours \(got -1\)/);
+    expect(() => assembleRoundCheck({ ...input, at: Number.NaN })).toThrow(RoundCheckInputError);
+    expect(() => assembleRoundCheck({ ...input, at: Number.NaN })).toThrow(/^at: must be a time in ms/);
+    expect(() => assembleRoundCheck({ ...input, windowHours: -1 })).toThrow(/windowHours: must be a positive number of hours \(got -1\)/);
     const bad = { ...input.round, readings: [{ ...input.round.readings[0], valueSI: Number.NaN }] };
-    expect(() => assembleReview({ ...input, round: bad })).toThrow(/round\.readings\.0\.valueSI: PI-102: must be a finite SI value or null/);
+    expect(() => assembleRoundCheck({ ...input, round: bad })).toThrow(/round\.readings\.0\.valueSI: PI-102: must be a finite SI value or null/);
   });
 });

@@ -1,7 +1,7 @@
 /**
  * Same answer on both sides. The device path is the one the review screen runs: the device store
- * (sql.js, the SQLite engine family of expo-sqlite's web build) → offline/review loadReviewInput →
- * shared/review reviewRound. The server path starts from what the device pushes, stores value_si
+ * (sql.js, the SQLite engine family of expo-sqlite's web build) → offline/review loadRoundCheckInput →
+ * shared/review checkRound. The server path starts from what the device pushes, stores value_si
  * as the server's push does (server/sync/push.ts: gauge and vacuum readings against the round's
  * latest barometer reading, else the site's elevation through the ICAO standard atmosphere), and
  * runs the same check through the row adapter (shared/review roundsFromRows). Findings, suspects,
@@ -14,8 +14,8 @@
  * analysis (GET /api/sites/:siteId/rounds/:roundId/analysis).
  */
 import { demoUnit } from '@/demo/unit';
-import { reviewRound, type RoundReview } from '@/shared/round-check';
-import { loadReviewInput } from '@/offline/round-check';
+import { checkRound, type RoundCheck } from '@/shared/round-check';
+import { loadRoundCheckInput } from '@/offline/round-check';
 import { demoDevice, demoPull, designTyped, differences, serverSideInput, walk, type Device } from './helpers';
 
 type Case = { name: string; review: string; faults: Record<string, Record<string, (v: number) => number>>; retake?: string; expectSuspects: string[] };
@@ -29,7 +29,7 @@ const CASES: Case[] = [
   { name: 'make-up water 10 K high on the boiler house, checked from the turbine hall', review: 'turbine-hall', faults: { 'boiler-house': { 'TI-302': (v) => v + 10 } }, expectSuspects: ['TI-302'] },
 ];
 
-async function both(c: Case): Promise<{ device: RoundReview; server: RoundReview; d: Device }> {
+async function both(c: Case): Promise<{ device: RoundCheck; server: RoundCheck; d: Device }> {
   const d = await demoDevice();
   const typed = designTyped();
   const order = ['boiler-house', 'condenser-cooling-water', 'turbine-hall'].filter((k) => k !== c.review).concat(c.review);
@@ -49,10 +49,10 @@ async function both(c: Case): Promise<{ device: RoundReview; server: RoundReview
   // finish the reviewed round too: the server checks it at its finish time, the device likewise
   d.clock.advance(60_000);
   const finished = await d.actions.finishRound(roundId);
-  const load = await loadReviewInput(d.store, roundId);
+  const load = await loadRoundCheckInput(d.store, roundId);
   if (!load.ok) throw new Error(load.problem);
-  const device = reviewRound(load.input);
-  const server = reviewRound(await serverSideInput(d, roundId, Date.parse(finished.finishedAt!)));
+  const device = checkRound(load.input);
+  const server = checkRound(await serverSideInput(d, roundId, Date.parse(finished.finishedAt!)));
   return { device, server, d };
 }
 
@@ -80,7 +80,7 @@ describe('the phone and the server give the same round check', () => {
     const input = await serverSideInput(d, finished.id, Date.parse(finished.finishedAt!));
     const r = input.round.readings.find((x) => x.tag === 'TI-204')!;
     r.valueSI = r.valueSI! * (1 + 1e-6);
-    const nudged = reviewRound(input);
+    const nudged = checkRound(input);
     expect(differences(device.analysis.performance, nudged.analysis.performance).length).toBeGreaterThan(0);
   });
 });

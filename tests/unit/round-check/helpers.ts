@@ -12,7 +12,7 @@ import { fernhallowBarometer, fernhallowRoutes } from '@/demo/routes';
 import type { RouteTemplate } from '@/shared/route/template';
 import { type Instrument } from '@/shared/cycle';
 import { demoDesignReadings, demoUnit } from '@/demo/unit';
-import { reviewRound, roundsFromRows, type ReadingRow, type ReviewInput, type RoundRow } from '@/shared/round-check';
+import { checkRound, roundsFromRows, type ReadingRow, type RoundCheckInput, type RoundRow } from '@/shared/round-check';
 import { barometricFromElevation, siteBarometricPa, toSI, type Quantity } from '@/shared/units';
 import { createActions, type Actions } from '@/offline/actions';
 import { uuidV4FromBytes } from '@/offline/ids';
@@ -162,7 +162,7 @@ const routeKeyOfVersion = Object.fromEntries(Object.entries(VERSION_ID).map(([k,
  * reading, else the site's elevation through the ICAO standard atmosphere), then the check run on
  * those rows through shared/review's row adapter.
  */
-export async function serverSideInput(d: Device, roundId: string, at: number): Promise<ReviewInput> {
+export async function serverSideInput(d: Device, roundId: string, at: number): Promise<RoundCheckInput> {
   const { rounds, readings } = await pushed(d);
   const baro = new Map<string, number>();
   const superseded = new Set(readings.map((r) => r.supersedes).filter(Boolean));
@@ -209,7 +209,7 @@ export async function serverSideInput(d: Device, roundId: string, at: number): P
   };
 }
 
-export { reviewRound };
+export { checkRound };
 
 /**
  * Paths where two values differ: numbers by more than `rel` relative (absolute below 1e-300),

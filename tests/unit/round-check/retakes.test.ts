@@ -9,17 +9,17 @@
  * within its stated spread of the design value.
  */
 import { demoDesignReadings, demoUnit } from '@/demo/unit';
-import { reviewRound, type RoundReview } from '@/shared/round-check';
-import { loadReviewInput } from '@/offline/round-check';
+import { checkRound, type RoundCheck } from '@/shared/round-check';
+import { loadRoundCheckInput } from '@/offline/round-check';
 import { python } from '../cycle/helpers';
 import { BARO_PA, demoDevice, designTyped, pushed, walk, type Device, type Walked } from './helpers';
 
 const DESIGN_SI = Object.fromEntries(demoDesignReadings(BARO_PA).map((r) => [r.instrumentTag, r.valueSI]));
 
-async function check(d: Device, roundId: string): Promise<RoundReview> {
-  const load = await loadReviewInput(d.store, roundId, { now: d.clock.now() });
+async function check(d: Device, roundId: string): Promise<RoundCheck> {
+  const load = await loadRoundCheckInput(d.store, roundId, { now: d.clock.now() });
   if (!load.ok) throw new Error(load.problem);
-  return reviewRound(load.input);
+  return checkRound(load.input);
 }
 
 /** boiler house and condenser at design (finished), then the turbine hall with the given changes (in progress) */

@@ -1,7 +1,7 @@
 import { useLocalSearchParams } from 'expo-router';
-import { ReviewScreen } from '@/screens/rounds/round-check-screen';
+import { RoundCheckScreen } from '@/screens/rounds/round-check-screen';
 
-export default function RoundReviewRoute() {
+export default function RoundCheckRoute() {
   const { roundId } = useLocalSearchParams<{ roundId: string }>();
-  return <ReviewScreen roundId={roundId} />;
+  return <RoundCheckScreen roundId={roundId} />;
 }

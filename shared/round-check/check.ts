@@ -15,7 +15,7 @@ import { showDelta, showValue, showWithSpread, type Shown } from '../cycle/forma
 import { canonicalJson, fnv1a64, portUses, type Instrument } from '../cycle/model';
 import type { Finding, FindingKind, RoundAnalysis } from '../cycle/types';
 import type { PressureRef, Unit } from '../units';
-import { assembleReview, type AssembledReview, type ReviewInput } from './assemble';
+import { assembleRoundCheck, type AssembledRoundCheck, type RoundCheckInput } from './assemble';
 
 export type BalanceStatus = 'closes' | 'open' | 'incomplete';
 
@@ -66,12 +66,12 @@ export interface SuspectView {
   own: boolean;
 }
 
-export interface RoundReview {
+export interface RoundCheck {
   modelId: string;
   modelVersion: string;
   fingerprint: string;
   analysis: RoundAnalysis;
-  assembled: AssembledReview;
+  assembled: AssembledRoundCheck;
   /** nothing to re-take (dismissed flags aside) and no balance open */
   clean: boolean;
   /** every balance of the model can be formed from the readings */
@@ -255,7 +255,7 @@ function round9(v: unknown): unknown {
 }
 
 /** A short hash of what the check found: findings, suspects and their estimates, the figures. */
-export function reviewFingerprint(a: RoundAnalysis): string {
+export function roundCheckFingerprint(a: RoundAnalysis): string {
   const rec = a.reconciliation;
   const body = {
     modelVersion: a.modelVersion,
@@ -269,8 +269,8 @@ export function reviewFingerprint(a: RoundAnalysis): string {
 }
 
 /** Runs the round check: assembly, analyseRound, the re-take list and the balance lines. */
-export function reviewRound(input: ReviewInput): RoundReview {
-  const assembled = assembleReview(input);
+export function checkRound(input: RoundCheckInput): RoundCheck {
+  const assembled = assembleRoundCheck(input);
   const analysis = analyseRound(input.model, assembled.readings, assembled.context);
   const model = input.model as { instruments: Instrument[]; equipment: { id: string; kind: string; sections?: string[] }[]; points: { id: string; label: string }[] };
   const instByTag = new Map(model.instruments.map((i) => [i.tag, i]));
@@ -362,7 +362,7 @@ export function reviewRound(input: ReviewInput): RoundReview {
   return {
     modelId: analysis.modelId,
     modelVersion: analysis.modelVersion,
-    fingerprint: reviewFingerprint(analysis),
+    fingerprint: roundCheckFingerprint(analysis),
     analysis,
     assembled,
     clean,

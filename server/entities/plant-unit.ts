@@ -3,11 +3,12 @@ import type { Site } from './site';
 import { syncVersionColumn } from './transformers';
 
 /**
- * One steam cycle of a site. `model` is the cycle model (shared/cycle) as JSON; `modelVersion`
+ * A plant unit: one steam cycle of a site (table `units`; "unit" alone in shared/units is a unit
+ * of measure). `model` is the cycle model (shared/cycle) as JSON; `modelVersion`
  * is its content hash (shared/cycle modelVersion, "fnv1a64:…"), new with every change. `syncVersion` is stamped from the global `sync_seq` on every insert
  * and update (a trigger), and is what pull cursors compare against.
  */
-export interface Unit {
+export interface PlantUnit {
   id: string;
   siteId: string;
   name: string;
@@ -19,8 +20,8 @@ export interface Unit {
   site?: Site;
 }
 
-export const UnitEntity = new EntitySchema<Unit>({
-  name: 'Unit',
+export const PlantUnitEntity = new EntitySchema<PlantUnit>({
+  name: 'PlantUnit',
   tableName: 'units',
   columns: {
     id: { type: 'uuid', primary: true, generated: 'uuid', primaryKeyConstraintName: 'pk_units' },
