@@ -1,10 +1,10 @@
 /**
- * The round check on the device: reads the inputs from the device store (offline/review.ts),
- * runs shared/review's checkRound on them — no network — and runs it again whenever they change
+ * The round check on the device: reads the inputs from the device store (offline/round-check.ts),
+ * runs shared/round-check's checkRound on them — no network — and runs it again whenever they change
  * (a re-take, a dismissal, another round finished on the device). The device keeps what the last
  * check used and found (model version, result fingerprint, the readings) in its store's meta.
  *
- * The check runs off the tap that asked for it (./review-runner: a Web Worker on the web, a
+ * The check runs off the tap that asked for it (lib/round-check-runner: a Web Worker on the web, a
  * zero-delay timer elsewhere); its duration is measured, shown and written as a User Timing
  * measure.
  */

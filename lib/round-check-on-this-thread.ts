@@ -1,7 +1,7 @@
 /**
  * The round check on the JavaScript thread, after a zero-delay timer so the screen paints
  * "Checking…" first: what native builds and the tests run, and the web build's fallback when no
- * worker can be started (./review-runner.ts, ./review-runner.web.ts).
+ * worker can be started (./round-check-runner.ts, ./round-check-runner.web.ts).
  */
 import { checkRound, type RoundCheckInput, type RoundCheck } from '@/shared/round-check';
 

@@ -1,7 +1,7 @@
 /**
  * Runs the round check off the tap that asked for it. This file serves native builds and the
- * tests: the check runs on the JavaScript thread (./review-on-this-thread.ts). The web build
- * uses review-runner.web.ts (a Web Worker).
+ * tests: the check runs on the JavaScript thread (./round-check-on-this-thread.ts). The web build
+ * uses round-check-runner.web.ts (a Web Worker).
  */
 import type { RoundCheckInput } from '@/shared/round-check';
 import { roundCheckOnThisThread, type RoundCheckRun } from './round-check-on-this-thread';

@@ -5,7 +5,7 @@
  * In one transaction, holding the round's row lock (so two workers on the same round take turns):
  *  1. the round (finished only: an in-progress round is analysed when its finishing push comes),
  *     its unit's cycle model (units.model) and the unit's instruments;
- *  2. the unit-level input, assembled by shared/review exactly as the phone's round check does:
+ *  2. the unit-level input, assembled by shared/round-check exactly as the phone's round check does:
  *     the round's current readings (per instrument the latest reading no other supersedes; a
  *     skipped one counts as not read; SI absolute as stored), for instruments the route does not
  *     read the latest readings of the unit's other rounds within 4 h (ROUND_CHECK_WINDOW_HOURS), the round's barometric
@@ -102,7 +102,7 @@ export async function runAnalysisJob(deps: AnalysisDeps, roundId: string): Promi
     const byId = new Map(instrumentRows.map((i) => [i.id, i]));
     const idByTag = new Map(instrumentRows.map((i) => [i.tag, i.id]));
 
-    // The unit-level input, assembled exactly as the phone's round check does (shared/review):
+    // The unit-level input, assembled exactly as the phone's round check does (shared/round-check):
     // this round's current readings, and for instruments its route does not read the latest
     // readings of the unit's other rounds within ROUND_CHECK_WINDOW_HOURS; earlier rounds of the same
     // route feed the stuck-value check. Same code, same rows → the same answer on both sides.

@@ -1,7 +1,7 @@
 /**
  * Where each reading of a stored analysis came from. The analysis is unit-level: the round's own
  * readings, plus, for instruments its route does not read, the latest reading of the unit's other
- * rounds within ROUND_CHECK_WINDOW_HOURS before the round (shared/review assembleRoundCheck). The analysis
+ * rounds within ROUND_CHECK_WINDOW_HOURS before the round (shared/round-check assembleRoundCheck). The analysis
  * stores the readings it used (`instruments`) and per-instrument rows for its own readings only
  * (`analysis_instruments`); the round a borrowed reading came from is found again here by the same
  * rule, and named only when its value is the one the analysis used.

@@ -1,6 +1,6 @@
 /**
- * The demo plant: Fernhallow Works' unit 1 (shared/cycle/demo-unit.ts) with its instruments and
- * site barometer, and its three routes (checklists/demo) published as version 1; Brackenmoor's
+ * The demo plant: Fernhallow Works' unit 1 (demo/unit.ts) with its instruments and
+ * site barometer, and its three routes (demo/routes) published as version 1; Brackenmoor's
  * small Boiler 1 (./brackenmoor-unit.ts) with one route. Invented data throughout.
  *
  * Calibration dates lie 1–5 months before the seed, spread over the instruments, with intervals

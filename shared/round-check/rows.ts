@@ -36,7 +36,7 @@ export interface ReadingRow {
   order?: number;
 }
 
-/** The plausible band of a barometer reading the phone accepts (hooks/use-round.ts), Pa. */
+/** The plausible band of a barometer reading the phone accepts (offline/round.ts), Pa. */
 export const BAROMETER_MIN_PA = 50_000;
 export const BAROMETER_MAX_PA = 110_000;
 

@@ -4,7 +4,7 @@
  *
  * Rounds of the Fernhallow demo unit at its design point (shared/cycle demoDesignReadings,
  * IAPWS-IF97, balances closing), each pushed with only the readings of its own demo route
- * (checklists/demo), analysed by the analysis job. Status codes as RFC 9110 gives them: 400
+ * (demo/routes), analysed by the analysis job. Status codes as RFC 9110 gives them: 400
  * (§15.5.1), 403 (§15.5.4), 404 (§15.5.5). The expected counts are the test's own: what it
  * pushed, and the findings rows the job stored.
  */

@@ -1,10 +1,10 @@
 /**
  * Same answer on both sides. The device path is the one the review screen runs: the device store
- * (sql.js, the SQLite engine family of expo-sqlite's web build) → offline/review loadRoundCheckInput →
- * shared/review checkRound. The server path starts from what the device pushes, stores value_si
+ * (sql.js, the SQLite engine family of expo-sqlite's web build) → offline/round-check loadRoundCheckInput →
+ * shared/round-check checkRound. The server path starts from what the device pushes, stores value_si
  * as the server's push does (server/sync/push.ts: gauge and vacuum readings against the round's
  * latest barometer reading, else the site's elevation through the ICAO standard atmosphere), and
- * runs the same check through the row adapter (shared/review roundsFromRows). Findings, suspects,
+ * runs the same check through the row adapter (shared/round-check roundsFromRows). Findings, suspects,
  * estimates and figures must agree to 1e-9 relative; the model version used must be the one the
  * server published with the unit.
  *
