@@ -5,10 +5,15 @@
  *  - app:    React Native components through jest-expo
  *  - e2e:    playwright-core driving Debian's chromium against the real web build
  * scripts/test.mjs provisions PostgreSQL and the web build before calling jest.
+ *
+ * ts-jest reports diagnostics. tsconfig.server.json sets isolatedModules, so ts-jest compiles
+ * each file alone and reports what one file shows (syntax, isolated-module errors); whole-program
+ * type errors in tests/unit, tests/api, tests/e2e and tests/app are the typecheck gate's
+ * (`npm run typecheck` covers those folders), which keeps jest's start-up quick.
  */
 const tsJest = [
   'ts-jest',
-  { tsconfig: '<rootDir>/tsconfig.server.json', diagnostics: false },
+  { tsconfig: '<rootDir>/tsconfig.server.json', diagnostics: true },
 ];
 const nodeProject = (name, extra = {}) => ({
   displayName: name,

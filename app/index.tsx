@@ -6,5 +6,5 @@ export default function Index() {
   const { status, membership } = useSession();
   if (status === 'loading') return <Splash />;
   if (status === 'signed-out' || !membership) return <Redirect href="/sign-in" />;
-  return <Redirect href={homeFor[membership.role] as never} />;
+  return <Redirect href={homeFor[membership.role]} />;
 }

@@ -1,11 +1,6 @@
-import { Redirect } from 'expo-router';
-import { Splash } from '@/components/splash';
-import { useSession } from '@/hooks/session';
-import { PasswordScreen } from '@/screens/password-screen';
+import { PasswordScreen } from '@/screens/account/password-screen';
 
+/** Reachable only when signed in (app/_layout.tsx). */
 export default function PasswordRoute() {
-  const { status } = useSession();
-  if (status === 'loading') return <Splash />;
-  if (status !== 'signed-in') return <Redirect href="/sign-in" />;
   return <PasswordScreen />;
 }

@@ -28,7 +28,9 @@ import { makeLogger } from '../server/logger';
 import type { Notifier } from '../server/notify';
 import { seedDemo } from '../server/seed/demo';
 import { DEMO_PASSWORD } from '../server/seed/demo-users';
-import { analyseRound, demoDesignReadings, demoUnit, type RoundReading } from '../shared/cycle';
+import { analyseRound, type RoundReading } from '../shared/cycle';
+import { demoDesignReadings, demoUnit } from '../demo/unit';
+import { mulberry32 } from '../shared/random';
 import { barometricFromElevation, fromSI, type Unit } from '../shared/units';
 
 const BARO = barometricFromElevation(112);
@@ -37,15 +39,8 @@ const CONCURRENT = 20;
 
 const ms = (x: number) => x.toFixed(1);
 
-/** mulberry32, seeded: reproducible noise in [0, 1) */
-let state = 7;
-const rnd = () => {
-  state = (state + 0x6d2b79f5) >>> 0;
-  let t = state;
-  t = Math.imul(t ^ (t >>> 15), t | 1);
-  t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-  return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-};
+/** reproducible noise in [0, 1) */
+const rnd = mulberry32(7);
 
 const design = analyseRound(demoUnit, demoDesignReadings(BARO), { barometricPa: BARO });
 const sigma = new Map(design.instruments.map((i) => [i.tag, i.sigma ?? 0]));

@@ -11,7 +11,8 @@
  *
  * Medians of interleaved runs, so that machine load hits both sides alike.
  */
-import { analyseRound, buildEquations, demoDesignReadings, demoUnit, type AcceptedReading, type RoundReading } from '../shared/cycle';
+import { analyseRound, buildEquations, type AcceptedReading, type RoundReading } from '../shared/cycle';
+import { demoDesignReadings, demoUnit } from '../demo/unit';
 import { linear, reconcile, type Constraint } from '../shared/reconcile';
 import { sigmaFor } from '../shared/uncertainty';
 import { timePair } from './timing';

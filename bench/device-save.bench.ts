@@ -22,7 +22,7 @@ export async function run(): Promise<void> {
   process.env.TR_WEB_DIST = webDist;
   const { startTestServer } = await import('../tests/e2e/helpers/server');
   const { launch, newPage, signIn, PHONE } = await import('../tests/e2e/helpers/browser');
-  const { boilerHouseRoute } = await import('../checklists/demo/boiler-house');
+  const { boilerHouseRoute } = await import('../demo/routes/boiler-house');
   const server = await startTestServer({ PHOTO_DIR: `/tmp/tr-bench-${randomBytes(3).toString('hex')}` });
   const browser = await launch();
   try {

@@ -26,7 +26,8 @@ import { makeDataSource } from '../server/db';
 import { makeLogger } from '../server/logger';
 import { seedDemo } from '../server/seed/demo';
 import { DEMO_PASSWORD } from '../server/seed/demo-users';
-import { analyseRound, demoDesignReadings, demoUnit } from '../shared/cycle';
+import { analyseRound } from '../shared/cycle';
+import { demoDesignReadings, demoUnit } from '../demo/unit';
 import { barometricFromElevation } from '../shared/units';
 
 const DAYS = Number(process.env.TR_BENCH_HISTORY_DAYS || 365);

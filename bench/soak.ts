@@ -19,7 +19,7 @@ import { readFileSync } from 'node:fs';
 import { createServer } from 'node:net';
 import { join } from 'node:path';
 import { Client } from 'pg';
-import { demoDesignReadings, demoUnit } from '../shared/cycle';
+import { demoDesignReadings, demoUnit } from '../demo/unit';
 import { barometricFromElevation, fromSI, type Unit } from '../shared/units';
 import { DEMO_PASSWORD, demoUser } from '../server/seed/demo-users';
 

@@ -36,7 +36,7 @@ export async function run(): Promise<void> {
   process.env.EXPO_PUBLIC_API_URL = server.url;
 
   try {
-    const { rawRequest, authedRequest } = await import('../hooks/api-client');
+    const { rawRequest, authedRequest } = await import('../lib/api-client');
     const { openStore } = await import('../offline/store');
     const { createActions } = await import('../offline/actions');
     const { createSyncClient } = await import('../offline/sync');

@@ -1,3 +1,3 @@
 /** Route templates as data: schema, validator, the demo sites' routes. Pure, browser-safe. */
-export * from './schema';
+export * from '../shared/route/template';
 export * from './validate';

@@ -17,7 +17,7 @@ import {
   type PressureRef,
   type Quantity,
 } from '../shared/units';
-import { RouteTemplate } from './schema';
+import { RouteTemplate } from '../shared/route/template';
 
 export interface RouteIssue {
   /** Dotted path into the template, "(template)" for the whole. */

@@ -1,4 +1,4 @@
-import { Link, usePathname, useRouter } from 'expo-router';
+import { Link, usePathname, useRouter, type Href } from 'expo-router';
 import type { ReactNode } from 'react';
 import { Pressable, ScrollView, StyleSheet, View } from 'react-native';
 import { SafeAreaView } from 'react-native-safe-area-context';
@@ -11,7 +11,7 @@ import { Button } from './button';
 import { ThemedText } from './themed-text';
 
 export interface NavItem {
-  href: string;
+  href: Extract<Href, string>;
   label: string;
   testID: string;
 }
@@ -24,10 +24,10 @@ export function AppShell({ nav, title, children }: { nav: NavItem[]; title: stri
   const { colors } = useTheme();
   const wide = useWide();
   const pathname = usePathname();
-  const { user, membership } = useSession();
-  const signOut = useSignOut();
+  const { user, membership, signOut: endSession } = useSession();
+  const signOut = useSignOut(endSession);
   const router = useRouter();
-  const password = <Button testID="password-open" label="Password" kind="inverse" onPress={() => router.push('/password' as never)} />;
+  const password = <Button testID="password-open" label="Password" kind="inverse" onPress={() => router.push('/password')} />;
   // The group's title heads its home only; deeper screens carry their own heading.
   const heading = pathname === nav[0]?.href ? <ThemedText variant="heading" accessibilityRole="header">{title}</ThemedText> : null;
 

@@ -2,7 +2,7 @@ import { useEffect, useState } from 'react';
 import { StyleSheet, TextInput, View } from 'react-native';
 import { fonts, radius, space, touchTarget, type } from '@/constants/theme';
 import { useTheme } from '@/hooks/use-theme';
-import type { RouteCheck } from '@/checklists/schema';
+import type { RouteCheck } from '@/shared/route/template';
 import { Button } from './button';
 import { ThemedText } from './themed-text';
 

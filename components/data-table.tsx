@@ -8,7 +8,7 @@ import AsyncStorage from '@react-native-async-storage/async-storage';
 import { useState, type ReactNode } from 'react';
 import { Platform, Pressable, StyleSheet, View } from 'react-native';
 import { radius, space, touchTarget } from '@/constants/theme';
-import { API_BASE } from '@/hooks/api-client';
+import { API_BASE } from '@/lib/api-client';
 import { parseStoredSession, useSession } from '@/hooks/session';
 import { useTheme } from '@/hooks/use-theme';
 import { useWide } from '@/hooks/use-wide';

@@ -4,7 +4,7 @@
  * readings of that round with their photos, and a way to the round's cycle.
  */
 import { useQuery } from '@tanstack/react-query';
-import { Link } from 'expo-router';
+import { Link, type Href } from 'expo-router';
 import { useEffect } from 'react';
 import { Image, Pressable, StyleSheet, View } from 'react-native';
 import { radius, space } from '@/constants/theme';
@@ -67,7 +67,7 @@ function ReadingLine({ r }: { r: EvidenceReading }) {
   );
 }
 
-export function WorkOrderEvidence({ items, cycleHref }: { items: EvidenceItem[]; cycleHref: (roundId: string) => string }) {
+export function WorkOrderEvidence({ items, cycleHref }: { items: EvidenceItem[]; cycleHref: (roundId: string) => Href }) {
   if (items.length === 0) return <ThemedText muted testID="wo-evidence-empty">No findings are attached.</ThemedText>;
   return (
     <View style={styles.stack} testID="wo-evidence">

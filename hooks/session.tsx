@@ -6,9 +6,10 @@
 import AsyncStorage from '@react-native-async-storage/async-storage';
 import { useQueryClient } from '@tanstack/react-query';
 import { createContext, useCallback, useContext, useEffect, useMemo, useRef, useState, type ReactNode } from 'react';
+import type { Href } from 'expo-router';
 import { z } from 'zod';
 import { RefreshResponse, SignInResponse, TokenPair, UserView } from '@/shared/api/auth';
-import { ApiError, authedRequest, rawRequest, type TokenSource } from './api-client';
+import { ApiError, authedRequest, rawRequest, type TokenSource } from '../lib/api-client';
 
 const STORAGE_KEY = 'trueround.session';
 
@@ -153,9 +154,9 @@ export function useSession(): SessionValue {
 }
 
 /** Where each role starts. */
-export const homeFor: Record<Role, string> = {
+export const homeFor = {
   technician: '/tech',
   planner: '/plan',
   engineer: '/eng',
   admin: '/admin',
-};
+} as const satisfies Record<Role, Href>;

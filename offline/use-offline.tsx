@@ -1,21 +1,20 @@
 /**
- * The offline store for the screens: <OfflineProvider> (inside <SessionProvider>) opens the
+ * The offline store for the screens: <OfflineProvider session={…}> opens the
  * device database after mount, runs its migrations, asks for persistent storage, registers the
  * service worker, and runs the sync client while someone is signed in.
  *
  *   const { state, store, actions, error } = useStore();       // state: opening | ready | locked | error
- *   const readings = useStoreQuery((s) => s.roundReadings(roundId), [roundId]);
+ *   const readings = useStoreQuery((s) => s.roundReadings(roundId), roundId);
  *   const status = useOutboxStatus();                          // counts, refused items, last sync…
  *   const { syncNow, retryRefused, running } = useSyncNow();
- *   const signOut = useSignOut();                               // sends the person's own records first, then signs out
+ *   const signOut = useSignOut(session.signOut);                // sends the person's own records first, then signs out
  *
  * Records carry the signed-in person as their author and are sent only while that person is
  * signed in (./sync.ts): on a shared phone, another person's records wait for them.
  * A second browser tab gets state "locked" and `error.message` saying the app is open in another tab.
  */
 import * as Crypto from 'expo-crypto';
-import { createContext, useCallback, useContext, useEffect, useRef, useState, type DependencyList, type ReactNode } from 'react';
-import { useSession } from '@/hooks/session';
+import { createContext, useCallback, useContext, useEffect, useRef, useState, type ReactNode } from 'react';
 import { createActions, toHex, type Actions } from './actions';
 import { StoreLockedError } from './errors';
 import { openExpoDb } from './expo-db';
@@ -47,15 +46,29 @@ const browserTimers = {
   clearTimeout: (h: unknown) => clearTimeout(h as ReturnType<typeof setTimeout>),
 };
 
-export function OfflineProvider({ children }: { children: ReactNode }) {
-  const session = useSession();
+/** What the offline store needs of the signed-in session (hooks/session.tsx supplies it). */
+export interface OfflineSession {
+  /** the session's authorised request (refreshes the access token on 401) */
+  request: AuthedRequest;
+  signedIn: boolean;
+  siteId: string | null;
+  /** the signed-in person: the author of what they record, and whose records a sync sends */
+  author: OfflineAuthor | null;
+}
+
+export interface OfflineAuthor {
+  id: string;
+  name: string;
+}
+
+export function OfflineProvider({ session, children }: { session: OfflineSession; children: ReactNode }) {
   const [value, setValue] = useState<OfflineValue>({ state: 'opening', error: null, store: null, actions: null, sync: null });
   const requestRef = useRef<AuthedRequest>(session.request);
   requestRef.current = session.request;
-  const siteRef = useRef<string | null>(session.membership?.siteId ?? null);
-  siteRef.current = session.membership?.siteId ?? null;
-  const authorRef = useRef<{ id: string; name: string } | null>(null);
-  authorRef.current = session.status === 'signed-in' && session.user ? { id: session.user.id, name: session.user.name } : null;
+  const siteRef = useRef<string | null>(session.siteId);
+  siteRef.current = session.siteId;
+  const authorRef = useRef<OfflineAuthor | null>(session.author);
+  authorRef.current = session.signedIn ? session.author : null;
 
   // Open after mount, never at module load.
   useEffect(() => {
@@ -93,8 +106,7 @@ export function OfflineProvider({ children }: { children: ReactNode }) {
 
   // Sync while signed in; a site change pulls that site's reference data.
   const { sync } = value;
-  const signedIn = session.status === 'signed-in';
-  const siteId = session.membership?.siteId ?? null;
+  const { signedIn, siteId } = session;
   useEffect(() => {
     if (!sync || !signedIn) return;
     sync.start();
@@ -126,10 +138,11 @@ export function useStore(): Pick<OfflineValue, 'state' | 'error' | 'store' | 'ac
 }
 
 /**
- * Reads from the store and reads again after every write. `data` is undefined until the first
- * read; a failed read gives `error`.
+ * Reads from the store and reads again after every write and whenever `key` changes (the values
+ * the read depends on, joined into one string, so the effect's dependencies stay a fixed list).
+ * `data` is undefined until the first read; a failed read gives `error`.
  */
-export function useStoreQuery<T>(read: (store: Store) => Promise<T>, deps: DependencyList): { data: T | undefined; error: Error | null } {
+export function useStoreQuery<T>(read: (store: Store) => Promise<T>, key: string): { data: T | undefined; error: Error | null } {
   const { store } = useOffline();
   const [data, setData] = useState<T | undefined>(undefined);
   const [error, setError] = useState<Error | null>(null);
@@ -152,7 +165,7 @@ export function useStoreQuery<T>(read: (store: Store) => Promise<T>, deps: Depen
       live = false;
       off();
     };
-  }, [store, ...deps]);
+  }, [store, key]);
   return { data, error };
 }
 
@@ -177,17 +190,16 @@ export function useOutboxStatus(): SyncStatus | null {
  * Sign-out that first tries to send the person's own waiting records (they would otherwise wait
  * on this device until the same person signs in here again); then signs out whatever the network said.
  */
-export function useSignOut(): () => Promise<void> {
+export function useSignOut(signOut: () => Promise<void>): () => Promise<void> {
   // outside the technician's screens there is no device store: a plain sign-out
   const sync = useContext(OfflineContext)?.sync ?? null;
-  const session = useSession();
   return useCallback(async () => {
     if (sync) {
       const s = await sync.status().catch(() => null);
       if (s && s.waiting > 0) await sync.syncNow({ force: true }).catch(() => null);
     }
-    await session.signOut();
-  }, [sync, session]);
+    await signOut();
+  }, [sync, signOut]);
 }
 
 export function useSyncNow(): { syncNow: () => Promise<SyncResult | null>; retryRefused: (seqs?: number[]) => Promise<number>; running: boolean } {

@@ -12,7 +12,7 @@ import { fileURLToPath } from 'node:url';
 const ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '..');
 const OUT = join(ROOT, 'dist', 'web');
 const INPUTS = [
-  'app', 'components', 'hooks', 'constants', 'screens', 'offline', 'checklists', 'shared', 'assets',
+  'app', 'components', 'hooks', 'lib', 'constants', 'screens', 'offline', 'checklists', 'shared', 'demo', 'assets',
   'app.json', 'metro.config.js', 'babel.config.js', 'package-lock.json', 'scripts/build-web.mjs', 'scripts/service-worker.mjs',
 ];
 

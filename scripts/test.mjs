@@ -1,8 +1,11 @@
 #!/usr/bin/env node
 /**
- * `npm test`: installs what is missing (npm packages, Debian's chromium), starts the private
+ * `npm test`: installs what is missing (npm packages, Debian's chromium), runs the gates (lint,
+ * typecheck, format check; the first that fails stops the run and is named), starts the private
  * test PostgreSQL cluster, exports the web build when stale, and runs every jest project:
- * domain, api, app and e2e. Extra arguments go to jest (e.g. `npm test -- --selectProjects domain`).
+ * domain, api, app and e2e. Extra arguments go to jest (e.g. `npm test -- --selectProjects domain`);
+ * with extra arguments the gates are skipped so targeted runs stay quick, unless `--gates` is given
+ * (or TR_GATES=1). TR_GATES=0 skips them on a full run.
  */
 import { spawnSync } from 'node:child_process';
 import { existsSync } from 'node:fs';
@@ -11,8 +14,36 @@ import { fileURLToPath } from 'node:url';
 import { ensureInstall } from './ensure-install.mjs';
 
 const ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '..');
-const args = process.argv.slice(2);
+const argv = process.argv.slice(2);
+const args = argv.filter((a) => a !== '--gates');
 const t0 = Date.now();
+
+/** The checks `npm test` runs before jest, in order; each is an npm script. */
+const GATES = [
+  { name: 'lint', script: 'lint' },
+  { name: 'typecheck', script: 'typecheck' },
+  { name: 'format', script: 'format:check' },
+];
+
+function gatesWanted() {
+  if (process.env.TR_GATES === '0') return false;
+  if (process.env.TR_GATES === '1' || argv.includes('--gates')) return true;
+  return args.length === 0;
+}
+
+function runGates() {
+  for (const gate of GATES) {
+    const g0 = Date.now();
+    console.error(`[test] gate ${gate.name}: npm run ${gate.script}`);
+    const r = spawnSync('npm', ['run', '--silent', gate.script], { cwd: ROOT, stdio: 'inherit' });
+    const secs = ((Date.now() - g0) / 1000).toFixed(0);
+    if (r.status !== 0) {
+      console.error(`[test] FAILED gate "${gate.name}" (npm run ${gate.script}, ${secs} s); jest did not run`);
+      process.exit(r.status || 1);
+    }
+    console.error(`[test] gate ${gate.name} passed in ${secs} s`);
+  }
+}
 
 function ensureChromium() {
   if (existsSync('/usr/bin/chromium')) return;
@@ -28,6 +59,7 @@ function ensureChromium() {
 
 async function main() {
   ensureInstall();
+  if (gatesWanted()) runGates();
   const needsBrowser = !args.includes('--selectProjects') || args.includes('e2e');
   if (needsBrowser) ensureChromium();
   const { startCluster } = await import('./pg.mjs');

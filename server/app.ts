@@ -23,7 +23,8 @@ import { sitesRouter } from './sites/routes';
 import { noopSyncHooks, type SyncHooks } from './sync/hooks';
 import { syncRouter } from './sync/routes';
 import { photosRouter } from './uploads/routes';
-import { makePhotoStore, type PhotoStore } from './uploads/store';
+import { makePhotoStore } from './uploads/make-store';
+import type { PhotoStore } from './uploads/store';
 import { inlineScriptHashes, webDistPresent, webRouter } from './web';
 import { adminRouter } from './admin/routes';
 

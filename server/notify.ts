@@ -16,13 +16,6 @@ export interface Notifier {
   findingsStored(roundId: string): void | Promise<void>;
 }
 
-/** The default: tells nobody. */
-export const noopNotifier: Notifier = {
-  workOrderOpened: () => undefined,
-  assigned: () => undefined,
-  findingsStored: () => undefined,
-};
-
 /** Runs one notification; a throw or a rejection is logged with `what`, never passed on. */
 export async function notifySafely(logger: Logger, what: string, call: () => void | Promise<void>): Promise<void> {
   try {

@@ -5,6 +5,7 @@
  */
 import { useMutation, useQuery, useQueryClient, type QueryClient } from '@tanstack/react-query';
 import {
+  WORK_ORDER_PAGE_SIZE,
   WorkOrderDetail,
   WorkOrderListResponse,
   type AssignRequest,
@@ -16,23 +17,13 @@ import {
   type StartRequest,
   type TriageRequest,
   type WorkOrderAction,
-  type WorkOrderKind,
-  type WorkOrderStatus,
+  type WorkOrderListFilters,
   type WorkOrderSummary,
 } from '@/shared/api/work-orders';
 import { useSession } from '../session';
 
-export interface WorkOrderFilters {
-  status?: (WorkOrderStatus | 'active')[];
-  priority?: (1 | 2 | 3)[];
-  kind?: WorkOrderKind[];
-  unitId?: string;
-  tag?: string;
-  q?: string;
-  sort?: string;
-  limit?: number;
-  offset?: number;
-}
+/** The list's filters: the wire schema's parsed shape (shared/api/work-orders.ts), each optional. */
+export type WorkOrderFilters = Partial<WorkOrderListFilters>;
 
 export const workOrderKeys = {
   all: (siteId: string) => ['work-orders', siteId] as const,
@@ -51,7 +42,7 @@ export function workOrderQuery(f: WorkOrderFilters): string {
   if (f.tag?.trim()) q.set('tag', f.tag.trim());
   if (f.q?.trim()) q.set('q', f.q.trim());
   if (f.sort) q.set('sort', f.sort);
-  q.set('limit', String(f.limit ?? 25));
+  q.set('limit', String(f.limit ?? WORK_ORDER_PAGE_SIZE));
   q.set('offset', String(f.offset ?? 0));
   return q.toString();
 }

@@ -14,7 +14,7 @@ import { Card } from '@/components/card';
 import { Field } from '@/components/field';
 import { ThemedText } from '@/components/themed-text';
 import { space } from '@/constants/theme';
-import { ApiError } from '@/hooks/api-client';
+import { ApiError } from '@/lib/api-client';
 import { useUpdateInstrument } from '@/hooks/queries/admin';
 import { ACCURACY_CLASSES, CALIBRATION_INTERVAL_MAX_DAYS, type InstrumentUpdateRequest } from '@/shared/api/instruments';
 import { INSTRUMENT_STATUSES, type InstrumentStatus, type SyncInstrument } from '@/shared/api/sync';

@@ -12,7 +12,7 @@ import { Field } from '@/components/field';
 import { JsonFileInput } from '@/components/json-file-input';
 import { ThemedText } from '@/components/themed-text';
 import { fonts, space } from '@/constants/theme';
-import { ApiError } from '@/hooks/api-client';
+import { ApiError } from '@/lib/api-client';
 import { usePublishVersion } from '@/hooks/queries/admin';
 import { useSiteReference } from '@/hooks/queries/instruments';
 import type { PublishVersionResponse } from '@/shared/api/admin';

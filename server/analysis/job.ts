@@ -5,10 +5,10 @@
  * In one transaction, holding the round's row lock (so two workers on the same round take turns):
  *  1. the round (finished only: an in-progress round is analysed when its finishing push comes),
  *     its unit's cycle model (units.model) and the unit's instruments;
- *  2. the unit-level input, assembled by shared/review exactly as the phone's round check does:
+ *  2. the unit-level input, assembled by shared/round-check exactly as the phone's round check does:
  *     the round's current readings (per instrument the latest reading no other supersedes; a
  *     skipped one counts as not read; SI absolute as stored), for instruments the route does not
- *     read the latest readings of the unit's other rounds within 4 h (REVIEW_WINDOW_HOURS), the round's barometric
+ *     read the latest readings of the unit's other rounds within 4 h (ROUND_CHECK_WINDOW_HOURS), the round's barometric
  *     pressure (its barometer reading, else the site's elevation through the ICAO standard
  *     atmosphere), and earlier rounds of the same route for the stuck-value check;
  *  3. the input hash (SHA-256 of the canonical JSON of 1–2). An analysis of this round with this
@@ -24,17 +24,14 @@
  */
 import { createHash } from 'node:crypto';
 import type { DataSource } from 'typeorm';
-import type { RouteTemplate } from '../../checklists/schema';
+import type { RouteTemplate } from '../../shared/route/template';
 import { analyseRound, canonicalJson, type CycleModel, type RoundAnalysis, type RoundReading } from '../../shared/cycle';
-import { assembleReview, roundsFromRows, type ReadingRow } from '../../shared/review';
+import { assembleRoundCheck, roundsFromRows, type ReadingRow } from '../../shared/round-check';
 import { barometricFromElevation } from '../../shared/units';
 import type { Logger } from '../logger';
 import { notifySafely, type Notifier } from '../notify';
 import { workOrdersFromFindings, type StoredFinding, type UnitInstrument, type WorkOrderChanges } from '../work-orders/from-findings';
 import { serverFindings } from './plant-checks';
-
-/** Rounds (this one included) a value must stay put to count as stuck (shared/cycle's default). */
-export const STUCK_ROUNDS = 3;
 
 export interface AnalysisDeps {
   dataSource: DataSource;
@@ -105,9 +102,9 @@ export async function runAnalysisJob(deps: AnalysisDeps, roundId: string): Promi
     const byId = new Map(instrumentRows.map((i) => [i.id, i]));
     const idByTag = new Map(instrumentRows.map((i) => [i.tag, i.id]));
 
-    // The unit-level input, assembled exactly as the phone's round check does (shared/review):
+    // The unit-level input, assembled exactly as the phone's round check does (shared/round-check):
     // this round's current readings, and for instruments its route does not read the latest
-    // readings of the unit's other rounds within REVIEW_WINDOW_HOURS; earlier rounds of the same
+    // readings of the unit's other rounds within ROUND_CHECK_WINDOW_HOURS; earlier rounds of the same
     // route feed the stuck-value check. Same code, same rows → the same answer on both sides.
     const [{ started }] = (await em.query(`SELECT "started_at_device" AS "started", "finished_at_device" AS "finished" FROM "rounds" WHERE "id" = $1`, [round.id])) as {
       started: Date;
@@ -142,16 +139,16 @@ export async function runAnalysisJob(deps: AnalysisDeps, roundId: string): Promi
       [nearby.map((r) => r.id)],
     )) as (ReadingRow & { deviceTime: Date | string; instrumentId: string })[];
     const iso = (d: Date | string | null) => (d === null ? null : d instanceof Date ? d.toISOString() : new Date(d).toISOString());
-    const reviewRounds = roundsFromRows(
+    const checkRounds = roundsFromRows(
       nearby.map((r) => ({ ...r, startedAt: iso(r.startedAt)!, finishedAt: iso(r.finishedAt) })),
       readingRows.map((r) => ({ ...r, valueSi: r.valueSi === null ? null : Number(r.valueSi), deviceTime: iso(r.deviceTime)! })),
       round.elevation_m,
     );
-    const me = reviewRounds.find((r) => r.id === round.id)!;
-    const assembled = assembleReview({
+    const me = checkRounds.find((r) => r.id === round.id)!;
+    const assembled = assembleRoundCheck({
       model: unit.model,
       round: me,
-      others: reviewRounds.filter((r) => r.id !== round.id),
+      others: checkRounds.filter((r) => r.id !== round.id),
       at: me.finishedAt ?? me.startedAt,
     });
     const readings: RoundReading[] = assembled.readings;

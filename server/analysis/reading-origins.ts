@@ -1,7 +1,7 @@
 /**
  * Where each reading of a stored analysis came from. The analysis is unit-level: the round's own
  * readings, plus, for instruments its route does not read, the latest reading of the unit's other
- * rounds within REVIEW_WINDOW_HOURS before the round (shared/review assembleReview). The analysis
+ * rounds within ROUND_CHECK_WINDOW_HOURS before the round (shared/round-check assembleRoundCheck). The analysis
  * stores the readings it used (`instruments`) and per-instrument rows for its own readings only
  * (`analysis_instruments`); the round a borrowed reading came from is found again here by the same
  * rule, and named only when its value is the one the analysis used.
@@ -9,7 +9,7 @@
 import type { DataSource } from 'typeorm';
 import type { ReadingOrigin } from '../../shared/api/analysis';
 import type { InstrumentResult } from '../../shared/cycle/types';
-import { REVIEW_WINDOW_HOURS } from '../../shared/review';
+import { ROUND_CHECK_WINDOW_HOURS } from '../../shared/round-check';
 
 /** Relative agreement for "the same value" (both sides are the same double, stored and read back). */
 const SAME = 1e-9;
@@ -44,7 +44,7 @@ export async function readingOrigins(
           AND rd."device_time" >= coalesce(me."finished_at_device", me."started_at_device") - make_interval(hours => $4)
           AND NOT EXISTS (SELECT 1 FROM "readings" s WHERE s."supersedes" = rd."id")
         ORDER BY i."tag", rd."device_time" DESC, rd."id" DESC`,
-      [a.roundId, a.unitId, borrowedTags, REVIEW_WINDOW_HOURS],
+      [a.roundId, a.unitId, borrowedTags, ROUND_CHECK_WINDOW_HOURS],
     )) as { tag: string; round_id: string; route_name: string; device_time: Date; value_si: number }[];
     for (const r of rows) found.set(r.tag, r);
   }

@@ -3,7 +3,7 @@ import type { Instrument } from './instrument';
 import type { Reading } from './reading';
 import type { Round } from './round';
 import type { Site } from './site';
-import type { Unit } from './unit';
+import type { PlantUnit } from './plant-unit';
 
 /**
  * One analysis of a round (server/analysis): the round's current readings held against its unit's
@@ -37,7 +37,7 @@ export interface Analysis {
   findingCount: number;
   round?: Round;
   site?: Site;
-  unit?: Unit;
+  unit?: PlantUnit;
 }
 
 export const AnalysisEntity = new EntitySchema<Analysis>({
@@ -66,7 +66,7 @@ export const AnalysisEntity = new EntitySchema<Analysis>({
   relations: {
     round: { type: 'many-to-one', target: 'Round', onDelete: 'CASCADE', joinColumn: { name: 'round_id', foreignKeyConstraintName: 'fk_analyses_round' } },
     site: { type: 'many-to-one', target: 'Site', onDelete: 'CASCADE', joinColumn: { name: 'site_id', foreignKeyConstraintName: 'fk_analyses_site' } },
-    unit: { type: 'many-to-one', target: 'Unit', onDelete: 'CASCADE', joinColumn: { name: 'unit_id', foreignKeyConstraintName: 'fk_analyses_unit' } },
+    unit: { type: 'many-to-one', target: 'PlantUnit', onDelete: 'CASCADE', joinColumn: { name: 'unit_id', foreignKeyConstraintName: 'fk_analyses_unit' } },
   },
   uniques: [{ name: 'uq_analyses_round_input', columns: ['roundId', 'inputHash'] }],
   indices: [

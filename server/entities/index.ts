@@ -2,7 +2,7 @@ import { MembershipEntity } from './membership';
 import { RefreshTokenEntity } from './refresh-token';
 import { SiteEntity } from './site';
 import { UserEntity } from './user';
-import { UnitEntity } from './unit';
+import { PlantUnitEntity } from './plant-unit';
 import { InstrumentEntity } from './instrument';
 import { RouteEntity, RouteVersionEntity } from './route';
 import { RoundEntity } from './round';
@@ -23,7 +23,7 @@ export * from './membership';
 export * from './refresh-token';
 export * from './site';
 export * from './user';
-export * from './unit';
+export * from './plant-unit';
 export * from './instrument';
 export * from './route';
 export * from './round';
@@ -40,7 +40,7 @@ export const ENTITIES = [
   UserEntity,
   MembershipEntity,
   RefreshTokenEntity,
-  UnitEntity,
+  PlantUnitEntity,
   InstrumentEntity,
   RouteEntity,
   RouteVersionEntity,

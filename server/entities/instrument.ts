@@ -1,7 +1,7 @@
 import { EntitySchema } from 'typeorm';
 import { PRESSURE_REFERENCES, QUANTITIES, type PressureRef, type Quantity } from '../../shared/units';
 import { INSTRUMENT_STATUSES, type InstrumentStatus } from '../../shared/api/sync';
-import type { Unit } from './unit';
+import type { PlantUnit } from './plant-unit';
 import { syncVersionColumn } from './transformers';
 
 export { INSTRUMENT_STATUSES, type InstrumentStatus };
@@ -33,7 +33,7 @@ export interface Instrument {
   /** Optimistic-concurrency counter, +1 per save. */
   rowVersion: number;
   syncVersion: number;
-  unit?: Unit;
+  unit?: PlantUnit;
 }
 
 export const InstrumentEntity = new EntitySchema<Instrument>({
@@ -62,7 +62,7 @@ export const InstrumentEntity = new EntitySchema<Instrument>({
   relations: {
     unit: {
       type: 'many-to-one',
-      target: 'Unit',
+      target: 'PlantUnit',
       onDelete: 'CASCADE',
       joinColumn: { name: 'unit_id', foreignKeyConstraintName: 'fk_instruments_unit' },
     },

@@ -1,7 +1,7 @@
 import { EntitySchema } from 'typeorm';
-import type { RouteTemplate } from '../../checklists/schema';
+import type { RouteTemplate } from '../../shared/route/template';
 import type { Site } from './site';
-import type { Unit } from './unit';
+import type { PlantUnit } from './plant-unit';
 import type { User } from './user';
 import { syncVersionColumn } from './transformers';
 
@@ -20,7 +20,7 @@ export interface Route {
   createdAt: Date;
   syncVersion: number;
   site?: Site;
-  unit?: Unit;
+  unit?: PlantUnit;
   currentVersion?: RouteVersion | null;
 }
 
@@ -58,7 +58,7 @@ export const RouteEntity = new EntitySchema<Route>({
     },
     unit: {
       type: 'many-to-one',
-      target: 'Unit',
+      target: 'PlantUnit',
       onDelete: 'CASCADE',
       joinColumn: { name: 'unit_id', foreignKeyConstraintName: 'fk_routes_unit' },
     },

@@ -4,7 +4,7 @@ import { WORK_ORDER_KINDS, WORK_ORDER_STATUSES, type WorkOrderKind, type WorkOrd
 import type { FindingRow } from './analysis';
 import type { Instrument } from './instrument';
 import type { Site } from './site';
-import type { Unit } from './unit';
+import type { PlantUnit } from './plant-unit';
 import type { User } from './user';
 
 export { WORK_ORDER_KINDS, WORK_ORDER_STATUSES, type WorkOrderKind, type WorkOrderStatus };
@@ -45,7 +45,7 @@ export interface WorkOrder {
   updatedAt: Date;
   closedAt: Date | null;
   site?: Site;
-  unit?: Unit;
+  unit?: PlantUnit;
   instrument?: Instrument | null;
   assignee?: User | null;
   mergedInto?: WorkOrder | null;
@@ -82,7 +82,7 @@ export const WorkOrderEntity = new EntitySchema<WorkOrder>({
   },
   relations: {
     site: { type: 'many-to-one', target: 'Site', onDelete: 'CASCADE', joinColumn: { name: 'site_id', foreignKeyConstraintName: 'fk_work_orders_site' } },
-    unit: { type: 'many-to-one', target: 'Unit', onDelete: 'CASCADE', joinColumn: { name: 'unit_id', foreignKeyConstraintName: 'fk_work_orders_unit' } },
+    unit: { type: 'many-to-one', target: 'PlantUnit', onDelete: 'CASCADE', joinColumn: { name: 'unit_id', foreignKeyConstraintName: 'fk_work_orders_unit' } },
     instrument: {
       type: 'many-to-one',
       target: 'Instrument',

@@ -12,7 +12,7 @@
  * History: the instrument's readings against their reconciled values and σ, one point per
  * analysed round, in device time (the time of the reading).
  */
-import type { DataSource } from 'typeorm';
+import { And, LessThan, MoreThanOrEqual, type DataSource } from 'typeorm';
 import type {
   HistoryPoint,
   InstrumentHealth,
@@ -25,7 +25,7 @@ import { ACCURACY_CLASSES, type InstrumentUpdateRequest as UpdateSchema, type In
 import type { z } from 'zod';
 import { accuracySpecSchema, type AccuracySpec } from '../../shared/uncertainty';
 import { ELEVATION_MIN_M, SI_UNIT, barometricFromElevation, type Quantity } from '../../shared/units';
-import { InstrumentEntity } from '../entities';
+import { AnalysisInstrumentEntity, InstrumentEntity } from '../entities';
 import type { Instrument } from '../entities/instrument';
 import { AppError } from '../errors';
 
@@ -157,50 +157,34 @@ export async function instrumentHistory(
       { path: 'from', message: 'Must lie before to' },
     ]);
   }
-  const rows = (await ds.query(
-    `SELECT ai."analysis_id", ai."round_id", ai."reading_id", ai."measured_at", ai."reading_si", ai."sigma_si", ai."reconciled_si", ai."reconciled_sigma_si",
-            ai."estimate_si", ai."estimate_sigma_si", ai."z", ai."suspect"
-       FROM "analysis_instruments" ai
-      WHERE ai."instrument_id" = $1 AND ai."is_current" AND ai."measured_at" >= $2 AND ai."measured_at" < $3
-      ORDER BY ai."measured_at", ai."analysis_id"
-      LIMIT $4`,
-    [inst.id, from, to, HISTORY_MAX_POINTS + 1],
-  )) as {
-    analysis_id: string;
-    round_id: string;
-    reading_id: string | null;
-    measured_at: Date;
-    reading_si: number | null;
-    sigma_si: number | null;
-    reconciled_si: number | null;
-    reconciled_sigma_si: number | null;
-    estimate_si: number | null;
-    estimate_sigma_si: number | null;
-    z: number | null;
-    suspect: boolean;
-  }[];
+  // one row type for the history: the entity's (server/entities/analysis.ts AnalysisInstrument)
+  const rows = await ds.getRepository(AnalysisInstrumentEntity).find({
+    where: { instrumentId: inst.id, isCurrent: true, measuredAt: And(MoreThanOrEqual(from), LessThan(to)) },
+    order: { measuredAt: 'ASC', analysisId: 'ASC' },
+    take: HISTORY_MAX_POINTS + 1,
+  });
   const truncated = rows.length > HISTORY_MAX_POINTS;
   const pts = rows.slice(0, HISTORY_MAX_POINTS);
   const flagged = pts.length
     ? ((await ds.query(
         `SELECT "analysis_id", "kind" FROM "findings" WHERE "analysis_id" = ANY($1::uuid[]) AND "instrument_ids" @> ARRAY[$2::uuid] ORDER BY "ordinal"`,
-        [pts.map((p) => p.analysis_id), inst.id],
+        [pts.map((p) => p.analysisId), inst.id],
       )) as { analysis_id: string; kind: string }[])
     : [];
   const points: HistoryPoint[] = pts.map((p) => ({
-    analysisId: p.analysis_id,
-    roundId: p.round_id,
-    readingId: p.reading_id,
-    measuredAt: new Date(p.measured_at).toISOString(),
-    reading: p.reading_si,
-    sigma: p.sigma_si,
-    reconciled: p.reconciled_si,
-    reconciledSigma: p.reconciled_sigma_si,
-    estimate: p.estimate_si,
-    estimateSigma: p.estimate_sigma_si,
+    analysisId: p.analysisId,
+    roundId: p.roundId,
+    readingId: p.readingId,
+    measuredAt: new Date(p.measuredAt!).toISOString(),
+    reading: p.readingSi,
+    sigma: p.sigmaSi,
+    reconciled: p.reconciledSi,
+    reconciledSigma: p.reconciledSigmaSi,
+    estimate: p.estimateSi,
+    estimateSigma: p.estimateSigmaSi,
     z: p.z,
     suspect: p.suspect,
-    findings: flagged.filter((f) => f.analysis_id === p.analysis_id).map((f) => f.kind),
+    findings: flagged.filter((f) => f.analysis_id === p.analysisId).map((f) => f.kind),
   }));
   return {
     instrument: { id: inst.id, unitId: inst.unit_id, tag: inst.tag, quantity: inst.quantity, siUnit: siUnitOf(inst.quantity), status: inst.status },

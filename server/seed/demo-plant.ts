@@ -1,6 +1,6 @@
 /**
- * The demo plant: Fernhallow Works' unit 1 (shared/cycle/demo-unit.ts) with its instruments and
- * site barometer, and its three routes (checklists/demo) published as version 1; Brackenmoor's
+ * The demo plant: Fernhallow Works' unit 1 (demo/unit.ts) with its instruments and
+ * site barometer, and its three routes (demo/routes) published as version 1; Brackenmoor's
  * small Boiler 1 (./brackenmoor-unit.ts) with one route. Invented data throughout.
  *
  * Calibration dates lie 1–5 months before the seed, spread over the instruments, with intervals
@@ -8,13 +8,13 @@
  * thermocouples and RTDs every two years, level glasses every six months).
  */
 import type { EntityManager } from 'typeorm';
-import { brackenmoorRoutes, fernhallowBarometer, fernhallowRoutes } from '../../checklists/demo';
-import type { RouteTemplate } from '../../checklists/schema';
-import { demoUnit } from '../../shared/cycle/demo-unit';
+import { brackenmoorRoutes, fernhallowBarometer, fernhallowRoutes } from '../../demo/routes';
+import type { RouteTemplate } from '../../shared/route/template';
+import { demoUnit } from '../../demo/unit';
 import type { CycleModel, Instrument as ModelInstrument } from '../../shared/cycle/model';
-import { InstrumentEntity, MembershipEntity, SiteEntity, UnitEntity, type Instrument } from '../entities';
+import { InstrumentEntity, MembershipEntity, SiteEntity, PlantUnitEntity, type Instrument } from '../entities';
 import { createRoute } from '../sync/route-versions';
-import { brackenmoorUnit } from './brackenmoor-unit';
+import { brackenmoorUnit } from '../../demo/brackenmoor-unit';
 import { demoSites, type DemoSiteSlug } from './demo-users';
 
 export interface DemoPlant {
@@ -84,9 +84,9 @@ export async function seedDemoPlant(em: EntityManager, now = new Date()): Promis
     const demoName = demoSites.find((d) => d.slug === plant.site)!.name;
     const site = await em.getRepository(SiteEntity).findOneBy({ slug: plant.site, name: demoName });
     if (!site) continue;
-    if ((await em.getRepository(UnitEntity).countBy({ siteId: site.id })) > 0) continue;
+    if ((await em.getRepository(PlantUnitEntity).countBy({ siteId: site.id })) > 0) continue;
 
-    const unit = await em.getRepository(UnitEntity).save({
+    const unit = await em.getRepository(PlantUnitEntity).save({
       siteId: site.id,
       name: plant.model.name,
       model: plant.model,

@@ -45,11 +45,12 @@
  * barometric offset of a gauge read as absolute.
  */
 import { createHash } from 'node:crypto';
-import { fernhallowRoutes } from '../../checklists/demo';
-import { fernhallowBarometer } from '../../checklists/demo/fernhallow-site';
-import type { RouteCheck, RouteTemplate } from '../../checklists/schema';
+import { fernhallowRoutes } from '../../demo/routes';
+import { fernhallowBarometer } from '../../demo/routes/fernhallow-site';
+import type { RouteCheck, RouteTemplate } from '../../shared/route/template';
+import { mulberry32 } from '../../shared/random';
 import type { PushRequestV2 } from '../../shared/api/sync';
-import { demoUnit, designPoint, DESIGN_PARAMETERS, type DesignParameters, type DesignPoint } from '../../shared/cycle';
+import { demoUnit, designPoint, DESIGN_PARAMETERS, type DesignParameters, type DesignPoint } from '../../demo/unit';
 import type { Instrument } from '../../shared/cycle/model';
 import { psat, tsat } from '../../shared/steam';
 import { sigmaFor } from '../../shared/uncertainty';
@@ -164,19 +165,9 @@ export interface GeneratedHistory {
 }
 
 // ---------------------------------------------------------------------------------------------
-// determinism
+// determinism (mulberry32 from shared/random.ts, re-exported for the generator's tests)
 
-/** mulberry32 (Tommy Ettinger's 32-bit generator): uniform in [0, 1). */
-export function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+export { mulberry32 };
 
 /** Standard normal deviates by Box–Muller from a uniform source. */
 function normals(u: () => number): () => number {

@@ -10,12 +10,12 @@
  */
 import type { DataSource } from 'typeorm';
 import type { PullResponse, SyncInstrument, SyncRoute, SyncUnit } from '../../shared/api/sync';
-import { InstrumentEntity, RouteEntity, UnitEntity } from '../entities';
+import { InstrumentEntity, RouteEntity, PlantUnitEntity } from '../entities';
 
 export async function pullChanges(ds: DataSource, siteId: string, cursor: number): Promise<PullResponse> {
   return ds.transaction('REPEATABLE READ', async (em) => {
     const units = await em
-      .getRepository(UnitEntity)
+      .getRepository(PlantUnitEntity)
       .createQueryBuilder('u')
       .where('u.siteId = :siteId', { siteId })
       .andWhere('u.syncVersion > :cursor', { cursor })

@@ -30,7 +30,7 @@ import type { DataSource, EntityManager } from 'typeorm';
 import type { Role } from '../../shared/api/auth';
 import type { PushBatch, PushCounts, PushReading, PushResponse } from '../../shared/api/sync';
 import { checksById } from '../../checklists/validate';
-import type { RouteTemplate } from '../../checklists/schema';
+import type { RouteTemplate } from '../../shared/route/template';
 import {
   barometricFromElevation,
   resolveUnit,

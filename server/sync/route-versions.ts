@@ -5,8 +5,8 @@
  */
 import type { EntityManager } from 'typeorm';
 import { validateRoute, type RouteModel } from '../../checklists/validate';
-import type { RouteTemplate } from '../../checklists/schema';
-import { InstrumentEntity, RouteEntity, RouteVersionEntity, UnitEntity, type Route, type RouteVersion } from '../entities';
+import type { RouteTemplate } from '../../shared/route/template';
+import { InstrumentEntity, RouteEntity, RouteVersionEntity, PlantUnitEntity, type Route, type RouteVersion } from '../entities';
 import { AppError } from '../errors';
 
 /**
@@ -14,7 +14,7 @@ import { AppError } from '../errors';
  * (the model's instruments and site instruments outside the model such as the barometer).
  */
 async function checkedTemplate(em: EntityManager, unitId: string, template: unknown): Promise<RouteTemplate> {
-  const unit = await em.getRepository(UnitEntity).findOneBy({ id: unitId });
+  const unit = await em.getRepository(PlantUnitEntity).findOneBy({ id: unitId });
   if (!unit) throw new AppError(404, 'not_found', `Unit ${unitId} not found`);
   const instruments = await em.getRepository(InstrumentEntity).findBy({ unitId });
   const model: RouteModel = {

@@ -35,7 +35,7 @@ export type FindingView = z.infer<typeof FindingView>;
 /**
  * Where a reading the analysis used came from: this round (`own`), or another round of the unit
  * (the analysis is unit-level: for instruments the round's route does not read, the latest reading
- * of the unit's other rounds within REVIEW_WINDOW_HOURS (4 h) is borrowed). `roundId` null on a borrowed reading: its
+ * of the unit's other rounds within ROUND_CHECK_WINDOW_HOURS (4 h) is borrowed). `roundId` null on a borrowed reading: its
  * round could not be told again (a later re-take replaced it).
  */
 export const ReadingOrigin = z.object({

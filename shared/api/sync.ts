@@ -16,7 +16,7 @@
  * A version-1 batch is read as version 2 with those fields empty / false.
  */
 import { z } from 'zod';
-import { RouteTemplate } from '../../checklists/schema';
+import { RouteTemplate } from '../route/template';
 import { PRESSURE_REFERENCES, QUANTITIES } from '../units';
 
 export const CURRENT_PAYLOAD_VERSION = 2;

@@ -72,12 +72,16 @@ export const WorkOrderSummary = z.object({
 export type WorkOrderSummary = z.infer<typeof WorkOrderSummary>;
 
 export const WORK_ORDER_SORTS = ['-openedAt', 'openedAt', 'priority', '-priority', 'dueDate', '-dueDate', 'number', '-number', '-updatedAt', 'updatedAt'] as const;
+export type WorkOrderSort = (typeof WORK_ORDER_SORTS)[number];
 
 const csv = <T extends z.ZodType<unknown, string>>(item: T, what: string) =>
   z
     .string({ error: `Must be ${what}` })
     .transform((v) => v.split(',').map((x) => x.trim()).filter(Boolean))
     .pipe(z.array(item).min(1, `Must name at least one: ${what}`));
+
+/** Work orders per page when a list request names no `limit`. */
+export const WORK_ORDER_PAGE_SIZE = 50;
 
 export const WorkOrderListQuery = z.object({
   /** comma-separated statuses; "active" stands for every status but done and cancelled */
@@ -91,10 +95,17 @@ export const WorkOrderListQuery = z.object({
   /** text search on number, title and instrument tag */
   q: z.string().trim().min(1).max(200).optional(),
   sort: z.enum(WORK_ORDER_SORTS, { error: `Must be one of ${WORK_ORDER_SORTS.join(', ')}` }).default('-openedAt'),
-  limit: z.coerce.number({ error: 'Must be a whole number' }).int('Must be a whole number').min(1, 'Must be at least 1').max(200, 'Must be at most 200').default(50),
+  limit: z.coerce
+    .number({ error: 'Must be a whole number' })
+    .int('Must be a whole number')
+    .min(1, 'Must be at least 1')
+    .max(200, 'Must be at most 200')
+    .default(WORK_ORDER_PAGE_SIZE),
   offset: z.coerce.number({ error: 'Must be a whole number' }).int('Must be a whole number').min(0, 'Must be at least 0').max(1_000_000).default(0),
 });
 export type WorkOrderListQuery = z.input<typeof WorkOrderListQuery>;
+/** The list filters as the server reads them (after parsing); a client sets any of them. */
+export type WorkOrderListFilters = z.output<typeof WorkOrderListQuery>;
 
 export const WorkOrderListResponse = z.object({
   items: z.array(WorkOrderSummary),

@@ -1,5 +1,6 @@
 /**
- * The Trueround engine: cycle model and validator, plant equations, round analysis, demo unit.
+ * The Trueround engine: cycle model and validator, plant equations, round analysis
+ * (the demo units are data and live in demo/).
  * Pure TypeScript, browser-safe (runs on the phone and on the server alike).
  */
 export {
@@ -52,14 +53,3 @@ export {
 } from './detectability';
 export { propsPT, propsSat, tsatSafe, enthalpyOf, type PTProps, type SatProps } from './properties';
 export * from './types';
-export {
-  demoUnit,
-  demoDesignReadings,
-  demoDesignPoint,
-  designPoint,
-  DESIGN_PARAMETERS,
-  type DemoReading,
-  type DesignParameters,
-  type DesignPoint,
-  type DesignState,
-} from './demo-unit';

@@ -5,6 +5,10 @@
  *
  * Every value is in SI base units: Pa (absolute), K, J/kg, J/(kg·K), m³/kg, m/s.
  * Input outside IF97's range, not finite, or inconsistent throws {@link SteamRangeError}.
+ *
+ * The region modules bind the imported names their hot paths use to local constants
+ * (`const { PowerSum } = powerSum;`): some module loaders (tsx among them) turn each use of an
+ * imported name into a getter call, which inner loops should not pay for.
  */
 export { ph, ps, pt, px, tx, tsat, psat, regionPT, regionPH, regionPS, P_SAT_MIN, P_SAT_623 } from './state';
 export { SteamRangeError } from './errors';

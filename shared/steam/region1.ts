@@ -7,8 +7,7 @@ import * as powerSum from './power-sum';
 import { REGION1_GIBBS, REGION1_T_PH, REGION1_T_PS } from './region1.coefficients';
 
 
-// Local bindings of the imported names the hot paths use: some module loaders (tsx among them)
-// turn each use of an imported name into a getter call, which inner loops should not pay for.
+// Local bindings of the imported names the hot paths use (why: shared/steam/index.ts).
 const { REGION1_P_STAR, REGION1_T_STAR } = constants;
 const { FX, FXY, PowerSum } = powerSum;
 

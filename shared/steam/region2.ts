@@ -18,8 +18,7 @@ import {
 } from './region2.coefficients';
 
 
-// Local bindings of the imported names the hot paths use: some module loaders (tsx among them)
-// turn each use of an imported name into a getter call, which inner loops should not pay for.
+// Local bindings of the imported names the hot paths use (why: shared/steam/index.ts).
 const { REGION2_P_STAR, REGION2_T_STAR } = constants;
 const { F, FX, FXX, FY, FYY, PowerSum, derivVector } = powerSum;
 const [B2BC_1, B2BC_2, B2BC_3, B2BC_4, B2BC_5] = B2BC_N;

@@ -23,8 +23,7 @@ import {
 } from './region3.coefficients';
 
 
-// Local bindings of the imported names the hot paths use: some module loaders (tsx among them)
-// turn each use of an imported name into a getter call, which inner loops should not pay for.
+// Local bindings of the imported names the hot paths use (why: shared/steam/index.ts).
 const { RHO_CRIT, T_CRIT } = constants;
 const { F, FX, FXX, PowerSum } = powerSum;
 const N1 = REGION3_N1;

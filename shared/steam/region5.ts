@@ -7,8 +7,7 @@ import * as powerSum from './power-sum';
 import { REGION5_IDEAL, REGION5_RESIDUAL } from './region5.coefficients';
 
 
-// Local bindings of the imported names the hot paths use: some module loaders (tsx among them)
-// turn each use of an imported name into a getter call, which inner loops should not pay for.
+// Local bindings of the imported names the hot paths use (why: shared/steam/index.ts).
 const { REGION5_P_STAR, REGION5_T_STAR } = constants;
 const { F, FX, FXX, FY, FYY, PowerSum, derivVector } = powerSum;
 

@@ -12,7 +12,9 @@ import request from 'supertest';
 import { createApp } from '../../server/app';
 import type { Notifier } from '../../server/notify';
 import { demoUser } from '../../server/seed/demo-users';
-import { analyseRound, demoDesignReadings, demoUnit } from '../../shared/cycle';
+import { analyseRound } from '../../shared/cycle';
+import { mulberry32 } from '../../shared/random';
+import { demoDesignReadings, demoUnit } from '../../demo/unit';
 import type { PushRequestV2 } from '../../shared/api/sync';
 import { barometricFromElevation, fromSI, type Unit } from '../../shared/units';
 import { bearer, signIn, testConfig } from './helpers/app';
@@ -145,25 +147,13 @@ export interface BuiltRound {
 
 let seedCounter = 1;
 
-/** mulberry32: a small seeded generator (uniform in [0, 1)) so the rounds are reproducible. */
-function seeded(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
 /** A round of every demo instrument at design (as its face shows it), with noise, some biased. */
 export function designRound(w: World, o: RoundOptions = {}): BuiltRound {
   const roundId = o.roundId ?? randomUUID();
   const t = o.deviceTime ?? new Date().toISOString();
   const baro = o.barometerMbar !== undefined ? o.barometerMbar * 100 : FERN_BARO;
   const readingIds: Record<string, string> = {};
-  const rnd = seeded(o.seed ?? seedCounter++);
+  const rnd = mulberry32(o.seed ?? seedCounter++);
   const jitter = o.jitter ?? 0.2;
   const readings: PushRequestV2['readings'] = demoDesignReadings(baro).map((r) => {
     const i = demoUnit.instruments.find((x) => x.tag === r.instrumentTag)!;

@@ -16,7 +16,7 @@ import { randomUUID } from 'node:crypto';
 import type { RoundAnalysisResponse, AnalysisJobsResponse } from '../../shared/api/analysis';
 import { runAnalysisJob, type AnalysisDeps } from '../../server/analysis/job';
 import { ANALYSIS_QUEUE, roundsNeedingAnalysis, startAnalysisRuntime, type AnalysisRuntime } from '../../server/analysis/queue';
-import { demoUnit } from '../../shared/cycle';
+import { demoUnit } from '../../demo/unit';
 import { memoryLogger, TEST_SECRET, testConfig } from './helpers/app';
 import { api, designRound, makeWorld, push, pushRound, until, type World } from './analysis-helpers';
 

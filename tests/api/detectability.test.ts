@@ -7,7 +7,7 @@
  */
 import type { DetectabilityResponse } from '../../shared/api/detectability';
 import { runAnalysisJob } from '../../server/analysis/job';
-import { demoUnit } from '../../shared/cycle';
+import { demoUnit } from '../../demo/unit';
 import { memoryLogger } from './helpers/app';
 import { api, makeWorld, pushRound, type World } from './analysis-helpers';
 

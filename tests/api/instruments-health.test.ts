@@ -10,7 +10,7 @@
  */
 import type { InstrumentHistoryResponse, InstrumentListResponse } from '../../shared/api/analysis';
 import { runAnalysisJob } from '../../server/analysis/job';
-import { demoUnit } from '../../shared/cycle';
+import { demoUnit } from '../../demo/unit';
 import { memoryLogger } from './helpers/app';
 import { api, makeWorld, pushRound, type World } from './analysis-helpers';
 

@@ -4,16 +4,16 @@
  *
  * Rounds of the Fernhallow demo unit at its design point (shared/cycle demoDesignReadings,
  * IAPWS-IF97, balances closing), each pushed with only the readings of its own demo route
- * (checklists/demo), analysed by the analysis job. Status codes as RFC 9110 gives them: 400
+ * (demo/routes), analysed by the analysis job. Status codes as RFC 9110 gives them: 400
  * (§15.5.1), 403 (§15.5.4), 404 (§15.5.5). The expected counts are the test's own: what it
  * pushed, and the findings rows the job stored.
  */
 import { runAnalysisJob } from '../../server/analysis/job';
-import { boilerHouseRoute, condenserCoolingWaterRoute, turbineHallRoute } from '../../checklists/demo';
-import type { RouteTemplate } from '../../checklists/schema';
+import { boilerHouseRoute, condenserCoolingWaterRoute, turbineHallRoute } from '../../demo/routes';
+import type { RouteTemplate } from '../../shared/route/template';
 import type { RoundAnalysisResponse } from '../../shared/api/analysis';
 import { AnalysedRoundsResponse } from '../../shared/api/rounds';
-import { demoUnit } from '../../shared/cycle';
+import { demoUnit } from '../../demo/unit';
 import { memoryLogger } from './helpers/app';
 import { api, designRound, push, makeWorld, type RoundOptions, type World } from './analysis-helpers';
 

@@ -1,6 +1,6 @@
 /**
  * GET /api/sync/pull: reference data changed since a cursor (a value of the global sync_seq).
- * Expected contents come from the demo data (checklists/demo, shared/cycle/demo-unit.ts); the
+ * Expected contents come from the demo data (demo/routes, demo/unit.ts); the
  * protocol rules (server-made strictly increasing version as the cursor; a pull applied twice
  * gives the same state) are the usual ones of offline sync protocols (common practice).
  */
@@ -8,8 +8,8 @@ import { randomUUID } from 'node:crypto';
 import type { Express } from 'express';
 import request from 'supertest';
 import { PullResponse } from '../../shared/api/sync';
-import { boilerHouseRoute, fernhallowRoutes } from '../../checklists/demo';
-import { demoUnit } from '../../shared/cycle/demo-unit';
+import { boilerHouseRoute, fernhallowRoutes } from '../../demo/routes';
+import { demoUnit } from '../../demo/unit';
 import { InstrumentEntity, RouteEntity, SiteEntity } from '../../server/entities';
 import { demoUser } from '../../server/seed/demo-users';
 import { publishRouteVersion } from '../../server/sync/route-versions';

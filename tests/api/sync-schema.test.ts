@@ -5,7 +5,7 @@
  * PostgreSQL 15 documentation, chapters 39 (triggers), 9.27.10 (advisory locks), 9.17 (sequences).
  */
 import { MIGRATIONS } from '../../server/migrations';
-import { UnitEntity } from '../../server/entities';
+import { PlantUnitEntity } from '../../server/entities';
 import { createTestDatabase, type TestDb } from './helpers/db';
 
 let db: TestDb;
@@ -32,7 +32,7 @@ test('the sync tables exist and the schema builder finds no difference from the 
 });
 
 test('every insert and update of a synced row takes a new, larger sync_version', async () => {
-  const repo = db.dataSource.getRepository(UnitEntity);
+  const repo = db.dataSource.getRepository(PlantUnitEntity);
   const unit = await repo.findOneByOrFail({ name: 'Brackenmoor Boiler House — Boiler 1 (Brackenmoor Mills)' });
   await db.dataSource.query(`UPDATE units SET name = name WHERE id = $1`, [unit.id]);
   const after = await repo.findOneByOrFail({ id: unit.id });

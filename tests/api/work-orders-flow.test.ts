@@ -18,7 +18,7 @@ import { runAnalysisJob, type AnalysisDeps } from '../../server/analysis/job';
 import { condenserChecks } from '../../server/analysis/plant-checks';
 import { workOrdersFromFindings } from '../../server/work-orders/from-findings';
 import { priorityOf } from '../../server/work-orders/policy';
-import { demoUnit } from '../../shared/cycle';
+import { demoUnit } from '../../demo/unit';
 import { memoryLogger } from './helpers/app';
 import { api, makeWorld, pushRound, type World } from './analysis-helpers';
 

@@ -4,13 +4,13 @@
  * each with the line of the pasted template it points at; a published version's number is shown.
  * The server is a jest mock of the session's request(); its refusal is made by running the real
  * validator (checklists/validate.ts) on the pasted template against the demo site's instruments
- * (checklists/demo fernhallowRouteModel), so the details are the ones the API would send.
+ * (demo/routes fernhallowRouteModel), so the details are the ones the API would send.
  */
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { fireEvent, render, screen, waitFor } from '@testing-library/react-native';
-import { fernhallowRouteModel, turbineHallRoute } from '@/checklists/demo';
+import { fernhallowRouteModel, turbineHallRoute } from '@/demo/routes';
 import { validateRoute } from '@/checklists/validate';
-import { ApiError } from '@/hooks/api-client';
+import { ApiError } from '@/lib/api-client';
 import { RoutesScreen } from '@/screens/admin/routes-screen';
 import type { PullResponse } from '@/shared/api/sync';
 

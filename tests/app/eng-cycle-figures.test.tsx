@@ -5,8 +5,9 @@
  * real analysis of the demo unit at design (IAPWS-IF97), not with made-up figures.
  */
 import { render, screen, within } from '@testing-library/react-native';
-import { figureIntervalWords, NOT_DETERMINABLE, PerformanceTable } from '@/screens/eng/cycle-screen';
-import { analyseRound, demoDesignReadings, demoUnit } from '@/shared/cycle';
+import { figureIntervalWords, NOT_DETERMINABLE, PerformanceTable } from '@/screens/cycle/cycle-screen';
+import { analyseRound } from '@/shared/cycle';
+import { demoDesignReadings, demoUnit } from '@/demo/unit';
 
 const B = 101325;
 const a = analyseRound(demoUnit, demoDesignReadings(B), { barometricPa: B });

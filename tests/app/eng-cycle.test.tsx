@@ -7,8 +7,8 @@
  */
 import { evidenceSentence } from '@/components/work-order-evidence';
 import { biasWords } from '@/components/instrument-values';
-import { tsFigure, turbineSections } from '@/screens/eng/cycle-screen';
-import { worstFirst } from '@/screens/eng/instrument-health-screen';
+import { tsFigure, turbineSections } from '@/screens/cycle/cycle-screen';
+import { worstFirst } from '@/screens/instruments/instrument-health-screen';
 import type { StatePointResult } from '@/shared/cycle/types';
 import type { InstrumentHealth } from '@/shared/api/analysis';
 

@@ -9,10 +9,11 @@ import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { render, screen, waitFor } from '@testing-library/react-native';
 import { DetectabilitySummary } from '@/components/detectability';
 import { detectabilityKeys } from '@/hooks/queries/detectability';
-import { InstrumentScreen } from '@/screens/eng/instrument-screen';
-import { noticeFromWords } from '@/screens/eng/instrument-health-screen';
+import { InstrumentScreen } from '@/screens/instruments/instrument-screen';
+import { noticeFromWords } from '@/screens/instruments/instrument-health-screen';
 import type { DetectabilityResponse, UnitDetectability } from '@/shared/api/detectability';
-import { analyseRound, demoDesignReadings, demoUnit, detectabilityMap } from '@/shared/cycle';
+import { analyseRound, detectabilityMap } from '@/shared/cycle';
+import { demoDesignReadings, demoUnit } from '@/demo/unit';
 
 const SITE = '6f1f7a52-3b1c-4c5e-9d7a-1a2b3c4d5e6f';
 const UNIT = '1b2c3d4e-5f6a-4b7c-8d9e-0f1a2b3c4d5e';

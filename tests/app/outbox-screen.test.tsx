@@ -4,7 +4,7 @@
  * never blocks the queue). The sync client itself is tested in tests/unit/offline.
  */
 import { fireEvent, render, screen } from '@testing-library/react-native';
-import { OutboxScreen } from '@/screens/tech/outbox-screen';
+import { OutboxScreen } from '@/screens/rounds/outbox-screen';
 
 const mockRetryRefused = jest.fn(async () => 1);
 const mockSyncNow = jest.fn(async () => null);

@@ -5,8 +5,8 @@
  * NIST SP 800-63B §5.1.1.2's minimum of 8; the server is a jest mock of the session.
  */
 import { fireEvent, render, screen, waitFor } from '@testing-library/react-native';
-import { ApiError } from '@/hooks/api-client';
-import { PasswordScreen } from '@/screens/password-screen';
+import { ApiError } from '@/lib/api-client';
+import { PasswordScreen } from '@/screens/account/password-screen';
 
 const mockChange = jest.fn();
 jest.mock('@/hooks/session', () => ({

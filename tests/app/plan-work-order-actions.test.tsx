@@ -6,9 +6,9 @@
  */
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { act, fireEvent, render, screen, waitFor } from '@testing-library/react-native';
-import { ApiError } from '@/hooks/api-client';
+import { ApiError } from '@/lib/api-client';
 import { workOrderKeys, workOrderQuery } from '@/hooks/queries/work-orders';
-import { WorkOrderScreen } from '@/screens/plan/work-order-screen';
+import { WorkOrderScreen } from '@/screens/work-orders/work-order-screen';
 import type { WorkOrderDetail, WorkOrderListResponse } from '@/shared/api/work-orders';
 
 const SITE = '6f1f7a52-3b1c-4c5e-9d7a-1a2b3c4d5e6f';
@@ -123,7 +123,7 @@ test('a calibration order asks for as found and as left before it closes (the se
   qc.setQueryData(workOrderKeys.detail(SITE, wo.id), { ...wo, status: 'in-progress', allowedActions: ['close', 'cancel', 'comment'] });
   render(
     <QueryClientProvider client={qc}>
-      <WorkOrderScreen id={wo.id} cycleHref={(r) => r} />
+      <WorkOrderScreen id={wo.id} cycleHref={(r) => `/plan/rounds/${r}`} />
     </QueryClientProvider>,
   );
   expect(screen.getByTestId('wo-close-submit')).toBeDisabled();

@@ -10,10 +10,10 @@
 import { mkdirSync } from 'node:fs';
 import { Client } from 'pg';
 import type { Browser, Page } from 'playwright-core';
-import { boilerHouseRoute } from '@/checklists/demo/boiler-house';
+import { boilerHouseRoute } from '@/demo/routes/boiler-house';
 import { hashPassword } from '@/server/auth/passwords';
 import { DEMO_PASSWORD } from '@/server/seed/demo-users';
-import { demoDesignReadings } from '@/shared/cycle';
+import { demoDesignReadings } from '@/demo/unit';
 import { barometricFromElevation } from '@/shared/units';
 import { beginRoundOffline, launch, newPage, PHONE, shot, signIn, WIDE } from './helpers/browser';
 import { startTestServer, type RunningServer } from './helpers/server';

@@ -56,6 +56,15 @@ test.each(fernhallow.map((u) => [u.role, u] as const))('%s signs in and lands on
   expect(page.url()).toContain(homePath[role]);
   await expect(page.getByTestId('home-name').textContent()).resolves.toBe(user.name);
 
+  // The one guard (app/_layout.tsx): another role's area and the sign-in form send this user home.
+  const other = role === 'planner' ? '/eng' : '/plan';
+  await page.goto(`${server.url}${other}`);
+  await page.getByTestId('home-name').waitFor();
+  expect(new URL(page.url()).pathname).toBe(homePath[role]);
+  await page.goto(`${server.url}/sign-in`);
+  await page.getByTestId('home-name').waitFor();
+  expect(new URL(page.url()).pathname).toBe(homePath[role]);
+
   // Signing out ends it.
   await page.getByTestId('sign-out').first().click();
   await page.getByTestId('sign-in-email').waitFor();

@@ -10,7 +10,8 @@ import { boxesIntersect, circleInBox, placeLabels, segmentHitsBox, type Box } fr
 import { tsFigure, turbineSections } from '@/shared/charts/ts-figure';
 import { TS_MARK_R, tsLabels, tsScales } from '@/shared/charts/ts-layout';
 import { project, saturationDome } from '@/shared/charts/ts-diagram';
-import { analyseRound, demoDesignReadings, demoUnit } from '@/shared/cycle';
+import { analyseRound } from '@/shared/cycle';
+import { demoDesignReadings, demoUnit } from '@/demo/unit';
 import { barometricFromElevation } from '@/shared/units';
 
 const baro = barometricFromElevation(112);

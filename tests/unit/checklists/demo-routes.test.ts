@@ -1,6 +1,6 @@
 /**
  * The demo routes (invented Fernhallow Works and Brackenmoor data) against the demo unit's cycle
- * model. The design readings come from shared/cycle/demo-unit.ts (IAPWS-IF97 design point) shown
+ * model. The design readings come from demo/unit.ts (IAPWS-IF97 design point) shown
  * at the site's standard-atmosphere barometric pressure (ICAO Doc 7488, 112 m).
  */
 import { validateRoute } from '@/checklists/validate';
@@ -12,8 +12,8 @@ import {
   fernhallowRouteModel,
   fernhallowRoutes,
   turbineHallRoute,
-} from '@/checklists/demo';
-import { demoDesignReadings, demoUnit } from '@/shared/cycle/demo-unit';
+} from '@/demo/routes';
+import { demoDesignReadings, demoUnit } from '@/demo/unit';
 import { validateModel } from '@/shared/cycle/validate';
 import { barometricFromElevation } from '@/shared/units';
 

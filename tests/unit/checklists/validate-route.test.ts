@@ -6,7 +6,7 @@
  * route templates.
  */
 import { parseRoute, quantityFromTag, RouteTemplateError, validateRoute, type RouteModel } from '@/checklists/validate';
-import type { RouteTemplate } from '@/checklists/schema';
+import type { RouteTemplate } from '@/shared/route/template';
 
 const model: RouteModel = {
   id: 'test-unit',

@@ -3,7 +3,7 @@
  * balance with IAPWS-IF97, no reading is flagged; a drum thermometer 8 K above the boiling point at
  * the drum pressure is (saturation per IAPWS-IF97 region 4); a twin pair far apart is.
  */
-import { demoDesignReadings, demoUnit } from '@/shared/cycle';
+import { demoDesignReadings, demoUnit } from '@/demo/unit';
 import { checkInstrumentReading, rangeAbsolute } from '@/shared/checks';
 import { barometricFromElevation } from '@/shared/units';
 

@@ -8,7 +8,8 @@
  * from Cauchy–Schwarz on the positive semi-definite W). W_jj = 1 − (σ̂_j/σ_j)² is read from the
  * reconciled σ. The plant facts used below (what measures what) come from the demo unit itself.
  */
-import { analyseRound, CycleError, demoDesignPoint, demoDesignReadings, demoUnit, type RoundAnalysis, type RoundReading } from '@/shared/cycle';
+import { analyseRound, CycleError, type RoundAnalysis, type RoundReading } from '@/shared/cycle';
+import { demoDesignPoint, demoDesignReadings, demoUnit } from '@/demo/unit';
 import { lcg, nonFinite, plain, withValue } from './helpers';
 
 const B = 101325;

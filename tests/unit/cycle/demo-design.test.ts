@@ -2,7 +2,8 @@
  * The Fernhallow Works demo unit at its design point: the design values close every balance,
  * agree with an independent IF97 implementation (python3-iapws), and give no finding.
  */
-import { analyseRound, demoDesignPoint, demoDesignReadings, demoUnit, DESIGN_PARAMETERS } from '@/shared/cycle';
+import { analyseRound } from '@/shared/cycle';
+import { demoDesignPoint, demoDesignReadings, demoUnit, DESIGN_PARAMETERS } from '@/demo/unit';
 import { pt, ps, px, tsat } from '@/shared/steam';
 import { python } from './helpers';
 

@@ -9,7 +9,8 @@
  *  - the demo unit's map at design: which instruments no balance can check, and for a reading no
  *    balance checks, a twin of its class gives r = 1/2 and MDB = δ0·σ·√2 (closed form by hand).
  */
-import { analyseRound, demoDesignReadings, demoUnit, detectabilityMap, nonCentrality } from '@/shared/cycle';
+import { analyseRound, detectabilityMap, nonCentrality } from '@/shared/cycle';
+import { demoDesignReadings, demoUnit } from '@/demo/unit';
 import { linear, reconcile } from '@/shared/reconcile';
 import { reconciledSensitivity } from '@/shared/reconcile/sensitivity';
 import { closedForm, covFromSigmas, type Mat } from '../reconcile/closed-form';

@@ -3,7 +3,8 @@
  * gradients against central differences (common practice), and the IF97 wrappers that keep the
  * iteration smooth across the saturation line.
  */
-import { buildEquations, demoDesignReadings, demoUnit, propsPT, propsSat, SCALE, type AcceptedReading } from '@/shared/cycle';
+import { buildEquations, propsPT, propsSat, SCALE, type AcceptedReading } from '@/shared/cycle';
+import { demoDesignReadings, demoUnit } from '@/demo/unit';
 import { reconcile } from '@/shared/reconcile';
 import { pt, px, tsat } from '@/shared/steam';
 import { sigmaFor } from '@/shared/uncertainty';

@@ -10,14 +10,8 @@
  *    plant thermometers reading a rise of about 0.1 K) is not determinable, and the readings that
  *    carry its variance are named.
  */
-import {
-  analyseRound,
-  buildEquations,
-  demoDesignReadings,
-  demoUnit,
-  type AcceptedReading,
-  type PerformanceFigure,
-} from '@/shared/cycle';
+import { analyseRound, buildEquations, type AcceptedReading, type PerformanceFigure } from '@/shared/cycle';
+import { demoDesignReadings, demoUnit } from '@/demo/unit';
 import { reconciledStates } from '@/shared/cycle/figure-uncertainty';
 import { figureValues } from '@/shared/cycle/performance';
 import { reconcile } from '@/shared/reconcile';

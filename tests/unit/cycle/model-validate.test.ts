@@ -4,7 +4,8 @@
  * checks of a schema, except the FNV-1a test vectors, which come from the FNV reference
  * (draft-eastlake-fnv, test vectors for FNV-1a 64) and are cross-checked against Python below.
  */
-import { canonicalJson, demoUnit, fnv1a64, modelVersion, validateModel, type CycleModelInput } from '@/shared/cycle';
+import { canonicalJson, fnv1a64, modelVersion, validateModel, type CycleModelInput } from '@/shared/cycle';
+import { demoUnit } from '@/demo/unit';
 import { python } from './helpers';
 
 type M = CycleModelInput & Record<string, unknown>;

@@ -12,10 +12,11 @@
  */
 import { execFileSync } from 'node:child_process';
 import { PushRequest } from '@/shared/api/sync';
-import { analyseRound, demoUnit, type RoundAnalysis } from '@/shared/cycle';
+import { analyseRound, type RoundAnalysis } from '@/shared/cycle';
+import { demoUnit } from '@/demo/unit';
 import { tsat } from '@/shared/steam';
 import { sigmaFor } from '@/shared/uncertainty';
-import { fernhallowRoutes } from '@/checklists/demo';
+import { fernhallowRoutes } from '@/demo/routes';
 import {
   analysisInput,
   DEFAULT_FAULTS,

@@ -3,7 +3,8 @@
  * derived by hand from VDI 2048 part 1 (cov(x̂) = Σ − ΣAᵀ(AΣAᵀ)⁻¹AΣ for linear constraints
  * A·x = 0) and against reconcile()'s own σ on the nonlinear demo unit.
  */
-import { analyseRound, buildEquations, demoDesignReadings, demoUnit, type AcceptedReading } from '@/shared/cycle';
+import { analyseRound, buildEquations, type AcceptedReading } from '@/shared/cycle';
+import { demoDesignReadings, demoUnit } from '@/demo/unit';
 import { linear, reconcile } from '@/shared/reconcile';
 import { reconciledSensitivity } from '@/shared/reconcile/sensitivity';
 import { sigmaFor } from '@/shared/uncertainty';

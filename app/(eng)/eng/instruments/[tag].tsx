@@ -1,7 +1,0 @@
-import { useLocalSearchParams } from 'expo-router';
-import { InstrumentScreen } from '@/screens/eng/instrument-screen';
-
-export default function Instrument() {
-  const { tag } = useLocalSearchParams<{ tag: string }>();
-  return <InstrumentScreen tag={decodeURIComponent(String(tag))} />;
-}

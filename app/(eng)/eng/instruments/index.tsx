@@ -1,5 +1,0 @@
-import { InstrumentHealthScreen } from '@/screens/eng/instrument-health-screen';
-
-export default function Instruments() {
-  return <InstrumentHealthScreen />;
-}

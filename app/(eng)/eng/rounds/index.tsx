@@ -1,5 +1,0 @@
-import { RoundsScreen } from '@/screens/eng/rounds-screen';
-
-export default function Rounds() {
-  return <RoundsScreen />;
-}

@@ -1,7 +1,0 @@
-import { useLocalSearchParams } from 'expo-router';
-import { CycleScreen } from '@/screens/eng/cycle-screen';
-
-export default function PlanRoundCycle() {
-  const { roundId } = useLocalSearchParams<{ roundId: string }>();
-  return <CycleScreen roundId={String(roundId)} />;
-}

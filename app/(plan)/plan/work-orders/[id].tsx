@@ -1,7 +1,0 @@
-import { useLocalSearchParams } from 'expo-router';
-import { WorkOrderScreen } from '@/screens/plan/work-order-screen';
-
-export default function WorkOrder() {
-  const { id } = useLocalSearchParams<{ id: string }>();
-  return <WorkOrderScreen id={String(id)} cycleHref={(roundId) => `/plan/rounds/${roundId}`} />;
-}

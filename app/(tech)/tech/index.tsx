@@ -1,5 +1,0 @@
-import { TodayScreen } from '@/screens/tech/today-screen';
-
-export default function TechToday() {
-  return <TodayScreen />;
-}

@@ -1,5 +1,0 @@
-import { OutboxScreen } from '@/screens/tech/outbox-screen';
-
-export default function OutboxRoute() {
-  return <OutboxScreen />;
-}

@@ -1,7 +1,0 @@
-import { useLocalSearchParams } from 'expo-router';
-import { ReviewScreen } from '@/screens/tech/review-screen';
-
-export default function RoundReviewRoute() {
-  const { roundId } = useLocalSearchParams<{ roundId: string }>();
-  return <ReviewScreen roundId={roundId} />;
-}

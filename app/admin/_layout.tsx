@@ -1,0 +1,12 @@
+import { Slot } from 'expo-router';
+import { AppShell } from '@/components/app-shell';
+import { navFor } from '@/constants/navigation';
+
+/** The admin's area; who may enter it is decided once, in app/_layout.tsx. */
+export default function Layout() {
+  return (
+    <AppShell nav={navFor.admin} title="Site">
+      <Slot />
+    </AppShell>
+  );
+}

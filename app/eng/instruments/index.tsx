@@ -1,0 +1,5 @@
+import { InstrumentHealthScreen } from '@/screens/instruments/instrument-health-screen';
+
+export default function Instruments() {
+  return <InstrumentHealthScreen />;
+}

@@ -1,0 +1,5 @@
+import { RoundsScreen } from '@/screens/cycle/rounds-screen';
+
+export default function Rounds() {
+  return <RoundsScreen />;
+}

@@ -1,0 +1,7 @@
+import { useLocalSearchParams } from 'expo-router';
+import { CycleScreen } from '@/screens/cycle/cycle-screen';
+
+export default function PlanRoundCycle() {
+  const { roundId } = useLocalSearchParams<{ roundId: string }>();
+  return <CycleScreen roundId={String(roundId)} />;
+}

@@ -1,0 +1,243 @@
+import { useRouter } from 'expo-router';
+import { useCallback, useEffect, useMemo, useState } from 'react';
+import { StyleSheet, View } from 'react-native';
+import { Button } from '@/components/button';
+import { Card } from '@/components/card';
+import { Caution } from '@/components/caution';
+import { CheckField, type CheckValue } from '@/components/check-field';
+import { PhotoThumb } from '@/components/photo-thumb';
+import { RoundCheckSummary } from '@/components/round-check-summary';
+import { parseTyped, ReadingField } from '@/components/reading-field';
+import { StopList, type StopSummary } from '@/components/stop-list';
+import { ThemedText } from '@/components/themed-text';
+import { space } from '@/constants/theme';
+import { pickPhoto } from '@/lib/pick-photo';
+import { warmUpRoundCheck } from '@/lib/round-check-runner';
+import { useSession } from '@/hooks/session';
+import { flagCodes, flagsFor, loadRound, missingOf, siOf, type RoundData } from '@/offline/round';
+import { useWide } from '@/hooks/use-wide';
+import { useStore, useStoreQuery } from '@/offline/use-offline';
+import type { RouteReading } from '@/shared/route/template';
+import { UnitError, unitLabel, type Unit } from '@/shared/units';
+
+function bandText(r: RouteReading): string {
+  return `${r.band.min} – ${r.band.max}`;
+}
+
+/** Walking a round: the stop list, the stop's readings and checks, photos, and finishing. */
+export function RoundScreen({ roundId, initialStop = 0 }: { roundId: string; initialStop?: number }) {
+  const { store, actions, state, error } = useStore();
+  const { membership } = useSession();
+  const router = useRouter();
+  const wide = useWide();
+  const [stopIndex, setStopIndex] = useState(initialStop);
+  const [finishing, setFinishing] = useState(false);
+  const [problem, setProblem] = useState<string | null>(null);
+  const { data, error: readError } = useStoreQuery((s) => loadRound(s, roundId, membership?.siteId ?? null), `${roundId}|${membership?.siteId ?? ''}`);
+  // the round check's engine gets compiled while the technician walks (a worker on the web)
+  useEffect(() => warmUpRoundCheck(), []);
+
+  const stops: StopSummary[] = useMemo(
+    () =>
+      data?.template.stops.map((s) => ({
+        id: s.id,
+        name: s.name,
+        area: s.area,
+        total: s.readings.length + s.checks.length,
+        done: s.readings.filter((r) => data.readings[r.tag]).length + s.checks.filter((c) => data.answers[c.id]).length,
+      })) ?? [],
+    [data],
+  );
+
+  const saveReading = useCallback(
+    async (d: RoundData, spec: RouteReading, text: string): Promise<string | null> => {
+      if (!actions) return 'The device store is not open.';
+      const parsed = parseTyped(text);
+      if ('error' in parsed) return parsed.error;
+      const inst = d.instruments[spec.tag];
+      if (!inst) return `${spec.tag} is not among this unit's instruments on this device; sync, then try again.`;
+      let valueSI: number;
+      try {
+        valueSI = siOf(inst.quantity, parsed.value, spec.unit, spec.reference, d.barometricPa);
+      } catch (e) {
+        return e instanceof UnitError ? e.message : String(e);
+      }
+      const flags = flagsFor(d, spec, valueSI);
+      const cur = d.readings[spec.tag];
+      const t0 = globalThis.performance?.now();
+      await actions.recordReading({
+        roundId,
+        instrumentTag: spec.tag,
+        valueTyped: parsed.value,
+        unit: spec.unit,
+        reference: spec.reference ?? null,
+        flags: flags.map((f) => ({ code: flagCodes[f.kind], message: f.message })),
+        confirmedAfterFlag: false,
+        supersedes: cur?.id ?? null,
+      });
+      // User Timing: from Save to the reading and its outbox row committed on the device (bench/device-save.bench.ts).
+      if (t0 !== undefined) globalThis.performance?.measure?.('trueround:reading-saved', { start: t0 });
+      return null;
+    },
+    [actions, roundId],
+  );
+
+  if (state === 'locked' || state === 'error') return <ThemedText tone="danger" testID="store-error">{error?.message}</ThemedText>;
+  if (readError) return <ThemedText tone="danger" testID="round-error">{readError.message}</ThemedText>;
+  if (!data || !store || !actions) return <ThemedText muted>Opening the round…</ThemedText>;
+
+  const stop = data.template.stops[Math.min(stopIndex, data.template.stops.length - 1)];
+  const missing = missingOf(data);
+  const finished = data.round.status === 'finished';
+
+  const attach = async (readingId: string | null, checkId: string | null) => {
+    setProblem(null);
+    try {
+      const p = await pickPhoto('library');
+      if (p) await actions.attachPhoto({ roundId, readingId, checkId, bytes: p.bytes, mime: p.mime });
+    } catch (e) {
+      setProblem(e instanceof Error ? e.message : String(e));
+    }
+  };
+
+  const stopBody = (
+    <View style={styles.stop} testID="stop-body">
+      <View style={styles.stopHead}>
+        <ThemedText variant="caption" muted>Stop {stopIndex + 1} of {data.template.stops.length} · {stop.area}</ThemedText>
+        <ThemedText variant="title" testID="stop-name">{stop.name}</ThemedText>
+      </View>
+      {stop.caution ? <Caution testID="stop-caution">{stop.caution}</Caution> : null}
+      {stop.readings.map((spec) => {
+        const cur = data.readings[spec.tag];
+        const inst = data.instruments[spec.tag];
+        const valueSI = cur && cur.valueTyped !== null ? data.values[spec.tag] : undefined;
+        const flags = valueSI !== undefined ? flagsFor(data, spec, valueSI) : [];
+        const photos = data.photos.filter((p) => cur && p.readingId === cur.id);
+        return (
+          <View key={spec.tag} style={styles.gapSm}>
+            <ReadingField
+              tag={spec.tag}
+              description={data.model?.instruments.find((i) => i.tag === spec.tag)?.label ?? (inst ? undefined : "Not in this unit's instrument list")}
+              unitLabel={unitLabel(spec.unit as Unit, spec.reference)}
+              bandText={bandText(spec)}
+              saved={cur?.valueTyped !== null && cur?.valueTyped !== undefined ? String(cur.valueTyped) : undefined}
+              skipped={cur?.skipReason ?? null}
+              confirmed={cur?.confirmedAfterFlag ?? false}
+              flags={flags}
+              onSave={(text) => saveReading(data, spec, text)}
+              onSkip={(reason) =>
+                void actions.recordReading({ roundId, instrumentTag: spec.tag, valueTyped: null, unit: spec.unit, reference: spec.reference ?? null, skipReason: reason, supersedes: cur?.id ?? null })
+              }
+              onConfirm={() =>
+                cur &&
+                void actions.recordReading({
+                  roundId,
+                  instrumentTag: spec.tag,
+                  valueTyped: cur.valueTyped,
+                  unit: cur.unit,
+                  reference: cur.reference,
+                  flags: flags.map((f) => ({ code: flagCodes[f.kind], message: f.message })),
+                  confirmedAfterFlag: true,
+                  supersedes: cur.id,
+                })
+              }
+              onPhoto={() => void attach(cur?.id ?? null, null)}
+            />
+            {photos.length ? (
+              <View style={styles.thumbs}>
+                {photos.map((p) => <PhotoThumb key={p.id} store={store} id={p.id} mime={p.mime} state={p.uploadState} testID={`photo-${spec.tag}`} />)}
+              </View>
+            ) : null}
+          </View>
+        );
+      })}
+      {stop.checks.map((c) => {
+        const a = data.answers[c.id];
+        const photos = data.photos.filter((p) => p.checkId === c.id);
+        return (
+          <View key={c.id} style={styles.gapSm}>
+            <CheckField
+              check={c}
+              answer={a?.answer as CheckValue | undefined}
+              onAnswer={(v) => void actions.answerCheck({ roundId, checkId: c.id, answer: v })}
+              onPhoto={() => void attach(null, c.id)}
+              photoCount={photos.length}
+            />
+            {photos.length ? (
+              <View style={styles.thumbs}>
+                {photos.map((p) => <PhotoThumb key={p.id} store={store} id={p.id} mime={p.mime} state={p.uploadState} testID={`photo-check-${c.id}`} />)}
+              </View>
+            ) : null}
+          </View>
+        );
+      })}
+      {problem ? <ThemedText tone="danger" testID="photo-problem">{problem}</ThemedText> : null}
+      <View style={styles.nav}>
+        <Button testID="stop-prev" label="Previous stop" kind="plain" disabled={stopIndex === 0} onPress={() => setStopIndex((i) => Math.max(0, i - 1))} />
+        <Button testID="round-check" label="Check the round" kind="plain" onPress={() => router.push(`/tech/round/${roundId}/review`)} />
+        {stopIndex < data.template.stops.length - 1 ? (
+          <Button testID="stop-next" label="Next stop" onPress={() => setStopIndex((i) => i + 1)} />
+        ) : (
+          <Button testID="round-review" label="Finish…" kind="accent" onPress={() => setFinishing(true)} />
+        )}
+      </View>
+    </View>
+  );
+
+  const finishPanel = (
+    <Card testID="finish-panel">
+      <ThemedText variant="title">Finish this round</ThemedText>
+      {missing.readings.length === 0 && missing.checks.length === 0 ? (
+        <ThemedText testID="finish-complete">Every reading and check is done.</ThemedText>
+      ) : (
+        <View style={styles.gapSm} testID="finish-missing">
+          {missing.readings.map((m) => <ThemedText key={m.tag} testID={`missing-${m.tag}`}>Not read: {m.tag} ({m.stop})</ThemedText>)}
+          {missing.checks.map((m) => <ThemedText key={m.id} testID={`missing-check-${m.id}`}>Not answered: {m.prompt} ({m.stop})</ThemedText>)}
+        </View>
+      )}
+      <RoundCheckSummary roundId={roundId} onOpen={() => router.push(`/tech/round/${roundId}/review`)} />
+      <View style={styles.nav}>
+        <Button testID="finish-back" label="Back to the stops" kind="plain" onPress={() => setFinishing(false)} />
+        <Button
+          testID="finish-confirm"
+          label={missing.readings.length ? 'Finish with gaps' : 'Finish round'}
+          kind="accent"
+          onPress={async () => {
+            await actions.finishRound(roundId);
+            router.replace('/tech');
+          }}
+        />
+      </View>
+    </Card>
+  );
+
+  return (
+    <View style={styles.gapLg} testID="round-screen">
+      <ThemedText variant="title" testID="round-route">{data.routeName}</ThemedText>
+      {finished ? <ThemedText testID="round-finished" tone="ok">This round is finished. Its readings stay on the device until the server has them.</ThemedText> : null}
+      {wide ? (
+        <View style={styles.wideRow}>
+          <View style={styles.side}><StopList stops={stops} current={stopIndex} onPick={(i) => { setStopIndex(i); setFinishing(false); }} /></View>
+          <View style={styles.main}>{finishing ? finishPanel : stopBody}</View>
+        </View>
+      ) : finishing ? (
+        finishPanel
+      ) : (
+        stopBody
+      )}
+      {!wide && !finishing ? <StopList stops={stops} current={stopIndex} onPick={setStopIndex} /> : null}
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  gapSm: { gap: space.sm },
+  gapLg: { gap: space.lg },
+  stop: { gap: space.md },
+  stopHead: { gap: space.xxs },
+  thumbs: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
+  nav: { flexDirection: 'row', justifyContent: 'space-between', gap: space.sm, flexWrap: 'wrap' },
+  wideRow: { flexDirection: 'row', gap: space.lg, alignItems: 'flex-start' },
+  side: { width: 280 },
+  main: { flex: 1 },
+});
