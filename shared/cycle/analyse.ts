@@ -15,13 +15,14 @@
  * Deterministic: no clock, no randomness, every list in model order or sorted; the same inputs give
  * the same output bit for bit. Never NaN: a number that cannot be formed is null.
  */
-import { reconcile, type ReconcileResult } from '../reconcile';
+import { correlationIn, reconcile, type Correlation, type ReconcileResult } from '../reconcile';
+import { EXPLAINED_CORRELATION, type CorrelatedPair } from './evidence';
 import { P_MAX, T_MAX_5, type SteamPhase } from '../steam';
 import { sigmaFor } from '../uncertainty';
 import { BAROMETRIC_MAX_PA, BAROMETRIC_MIN_PA, fromSI, fromSIDelta, unitLabel, type PressureRef, type Unit } from '../units';
 import { buildEquations, SCALE, SI_UNIT_OF, type AcceptedReading, type BalanceSpec, type EquationSystem, type HExpr } from './equations';
 import { showDelta, showKPa, showSI, showValue, showWithSpread, type Shown } from './format';
-import { portUses, type Equipment, type Instrument } from './model';
+import { portUses, type CycleModel, type Equipment, type Instrument } from './model';
 import { performanceFigures, type FigureState } from './performance';
 import { P_LOW, propsPT, propsSat, stateFromPH, stateFromPT, stateFromPX, tsatSafe } from './properties';
 import type {
@@ -42,6 +43,7 @@ import type {
 } from './types';
 import { FINDING_KINDS } from './types';
 import { validateModel } from './validate';
+import { ATTEND, NOTE, severityForCriticality, URGENT, type Level } from './severity';
 
 export type CycleErrorCode = 'INVALID_MODEL' | 'INVALID_CONTEXT' | 'INVALID_READINGS';
 
@@ -123,6 +125,29 @@ function combine(list: { value: number; sigma: number }[]): Combined | null {
   return { v: sw / w, s: 1 / Math.sqrt(w) };
 }
 
+/**
+ * The value an instrument's σ is taken at: the design (nominal) value of its point for its quantity,
+ * else the middle of its range — never the reading itself, so a biased reading does not weigh itself
+ * lighter or heavier (VDI 2048-1: the uncertainty is a property of the measurement, stated before
+ * the value is known). SI absolute.
+ */
+export function sigmaReferenceValue(model: CycleModel, i: Instrument, barometricPa: number): number {
+  const nominal = i.point ? model.points.find((p) => p.id === i.point)?.nominal : undefined;
+  const n = i.quantity === 'pressure' ? nominal?.p : i.quantity === 'temperature' ? nominal?.T : i.quantity === 'massFlow' ? nominal?.m : undefined;
+  if (fin(n) && n > 0) return n;
+  return fromOwnReference(i, 0.5 * (i.range.min + i.range.max), barometricPa);
+}
+
+/** σ of an instrument from its accuracy spec at its reference value (null where the spec gives none). */
+export function specSigmaOf(model: CycleModel, i: Instrument, barometricPa: number): number | null {
+  try {
+    const s = sigmaFor(i.accuracy, sigmaReferenceValue(model, i, barometricPa));
+    return fin(s) && s > 0 ? s : null;
+  } catch {
+    return null;
+  }
+}
+
 function shownOf(i: Instrument): Shown {
   return { quantity: i.quantity, unit: i.unit as Unit, ...(i.pressureReference ? { reference: i.pressureReference as PressureRef } : {}) };
 }
@@ -185,6 +210,28 @@ interface PState extends FigureState {
 
 const EMPTY: PState = { p: null, T: null, h: null, s: null, x: null, m: null, phase: null, sp: null, sT: null, sh: null, sm: null, sx: null };
 
+/** (measured − reconciled)/σ(correction) of a measurement in the reconciliation with the suspects removed; null where not tested. */
+function signedFinal(res: ReconcileResult, tag: string): number | null {
+  const z = res.final.z[tag];
+  const c = res.final.corrections[tag];
+  if (z === null || z === undefined || !fin(z) || !fin(c)) return null;
+  return c > 0 ? -z : z;
+}
+
+/** Pairs of tested measurements whose corrections correlate by |ρ| ≥ EXPLAINED_CORRELATION (shared/cycle/evidence.ts), ρ to 4 places. */
+function correlatedPairs(res: ReconcileResult): CorrelatedPair[] {
+  const cov = res.correctionCovariance;
+  const tested = cov.ids.filter((id) => res.z[id] !== null && res.z[id] !== undefined);
+  const out: CorrelatedPair[] = [];
+  for (let x = 0; x < tested.length; x++) {
+    for (let y = x + 1; y < tested.length; y++) {
+      const rho = correlationIn(cov, tested[x], tested[y]);
+      if (rho !== null && Math.abs(rho) >= EXPLAINED_CORRELATION) out.push({ a: tested[x], b: tested[y], rho: Math.round(rho * 1e4) / 1e4 });
+    }
+  }
+  return out;
+}
+
 /** Analyses one round. Throws CycleError only for a broken model or context; everything about the readings becomes a finding. */
 export function analyseRound(modelIn: unknown, readings: readonly RoundReading[], context: RoundContext): RoundAnalysis {
   const v = validateModel(modelIn);
@@ -208,7 +255,7 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
   const eqById = new Map(model.equipment.map((e) => [e.id, e]));
   const pointById = new Map(model.points.map((p) => [p.id, p]));
   const idsOf = (tags: string[]) => tags.map((t) => instByTag.get(t)?.id).filter((x): x is string => x !== undefined);
-  const add = (kind: FindingKind, severity: 1 | 2 | 3, tags: string[], message: string, evidence: Evidence, where: { equipmentId?: string; pointId?: string } = {}) => {
+  const add = (kind: FindingKind, severity: Level, tags: string[], message: string, evidence: Evidence, where: { equipmentId?: string; pointId?: string } = {}) => {
     findings.push({ kind, severity, instrumentTags: tags, instrumentIds: idsOf(tags), ...where, message, evidence });
   };
   const placeOf = (i: Instrument): { equipmentId?: string; pointId?: string } => (i.point ? { pointId: i.point } : { equipmentId: i.equipment });
@@ -232,32 +279,21 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
     const inst = resolve(r);
     if (!inst) {
       const name = String(r?.instrumentTag ?? r?.instrumentId ?? '(none)');
-      add('unknown-instrument', 1, [], `A reading names instrument ${name}, which this unit does not have; it was left out.`, {
+      add('unknown-instrument', NOTE, [], `A reading names instrument ${name}, which this unit does not have; it was left out.`, {
         instrument: name,
         value: fin(r?.valueSI) ? r.valueSI : null,
       });
       continue;
     }
     if (!fin(r.valueSI)) {
-      add('invalid-reading', 2, [inst.tag], `${inst.tag}: the reading ${String(r.valueSI)} is not a number; it was left out.`, { value: String(r.valueSI) }, placeOf(inst));
+      add('invalid-reading', ATTEND, [inst.tag], `${inst.tag}: the reading ${String(r.valueSI)} is not a number; it was left out.`, { value: String(r.valueSI) }, placeOf(inst));
       invalid.add(inst.tag);
       continue;
     }
     valid.set(inst.tag, [...(valid.get(inst.tag) ?? []), r]);
   }
 
-  const specSigma = (i: Instrument, value: number): number | null => {
-    try {
-      return sigmaFor(i.accuracy, value);
-    } catch {
-      try {
-        const mid = fromOwnReference(i, 0.5 * (i.range.min + i.range.max), b);
-        return sigmaFor(i.accuracy, mid);
-      } catch {
-        return null;
-      }
-    }
-  };
+  const specSigma = (i: Instrument): number | null => specSigmaOf(model, i, b);
   const baroSigma = (i: Instrument) => (i.quantity === 'pressure' && i.pressureReference !== 'absolute' ? opt.barometricSigmaPa : 0);
 
   const accepted = new Map<string, Intake>();
@@ -270,7 +306,7 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
     if (list.length > 1) {
       add(
         'duplicate-reading',
-        1,
+        NOTE,
         [inst.tag],
         `${inst.tag} was read ${list.length} times in this round; the last reading was used.`,
         { values: list.map((x) => x.valueSI) },
@@ -284,14 +320,14 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
     if (r.sigma !== undefined) {
       if (fin(r.sigma) && r.sigma > 0) sigma = r.sigma;
       else {
-        add('invalid-reading', 1, [inst.tag], `${inst.tag}: the uncertainty given with the reading (${String(r.sigma)}) is not a positive number; the instrument's accuracy was used.`, { sigma: String(r.sigma) }, placeOf(inst));
+        add('invalid-reading', NOTE, [inst.tag], `${inst.tag}: the uncertainty given with the reading (${String(r.sigma)}) is not a positive number; the instrument's accuracy was used.`, { sigma: String(r.sigma) }, placeOf(inst));
       }
     }
     if (sigma === null) {
-      const s = specSigma(inst, value);
+      const s = specSigma(inst);
       if (s === null || !(s > 0)) {
         excluded.add(inst.tag);
-        add('invalid-reading', 2, [inst.tag], `${inst.tag}: its accuracy specification gives no uncertainty for this reading; it was left out.`, { value }, placeOf(inst));
+        add('invalid-reading', ATTEND, [inst.tag], `${inst.tag}: its accuracy specification gives no uncertainty for this reading; it was left out.`, { value }, placeOf(inst));
         continue;
       }
       sigma = Math.sqrt(s * s + baroSigma(inst) ** 2);
@@ -302,7 +338,7 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
     if (own < inst.range.min || own > inst.range.max) {
       add(
         'out-of-range',
-        2,
+        ATTEND,
         [inst.tag],
         `${inst.tag} reads ${showValue(shown, value, b, sigma)}, ${own < inst.range.min ? 'below' : 'above'} its range ${rangeText(inst)}: check the reading, the instrument or its range.`,
         { value, ownReference: own, rangeMin: inst.range.min, rangeMax: inst.range.max },
@@ -333,7 +369,7 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
   }
   for (const inst of model.instruments) {
     if (accepted.has(inst.tag) || excluded.has(inst.tag) || invalid.has(inst.tag)) continue;
-    add('missing-reading', 1, [inst.tag], `${inst.tag} (${inst.label ?? placeLabel(inst)}) was not read in this round.`, {}, placeOf(inst));
+    add('missing-reading', NOTE, [inst.tag], `${inst.tag} (${inst.label ?? placeLabel(inst)}) was not read in this round.`, {}, placeOf(inst));
   }
 
   // ---------------------------------------------------------------- 2. equations and reconciliation
@@ -345,7 +381,18 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
     recError = { code: 'NO_DATA', message: 'no reading of this round enters a balance: nothing to reconcile' };
   } else {
     try {
+      // the barometric pressure is one common input of every gauge and vacuum reading: their errors
+      // share its variance σ_b² (gauge: p = p_g + b; vacuum: p = b − p_v; both ∂p/∂b = 1; GUM §5.2)
+      const sb2 = opt.barometricSigmaPa ** 2;
+      const correlations: Correlation[] = [];
+      if (sb2 > 0) {
+        const onBaro = eq.measured.filter((m) => accepted.has(m.id) && baroSigma(accepted.get(m.id)!.inst) > 0);
+        for (let x = 0; x < onBaro.length; x++) {
+          for (let y = x + 1; y < onBaro.length; y++) correlations.push({ a: onBaro[x].id, b: onBaro[y].id, rho: sb2 / (onBaro[x].sigma * onBaro[y].sigma) });
+        }
+      }
       res = reconcile({
+        correlations,
         measured: eq.measured,
         unmeasured: eq.unmeasured,
         constraints: eq.constraints,
@@ -361,7 +408,7 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
   if (recError) {
     add(
       'reconciliation-failed',
-      recError.code === 'NOT_REDUNDANT' || recError.code === 'NO_DATA' ? 1 : 2,
+      recError.code === 'NOT_REDUNDANT' || recError.code === 'NO_DATA' ? NOTE : ATTEND,
       [],
       recError.code === 'NOT_REDUNDANT' || recError.code === 'NO_DATA'
         ? `The readings of this round do not over-determine any balance, so none can be checked (${recError.message}).`
@@ -675,12 +722,11 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
       const z = res.z[tag] ?? null;
       const est = tag in res.final.values ? res.final.values[tag] * sc : null;
       const estS = tag in res.final.sigmas ? res.final.sigmas[tag] * sc : null;
-      const alike = model.instruments
-        .map((x) => x.tag)
-        .filter((t) => t !== tag && !suspects.has(t) && z !== null && res!.z[t] !== null && res!.z[t] !== undefined && Math.abs(res!.z[t]! - z) <= 1e-4 * z);
+      const group = res.suspectGroups[res.suspects.indexOf(tag)] ?? [tag];
+      const alike = group.filter((t) => t !== tag && !suspects.has(t));
       const shown = shownOf(inst);
       const ctx = contextFor(inst);
-      const who = alike.length ? `${tag} (or ${joinNames(alike)}: the balances cannot tell them apart)` : tag;
+      const who = alike.length ? `${[tag, ...alike].join(' or ')} (the balances cannot tell which)` : tag;
       let message: string;
       const evidence: Evidence = {
         reading: reading.value,
@@ -704,7 +750,7 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
       } else {
         message = `${who} disagrees with ${ctx.phrase} (test value ${z === null ? '—' : z.toFixed(1)} against ${zc.toFixed(2)}); without it the rest of the plant cannot say what it should read.`;
       }
-      add('gross-error', Math.max(2, critOf(inst)) as 2 | 3, [tag, ...alike], message, evidence, placeOf(inst));
+      add('gross-error', severityForCriticality(critOf(inst)), [tag, ...alike], message, evidence, placeOf(inst));
       // read as absolute / as gauge
       if (inst.quantity === 'pressure' && est !== null && estS !== null) {
         const U = k * Math.sqrt(estS * estS + reading.sigma * reading.sigma);
@@ -713,7 +759,7 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
         if (inst.pressureReference === 'gauge' && Math.abs(d - b) <= U) {
           add(
             'gauge-read-as-absolute',
-            2,
+            ATTEND,
             [tag],
             `${tag} looks read as absolute: it reads ${showKPa(d)} below what ${ctx.phrase} allow${ctx.plural ? '' : 's'} (${showValue(shown, est, b, k * estS)}), which is the barometric pressure of this round (${showKPa(b)}). A ${unit}(g) value was probably entered as ${unit}(a).`,
             { reading: reading.value, estimate: est, difference: d, barometricPa: b, allowed: U, coverage: k },
@@ -722,7 +768,7 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
         } else if (inst.pressureReference === 'absolute' && Math.abs(-d - b) <= U) {
           add(
             'absolute-read-as-gauge',
-            2,
+            ATTEND,
             [tag],
             `${tag} looks read as gauge: it reads ${showKPa(-d)} above what ${ctx.phrase} allow${ctx.plural ? '' : 's'} (${showValue(shown, est, b, k * estS)}), which is the barometric pressure of this round (${showKPa(b)}). A ${unit}(a) value was probably entered as ${unit}(g).`,
             { reading: reading.value, estimate: est, difference: d, barometricPa: b, allowed: U, coverage: k },
@@ -731,7 +777,7 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
         } else if (inst.pressureReference === 'vacuum' && Math.abs(reading.value - (b - est)) <= U) {
           add(
             'gauge-read-as-absolute',
-            2,
+            ATTEND,
             [tag],
             `${tag} looks like a vacuum reading entered as absolute: its ${showKPa(reading.value)} is the vacuum the balances allow (${showValue(shown, est, b, k * estS)}), not the absolute pressure (${showKPa(est)} absolute). A ${unit} vac value was probably entered as ${unit}(a).`,
             { reading: reading.value, estimate: est, barometricPa: b, allowed: U, coverage: k },
@@ -742,34 +788,13 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
     }
   }
 
-  // twins
-  const pairs = new Set<string>();
-  for (const i of model.instruments) {
-    if (!i.twin) continue;
-    const key = [i.tag, i.twin].sort().join('|');
-    if (pairs.has(key)) continue;
-    pairs.add(key);
-    const [ta, tb] = key.split('|');
-    const a = accepted.get(ta);
-    const c = accepted.get(tb);
-    if (!a || !c) continue;
-    const d = a.value - c.value;
-    const U = k * Math.hypot(a.sigma, c.sigma);
-    if (Math.abs(d) > U) {
-      const sa = shownOf(a.inst);
-      const sb = shownOf(c.inst);
-      add(
-        'twin-disagreement',
-        2,
-        [ta, tb],
-        `${ta} and ${tb} disagree: ${showValue(sa, a.value, b, U)} against ${showValue(sb, c.value, b, U)}, ${showDelta(sa, Math.abs(d), U)} apart, more than the ${showDelta(sa, U, U)} their uncertainties allow (${k}σ combined).`,
-        { a: a.value, b: c.value, difference: d, allowed: U, sigmaA: a.sigma, sigmaB: c.sigma, coverage: k },
-        placeOf(a.inst),
-      );
-    }
-  }
+  // Twins and saturated points are constraints of the reconciliation: a disagreement between two
+  // twins or between p and T at saturation is tested there once, by the global and the individual
+  // tests above, and a suspect's message names the twin or the saturation that holds it
+  // (contextFor). The phone's prompts at the gauge (shared/checks) stay liberal: they ask for a
+  // re-read, they are not findings.
 
-  // saturation and phase
+  // declared phase (a superheated or subcooled point): not a constraint of the reconciliation
   for (const pt of model.points) {
     const r = eq.points[pt.id];
     if (!('var' in r.p)) continue;
@@ -798,20 +823,11 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
     const pInst = instByTag.get(tP[0])!;
     const sT = shownOf(tempInst);
     const pShown = showValue(shownOf(pInst), pm.v, b, pm.s);
-    if (sat && Math.abs(dT) > U) {
-      add(
-        'saturation-mismatch',
-        2,
-        [...tT, ...tP],
-        `At ${lcFirst(pt.label)} (saturated), ${joinNames(tT)} read${tT.length > 1 ? '' : 's'} ${showValue(sT, Tm.v, b, U)} but ${joinNames(tP)} (${pShown}) give${tP.length > 1 ? '' : 's'} a saturation temperature of ${showValue(sT, Ts, b, U)}: ${showDelta(sT, Math.abs(dT), U)} apart, more than the ${showDelta(sT, U, U)} their uncertainties allow (${k}σ).`,
-        { T: Tm.v, p: pm.v, tsat: Ts, difference: dT, allowed: U, coverage: k },
-        { pointId: pt.id },
-      );
-    } else if ((pt.phase === 'vapour' && dT < -U) || (pt.phase === 'liquid' && dT > U)) {
+    if (!sat && ((pt.phase === 'vapour' && dT < -U) || (pt.phase === 'liquid' && dT > U))) {
       const vap = pt.phase === 'vapour';
       add(
         'phase-mismatch',
-        2,
+        ATTEND,
         [...tT, ...tP],
         `At ${lcFirst(pt.label)}, expected ${vap ? 'superheated steam' : 'water below boiling'}, ${joinNames(tT)} read${tT.length > 1 ? '' : 's'} ${showValue(sT, Tm.v, b, U)}, ${showDelta(sT, Math.abs(dT), U)} ${vap ? 'below' : 'above'} the saturation temperature ${showValue(sT, Ts, b, U)} at ${pShown}: one of them is wrong, or the ${vap ? 'steam is wet' : 'water is flashing'}.`,
         { T: Tm.v, p: pm.v, tsat: Ts, difference: dT, allowed: U, coverage: k },
@@ -869,7 +885,7 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
         .join(', ');
       add(
         'stuck-value',
-        2,
+        ATTEND,
         [inst.tag],
         `${inst.tag} has read ${showValue(shown, cur.value, b, cur.sigma)} on the last ${opt.stuckRounds} rounds while its neighbours moved (${movedText}${moved.length > 3 ? ', …' : ''}): the needle or the reading may be stuck.`,
         { value: cur.value, rounds: opt.stuckRounds, neighboursMoved: moved.map((m) => m.tag), movedBy: moved.map((m) => m.by) },
@@ -878,9 +894,10 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
     }
   }
 
-  // balances that do not close (only when the round as a whole fails its test)
+  // balances that do not close: only when the round as a whole fails its test and no single reading
+  // explains it (no measurement fails the individual test); a suspect's own balance is its evidence
   // (balances that hold by construction — one stream, one enthalpy — only repeat what the gross-error test says)
-  if (res && !res.passed) {
+  if (res && !res.passed && res.suspects.length === 0) {
     for (const spec of activeSpecs) {
       if (!(spec.id in eq.info)) continue;
       const row = rowsBySpec.get(spec.id)!;
@@ -893,7 +910,7 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
       const rel = row.measured.relative;
       add(
         'balance-not-closed',
-        Math.max(2, e.criticality) as 2 | 3,
+        severityForCriticality(e.criticality),
         [],
         `The ${e.label} ${what} does not close: ${showSI(row.measured.in, unit)} in against ${showSI(row.measured.out, unit)} out${rel === null ? '' : ` (${(Math.abs(rel) * 100).toFixed(1)} % apart)`}, more than the ${showSI(k * row.measuredSigma, unit)} the readings' uncertainties allow (${k}σ).`,
         { in: row.measured.in, out: row.measured.out, residual: row.measured.residual, sigma: row.measuredSigma, coverage: k, kind: spec.kind },
@@ -904,7 +921,7 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
 
   findings.sort(
     (a, c) =>
-      c.severity - a.severity ||
+      a.severity - c.severity ||
       KIND_ORDER.get(a.kind)! - KIND_ORDER.get(c.kind)! ||
       cmp(a.instrumentTags[0] ?? '', c.instrumentTags[0] ?? '') ||
       cmp(a.equipmentId ?? a.pointId ?? '', c.equipmentId ?? c.pointId ?? '') ||
@@ -935,6 +952,7 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
       suspect: suspects.has(i.tag),
       estimate: a ? recV(i.tag) : null,
       estimateSigma: a ? recS(i.tag) : null,
+      u: !res ? null : suspects.has(i.tag) ? (res.eliminatedU[i.tag] ?? null) : signedFinal(res, i.tag),
     };
   });
 
@@ -978,6 +996,7 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
       final: { chiSquare: res.final.chiSquare, dof: res.final.dof, critical: res.final.critical, passed: res.final.passed },
       ...(res.eliminationError ? { eliminationError: { ...res.eliminationError } } : {}),
       constraintTests: { ...res.constraintTests },
+      correlatedCorrections: correlatedPairs(res),
       variables,
       constraints: eq.constraints.map((c) => {
         const ci = eq.info[c.id];

@@ -1,0 +1,165 @@
+/**
+ * Monte Carlo harness for the statistical policy of the round analysis (shared/cycle analyseRound)
+ * on the demo unit: rounds made from the design point with independent Gaussian noise at exactly
+ * the σ the analysis assigns each reading (unclipped), optionally one instrument biased.
+ *
+ * "Blamed": a finding of a kind that feeds a work order on an instrument (server/work-orders/
+ * policy.ts KIND_OF_FINDING minus the equipment kinds) names the instrument.
+ *
+ * Used by tests/unit/cycle/detection.test.ts (small N) and bench/detection.bench.ts (the table).
+ * Deterministic: mulberry32 (server/seed/history-generator.ts) and Box–Muller.
+ */
+import { analyseRound, cusumStep, CUSUM_START, decideEvidence, demoDesignReadings, demoUnit, type CusumState, type InstrumentEvidence, type RoundAnalysis, type RoundReading } from '@/shared/cycle';
+import { KIND_OF_FINDING } from '@/server/work-orders/policy';
+import { mulberry32 } from '@/server/seed/history-generator';
+
+export const B = 101325;
+export const design: RoundReading[] = demoDesignReadings(B).map((r) => ({ instrumentTag: r.instrumentTag, valueSI: r.valueSI }));
+export const base: RoundAnalysis = analyseRound(demoUnit, design, { barometricPa: B });
+export const sigmaOf = new Map(base.instruments.map((i) => [i.tag, i.sigma ?? 0]));
+
+/** Finding kinds that blame an instrument (open or feed an order on it). */
+export const BLAME_KINDS: ReadonlySet<string> = new Set(
+  Object.entries(KIND_OF_FINDING)
+    .filter(([k]) => k !== 'balance-not-closed' && k !== 'condenser-ttd-high')
+    .map(([k]) => k),
+);
+
+export function gaussian(seed: number): () => number {
+  const u = mulberry32(seed);
+  let spare: number | null = null;
+  return () => {
+    if (spare !== null) {
+      const s = spare;
+      spare = null;
+      return s;
+    }
+    const r = Math.sqrt(-2 * Math.log(Math.max(u(), 1e-300)));
+    const t = 2 * Math.PI * u();
+    spare = r * Math.sin(t);
+    return r * Math.cos(t);
+  };
+}
+
+/** One noisy round; `bias` adds bias.sigmas × σ to one instrument. */
+export function noisyRound(n: () => number, bias?: { tag: string; sigmas: number }): RoundReading[] {
+  return design.map((r) => {
+    const s = sigmaOf.get(r.instrumentTag!) ?? 0;
+    const b = bias && bias.tag === r.instrumentTag ? bias.sigmas * s : 0;
+    return { instrumentTag: r.instrumentTag, valueSI: r.valueSI + s * n() + b };
+  });
+}
+
+/** Instruments a round's findings blame, and by which kinds. */
+export function blamed(a: RoundAnalysis): { tags: Set<string>; kinds: Set<string> } {
+  const tags = new Set<string>();
+  const kinds = new Set<string>();
+  for (const f of a.findings) {
+    if (!BLAME_KINDS.has(f.kind) || f.instrumentTags.length === 0) continue;
+    kinds.add(f.kind);
+    for (const t of f.instrumentTags) tags.add(t);
+  }
+  return { tags, kinds };
+}
+
+export interface FaultFreeSummary {
+  rounds: number;
+  blamedRounds: number;
+  byKind: Record<string, number>;
+  globalFailed: number;
+  meanChi2PerDof: number;
+}
+
+export function faultFree(rounds: number, seed: number): FaultFreeSummary {
+  const n = gaussian(seed);
+  let blamedRounds = 0;
+  let globalFailed = 0;
+  let chi = 0;
+  const byKind: Record<string, number> = {};
+  for (let k = 0; k < rounds; k++) {
+    const a = analyseRound(demoUnit, noisyRound(n), { barometricPa: B });
+    const b = blamed(a);
+    if (b.tags.size) blamedRounds++;
+    for (const kind of b.kinds) byKind[kind] = (byKind[kind] ?? 0) + 1;
+    if (a.reconciliation.ok) {
+      if (!a.reconciliation.passed) globalFailed++;
+      chi += a.reconciliation.chiSquare / a.reconciliation.dof;
+    }
+  }
+  return { rounds, blamedRounds, byKind, globalFailed, meanChi2PerDof: chi / rounds };
+}
+
+export interface BiasSummary {
+  tag: string;
+  sigmas: number;
+  rounds: number;
+  /** rounds whose findings name the biased instrument (alone or in a group) */
+  named: number;
+  /** rounds whose findings name it in a group finding */
+  asGroup: number;
+  /** rounds where another instrument, not it, is blamed */
+  misattributed: number;
+}
+
+export function biased(tag: string, sigmas: number, rounds: number, seed: number): BiasSummary {
+  const n = gaussian(seed);
+  let named = 0;
+  let asGroup = 0;
+  let misattributed = 0;
+  for (let k = 0; k < rounds; k++) {
+    const sign = k % 2 === 0 ? 1 : -1;
+    const a = analyseRound(demoUnit, noisyRound(n, { tag, sigmas: sign * sigmas }), { barometricPa: B });
+    const b = blamed(a);
+    if (b.tags.has(tag)) {
+      named++;
+      if (a.findings.some((f) => BLAME_KINDS.has(f.kind) && f.instrumentTags.includes(tag) && f.instrumentTags.length > 1)) asGroup++;
+    } else if (b.tags.size) misattributed++;
+  }
+  return { tag, sigmas, rounds, named, asGroup, misattributed };
+}
+
+/** Upper tolerance of a binomial proportion: p + z·√(p(1−p)/n) (normal approximation; z = 2.326 is one-sided 99 %). */
+export function binomialUpper(p: number, n: number, z = 2.326): number {
+  return p + z * Math.sqrt((p * (1 - p)) / n);
+}
+
+/** The evidence statistic u of each tested, redundant instrument (InstrumentResult.u). */
+export function signedU(a: RoundAnalysis): Map<string, number> {
+  const out = new Map<string, number>();
+  for (const i of a.instruments) if (i.u !== null && i.redundant) out.set(i.tag, i.u);
+  return out;
+}
+
+/**
+ * Rounds of one sequence (the same instruments each round): the first round (1-based) where the
+ * evidence names each instrument, by shared/cycle/evidence.ts.
+ */
+export function sequence(rounds: number, seed: number, bias?: { tag: string; sigmas: number }): { firstNamed: Map<string, number>; orders: { round: number; tags: string[]; reason: string }[] } {
+  const n = gaussian(seed);
+  let states = new Map<string, CusumState>();
+  const firstNamed = new Map<string, number>();
+  const orders: { round: number; tags: string[]; reason: string }[] = [];
+  const opened = new Set<string>();
+  for (let k = 1; k <= rounds; k++) {
+    const a = analyseRound(demoUnit, noisyRound(n, bias), { barometricPa: B });
+    const us = signedU(a);
+    const next = new Map<string, CusumState>();
+    const ev: InstrumentEvidence[] = [];
+    for (const [tag, u] of us) {
+      const s = cusumStep(states.get(tag) ?? CUSUM_START, u);
+      next.set(tag, s);
+      ev.push({ tag, u, state: s });
+    }
+    states = next;
+    const pairs = a.reconciliation.ok ? a.reconciliation.correlatedCorrections : [];
+    for (const d of decideEvidence(ev, pairs)) {
+      for (const t of d.tags) if (!firstNamed.has(t)) firstNamed.set(t, k);
+      const key = d.tags.join('|');
+      if (!opened.has(key)) {
+        opened.add(key);
+        orders.push({ round: k, tags: d.tags, reason: d.reason });
+      }
+    }
+  }
+  return { firstNamed, orders };
+}
