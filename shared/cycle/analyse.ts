@@ -43,6 +43,7 @@ import type {
 } from './types';
 import { FINDING_KINDS } from './types';
 import { validateModel } from './validate';
+import { messages } from './messages';
 import { ATTEND, NOTE, severityForCriticality, URGENT, type Level } from './severity';
 
 export type CycleErrorCode = 'INVALID_MODEL' | 'INVALID_CONTEXT' | 'INVALID_READINGS';
@@ -894,10 +895,11 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
     }
   }
 
-  // balances that do not close: only when the round as a whole fails its test and no single reading
-  // explains it (no measurement fails the individual test); a suspect's own balance is its evidence
+  // balances that do not close: only when the round as a whole fails its test; where a suspect
+  // explains it the finding says so (a note: server/work-orders/from-findings.ts folds it into the
+  // suspect's order as evidence), else it is the equipment's own finding
   // (balances that hold by construction — one stream, one enthalpy — only repeat what the gross-error test says)
-  if (res && !res.passed && res.suspects.length === 0) {
+  if (res && !res.passed) {
     for (const spec of activeSpecs) {
       if (!(spec.id in eq.info)) continue;
       const row = rowsBySpec.get(spec.id)!;
@@ -910,10 +912,19 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
       const rel = row.measured.relative;
       add(
         'balance-not-closed',
-        severityForCriticality(e.criticality),
+        res.suspects.length ? NOTE : severityForCriticality(e.criticality),
         [],
-        `The ${e.label} ${what} does not close: ${showSI(row.measured.in, unit)} in against ${showSI(row.measured.out, unit)} out${rel === null ? '' : ` (${(Math.abs(rel) * 100).toFixed(1)} % apart)`}, more than the ${showSI(k * row.measuredSigma, unit)} the readings' uncertainties allow (${k}σ).`,
-        { in: row.measured.in, out: row.measured.out, residual: row.measured.residual, sigma: row.measuredSigma, coverage: k, kind: spec.kind },
+        messages.balanceNotClosed(
+          e.label,
+          what,
+          showSI(row.measured.in, unit),
+          showSI(row.measured.out, unit),
+          rel === null ? '' : ` (${(Math.abs(rel) * 100).toFixed(1)} % apart)`,
+          showSI(k * row.measuredSigma, unit),
+          k,
+          res.suspects,
+        ),
+        { in: row.measured.in, out: row.measured.out, residual: row.measured.residual, sigma: row.measuredSigma, coverage: k, kind: spec.kind, explainedBy: [...res.suspects] },
         { equipmentId: e.id },
       );
     }

@@ -46,8 +46,8 @@ export const messages = {
     `At ${where}, expected ${vapour ? 'superheated steam' : 'water below boiling'}, ${joinNames(tTags)} read${tTags.length > 1 ? '' : 's'} ${shownT}, ${by} ${vapour ? 'below' : 'above'} the saturation temperature ${tsat} at ${shownP}: one of them is wrong, or the ${vapour ? 'steam is wet' : 'water is flashing'}.`,
   stuck: (tag: string, shown: string, rounds: number, moved: string) =>
     `${tag} has read ${shown} on the last ${rounds} rounds while its neighbours moved (${moved}): the needle or the reading may be stuck.`,
-  balanceNotClosed: (equipment: string, what: string, inflow: string, outflow: string, relative: string, allowed: string, k: number) =>
-    `The ${equipment} ${what} does not close: ${inflow} in against ${outflow} out${relative}, more than the ${allowed} the readings' uncertainties allow (${k}σ), and no single reading explains it.`,
+  balanceNotClosed: (equipment: string, what: string, inflow: string, outflow: string, relative: string, allowed: string, k: number, explainedBy: readonly string[]) =>
+    `The ${equipment} ${what} does not close: ${inflow} in against ${outflow} out${relative}, more than the ${allowed} the readings' uncertainties allow (${k}σ)${explainedBy.length ? `; ${joinNames(explainedBy)} would explain it` : ''}.`,
   sustainedBias: (tags: readonly string[], high: boolean, cusum: number, rounds: number) =>
     `${whoOf(tags)} has read ${high ? 'high' : 'low'} against the balances round after round: the evidence of its last ${rounds} rounds (CUSUM ${cusum.toFixed(1)}) has passed the ${CUSUM_H} that opens a work order.`,
 };
