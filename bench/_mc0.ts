@@ -1,25 +1,15 @@
-import { analyseRound, demoUnit, cusumStep, CUSUM_START, decideEvidence, type CusumState, type InstrumentEvidence } from '../shared/cycle';
+import { analyseRound, demoUnit, specSigmaOf } from '../shared/cycle';
 import { analysisInput, generateHistory, DEFAULT_FAULTS } from '../server/seed/history-generator';
-import { signedU } from '../tests/helpers/detection';
+import { simulateOrders } from '../tests/helpers/detection';
 const START = new Date('2025-09-01T00:00:00+01:00');
 const clean = { drift: { ...DEFAULT_FAULTS.drift, fromDay: 1e9 }, stuck: { ...DEFAULT_FAULTS.stuck, fromDay: 1e9 }, readAsAbsolute: { ...DEFAULT_FAULTS.readAsAbsolute, fromDay: 1e9, untilDay: 1e9 }, fouling: { ...DEFAULT_FAULTS.fouling, fromDay: 1e9 } };
-for (const [name, faults] of [['clean', clean], ['default', DEFAULT_FAULTS]] as const) {
-  const h = generateHistory({ start: START, days: 90, seed: 1, faults });
+for (const seed of [1,2,3]) for (const [name, faults] of [['clean', clean], ['default', DEFAULT_FAULTS]] as const) {
+  if (seed > 1 && name === 'default') continue;
+  const h = generateHistory({ start: START, days: 90, seed, faults });
   const prev: any[] = [];
-  let states = new Map<string, CusumState>();
-  const kinds: Record<string, number> = {};
-  const opened = new Set<string>();
-  h.shifts.forEach((s, idx) => {
-    const { readings, barometricPa } = analysisInput(s);
-    const a = analyseRound(demoUnit, readings, { barometricPa, previousRounds: prev.slice(-2) });
-    prev.push({ readings });
-    for (const f of a.findings) kinds[f.kind] = (kinds[f.kind] ?? 0) + 1;
-    const ev: InstrumentEvidence[] = [];
-    for (const [tag, u] of signedU(a)) { const st = cusumStep(states.get(tag) ?? CUSUM_START, u); states.set(tag, st); ev.push({ tag, u, state: st }); }
-    for (const d of decideEvidence(ev, a.reconciliation.ok ? a.reconciliation.correlatedCorrections : [])) {
-      const key = [...d.tags].sort().join('+');
-      if (!opened.has(key)) { opened.add(key); console.log(name, 'order', key, d.reason, d.statistic.toFixed(1), 'day', s.day, 'shift', s.shift, 'idx', idx); }
-    }
-  });
-  console.log(name, JSON.stringify(kinds));
+  const as = h.shifts.map((s) => { const { readings, barometricPa } = analysisInput(s); const a = analyseRound(demoUnit, readings, { barometricPa, previousRounds: prev.slice(-2) }); prev.push({ readings }); return a; });
+  const orders = simulateOrders(as);
+  const ti = demoUnit.instruments.find(i=>i.tag==='TI-301')!;
+  const sT = specSigmaOf(demoUnit, ti, 101325)!;
+  console.log(seed, name, JSON.stringify(orders.map(o => ({...o, day: h.shifts[o.round].day, shift: h.shifts[o.round].shift, driftSigma: (Math.max(0, 0.05*(h.shifts[o.round].t-20))/sT).toFixed(2), ttd: h.shifts[o.round].condenserTTD.toFixed(2)}))));
 }

@@ -10,7 +10,8 @@
  * Deterministic: mulberry32 (server/seed/history-generator.ts) and Box–Muller.
  */
 import { analyseRound, cusumStep, CUSUM_START, decideEvidence, demoDesignReadings, demoUnit, type CusumState, type InstrumentEvidence, type RoundAnalysis, type RoundReading } from '@/shared/cycle';
-import { KIND_OF_FINDING } from '@/server/work-orders/policy';
+import { EVIDENCE_KINDS, KIND_OF_FINDING, workOrderKindOf } from '@/server/work-orders/policy';
+import { serverFindings } from '@/server/analysis/plant-checks';
 import { mulberry32 } from '@/server/seed/history-generator';
 
 export const B = 101325;
@@ -162,4 +163,62 @@ export function sequence(rounds: number, seed: number, bias?: { tag: string; sig
     }
   }
   return { firstNamed, orders };
+}
+
+export interface SimulatedOrder {
+  /** 0-based index of the round (shift) that opened it */
+  round: number;
+  kind: string;
+  /** instrument tags (a check-group order names them all) or the equipment id */
+  target: string;
+  why: string;
+}
+
+/**
+ * The work orders a sequence of analysed rounds would open under the server's policy
+ * (server/work-orders/policy.ts and from-findings.ts, server/analysis/evidence.ts and
+ * plant-checks.ts) with every order left open: the same rules, without the database. Each
+ * round's readings are its own (no borrowing), so every instrument's evidence counts each round once.
+ */
+export function simulateOrders(analyses: readonly RoundAnalysis[], model = demoUnit): SimulatedOrder[] {
+  let states = new Map<string, CusumState>();
+  const open = new Set<string>();
+  const out: SimulatedOrder[] = [];
+  analyses.forEach((a, round) => {
+    const ev: InstrumentEvidence[] = [];
+    const next = new Map<string, CusumState>();
+    for (const [tag, u] of signedU(a)) {
+      const s = cusumStep(states.get(tag) ?? CUSUM_START, u);
+      next.set(tag, s);
+      ev.push({ tag, u, state: s });
+    }
+    for (const [tag, s] of states) if (!next.has(tag)) next.set(tag, s);
+    states = next;
+    const decisions = decideEvidence(ev, a.reconciliation.ok ? a.reconciliation.correlatedCorrections : []);
+    const named = new Set(decisions.flatMap((d) => d.tags));
+    const findings: { kind: string; instrumentTags: string[]; equipmentId?: string; evidence: Record<string, unknown> }[] = [
+      ...serverFindings(model, a.findings, a.performance, new Set(model.instruments.map((i) => i.tag))),
+      ...decisions.filter((d) => d.reason === 'sustained').map((d) => ({ kind: 'sustained-bias', instrumentTags: d.tags, evidence: {} })),
+    ];
+    const suspects = new Set(a.reconciliation.ok ? a.reconciliation.suspects : []);
+    for (const f of findings) {
+      let kind = workOrderKindOf(f.kind);
+      if (!kind) continue;
+      const fromEvidence = EVIDENCE_KINDS.has(f.kind);
+      if (fromEvidence && !f.instrumentTags.some((t) => named.has(t))) continue;
+      if (f.kind === 'balance-not-closed' && Array.isArray(f.evidence.explainedBy) && f.evidence.explainedBy.length) continue;
+      let target: string;
+      if (f.instrumentTags.length) {
+        if (fromEvidence && f.instrumentTags.length > 1) {
+          kind = 'check-group';
+          target = [...f.instrumentTags].sort().join('+');
+        } else target = f.instrumentTags.find((t) => suspects.has(t)) ?? f.instrumentTags[0];
+      } else target = f.equipmentId ?? '?';
+      const key = `${kind}|${target}`;
+      if (open.has(key)) continue;
+      open.add(key);
+      out.push({ round, kind, target, why: f.kind });
+    }
+  });
+  return out;
 }
