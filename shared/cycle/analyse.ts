@@ -44,7 +44,7 @@ import type {
 import { FINDING_KINDS } from './types';
 import { validateModel } from './validate';
 import { messages } from './messages';
-import { ATTEND, NOTE, severityForCriticality, URGENT, type Level } from './severity';
+import { ATTEND, NOTE, severityForCriticality, type Level } from './severity';
 
 export type CycleErrorCode = 'INVALID_MODEL' | 'INVALID_CONTEXT' | 'INVALID_READINGS';
 
