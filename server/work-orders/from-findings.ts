@@ -40,6 +40,7 @@
 import type { EntityManager } from 'typeorm';
 import { portUses, type CycleModel } from '../../shared/cycle';
 import type { WorkOrderKind } from '../../shared/api/work-orders';
+import { joinNames } from '../../shared/cycle/messages';
 import { DUE_DAYS, EVIDENCE_KINDS, VERB, priorityOf, workOrderCode, workOrderKindOf } from './policy';
 
 /** Rounds after a calibration within which a new flag reopens the calibrate order. */
@@ -173,12 +174,14 @@ function onEquipment(model: CycleModel, i: UnitInstrument, equipmentRef: string)
  * with that instrument's order as evidence instead of opening an inspection of the equipment.
  */
 function foldBalancesIntoSuspects(ctx: FindingsContext, byKey: Map<string, Group>): void {
-  const suspectGroups = [...byKey.values()]
-    .filter((g) => g.instrument && ctx.suspects.has(g.instrument.tag))
-    .sort((a, b) => (a.key < b.key ? -1 : a.key > b.key ? 1 : 0));
+  const byTag = new Map([...ctx.instruments.values()].map((i) => [i.tag, i]));
+  /** the suspect instruments a group stands for: its instrument, or the suspects among a check-group's */
+  const suspectsOf = (g: Group): UnitInstrument[] =>
+    g.groupTags.length ? g.groupTags.filter((t) => ctx.suspects.has(t)).map((t) => byTag.get(t)!).filter(Boolean) : g.instrument && ctx.suspects.has(g.instrument.tag) ? [g.instrument] : [];
+  const suspectGroups = [...byKey.values()].filter((g) => suspectsOf(g).length > 0).sort((a, b) => (a.key < b.key ? -1 : a.key > b.key ? 1 : 0));
   for (const [key, g] of [...byKey]) {
     if (g.instrument || !g.equipmentRef || g.findings.some((f) => f.kind !== 'balance-not-closed')) continue;
-    const into = suspectGroups.find((s) => onEquipment(ctx.model, s.instrument!, g.equipmentRef!));
+    const into = suspectGroups.find((s) => suspectsOf(s).some((i) => onEquipment(ctx.model, i, g.equipmentRef!)));
     if (!into) continue;
     into.findings.push(...g.findings);
     byKey.delete(key);
@@ -187,7 +190,7 @@ function foldBalancesIntoSuspects(ctx: FindingsContext, byKey: Map<string, Group
 
 function titleOf(model: CycleModel, g: Group): string {
   const what = g.findings[0].kind.replace(/-/g, ' ');
-  if (g.kind === 'check-group') return `${VERB[g.kind]} ${g.groupTags.join(' and ')}: the balances cannot tell which reads wrong`.slice(0, 300);
+  if (g.kind === 'check-group') return `${VERB[g.kind]} ${joinNames(g.groupTags)}: the balances cannot tell which reads wrong`.slice(0, 300);
   if (g.instrument) {
     const label = model.instruments.find((i) => i.tag === g.instrument!.tag)?.label;
     return `${VERB[g.kind]} ${g.instrument.tag}${label ? ` (${label})` : ''}: ${what}`.slice(0, 300);
