@@ -29,7 +29,7 @@ export function reconciliationStage(c: BaseCtx & IntakeOut) {
       if (sb2 > 0) {
         const onBaro = eq.measured.filter((m) => accepted.has(m.id) && baroSigma(accepted.get(m.id)!.inst) > 0);
         for (let x = 0; x < onBaro.length; x++) {
-          for (let y = x + 1; y < onBaro.length; y++) correlations.push({ a: onBaro[x].id, b: onBaro[y].id, rho: sb2 / (onBaro[x].sigma * onBaro[y].sigma) });
+          for (let y = x + 1; y < onBaro.length; y++) correlations.push({ a: onBaro[x].id, b: onBaro[y].id, rho: sb2 / (accepted.get(onBaro[x].id)!.sigma * accepted.get(onBaro[y].id)!.sigma) });
         }
       }
       res = reconcile({
