@@ -123,8 +123,13 @@ export interface BalanceRow {
   /** with the readings as they are (unmeasured parts from the reconciliation) */
   measured: BalanceValues | null;
   reconciled: BalanceValues | null;
-  /** uncertainty of the measured residual (propagated from the readings' σ) */
+  /**
+   * uncertainty of the measured residual: from the reconciliation's covariance (residual / test)
+   * where the balance is a constraint of it, else propagated from the readings' σ
+   */
   measuredSigma: number | null;
+  /** |residual|/σ with the σ from the reconciliation's covariance of the corrections; null where not formed */
+  test: number | null;
 }
 
 export interface EquipmentBalance {

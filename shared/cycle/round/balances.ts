@@ -1,6 +1,8 @@
 /**
  * Stage 4, balances: mass, energy, duty and power rows of every piece of equipment, on the readings
- * (flows nobody reads from the reconciliation) and on the reconciled values.
+ * (flows nobody reads from the reconciliation) and on the reconciled values; each row's test value
+ * and σ from the reconciliation's covariance of the corrections (the reconciled flows in a row are
+ * not independent readings).
  */
 import { type BalanceSpec } from '../equations';
 import type { BalanceRow, BalanceValues, EquipmentBalance } from '../types';
@@ -87,10 +89,50 @@ export function balancesStage(c: StatesCtx) {
     const sP = get === getRec ? 0 : (measuredOf(spec.tags)?.s ?? 0);
     return { v: mk(spec.efficiency * work, pv), sigma: Math.sqrt(spec.efficiency ** 2 * s2 + sP * sP) };
   };
+  // the test value of each balance from the reconciliation's covariance: with the readings put back
+  // into its constraint (unmeasured parts at their reconciled values), the residual is −∇f·e to
+  // first order, e the corrections, so var(r) = ∇fᵀ·V_e·∇f (VDI 2048-1; V_e = res.correctionCovariance)
+  const measuredValue = new Map(eq.measured.map((m) => [m.id, m.value]));
+  const testOf = (id: string): number | null => {
+    const con = eq.constraints.find((x) => x.id === id);
+    const ci = eq.info[id];
+    if (!res || !con || !ci) return null;
+    const at: Record<string, number> = { ...res.values };
+    const deps = ci.deps.filter((d) => d in at || measuredValue.has(d));
+    if (deps.length !== ci.deps.length) return null;
+    const mixed: Record<string, number> = { ...at };
+    for (const d of deps) if (measuredValue.has(d) && d in res.values) mixed[d] = measuredValue.get(d)!;
+    let r: number;
+    const g: Record<string, number> = {};
+    try {
+      r = con.f(mixed);
+      if (con.grad) Object.assign(g, con.grad(at));
+      else {
+        for (const d of deps) {
+          if (!measuredValue.has(d)) continue;
+          const h = 1e-6 * Math.max(Math.abs(at[d]), 1e-6);
+          const up = { ...at, [d]: at[d] + h };
+          const dn = { ...at, [d]: at[d] - h };
+          g[d] = (con.f(up) - con.f(dn)) / (2 * h);
+        }
+      }
+    } catch {
+      return null;
+    }
+    const cov = res.correctionCovariance;
+    const n = cov.ids.length;
+    const idx = cov.ids.map((x, k) => [x, k] as const).filter(([x]) => fin(g[x]) && g[x] !== 0);
+    let v = 0;
+    for (const [x, i] of idx) for (const [y, j] of idx) v += g[x] * g[y] * cov.matrix[i * n + j];
+    return fin(r) && v > 0 ? Math.abs(r) / Math.sqrt(v) : null;
+  };
   const rowsBySpec = new Map<string, BalanceRow>();
   for (const spec of activeSpecs) {
     const m = rowValues(spec, getMixed);
     const r = res ? rowValues(spec, getRec) : null;
+    const test = spec.id in eq.info ? testOf(spec.id) : null;
+    // the row's σ in its own unit from that test value (residual / test value) where both are formed
+    const sigmaFromTest = m && test !== null && test > 1e-9 && Math.abs(m.v.residual) > 0 ? Math.abs(m.v.residual) / test : null;
     rowsBySpec.set(spec.id, {
       id: spec.id,
       kind: spec.kind,
@@ -98,7 +140,8 @@ export function balancesStage(c: StatesCtx) {
       unit: spec.kind === 'mass' ? 'kg/s' : spec.kind === 'enthalpy' ? 'J/kg' : 'W',
       measured: m ? m.v : null,
       reconciled: r ? r.v : null,
-      measuredSigma: m && m.sigma > 0 ? m.sigma : null,
+      measuredSigma: sigmaFromTest ?? (m && m.sigma > 0 ? m.sigma : null),
+      test,
     });
   }
   const balances: EquipmentBalance[] = model.equipment.map((e) => ({

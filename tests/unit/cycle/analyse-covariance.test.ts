@@ -11,6 +11,7 @@
 import { analyseRound, demoDesignReadings, demoUnit, type RoundReading } from '@/shared/cycle';
 import { sigmaFor } from '@/shared/uncertainty';
 import { plain, withValue } from './helpers';
+import { gaussian, noisyRound } from '@/tests/helpers/detection';
 
 const B = 101325;
 const design = plain(demoDesignReadings(B));
@@ -47,4 +48,28 @@ describe('the barometric pressure, one common input of every gauge and vacuum re
     expect(correlated.reconciliation.chiSquare).toBeLessThan(independent.reconciliation.chiSquare);
     expect(correlated.findings.filter((f) => f.kind === 'gross-error')).toEqual([]);
   });
+});
+
+test('balance rows from the reconciliation’s covariance: on fault-free rounds each row’s mean (r/σ)² is 1 (± 3 standard errors of a χ²₁ mean)', () => {
+  // r/σ of a balance with the readings put back is −∇f·e/√(∇fᵀV_e∇f): standard normal without a fault (VDI 2048-1)
+  const n = gaussian(3);
+  const N = 150;
+  const acc = new Map<string, { s: number; k: number }>();
+  for (let r = 0; r < N; r++) {
+    const a = analyseRound(demoUnit, noisyRound(n), { barometricPa: B });
+    for (const eb of a.balances) {
+      for (const row of eb.rows) {
+        if (row.test === null || !row.measured) continue;
+        const x = acc.get(row.id) ?? { s: 0, k: 0 };
+        x.s += row.test ** 2;
+        x.k++;
+        acc.set(row.id, x);
+      }
+    }
+  }
+  expect(acc.size).toBeGreaterThanOrEqual(5);
+  for (const [, x] of acc) {
+    expect(x.k).toBe(N);
+    expect(Math.abs(x.s / x.k - 1)).toBeLessThan(3 * Math.sqrt(2 / N));
+  }
 });
