@@ -180,7 +180,7 @@ export function mulberry32(seed: number): () => number {
 }
 
 /** Standard normal deviates by Box–Muller from a uniform source. */
-function normals(u: () => number): () => number {
+export function normals(u: () => number): () => number {
   let spare: number | null = null;
   return () => {
     if (spare !== null) {

@@ -12,7 +12,7 @@
 import { analyseRound, cusumStep, CUSUM_START, decideEvidence, demoDesignReadings, demoUnit, type CusumState, type InstrumentEvidence, type RoundAnalysis, type RoundReading } from '@/shared/cycle';
 import { EVIDENCE_KINDS, KIND_OF_FINDING, workOrderKindOf } from '@/server/work-orders/policy';
 import { serverFindings } from '@/server/analysis/plant-checks';
-import { mulberry32 } from '@/server/seed/history-generator';
+import { mulberry32, normals } from '@/server/seed/history-generator';
 
 export const B = 101325;
 export const design: RoundReading[] = demoDesignReadings(B).map((r) => ({ instrumentTag: r.instrumentTag, valueSI: r.valueSI }));
@@ -26,20 +26,9 @@ export const BLAME_KINDS: ReadonlySet<string> = new Set(
     .map(([k]) => k),
 );
 
+/** Standard normal deviates (Box–Muller over mulberry32, the demo history's own generator). */
 export function gaussian(seed: number): () => number {
-  const u = mulberry32(seed);
-  let spare: number | null = null;
-  return () => {
-    if (spare !== null) {
-      const s = spare;
-      spare = null;
-      return s;
-    }
-    const r = Math.sqrt(-2 * Math.log(Math.max(u(), 1e-300)));
-    const t = 2 * Math.PI * u();
-    spare = r * Math.sin(t);
-    return r * Math.cos(t);
-  };
+  return normals(mulberry32(seed));
 }
 
 /** One noisy round; `bias` adds bias.sigmas × σ to one instrument. */
