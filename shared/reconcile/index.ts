@@ -49,8 +49,9 @@
  *
  * Covariance of the reconciled values (VDI 2048-1 eq. for the a-posteriori covariance,
  * S_x̂ = S_x − V_e with V_e = S_x Gᵀ (G S_x Gᵀ)⁻¹ G S_x, carried to the observable unmeasured
- * variables through their linear dependence on the measured ones): `covariance`, SI units, over
- * `covariance.ids` (measured, then observable unmeasured, in input order), row-major.
+ * variables through their linear dependence on the measured ones): `covariance`, in the units of
+ * the values given (products of the two variables' units), over `covariance.ids` (measured, then
+ * observable unmeasured, in input order), row-major.
  *
  * Pure TypeScript, no Node built-ins: runs in the browser and on the phone.
  */
@@ -147,7 +148,7 @@ export const GROUP_CORRELATION = 0.95;
 
 export interface Covariance {
   ids: string[];
-  /** ids.length² entries, row-major, SI units (products of the variables' units) */
+  /** ids.length² entries, row-major, in the units of the input values (products of the two variables' units) */
   matrix: number[];
 }
 
@@ -172,9 +173,9 @@ export interface ReconcileResult {
   suspects: string[];
   /** for each suspect (same order): it and the redundant measurements whose corrections correlate with its by |ρ| ≥ GROUP_CORRELATION, it first */
   suspectGroups: string[][];
-  /** covariance of the corrections V_e (main reconciliation), SI, over the measured ids; correlations by correlationIn() */
+  /** covariance of the corrections V_e (main reconciliation), input units, over the measured ids; correlations by correlationIn() */
   correctionCovariance: Covariance;
-  /** covariance of the reconciled values (main reconciliation), SI */
+  /** covariance of the reconciled values (main reconciliation), input units; in analyseRound the values are scaled (shared/cycle SCALE) */
   covariance: Covariance;
   /** reconciliation with every suspect treated as unmeasured (equals the main result when there is none) */
   final: ReconcileFinal;
