@@ -3,14 +3,13 @@ import { space } from '@/constants/theme';
 import { useTheme } from '@/hooks/use-theme';
 import { ThemedText } from './themed-text';
 
-export type Severity = 1 | 2 | 3;
+import { LEVEL_LABELS, type Level } from '@/shared/cycle/severity';
+
+/** A finding's severity or a work order's priority: 1 urgent … 3 note, one label table for both. */
+export type Severity = Level;
 
 /** Severity said three ways: a shape, a word and a colour (never colour alone). */
-export const severityWords: Record<Severity, { glyph: string; word: string }> = {
-  1: { glyph: '◆', word: 'Urgent' },
-  2: { glyph: '▲', word: 'Soon' },
-  3: { glyph: '●', word: 'Note' },
-};
+export const severityWords: Record<Severity, { glyph: string; word: string }> = LEVEL_LABELS;
 
 export function SeverityMark({ severity, testID }: { severity: Severity; testID?: string }) {
   const { colors } = useTheme();

@@ -17,8 +17,8 @@ import { biasWords, quantityOfTag, showDeltaOf, showValueOf } from './instrument
 import { SeverityMark } from './severity-mark';
 import { ThemedText } from './themed-text';
 
-/** Finding severity is 1 note … 3 urgent; the mark is 1 urgent … 3 note. */
-export const markOfFinding = (severity: number): 1 | 2 | 3 => (severity >= 3 ? 1 : severity === 2 ? 2 : 3);
+/** Finding severity and the mark run the same way (shared/cycle/severity.ts): 1 urgent … 3 note. */
+export const markOfFinding = (severity: number): 1 | 2 | 3 => (severity <= 1 ? 1 : severity === 2 ? 2 : 3);
 
 /** The plain-words sentence of one instrument's figures. */
 export function evidenceSentence(i: EvidenceItem['instruments'][number]): string {

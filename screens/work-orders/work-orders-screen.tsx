@@ -25,7 +25,7 @@ export const statusWords: Record<WorkOrderStatus, string> = {
   done: 'Done',
   cancelled: 'Cancelled',
 };
-export const kindWords: Record<WorkOrderKind, string> = { calibrate: 'Calibrate', repair: 'Repair', inspect: 'Inspect', clean: 'Clean' };
+export const kindWords: Record<WorkOrderKind, string> = { calibrate: 'Calibrate', repair: 'Repair', inspect: 'Inspect', clean: 'Clean', 'check-group': 'Check together' };
 
 const PAGE = 20;
 const isSort = (s: string): s is WorkOrderSort => (WORK_ORDER_SORTS as readonly string[]).includes(s);

@@ -31,6 +31,7 @@ import { barometricFromElevation } from '../../shared/units';
 import type { Logger } from '../logger';
 import { notifySafely, type Notifier } from '../notify';
 import { workOrdersFromFindings, type StoredFinding, type UnitInstrument, type WorkOrderChanges } from '../work-orders/from-findings';
+import { instrumentEvidence } from './evidence';
 import { serverFindings } from './plant-checks';
 
 export interface AnalysisDeps {
@@ -179,11 +180,13 @@ export async function runAnalysisJob(deps: AnalysisDeps, roundId: string): Promi
 
     const analysis = analyseRound(unit.model, readings, assembled.context);
     const routeTags = new Set(round.template.stops.flatMap((s) => s.readings.map((r) => r.tag)));
-    const findings = serverFindings(unit.model, analysis.findings, analysis.performance, routeTags);
     const modelVersionMismatch = round.device_model_version !== null && round.device_model_version !== unit.model_version;
 
     await em.query(`UPDATE "analyses" SET "is_current" = false WHERE "round_id" = $1 AND "is_current"`, [round.id]);
     await em.query(`UPDATE "analysis_instruments" SET "is_current" = false WHERE "round_id" = $1 AND "is_current"`, [round.id]);
+    // sequential evidence over each instrument's own rounds (./evidence.ts): who may get a work order
+    const evidence = await instrumentEvidence(em, round.id, analysis, idByTag, new Map(mine.map((r) => [r.instrument_id, r.device_time])));
+    const findings = [...serverFindings(unit.model, analysis.findings, analysis.performance, routeTags), ...evidence.findings];
     const [{ id: analysisId }] = (await em.query(
       `INSERT INTO "analyses" ("round_id", "site_id", "unit_id", "input_hash", "model_version", "device_model_version", "model_version_mismatch",
                                "barometric_pa", "barometric_source", "state_points", "balances", "performance", "instruments", "reconciliation", "finding_count")
@@ -274,6 +277,7 @@ export async function runAnalysisJob(deps: AnalysisDeps, roundId: string): Promi
         ir.estimate,
         ir.estimateSigma,
         ir.z,
+        ir.u,
         ir.suspect,
         ir.redundant,
       ]);
@@ -283,7 +287,7 @@ export async function runAnalysisJob(deps: AnalysisDeps, roundId: string): Promi
       const tuples = instRows.map((row) => `(${row.map((v) => `$${params.push(v)}`).join(', ')})`);
       await em.query(
         `INSERT INTO "analysis_instruments" ("analysis_id", "instrument_id", "round_id", "site_id", "reading_id", "measured_at", "status", "reading_si", "sigma_si",
-                                             "reconciled_si", "reconciled_sigma_si", "estimate_si", "estimate_sigma_si", "z", "suspect", "redundant")
+                                             "reconciled_si", "reconciled_sigma_si", "estimate_si", "estimate_sigma_si", "z", "u", "suspect", "redundant")
          VALUES ${tuples.join(', ')}`,
         params,
       );
@@ -302,6 +306,7 @@ export async function runAnalysisJob(deps: AnalysisDeps, roundId: string): Promi
         model: unit.model,
         instruments: byId,
         suspects,
+        named: evidence.named,
         z: new Map(analysis.instruments.filter((ir) => ir.z !== null && Number.isFinite(ir.z)).map((ir) => [ir.tag, ir.z as number])),
       },
       stored,

@@ -22,9 +22,9 @@ export async function analysedRounds(ds: DataSource, siteId: string, page: numbe
     `SELECT r."id" AS "round_id", a."id" AS "analysis_id", rt."id" AS "route_id", rt."name" AS "route_name", u."id" AS "unit_id", u."name" AS "unit_name",
             r."started_at_device", r."finished_at_device", a."analysed_at", a."model_version_mismatch",
             count(f."id")::int AS "total",
-            count(f."id") FILTER (WHERE f."severity" = 3)::int AS "urgent",
+            count(f."id") FILTER (WHERE f."severity" = 1)::int AS "urgent",
             count(f."id") FILTER (WHERE f."severity" = 2)::int AS "attend",
-            count(f."id") FILTER (WHERE f."severity" = 1)::int AS "note"
+            count(f."id") FILTER (WHERE f."severity" = 3)::int AS "note"
        FROM "analyses" a
        JOIN "rounds" r ON r."id" = a."round_id"
        JOIN "route_versions" v ON v."id" = r."route_version_id"

@@ -163,6 +163,8 @@ export interface AnalysisInstrument {
   estimateSi: number | null;
   estimateSigmaSi: number | null;
   z: number | null;
+  /** the sequential evidence's statistic of this reading (shared/cycle InstrumentResult.u) */
+  u: number | null;
   suspect: boolean;
   redundant: boolean;
   analysis?: Analysis;
@@ -189,6 +191,7 @@ export const AnalysisInstrumentEntity = new EntitySchema<AnalysisInstrument>({
     estimateSi: { name: 'estimate_si', type: 'double precision', nullable: true },
     estimateSigmaSi: { name: 'estimate_sigma_si', type: 'double precision', nullable: true },
     z: { type: 'double precision', nullable: true },
+    u: { type: 'double precision', nullable: true },
     suspect: { type: 'boolean', default: false },
     redundant: { type: 'boolean', default: false },
   },

@@ -16,6 +16,7 @@
  */
 import type { DataSource } from 'typeorm';
 import type { Role } from '../../shared/api/auth';
+import { LEVEL_LABELS } from '../../shared/cycle/severity';
 import type { Logger } from '../logger';
 import type { Notifier } from '../notify';
 import { enqueueMail, type OutgoingMail } from './outbox';
@@ -149,7 +150,7 @@ export function sqlNotifierSource(ds: DataSource): NotifierSource {
            JOIN "route_versions" v ON v."id" = r."route_version_id"
            JOIN "routes" rt ON rt."id" = v."route_id"
           WHERE f."site_id" = $1 AND ${ROUND_TIME_SQL} >= $2 AND ${ROUND_TIME_SQL} < $3
-          ORDER BY f."severity" DESC, at, f."ordinal"`,
+          ORDER BY f."severity", at, f."ordinal"`,
         [siteId, start, end],
       )) as { round_id: string; route_name: string | null; at: Date; kind: string; severity: number; message: string; instrument_tags: unknown }[];
       return rows.map((r) => ({
@@ -169,7 +170,7 @@ export function sqlNotifierSource(ds: DataSource): NotifierSource {
 // the words
 
 const PRIORITY_WORDS: Record<number, string> = { 1: '1 (urgent)', 2: '2', 3: '3' };
-const SEVERITY_WORDS: Record<number, string> = { 3: 'urgent', 2: 'attend to', 1: 'note' };
+const SEVERITY_WORDS: Record<number, string> = Object.fromEntries(Object.entries(LEVEL_LABELS).map(([k, v]) => [k, v.phrase]));
 
 function workOrderLines(w: WorkOrderFacts, linkBase: string): string[] {
   return [
@@ -231,17 +232,17 @@ export function digestMessage(site: SiteFacts, shift: ShiftWindow, findings: rea
     const g = groups.get(key);
     if (g) {
       g.rounds.add(f.roundId);
-      if (f.severity > g.f.severity) g.f = f;
+      if (f.severity < g.f.severity) g.f = f;
     } else groups.set(key, { f, rounds: new Set([f.roundId]) });
   }
-  const list = [...groups.values()].sort((a, b) => b.f.severity - a.f.severity || a.f.at.getTime() - b.f.at.getTime());
+  const list = [...groups.values()].sort((a, b) => a.f.severity - b.f.severity || a.f.at.getTime() - b.f.at.getTime());
   const lines = list.slice(0, DIGEST_MAX_ITEMS).map(({ f, rounds }) => {
     const where = `${f.routeName ?? 'round'}, ${hhmm(f.at, site.timezone)}${rounds.size > 1 ? `; on ${rounds.size} rounds` : ''}`;
     return `- [${SEVERITY_WORDS[f.severity] ?? f.severity}] ${f.message} (${where})`;
   });
   if (list.length > DIGEST_MAX_ITEMS) lines.push(`- … and ${list.length - DIGEST_MAX_ITEMS} more; see the rounds in Trueround.`);
   const window = `${hhmm(shift.start, site.timezone)}–${hhmm(shift.end, site.timezone)} ${site.timezone}`;
-  const urgent = list.filter((g) => g.f.severity >= 3).length;
+  const urgent = list.filter((g) => g.f.severity <= 1).length;
   return {
     to: to.email,
     subject: `${SUBJECT_PREFIX} ${site.name}: ${list.length} finding${list.length === 1 ? '' : 's'} from the ${shift.name} shift of ${shift.localDate}${urgent ? ` (${urgent} urgent)` : ''}`,

@@ -18,12 +18,13 @@
  *    with the standard-atmosphere value, as they would be in life; the weather swing is kept
  *    small so that this costs less than half a σ on the condenser vacuum gauge.
  *
- * The readings: each instrument reads the true value plus noise, a normal deviate of 0.35 σ
- * clipped to ±1 σ (σ from the instrument's accuracy spec, shared/uncertainty sigmaFor). The
- * number is typed to a tenth of the scale division (or four significant figures where the spec
- * gives no division). A healthy reading never repeats exactly three rounds running: the
- * stuck-value check compares exact values, and a gauge read to a tenth of a division would
- * otherwise repeat by chance now and then.
+ * The readings: each instrument reads the true value plus Gaussian noise, unclipped, with the σ
+ * the analysis itself assigns the instrument (shared/cycle specSigmaOf: its accuracy spec at its
+ * reference value) — the distribution the analysis assumes, so the demo shows the false-alarm
+ * rate a plant whose instruments behave as specified would see. The number is typed to a tenth
+ * of the scale division (or four significant figures where the spec gives no division). A healthy
+ * reading never repeats exactly three rounds running: the stuck-value check compares exact
+ * values, and a gauge read to a tenth of a division would otherwise repeat by chance now and then.
  *
  * The faults (parameters in DEFAULT_FAULTS, days counted from the first day, 0-based):
  *  - drift: TI-301 (deaerator outlet RTD) reads high by 0.05 K per day from day 20;
@@ -51,6 +52,7 @@ import type { RouteCheck, RouteTemplate } from '../../shared/route/template';
 import { mulberry32 } from '../../shared/random';
 import type { PushRequestV2 } from '../../shared/api/sync';
 import { demoUnit, designPoint, DESIGN_PARAMETERS, type DesignParameters, type DesignPoint } from '../../demo/unit';
+import { specSigmaOf } from '../../shared/cycle';
 import type { Instrument } from '../../shared/cycle/model';
 import { psat, tsat } from '../../shared/steam';
 import { sigmaFor } from '../../shared/uncertainty';
@@ -73,8 +75,8 @@ export const DEFAULT_FAULTS: Readonly<HistoryFaults> = Object.freeze({
   fouling: { fromDay: 60, ttdKelvinPerDay: 0.1 },
 });
 
-/** Clean readings' noise: a normal deviate of this many σ, clipped to ±1 σ. */
-export const NOISE_SIGMAS = 0.35;
+/** Clean readings' noise: a normal deviate of this many σ (the analysis' own σ), unclipped. */
+export const NOISE_SIGMAS = 1;
 /** Amplitude of the barometric weather swing, Pa. */
 export const WEATHER_AMPLITUDE_PA = 250;
 
@@ -170,7 +172,7 @@ export interface GeneratedHistory {
 export { mulberry32 };
 
 /** Standard normal deviates by Box–Muller from a uniform source. */
-function normals(u: () => number): () => number {
+export function normals(u: () => number): () => number {
   let spare: number | null = null;
   return () => {
     if (spare !== null) {
@@ -334,7 +336,7 @@ export function generateHistory(options: HistoryOptions): GeneratedHistory {
   };
   const uniform = mulberry32(seed);
   const n = normals(uniform);
-  const clipped = () => Math.max(-1, Math.min(1, NOISE_SIGMAS * n()));
+  const noise = () => NOISE_SIGMAS * n();
 
   const slots = slotsByTag();
   const instruments: Instrument[] = [...demoUnit.instruments, fernhallowBarometer];
@@ -379,8 +381,8 @@ export function generateHistory(options: HistoryOptions): GeneratedHistory {
       for (const i of instruments) {
         const slot = slots.get(i.tag)!;
         const truth = truthOf(i, plant, baro);
-        const sigma = sigmaFor(i.accuracy, truth);
-        let measured = truth + clipped() * sigma;
+        const sigma = i.tag === fernhallowBarometer.tag ? sigmaFor(i.accuracy, stdBaro) : specSigmaOf(demoUnit, i, stdBaro)!;
+        let measured = truth + noise() * sigma;
         let fault: HistoryReading['fault'] = null;
         if (i.tag === faults.drift.tag && t > faults.drift.fromDay) {
           measured += faults.drift.kelvinPerDay * (t - faults.drift.fromDay);

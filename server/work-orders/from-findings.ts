@@ -5,8 +5,14 @@
  * reconciliation suspect among the instruments it names, else the one of them the reconciliation
  * corrects most — of two instruments that disagree, the one the rest of the plant does not back
  * —, else the first named) or, without
- * instruments, the equipment it is about. Findings of one analysis with the same target and
- * work-order kind go together. For each group, in a fixed order:
+ * instruments, the equipment it is about. A reconciliation finding that names a group the
+ * balances cannot tell apart (FI-401 or TI-402) becomes one check-group order, its target the
+ * group's first tag in code-unit order (the same order for the same group on every round).
+ * Findings of one analysis with the same target and work-order kind go together.
+ *
+ * The statistical policy: a group of EVIDENCE_KINDS findings opens (or reopens) an order only when
+ * the sequential evidence names its instrument (ctx.named, server/analysis/evidence.ts); else it is
+ * attached to an order already open, or opens nothing. For each group, in a fixed order:
  *
  *  1. an open order (not done/cancelled) for the target and kind → the findings are attached as
  *     new evidence (an "evidence" event; an order still untriaged is escalated when the new
@@ -34,7 +40,8 @@
 import type { EntityManager } from 'typeorm';
 import { portUses, type CycleModel } from '../../shared/cycle';
 import type { WorkOrderKind } from '../../shared/api/work-orders';
-import { DUE_DAYS, VERB, priorityOf, workOrderCode, workOrderKindOf } from './policy';
+import { joinNames } from '../../shared/cycle/messages';
+import { DUE_DAYS, EVIDENCE_KINDS, VERB, priorityOf, workOrderCode, workOrderKindOf } from './policy';
 
 /** Rounds after a calibration within which a new flag reopens the calibrate order. */
 export const REOPEN_WITHIN_ROUNDS = 3;
@@ -68,6 +75,8 @@ export interface FindingsContext {
   suspects: ReadonlySet<string>;
   /** the reconciliation's normalised corrections (z) of the analysis, by tag, where tested */
   z?: ReadonlyMap<string, number>;
+  /** tags the sequential evidence names (server/analysis/evidence.ts); absent: every finding may open */
+  named?: ReadonlySet<string>;
 }
 
 export interface WorkOrderTouch {
@@ -89,6 +98,10 @@ interface Group {
   equipmentRef: string | null;
   priority: 1 | 2 | 3;
   findings: StoredFinding[];
+  /** the instruments a check-group order names */
+  groupTags: string[];
+  /** may open or reopen an order (else only attach to an open one) */
+  mayOpen: boolean;
 }
 
 /** Criticality of the equipment an instrument sits on (the most critical around its point). */
@@ -115,14 +128,21 @@ function mostCorrected(ctx: FindingsContext, named: UnitInstrument[]): UnitInstr
 function groupsOf(ctx: FindingsContext, findings: readonly StoredFinding[]): Group[] {
   const byKey = new Map<string, Group>();
   for (const f of findings) {
-    const kind = workOrderKindOf(f.kind);
+    let kind = workOrderKindOf(f.kind);
     if (!kind) continue;
     let instrument: UnitInstrument | null = null;
     let equipmentRef: string | null = null;
+    let groupTags: string[] = [];
+    const fromEvidence = EVIDENCE_KINDS.has(f.kind);
     if (f.instrumentIds.length) {
       const named = f.instrumentIds.map((id) => ctx.instruments.get(id)).filter((x): x is UnitInstrument => !!x);
-      instrument = named.find((i) => ctx.suspects.has(i.tag)) ?? mostCorrected(ctx, named) ?? named[0] ?? null;
+      if (fromEvidence && named.length > 1) {
+        kind = 'check-group';
+        groupTags = named.map((i) => i.tag).sort((a, b) => (a < b ? -1 : a > b ? 1 : 0));
+        instrument = named.find((i) => i.tag === groupTags[0])!;
+      } else instrument = named.find((i) => ctx.suspects.has(i.tag)) ?? mostCorrected(ctx, named) ?? named[0] ?? null;
     }
+    const mayOpen = !fromEvidence || !ctx.named || (f.instrumentTags.some((t) => ctx.named!.has(t)));
     if (!instrument) equipmentRef = f.equipmentRef;
     if (!instrument && !equipmentRef) continue;
     const crit = instrument
@@ -134,7 +154,8 @@ function groupsOf(ctx: FindingsContext, findings: readonly StoredFinding[]): Gro
     if (g) {
       g.findings.push(f);
       g.priority = Math.min(g.priority, priority) as 1 | 2 | 3;
-    } else byKey.set(key, { key, kind, instrument, equipmentRef, priority, findings: [f] });
+      g.mayOpen ||= mayOpen;
+    } else byKey.set(key, { key, kind, instrument, equipmentRef, priority, findings: [f], groupTags, mayOpen });
   }
   foldBalancesIntoSuspects(ctx, byKey);
   return [...byKey.values()].sort((a, b) => (a.key < b.key ? -1 : a.key > b.key ? 1 : 0));
@@ -153,12 +174,14 @@ function onEquipment(model: CycleModel, i: UnitInstrument, equipmentRef: string)
  * with that instrument's order as evidence instead of opening an inspection of the equipment.
  */
 function foldBalancesIntoSuspects(ctx: FindingsContext, byKey: Map<string, Group>): void {
-  const suspectGroups = [...byKey.values()]
-    .filter((g) => g.instrument && ctx.suspects.has(g.instrument.tag))
-    .sort((a, b) => (a.key < b.key ? -1 : a.key > b.key ? 1 : 0));
+  const byTag = new Map([...ctx.instruments.values()].map((i) => [i.tag, i]));
+  /** the suspect instruments a group stands for: its instrument, or the suspects among a check-group's */
+  const suspectsOf = (g: Group): UnitInstrument[] =>
+    g.groupTags.length ? g.groupTags.filter((t) => ctx.suspects.has(t)).map((t) => byTag.get(t)!).filter(Boolean) : g.instrument && ctx.suspects.has(g.instrument.tag) ? [g.instrument] : [];
+  const suspectGroups = [...byKey.values()].filter((g) => suspectsOf(g).length > 0).sort((a, b) => (a.key < b.key ? -1 : a.key > b.key ? 1 : 0));
   for (const [key, g] of [...byKey]) {
     if (g.instrument || !g.equipmentRef || g.findings.some((f) => f.kind !== 'balance-not-closed')) continue;
-    const into = suspectGroups.find((s) => onEquipment(ctx.model, s.instrument!, g.equipmentRef!));
+    const into = suspectGroups.find((s) => suspectsOf(s).some((i) => onEquipment(ctx.model, i, g.equipmentRef!)));
     if (!into) continue;
     into.findings.push(...g.findings);
     byKey.delete(key);
@@ -167,6 +190,7 @@ function foldBalancesIntoSuspects(ctx: FindingsContext, byKey: Map<string, Group
 
 function titleOf(model: CycleModel, g: Group): string {
   const what = g.findings[0].kind.replace(/-/g, ' ');
+  if (g.kind === 'check-group') return `${VERB[g.kind]} ${joinNames(g.groupTags)}: the balances cannot tell which reads wrong`.slice(0, 300);
   if (g.instrument) {
     const label = model.instruments.find((i) => i.tag === g.instrument!.tag)?.label;
     return `${VERB[g.kind]} ${g.instrument.tag}${label ? ` (${label})` : ''}: ${what}`.slice(0, 300);
@@ -268,6 +292,9 @@ export async function workOrdersFromFindings(em: EntityManager, ctx: FindingsCon
       continue;
     }
 
+    // without the evidence for it, a reconciliation finding opens nothing (it stays a flag on the round)
+    if (!g.mayOpen) continue;
+
     // 2. a calibrate order closed lately
     if (g.kind === 'calibrate' && g.instrument) {
       const [done] = (await em.query(
@@ -337,6 +364,7 @@ export async function workOrdersFromFindings(em: EntityManager, ctx: FindingsCon
     await attach(em, id, g.findings);
     await event(em, id, 'opened', { to: 'open', changes: { ...summary, kind: g.kind, priority: g.priority }, comment: note });
     if (g.kind === 'calibrate' && g.instrument) suspect.add(g.instrument.id);
+    if (g.kind === 'check-group') for (const f of g.findings) for (const i of f.instrumentIds) suspect.add(i);
     out.opened.push({ id, number: code, priority: g.priority });
   }
   for (const id of [...suspect].sort()) await markSuspect(em, id);

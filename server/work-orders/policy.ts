@@ -6,20 +6,26 @@
  * round's data — missing, duplicate or unreadable readings, an unknown tag — not about the plant):
  *
  *   gross-error, gauge-read-as-absolute, absolute-read-as-gauge,
- *   twin-disagreement, saturation-mismatch                      → calibrate  (the instrument)
+ *   sustained-bias (server/analysis/evidence.ts)                → calibrate  (the instrument)
+ *     … naming a group the balances cannot tell apart          → check-group (both, one order)
  *   stuck-value                                                 → repair     (the instrument)
  *   out-of-range, outside-if97, phase-mismatch                  → inspect    (the instrument)
  *   balance-not-closed                                          → inspect    (the equipment)
  *   condenser-ttd-high (server/analysis/plant-checks.ts)        → clean      (the condenser)
  *
- * Priority (1 most urgent) from the finding's severity (1 note, 2 attend to, 3 urgent) and the
- * criticality of the equipment (1–3, the cycle model's; for an instrument, the most critical
- * equipment on its point):
+ * The statistical policy (README "How findings become work orders"): the reconciliation's findings
+ * (EVIDENCE_KINDS) open an order only for an instrument the sequential evidence names
+ * (shared/cycle/evidence.ts: a gross error at once, else Page's CUSUM over its own rounds);
+ * otherwise they are attached to an order already open, or stay on the round as flags.
+ *
+ * Priority (1 most urgent) from the finding's severity (the same direction: 1 urgent, 2 attend to,
+ * 3 note; shared/cycle/severity.ts) and the criticality of the equipment (1–3, the cycle model's;
+ * for an instrument, the most critical equipment on its point):
  *
  *                  criticality 1   criticality 2   criticality 3
- *   severity 3           2               1               1
+ *   severity 1           2               1               1
  *   severity 2           3               2               2
- *   severity 1           3               3               3
+ *   severity 3           3               3               3
  *
  * Default due date after opening, by priority: 1 → 2 days, 2 → 14 days, 3 → 60 days (common
  * practice for maintenance backlogs; the planner sets another at triage or scheduling).
@@ -30,8 +36,7 @@ export const KIND_OF_FINDING: Readonly<Record<string, WorkOrderKind>> = Object.f
   'gross-error': 'calibrate',
   'gauge-read-as-absolute': 'calibrate',
   'absolute-read-as-gauge': 'calibrate',
-  'twin-disagreement': 'calibrate',
-  'saturation-mismatch': 'calibrate',
+  'sustained-bias': 'calibrate',
   'stuck-value': 'repair',
   'out-of-range': 'inspect',
   'outside-if97': 'inspect',
@@ -39,6 +44,9 @@ export const KIND_OF_FINDING: Readonly<Record<string, WorkOrderKind>> = Object.f
   'balance-not-closed': 'inspect',
   'condenser-ttd-high': 'clean',
 });
+
+/** Reconciliation findings that open an order only for an instrument the sequential evidence names. */
+export const EVIDENCE_KINDS: ReadonlySet<string> = new Set(['gross-error', 'gauge-read-as-absolute', 'absolute-read-as-gauge', 'sustained-bias']);
 
 /** Finding kinds that count as a flag on an instrument (instrument health): those that open work. */
 export const FLAG_KINDS: readonly string[] = Object.keys(KIND_OF_FINDING);
@@ -49,9 +57,9 @@ export function workOrderKindOf(findingKind: string): WorkOrderKind | null {
 
 /** PRIORITY_TABLE[severity − 1][criticality − 1] */
 export const PRIORITY_TABLE: readonly (readonly (1 | 2 | 3)[])[] = [
-  [3, 3, 3],
-  [3, 2, 2],
   [2, 1, 1],
+  [3, 2, 2],
+  [3, 3, 3],
 ];
 
 function level(x: number, what: string): number {
@@ -70,6 +78,7 @@ export const VERB: Readonly<Record<WorkOrderKind, string>> = Object.freeze({
   repair: 'Repair',
   inspect: 'Inspect',
   clean: 'Clean',
+  'check-group': 'Check',
 });
 
 /** Status moves an action makes: from which statuses, to which. */

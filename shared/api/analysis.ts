@@ -19,7 +19,7 @@ const arrayOf = <T>() => z.custom<T[]>((v) => Array.isArray(v), { message: 'Must
 export const FindingView = z.object({
   id: z.uuid(),
   kind: z.string(),
-  /** 1 note, 2 attend to, 3 urgent */
+  /** 1 urgent, 2 attend to, 3 note (shared/cycle/severity.ts) */
   severity: z.number().int().min(1).max(3),
   instrumentTags: z.array(z.string()),
   instrumentIds: z.array(z.uuid()),

@@ -28,11 +28,11 @@ export type AnalysedRoundsQuery = z.output<typeof AnalysedRoundsQuery>;
 
 export const FindingCounts = z.object({
   total: z.number().int().min(0),
-  /** severity 3 */
+  /** severity 1 */
   urgent: z.number().int().min(0),
   /** severity 2 */
   attend: z.number().int().min(0),
-  /** severity 1 */
+  /** severity 3 */
   note: z.number().int().min(0),
 });
 export type FindingCounts = z.infer<typeof FindingCounts>;

@@ -15,7 +15,8 @@
 import { z } from 'zod';
 import { PRESSURE_REFERENCES } from '../units';
 
-export const WORK_ORDER_KINDS = ['calibrate', 'repair', 'inspect', 'clean'] as const;
+/** check-group: instruments the balances cannot tell apart, checked together (one order names them all) */
+export const WORK_ORDER_KINDS = ['calibrate', 'repair', 'inspect', 'clean', 'check-group'] as const;
 export const WorkOrderKind = z.enum(WORK_ORDER_KINDS, { error: `Must be one of ${WORK_ORDER_KINDS.join(', ')}` });
 export type WorkOrderKind = z.infer<typeof WorkOrderKind>;
 

@@ -53,3 +53,20 @@ export {
 } from './detectability';
 export { propsPT, propsSat, tsatSafe, enthalpyOf, type PTProps, type SatProps } from './properties';
 export * from './types';
+export { sigmaReferenceValue, specSigmaOf } from './analyse';
+export {
+  cusumOver,
+  cusumStep,
+  cusumValue,
+  decideEvidence,
+  CUSUM_H,
+  CUSUM_K,
+  CUSUM_START,
+  EXPLAINED_CORRELATION,
+  GROSS_Z,
+  type CorrelatedPair,
+  type CusumState,
+  type EvidenceDecision,
+  type InstrumentEvidence,
+} from './evidence';
+export { LEVEL_LABELS, moreUrgent, severityForCriticality, ATTEND, NOTE, URGENT, type Level } from './severity';

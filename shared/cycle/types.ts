@@ -5,6 +5,7 @@
 import type { SteamPhase } from '../steam';
 import type { Quantity } from '../units';
 import type { EquipmentKind, PointPhase } from './model';
+import type { Level } from './severity';
 
 /** One reading of a round: the instrument by tag (or by its id), its value in SI absolute. */
 export interface RoundReading {
@@ -65,8 +66,8 @@ export type Evidence = Record<string, number | string | boolean | null | readonl
 
 export interface Finding {
   kind: FindingKind;
-  /** 1 note, 2 attend to, 3 urgent */
-  severity: 1 | 2 | 3;
+  /** 1 urgent, 2 attend to, 3 note (shared/cycle/severity.ts: the same direction as a work order's priority) */
+  severity: Level;
   instrumentTags: string[];
   /** the instruments' ids where the model gives them */
   instrumentIds: string[];
@@ -122,8 +123,13 @@ export interface BalanceRow {
   /** with the readings as they are (unmeasured parts from the reconciliation) */
   measured: BalanceValues | null;
   reconciled: BalanceValues | null;
-  /** uncertainty of the measured residual (propagated from the readings' σ) */
+  /**
+   * uncertainty of the measured residual: from the reconciliation's covariance (residual / test)
+   * where the balance is a constraint of it, else propagated from the readings' σ
+   */
   measuredSigma: number | null;
+  /** |residual|/σ with the σ from the reconciliation's covariance of the corrections; null where not formed */
+  test: number | null;
 }
 
 export interface EquipmentBalance {
@@ -212,6 +218,13 @@ export interface InstrumentResult {
   /** best estimate with the suspects removed (for a suspect: what the rest says) */
   estimate: number | null;
   estimateSigma: number | null;
+  /**
+   * the sequential evidence's statistic (shared/cycle/evidence.ts): the signed normalised correction
+   * (reading − reconciled)/σ(correction), positive reads high — for a suspect from the pass that
+   * eliminated it, for the others from the reconciliation with the suspects removed (a gross error
+   * elsewhere does not move them); null where not tested
+   */
+  u: number | null;
 }
 
 export interface VariableResult {
@@ -248,6 +261,8 @@ export type ReconciliationOutput =
       eliminationError?: { code: string; message: string };
       /** |r|/σ at the readings, for balances that read only measured variables */
       constraintTests: Record<string, number>;
+      /** pairs of tested instruments whose corrections correlate by |ρ| ≥ 0.3 (shared/cycle/evidence.ts) */
+      correlatedCorrections: { a: string; b: string; rho: number }[];
       variables: VariableResult[];
       constraints: { id: string; kind: string; equipmentId?: string; pointId?: string; label: string }[];
     }

@@ -34,9 +34,24 @@
  *    `zCritical`;
  *  - per constraint (constraints that read no unmeasured variable): |r_k| / sqrt(S_kk) with
  *    r = f(x_m), S = A Σ Aᵀ at the measured values;
- *  - serial elimination: while the global test fails and dof ≥ 2 (each removed redundant measurement
- *    lowers dof by one, so the problem stays redundant), the measurement with the largest z (ties:
- *    largest |e|/σ) is treated as unmeasured and the problem reconciled again.
+ *  - serial elimination (VDI 2048-1:2017 §7, the individual test as the removal criterion): while
+ *    the global test fails, dof ≥ 2 (each removed redundant measurement lowers dof by one, so the
+ *    problem stays redundant) and the largest z exceeds `zCritical`, that measurement (ties: largest
+ *    |e|/σ) is treated as unmeasured and the problem reconciled again. A measurement below the
+ *    individual test's limit is never removed, however the global test ends;
+ *  - groups: measurements whose corrections correlate by |ρ| ≥ GROUP_CORRELATION (ρ_ij =
+ *    V_e,ij/√(V_e,ii·V_e,jj)) are near-inseparable: a bias on one moves the other's test value to
+ *    within a factor ρ of its own. Each suspect carries its group (`suspectGroups`): the balances
+ *    cannot tell which of them is wrong. Threshold 0.95: the test values of j and i under a bias
+ *    with expected test value δ on j differ by N(δ(1−ρ), 2(1−ρ)), so the wrong one of the pair wins
+ *    with probability Φ(−δ·√((1−ρ)/2)); at δ = 10 (a gross error) that is ≥ 5 % once ρ ≥ 0.946
+ *    (Narasimhan & Jordache 1999 ch. 7 on equivalent sets of gross errors, from memory).
+ *
+ * Covariance of the reconciled values (VDI 2048-1 eq. for the a-posteriori covariance,
+ * S_x̂ = S_x − V_e with V_e = S_x Gᵀ (G S_x Gᵀ)⁻¹ G S_x, carried to the observable unmeasured
+ * variables through their linear dependence on the measured ones): `covariance`, in the units of
+ * the values given (products of the two variables' units), over `covariance.ids` (measured, then
+ * observable unmeasured, in input order), row-major.
  *
  * Pure TypeScript, no Node built-ins: runs in the browser and on the phone.
  */
@@ -119,10 +134,22 @@ export interface ReconcileInput {
 export interface ReconcileFinal {
   values: Record<string, number>;
   sigmas: Record<string, number>;
+  /** reconciled − measured, and |correction|/σ(correction), of the measurements still measured */
+  corrections: Record<string, number>;
+  z: Record<string, number | null>;
   chiSquare: number;
   dof: number;
   critical: number;
   passed: boolean;
+}
+
+/** Correction correlation at or above which two measurements are one group (see the file comment). */
+export const GROUP_CORRELATION = 0.95;
+
+export interface Covariance {
+  ids: string[];
+  /** ids.length² entries, row-major, in the units of the input values (products of the two variables' units) */
+  matrix: number[];
 }
 
 export interface ReconcileResult {
@@ -144,8 +171,16 @@ export interface ReconcileResult {
   constraintTests: Record<string, number>;
   /** measurements removed by serial elimination, in order */
   suspects: string[];
+  /** for each suspect (same order): it and the redundant measurements whose corrections correlate with its by |ρ| ≥ GROUP_CORRELATION, it first */
+  suspectGroups: string[][];
+  /** covariance of the corrections V_e (main reconciliation), input units, over the measured ids; correlations by correlationIn() */
+  correctionCovariance: Covariance;
+  /** covariance of the reconciled values (main reconciliation), input units; in analyseRound the values are scaled (shared/cycle SCALE) */
+  covariance: Covariance;
   /** reconciliation with every suspect treated as unmeasured (equals the main result when there is none) */
   final: ReconcileFinal;
+  /** each suspect's signed test value, (measured − reconciled)/σ(correction), in the pass that eliminated it */
+  eliminatedU: Record<string, number>;
   /** set when serial elimination stopped because the next reconciliation failed */
   eliminationError?: { code: ReconcileErrorCode; message: string };
   iterations: number;
@@ -728,6 +763,9 @@ interface Core {
   redundant: string[];
   observable: string[];
   unobservable: string[];
+  /** V_e in σ units (n × n, row-major) */
+  veFull: Float64Array;
+  covariance: Covariance;
 }
 
 function solveCore(p: Problem, confidence: number): Core {
@@ -800,6 +838,17 @@ function solveCore(p: Problem, confidence: number): Core {
   const lFactor = Float64Array.from(lin.cholM!.lowerTriangularMatrix.to1DArray());
   const wk = lowerSolve(lFactor, Float64Array.from(kMat.transpose().to1DArray()), dof, n);
   const ve = columnNorms2(wk, dof, n);
+  // V_e = Wᵀ·W with W = L⁻¹·Kᵀ (dof × n)
+  const veFull = new Float64Array(n * n);
+  for (let r = 0; r < dof; r++) {
+    const off = r * n;
+    for (let i = 0; i < n; i++) {
+      const wi = wk[off + i];
+      if (wi === 0) continue;
+      for (let j = i; j < n; j++) veFull[i * n + j] += wi * wk[off + j];
+    }
+  }
+  for (let i = 0; i < n; i++) for (let j = 0; j < i; j++) veFull[i * n + j] = veFull[j * n + i];
   const values: Record<string, number> = {};
   const sigmas: Record<string, number> = {};
   const corrections: Record<string, number> = {};
@@ -834,6 +883,53 @@ function solveCore(p: Problem, confidence: number): Core {
       sigmas[p.uIds[j]] = Math.sqrt(Math.max(0, a - b)) / lin.cn[j];
     }
   }
+  // joint covariance: measured P = C − V_e (σ units); observable unmeasured u_j = u_j0 + J_r·Δξ,
+  // J_r = −(R11⁻¹·T1)_r / cn_j, so cov(u, ξ̂) = J·P and cov(u, u) = J·P·Jᵀ
+  const pSc = new Float64Array(n * n);
+  for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) pSc[i * n + j] = (p.corr ? p.corr[i * n + j] : i === j ? 1 : 0) - veFull[i * n + j];
+  const covIds = [...p.mIds];
+  const jRows: Float64Array[] = [];
+  if (rB > 0 && observable.length > 0) {
+    const l = solveR11(lin.qrB, lin.t1, n);
+    for (let j = 0; j < q; j++) {
+      if (!lin.observableU[j]) continue;
+      const r = Array.from(lin.qrB.perm.slice(0, rB)).indexOf(j);
+      if (r < 0) continue;
+      const row = new Float64Array(n);
+      for (let i = 0; i < n; i++) row[i] = -l[r * n + i] / lin.cn[j];
+      covIds.push(p.uIds[j]);
+      jRows.push(row);
+    }
+  }
+  const dim = covIds.length;
+  // rows of the full Jacobian from ξ to SI values: measured i → σ_i·e_i, unmeasured → J_r
+  const jp: Float64Array[] = [];
+  for (const row of jRows) {
+    const out = new Float64Array(n);
+    for (let i = 0; i < n; i++) {
+      const ri = row[i];
+      if (ri === 0) continue;
+      for (let k = 0; k < n; k++) out[k] += ri * pSc[i * n + k];
+    }
+    jp.push(out);
+  }
+  const matrix = new Array<number>(dim * dim).fill(0);
+  for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) matrix[i * dim + j] = p.sig[i] * p.sig[j] * pSc[i * n + j];
+  for (let r = 0; r < jRows.length; r++) {
+    const a = n + r;
+    for (let i = 0; i < n; i++) {
+      const c = jp[r][i] * p.sig[i];
+      matrix[a * dim + i] = c;
+      matrix[i * dim + a] = c;
+    }
+    for (let t = 0; t <= r; t++) {
+      let c = 0;
+      for (let k = 0; k < n; k++) c += jp[r][k] * jRows[t][k];
+      matrix[a * dim + n + t] = c;
+      matrix[(n + t) * dim + a] = c;
+    }
+  }
+  const covariance: Covariance = { ids: covIds, matrix };
   // χ² = eᵀ C⁻¹ e in σ units
   let chiSquare = 0;
   if (p.corrChol) {
@@ -869,6 +965,8 @@ function solveCore(p: Problem, confidence: number): Core {
     redundant,
     observable,
     unobservable,
+    veFull,
+    covariance,
   };
 }
 
@@ -894,6 +992,32 @@ function constraintTests(p: Problem, core: Core): Record<string, number> {
   return out;
 }
 
+/** Correlation of a and b in a covariance (null where either is absent or has no variance). */
+export function correlationIn(cov: Covariance, a: string, b: string): number | null {
+  const i = cov.ids.indexOf(a);
+  const j = cov.ids.indexOf(b);
+  const n = cov.ids.length;
+  if (i < 0 || j < 0) return null;
+  const d = Math.sqrt(cov.matrix[i * n + i] * cov.matrix[j * n + j]);
+  return d > 0 ? cov.matrix[i * n + j] / d : null;
+}
+
+function correlationOf(ve: Float64Array, n: number, i: number, j: number): number {
+  const d = Math.sqrt(ve[i * n + i] * ve[j * n + j]);
+  return d > 0 ? ve[i * n + j] / d : 0;
+}
+
+/** The measurement at index i and the redundant ones whose corrections correlate with its by |ρ| ≥ GROUP_CORRELATION. */
+function groupOf(core: Core, i: number): string[] {
+  const n = core.p.mIds.length;
+  const out = [core.p.mIds[i]];
+  for (let j = 0; j < n; j++) {
+    if (j === i || core.zByIndex[j] === null) continue;
+    if (Math.abs(correlationOf(core.veFull, n, i, j)) >= GROUP_CORRELATION) out.push(core.p.mIds[j]);
+  }
+  return out;
+}
+
 /** Weighted least-squares reconciliation with global, per-measurement and per-constraint tests and serial elimination. */
 export function reconcile(input: ReconcileInput): ReconcileResult {
   const v = validate(input);
@@ -907,6 +1031,9 @@ export function reconcile(input: ReconcileInput): ReconcileResult {
   const removed = new Map<string, number>();
   let current = main;
   let eliminationError: ReconcileResult['eliminationError'];
+  const suspectGroups: string[][] = [];
+  /** each suspect's signed test value when it was eliminated: −correction/σ(correction) */
+  const eliminatedU: Record<string, number> = {};
   while (!current.passed && current.dof >= 2) {
     const cp = current.p;
     let best = -1;
@@ -923,9 +1050,11 @@ export function reconcile(input: ReconcileInput): ReconcileResult {
       const eb = Math.abs(current.corrections[cp.mIds[best]]) / cp.sig[best];
       if ((!tie && zi > zb) || (tie && ei > eb)) best = i;
     }
-    if (best < 0) break;
+    if (best < 0 || !(current.zByIndex[best]! > zCritical)) break;
     const id = cp.mIds[best];
     suspects.push(id);
+    suspectGroups.push(groupOf(current, best));
+    eliminatedU[id] = (current.corrections[id] > 0 ? -1 : 1) * current.zByIndex[best]!;
     removed.set(id, current.values[id]);
     try {
       current = solveCore(buildProblem(v, removed), confidence);
@@ -933,10 +1062,14 @@ export function reconcile(input: ReconcileInput): ReconcileResult {
       if (!(e instanceof ReconcileError)) throw e;
       eliminationError = { code: e.code, message: e.message };
       suspects.pop();
+      suspectGroups.pop();
       removed.delete(id);
       break;
     }
   }
+  const nMain = main.p.mIds.length;
+  const veSi = new Array<number>(nMain * nMain);
+  for (let i = 0; i < nMain; i++) for (let j = 0; j < nMain; j++) veSi[i * nMain + j] = main.p.sig[i] * main.p.sig[j] * main.veFull[i * nMain + j];
   const result: ReconcileResult = {
     values: main.values,
     sigmas: main.sigmas,
@@ -949,9 +1082,15 @@ export function reconcile(input: ReconcileInput): ReconcileResult {
     passed: main.passed,
     constraintTests: tests,
     suspects,
+    suspectGroups,
+    eliminatedU,
+    correctionCovariance: { ids: [...main.p.mIds], matrix: veSi },
+    covariance: main.covariance,
     final: {
       values: current.values,
       sigmas: current.sigmas,
+      corrections: current.corrections,
+      z: current.z,
       chiSquare: current.chiSquare,
       dof: current.dof,
       critical: current.critical,

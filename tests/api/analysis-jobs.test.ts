@@ -116,17 +116,17 @@ describe('runAnalysisJob', () => {
   });
 
   test('a re-take changes the input: a newer analysis becomes current, the older one stays stored; the same input again stores nothing', async () => {
-    const r = await pushRound(w, { bias: { 'TI-102B': 10 } });
+    const r = await pushRound(w, { bias: { 'TI-403B': 10 } });
     const first = await runAnalysisJob(deps, r.roundId);
     expect(first.status).toBe('stored');
     const a1 = (await api(w, 'planner').get(`${base()}/rounds/${r.roundId}/analysis`)).body as RoundAnalysisResponse;
-    expect(a1.findings.find((f) => f.kind === 'gross-error')?.instrumentTags).toEqual(['TI-102B']);
-    expect(a1.reconciliation.suspects).toEqual(['TI-102B']);
+    expect(a1.findings.find((f) => f.kind === 'gross-error')?.instrumentTags).toEqual(['TI-403B']);
+    expect(a1.reconciliation.suspects).toEqual(['TI-403B']);
 
-    // the technician re-reads TI-102B: a new reading superseding the wrong one
+    // the technician re-reads TI-403B: a new reading superseding the wrong one
     const fixed = designRound(w, { roundId: r.roundId });
-    const reread = fixed.body.readings.find((x) => x.instrumentId === w.inst['TI-102B'])!;
-    await push(w, { ...fixed.body, rounds: [], readings: [{ ...reread, supersedes: r.readingIds['TI-102B'] }] });
+    const reread = fixed.body.readings.find((x) => x.instrumentId === w.inst['TI-403B'])!;
+    await push(w, { ...fixed.body, rounds: [], readings: [{ ...reread, supersedes: r.readingIds['TI-403B'] }] });
     const second = await runAnalysisJob(deps, r.roundId);
     expect(second.status).toBe('stored');
     const a2 = (await api(w, 'planner').get(`${base()}/rounds/${r.roundId}/analysis`)).body as RoundAnalysisResponse;
@@ -139,7 +139,7 @@ describe('runAnalysisJob', () => {
     expect(await count(`SELECT count(*)::int AS n FROM analysis_instruments WHERE round_id = $1 AND is_current AND analysis_id <> $2`, [r.roundId, a2.id])).toBe(0);
     expect(await runAnalysisJob(deps, r.roundId)).toMatchObject({ status: 'unchanged', analysisId: a2.id });
     // the work order the first reading opened keeps its evidence (a planner cancels it)
-    expect(await openOrders('TI-102B')).toBe(1);
+    expect(await openOrders('TI-403B')).toBe(1);
   });
 
   test('a failing notifier never fails the analysis: it is logged after the commit', async () => {
@@ -168,19 +168,19 @@ describe('on pg-boss', () => {
       },
     });
     forward = worker;
-    const r = await pushRound(w, { bias: { 'TI-102A': 10 } });
+    const r = await pushRound(w, { bias: { 'TI-203': 10 } });
     const job = await until('the first attempt to fail', async () => {
       const j = await jobOf(r.roundId);
       return j && (j.state === 'retry' || j.state === 'completed') ? j : null;
     });
     expect(job.state).toBe('retry');
     expect(await analyses(r.roundId)).toBe(0);
-    expect(await openOrders('TI-102A')).toBe(0);
+    expect(await openOrders('TI-203')).toBe(0);
     await until('the analysis', () => isAnalysed(r.roundId));
     const done = await until('the job to complete', async () => ((await jobOf(r.roundId))?.state === 'completed' ? jobOf(r.roundId) : null));
     expect(done.retry_count).toBe(1);
     expect(await analyses(r.roundId)).toBe(1);
-    expect(await openOrders('TI-102A')).toBe(1);
+    expect(await openOrders('TI-203')).toBe(1);
     forward = null;
     await worker.stop();
   });

@@ -128,7 +128,7 @@ describe('shift digest (fixture findings)', () => {
   const morning = zonedTime(2026, 11, 30, 6, 0, tz);
   const findings: DigestFinding[] = [
     { roundId: 'r1', routeName: 'Boiler house', at: zonedTime(2026, 11, 30, 7, 10, tz), kind: 'saturation-mismatch', severity: 2, message: 'At the deaerator outlet TI-301 reads 148.9 °C …', instrumentTags: ['TI-301', 'PI-301'] },
-    { roundId: 'r2', routeName: 'Condenser and cooling water', at: zonedTime(2026, 11, 30, 8, 30, tz), kind: 'gross-error', severity: 3, message: 'PI-402 reads 1.2 kPa below what the condenser balances allow.', instrumentTags: ['PI-402'] },
+    { roundId: 'r2', routeName: 'Condenser and cooling water', at: zonedTime(2026, 11, 30, 8, 30, tz), kind: 'gross-error', severity: 1, message: 'PI-402 reads 1.2 kPa below what the condenser balances allow.', instrumentTags: ['PI-402'] },
     { roundId: 'r3', routeName: 'Boiler house', at: zonedTime(2026, 11, 30, 9, 5, tz), kind: 'saturation-mismatch', severity: 2, message: 'At the deaerator outlet TI-301 reads 149.0 °C …', instrumentTags: ['PI-301', 'TI-301'] },
   ];
   const source = (): NotifierSource => ({ ...sqlNotifierSource(ds), findings: async (_s, start) => (start.getTime() === morning.getTime() ? findings : []) });
@@ -162,7 +162,7 @@ describe('shift digest (fixture findings)', () => {
 });
 
 test('end to end: analysed rounds open priority-1 work orders, planners and engineers are told, the fake receives it all', async () => {
-  // yesterday's shifts, PI-302 typed as bar(a) on every boiler-house round (a gross error at the deaerator: severity 3)
+  // yesterday's shifts, PI-302 typed as bar(a) on every boiler-house round (a gross error at the deaerator: severity 1, urgent)
   const far = 10_000;
   const seeded = await seedHistory(ds, {
     days: 1,

@@ -78,9 +78,9 @@ test('analysed rounds, newest first, with route, unit, times, finding counts by 
     const rows = (await w.db.dataSource.query(`SELECT "severity" FROM "findings" WHERE "analysis_id" = $1`, [r.analysisId])) as { severity: number }[];
     expect(r.findings).toEqual({
       total: rows.length,
-      urgent: rows.filter((x) => x.severity === 3).length,
+      urgent: rows.filter((x) => x.severity === 1).length,
       attend: rows.filter((x) => x.severity === 2).length,
-      note: rows.filter((x) => x.severity === 1).length,
+      note: rows.filter((x) => x.severity === 3).length,
     });
   }
   // the biased round has findings naming TI-102A; the planner sees the same list

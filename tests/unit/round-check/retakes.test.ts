@@ -40,7 +40,10 @@ describe('the re-take list', () => {
     expect(r.clean).toBe(false);
     expect(r.retakes.map((i) => i.tag)).toEqual(['TI-206']);
     expect(r.retakes[0]).toMatchObject({ stop: 2, stopName: 'LP extraction and LP heater', readingId: th.readingIds['TI-206'], kind: 'gross-error', dismissed: null });
-    expect(r.retakes[0].line).toBe('Stop 3, LP extraction and LP heater: TI-206 — reads about 6 K high against the LP feedwater heater and deaerator balances');
+    // TI-206's corrections correlate with FI-202's, TI-302's and PI-501's by |ρ| ≥ 0.95 (shared/reconcile GROUP_CORRELATION): the group is said
+    expect(r.retakes[0].line).toBe(
+      'Stop 3, LP extraction and LP heater: TI-206 — reads about 6 K high against the LP feedwater heater and deaerator balances (or FI-202, TI-302 and PI-501: the balances cannot tell them apart)',
+    );
     expect(r.suspects.map((s) => s.tag)).toEqual(['TI-206']);
     const s = r.suspects[0];
     // the estimate lies within its 2σ spread of the design value (the design point closes every balance)
@@ -62,25 +65,33 @@ describe('the re-take list', () => {
     const cw = await walk(d, 'condenser-cooling-water', { ...typed, 'TI-403A': typed['TI-403A'] + 6, 'TI-401': typed['TI-401'] + 6 });
     const r = await check(d, cw.roundId);
     expect(r.suspects.map((s) => s.tag).sort()).toEqual(['TI-401', 'TI-403A']);
+    // PI-402 and TI-401 are one group (the condenser's saturation holds them together, |ρ| ≥ 0.95): both are re-taken
     expect(r.retakes.map((i) => [i.stop, i.tag])).toEqual([
+      [0, 'PI-402'],
       [0, 'TI-401'],
       [3, 'TI-403A'],
     ]);
-    // the twin and the pressure gauges the plain checks also named are not sent back: the balances cleared them
+    expect(r.retakes[0].line).toMatch(/PI-402 — cannot be told apart from TI-401 by the balances: re-take both$/);
+    // the twin is not sent back: the balances cleared it
     expect(r.retakes.map((i) => i.tag)).not.toContain('TI-403B');
-    expect(r.retakes.map((i) => i.tag)).not.toContain('PI-402');
   });
 
   test('a flagged instrument of another round is listed apart, without a stop on this route', async () => {
     const d = await demoDevice();
     const typed = designTyped();
     const bh = await walk(d, 'boiler-house', { ...typed, 'TI-302': typed['TI-302'] + 10 }, { finish: true });
-    await walk(d, 'condenser-cooling-water', typed, { finish: true });
+    const cw = await walk(d, 'condenser-cooling-water', typed, { finish: true });
     const th = await walk(d, 'turbine-hall', typed);
     const r = await check(d, th.roundId);
-    expect(r.retakes).toEqual([]);
-    expect(r.elsewhere.map((i) => [i.tag, i.roundId, i.stop, i.routeName])).toEqual([['TI-302', bh.roundId, null, 'Boiler house']]);
-    expect(r.elsewhere[0].line).toMatch(/^TI-302 \(Boiler house round\) — reads about 10 K high against the deaerator balance$/);
+    // TI-206 on this route is in TI-302's group (|ρ| ≥ 0.95): it is re-taken too, saying why
+    expect(r.retakes.map((i) => [i.tag, i.line])).toEqual([['TI-206', 'Stop 3, LP extraction and LP heater: TI-206 — cannot be told apart from TI-302 by the balances: re-take both']]);
+    // the rest of the group, read on other rounds, is listed apart, TI-302 first
+    expect(r.elsewhere.map((i) => [i.tag, i.roundId, i.stop, i.routeName])).toEqual([
+      ['TI-302', bh.roundId, null, 'Boiler house'],
+      ['FI-202', bh.roundId, null, 'Boiler house'],
+      ['PI-501', cw.roundId, null, 'Condenser and cooling water'],
+    ]);
+    expect(r.elsewhere[0].line).toMatch(/^TI-302 \(Boiler house round\) — reads about 10 K high against the deaerator balance \(or FI-202, TI-206 and PI-501: the balances cannot tell them apart\)$/);
   });
 
   test('a saturated point read 6 K hot: the estimate is the IAPWS-IF97 saturation temperature at the reconciled pressure (python3-iapws)', async () => {
