@@ -522,15 +522,15 @@ class Border {
     for (let i = 0; i < n; i++) {
       for (const t of [0.25, 0.5, 0.75]) {
         const p = Math.exp(this.lnLo + (i + t) * this.step);
-        err = Math.max(err, Math.abs(this.at(p) - fn(p)));
+        err = Math.max(err, Math.abs(this.at(Math.log(p)) - fn(p)));
       }
       scale = Math.max(scale, Math.abs(this.y[i]));
     }
     this.margin = 4 * err + 1e-9 * scale;
   }
 
-  private at(p: number): number {
-    let u = (Math.log(p) - this.lnLo) / this.step;
+  private at(lnp: number): number {
+    let u = (lnp - this.lnLo) / this.step;
     const last = this.y.length - 1;
     if (u < 0) u = 0;
     else if (u > last) u = last;
@@ -539,10 +539,10 @@ class Border {
     return this.y[i] + t * (this.y[i + 1] - this.y[i]);
   }
 
-  /** +1 if y is surely above the border at p, −1 surely below, 0 if it must be evaluated. */
-  side(p: number, y: number): -1 | 0 | 1 {
+  /** +1 if y is surely above the border at p, −1 surely below, 0 if it must be evaluated; lnp = ln(p/Pa). */
+  side(p: number, lnp: number, y: number): -1 | 0 | 1 {
     if (p < this.pLo || p > this.pHi) return 0;
-    const d = y - this.at(p);
+    const d = y - this.at(lnp);
     return d > this.margin ? 1 : d < -this.margin ? -1 : 0;
   }
 }
@@ -602,9 +602,9 @@ function inputName(kind: 0 | 1): 'h' | 's' {
  * Region 2 or 5 above the saturation line / B23, given y ≥ the region-2 lower border. T0 replaces
  * the backward equation as the region-2 start where that is not valid (below 611.213 Pa).
  */
-function solveVapour(p: number, y: number, kind: 0 | 1, T0?: number): SteamState {
+function solveVapour(p: number, lnp: number, y: number, kind: 0 | 1, T0?: number): SteamState {
   const b = BORDERS[kind];
-  if (b.b25.side(p, y) >= 0) {
+  if (b.b25.side(p, lnp, y) >= 0) {
     const y25 = yGibbs(2, p, T_MAX_2, kind);
     // region 2 up to its 1073.15 K state, round-off included (a region-2 state a few ulps below
     // 1073.15 K stays region 2); beyond it region 5, or above 50 MPa the end of the range
@@ -615,7 +615,7 @@ function solveVapour(p: number, y: number, kind: 0 | 1, T0?: number): SteamState
       // start region 5 from the 1073.15 K border: g holds region 2 there
       const dy = dyFromGibbs(2, T_MAX_2, kind);
       const T5 = kind === 0 ? T_MAX_2 + (y - y25) / dy : T_MAX_2 * Math.exp((y - y25) / (dy * T_MAX_2));
-      if (b.top.side(p, y) >= 0) {
+      if (b.top.side(p, lnp, y) >= 0) {
         const yTop = yGibbs(5, p, T_MAX_5, kind);
         if (y > yTop + limitSlack(kind, yTop, T_MAX_5)) {
           throw rangeError(inputName(kind), y, yTop, 'above', 'the IF97 limit', `at p = ${formatQuantity('p', p)} (2273.15 K)`);
@@ -664,8 +664,9 @@ function solvePY(p: number, y: number, kind: 0 | 1): SteamState {
   checkPressure(p);
   requireFinite(inputName(kind), y);
   const b = BORDERS[kind];
+  const lnp = Math.log(p);
   // bottom of the range: 273.15 K (liquid, or vapour below p_sat(273.15 K))
-  if (p < P_SAT_MIN || b.bottom.side(p, y) <= 0) {
+  if (p < P_SAT_MIN || b.bottom.side(p, lnp, y) <= 0) {
     const yMin = yGibbs(p >= P_SAT_MIN ? 1 : 2, p, T_MIN, kind); // leaves g at (p, 273.15 K)
     if (y < yMin - limitSlack(kind, yMin, T_MIN)) {
       throw rangeError(inputName(kind), y, yMin, 'below', 'the IF97 limit', `at p = ${formatQuantity('p', p)} (273.15 K)`);
@@ -675,28 +676,28 @@ function solvePY(p: number, y: number, kind: 0 | 1): SteamState {
       // here, so start from the 273.15 K state with a constant-cp step
       const dy = dyFromGibbs(2, T_MIN, kind);
       const T0 = kind === 0 ? T_MIN + (y - yMin) / dy : T_MIN * Math.exp((y - yMin) / (dy * T_MIN));
-      return solveVapour(p, y, kind, T0);
+      return solveVapour(p, lnp, y, kind, T0);
     }
   }
 
   if (p <= P_SAT_623) {
-    if (b.vapour.side(p, y) > 0) return solveVapour(p, y, kind);
-    if (b.liquid.side(p, y) < 0) return solveLiquid(p, y, kind);
+    if (b.vapour.side(p, lnp, y) > 0) return solveVapour(p, lnp, y, kind);
+    if (b.liquid.side(p, lnp, y) < 0) return solveLiquid(p, y, kind);
     const T = tsatEq31(p);
     saturate(p, T);
     const yL = kind === 0 ? sat.hL : sat.sL;
     const yV = kind === 0 ? sat.hV : sat.sV;
     if (y <= yL) return solveLiquid(p, y, kind);
-    if (y >= yV) return solveVapour(p, y, kind);
+    if (y >= yV) return solveVapour(p, lnp, y, kind);
     return twoPhase(p, T, (y - yL) / (yV - yL));
   }
 
   // p > p_sat(623.15 K): region 1 up to 623.15 K, region 3 up to B23, then region 2 (and 5)
   // (the border states with their round-off: a state a few ulps inside region 1 or 2 stays there)
-  const s13 = b.b13.side(p, y);
+  const s13 = b.b13.side(p, lnp, y);
   if (s13 < 0 || (s13 === 0 && y <= yBorder(1, p, T_13, kind, 1))) return solveLiquid(p, y, kind);
-  const s23 = b.b23.side(p, y);
-  if (s23 > 0 || (s23 === 0 && y >= yBorder(2, p, b23T(p), kind, -1))) return solveVapour(p, y, kind);
+  const s23 = b.b23.side(p, lnp, y);
+  if (s23 > 0 || (s23 === 0 && y >= yBorder(2, p, b23T(p), kind, -1))) return solveVapour(p, lnp, y, kind);
   let Ts = NaN;
   let vapourSide = false;
   if (p < P_CRIT && mayBeWet3(p, y, kind)) {
