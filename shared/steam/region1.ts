@@ -6,8 +6,6 @@ import * as constants from './constants';
 import * as powerSum from './power-sum';
 import * as sums from './sums.generated';
 
-// Local bindings of the imported names the hot paths use: some module loaders (tsx among them)
-// turn each use of an imported name into a getter call, which inner loops should not pay for.
 const { REGION1_P_STAR, REGION1_T_STAR } = constants;
 const { FX, FXY } = powerSum;
 const { region1GibbsSum, region1TPhSum, region1TPsSum } = sums;

@@ -8,8 +8,6 @@ import * as powerSum from './power-sum';
 import { B2BC_N } from './region2.coefficients';
 import * as sums from './sums.generated';
 
-// Local bindings of the imported names the hot paths use: some module loaders (tsx among them)
-// turn each use of an imported name into a getter call, which inner loops should not pay for.
 const { REGION2_P_STAR, REGION2_T_STAR } = constants;
 const { F, FX, FXX, FY, FYY, derivVector } = powerSum;
 const { region2IdealSum, region2ResidualSum, region2aTPhSum, region2bTPhSum, region2cTPhSum, region2aTPsSum, region2bTPsSum, region2cTPsSum } = sums;

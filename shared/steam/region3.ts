@@ -9,8 +9,6 @@ import * as powerSum from './power-sum';
 import { H3AB_N, REGION3_N1, REGION3_PSAT_H, REGION3_PSAT_S } from './region3.coefficients';
 import * as sums from './sums.generated';
 
-// Local bindings of the imported names the hot paths use: some module loaders (tsx among them)
-// turn each use of an imported name into a getter call, which inner loops should not pay for.
 const { RHO_CRIT, T_CRIT } = constants;
 const { F, FX, FXX, PowerSum } = powerSum;
 const N1 = REGION3_N1;

@@ -6,8 +6,6 @@ import * as constants from './constants';
 import * as powerSum from './power-sum';
 import * as sums from './sums.generated';
 
-// Local bindings of the imported names the hot paths use: some module loaders (tsx among them)
-// turn each use of an imported name into a getter call, which inner loops should not pay for.
 const { REGION5_P_STAR, REGION5_T_STAR } = constants;
 const { F, FX, FXX, FY, FYY, derivVector } = powerSum;
 const { region5IdealSum, region5ResidualSum } = sums;
