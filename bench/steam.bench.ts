@@ -327,4 +327,17 @@ export async function run(): Promise<void> {
   });
   console.log(`CoolProp ${cp.version as unknown as string} IF97 backend on the same points (those it takes); best of 3 passes`);
   console.table(cpRows);
+  for (const name of ['ph', 'ps'] as const) {
+    const byRegion: Record<number, number> = {};
+    const a = points[name];
+    for (const i of cp[name].refused) {
+      const r = (name === 'ph' ? ph : ps)(a[2 * i], a[2 * i + 1]).region;
+      byRegion[r] = (byRegion[r] ?? 0) + 1;
+    }
+    const list = Object.entries(byRegion).map(([r, n]) => `region ${r}: ${n}`);
+    if (list.length > 0) console.log(`CoolProp refused ${cp[name].refused.length} ${name} points (${list.join(', ')})`);
+  }
+  console.log(
+    "CoolProp's IF97 (p,h) and (p,s) give the backward equations' T unrefined ('max diff': within the releases' 25 mK consistency) and its region-3 (p,T) differs by up to SR5's v(p,T) tolerance; TypeScript refines every state on the basic equations (1e-9 of python3-iapws, tests/unit/steam/iapws-grid.test.ts).",
+  );
 }
