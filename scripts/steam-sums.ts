@@ -125,6 +125,13 @@ function powers(prefix: string, base: string, needed: Iterable<number>): string[
 
 const pow = (prefix: string, base: string, e: number): string => (e === 1 ? base : `${prefix}${e < 0 ? `m${-e}` : e}`);
 
+/** Signature and doc words of each kind of generated function. */
+const KIND_TEXT: Readonly<Record<SumKind, { sig: string; what: string }>> = {
+  derivs: { sig: '(x: number, y: number, out: Float64Array): void', what: 'fills out = [f, f_x, f_xx, f_y, f_yy, f_xy]' },
+  derivsY: { sig: '(y: number, out: Float64Array): void', what: 'fills out[0], out[3], out[4] = f, f_y, f_yy' },
+  value: { sig: '(x: number, y: number): number', what: 'returns Σ nᵢ x^Iᵢ y^Jᵢ' },
+};
+
 function generateOne(spec: SumSpec): string {
   const iScale = spec.iScale ?? 1;
   const rows = spec.rows.map((r) => ({ I: r.I * iScale, J: r.J, n: r.n })).sort((a, b) => a.I - b.I || a.J - b.J);
@@ -173,18 +180,7 @@ function generateOne(spec: SumSpec): string {
       body.push(`out[5] =\n${ind}(${fxy}) * ix * iy;`);
     }
   }
-  const sig =
-    spec.kind === 'derivs'
-      ? '(x: number, y: number, out: Float64Array): void'
-      : spec.kind === 'derivsY'
-        ? '(y: number, out: Float64Array): void'
-        : '(x: number, y: number): number';
-  const what =
-    spec.kind === 'derivs'
-      ? 'fills out = [f, f_x, f_xx, f_y, f_yy, f_xy]'
-      : spec.kind === 'derivsY'
-        ? 'fills out[0], out[3], out[4] = f, f_y, f_yy'
-        : 'returns Σ nᵢ x^Iᵢ y^Jᵢ';
+  const { sig, what } = KIND_TEXT[spec.kind];
   return `/** ${spec.doc}: ${spec.rows.length} terms; ${what}. */\nexport function ${spec.name}${sig} {\n${body
     .map((l) => l.replace(/^/gm, '  '))
     .join('\n')}\n}\n`;
