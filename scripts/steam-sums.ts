@@ -15,6 +15,7 @@ import { join } from 'node:path';
 import type { Term } from '../shared/steam/power-sum';
 import { REGION1_GIBBS, REGION1_T_PH, REGION1_T_PS } from '../shared/steam/region1.coefficients';
 import {
+  B2BC_N,
   REGION2A_T_PH,
   REGION2A_T_PS,
   REGION2B_T_PH,
@@ -25,6 +26,7 @@ import {
   REGION2_RESIDUAL,
 } from '../shared/steam/region2.coefficients';
 import {
+  H3AB_N,
   REGION3A_T_PH,
   REGION3A_T_PS,
   REGION3A_V_PH,
@@ -34,8 +36,12 @@ import {
   REGION3B_V_PH,
   REGION3B_V_PS,
   REGION3_HELMHOLTZ,
+  REGION3_N1,
+  REGION3_PSAT_H,
+  REGION3_PSAT_S,
 } from '../shared/steam/region3.coefficients';
 import { REGION5_IDEAL, REGION5_RESIDUAL } from '../shared/steam/region5.coefficients';
+
 
 /**
  * derivs: (x, y, out) fills out = [f, f_x, f_xx, f_y, f_yy, f_xy] like PowerSum.derivs;
@@ -76,6 +82,18 @@ export const SUMS: readonly SumSpec[] = [
   { name: 'region3bTPsSum', doc: 'SR3 Eq. (7)', rows: REGION3B_T_PS, kind: 'value' },
   { name: 'region3aVPsSum', doc: 'SR3 Eq. (8)', rows: REGION3A_V_PS, kind: 'value' },
   { name: 'region3bVPsSum', doc: 'SR3 Eq. (9)', rows: REGION3B_V_PS, kind: 'value' },
+  { name: 'region3PsatHSum', doc: 'SR3 Eq. (10)', rows: REGION3_PSAT_H, kind: 'value' },
+  { name: 'region3PsatSSum', doc: 'SR3 Eq. (11)', rows: REGION3_PSAT_S, kind: 'value' },
+];
+
+/**
+ * The few single coefficients the region modules need besides the sums, copied so that the app
+ * bundle does not carry the row tables (the tables are for this generator and the tests).
+ */
+const CONSTANTS: readonly { name: string; doc: string; value: number | readonly number[] }[] = [
+  { name: 'B2BC_N', doc: 'IF97 Table 19, Eqs. (20), (21): n1 … n5 of the 2b/2c boundary', value: B2BC_N },
+  { name: 'H3AB_N', doc: 'SR3 Eq. (1): n1 … n4 of the 3a/3b boundary h3ab(p)', value: H3AB_N },
+  { name: 'REGION3_N1', doc: 'IF97 Table 30: n1 of Eq. (28), the coefficient of ln δ', value: REGION3_N1 },
 ];
 
 /** A double as the shortest literal that reads back to it. */
@@ -196,6 +214,10 @@ export function generate(): string {
     ' * PowerSum.value / PowerSum.derivs of shared/steam/power-sum.ts on that table.',
     ' */',
     '',
+    ...CONSTANTS.map(
+      (c) =>
+        `/** ${c.doc}. */\nexport const ${c.name}${typeof c.value === 'number' ? ` = ${lit(c.value)}` : `: readonly number[] = [${c.value.map(lit).join(', ')}]`};\n`,
+    ),
     SUMS.map(generateOne).join('\n'),
   ].join('\n');
 }

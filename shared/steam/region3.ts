@@ -6,17 +6,14 @@
  */
 import * as constants from './constants';
 import * as powerSum from './power-sum';
-import { H3AB_N, REGION3_N1, REGION3_PSAT_H, REGION3_PSAT_S } from './region3.coefficients';
 import * as sums from './sums.generated';
 
 const { RHO_CRIT, T_CRIT } = constants;
-const { F, FX, FXX, PowerSum } = powerSum;
-const N1 = REGION3_N1;
-const [H3AB_1, H3AB_2, H3AB_3, H3AB_4] = H3AB_N;
+const { F, FX, FXX } = powerSum;
+const N1 = sums.REGION3_N1;
+const [H3AB_1, H3AB_2, H3AB_3, H3AB_4] = sums.H3AB_N;
 
-const { region3HelmholtzSum, region3aTPhSum, region3bTPhSum, region3aVPhSum, region3bVPhSum, region3aTPsSum, region3bTPsSum, region3aVPsSum, region3bVPsSum } = sums;
-const PSAT_H = new PowerSum(REGION3_PSAT_H);
-const PSAT_S = new PowerSum(REGION3_PSAT_S);
+const { region3HelmholtzSum, region3aTPhSum, region3bTPhSum, region3aVPhSum, region3bVPhSum, region3aTPsSum, region3bTPsSum, region3aVPsSum, region3bVPsSum, region3PsatHSum, region3PsatSSum } = sums;
 
 /**
  * IF97 Eq. (28): φ(δ, τ) = n1 ln δ + Σ nᵢ δ^Iᵢ τ^Jᵢ with δ = ρ/322 kg/m³, τ = 647.096 K/T. Fills f
@@ -94,11 +91,11 @@ export function region3VPs(p: number, s: number): number {
 /** SR3 Eq. (10): saturation pressure on the region-3 boundary as a function of h, Pa (h'(623.15 K) ≤ h ≤ h''(623.15 K)). */
 export function p3satH(h: number): number {
   const eta = h / 2600e3;
-  return 22e6 * PSAT_H.value(eta - 1.02, eta - 0.608);
+  return 22e6 * region3PsatHSum(eta - 1.02, eta - 0.608);
 }
 
 /** SR3 Eq. (11): saturation pressure on the region-3 boundary as a function of s, Pa (s'(623.15 K) ≤ s ≤ s''(623.15 K)). */
 export function p3satS(s: number): number {
   const sigma = s / 5.2e3;
-  return 22e6 * PSAT_S.value(sigma - 1.03, sigma - 0.699);
+  return 22e6 * region3PsatSSum(sigma - 1.03, sigma - 0.699);
 }

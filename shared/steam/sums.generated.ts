@@ -5,6 +5,15 @@
  * PowerSum.value / PowerSum.derivs of shared/steam/power-sum.ts on that table.
  */
 
+/** IF97 Table 19, Eqs. (20), (21): n1 … n5 of the 2b/2c boundary. */
+export const B2BC_N: readonly number[] = [905.84278514723, -0.67955786399241, 0.00012809002730136, 2652.6571908428, 4.5257578905948];
+
+/** SR3 Eq. (1): n1 … n4 of the 3a/3b boundary h3ab(p). */
+export const H3AB_N: readonly number[] = [2014.64004206875, 3.74696550136983, -0.0219921901054187, 0.000087513168600995];
+
+/** IF97 Table 30: n1 of Eq. (28), the coefficient of ln δ. */
+export const REGION3_N1 = 1.0658070028513;
+
 /** IF97 Eq. (7), Table 2: γ of region 1, x = 7.1 − π, y = τ − 1.222: 34 terms; fills out = [f, f_x, f_xx, f_y, f_yy, f_xy]. */
 export function region1GibbsSum(x: number, y: number, out: Float64Array): void {
   const x2 = x * x;
@@ -2568,5 +2577,153 @@ export function region3bVPsSum(x: number, y: number): number {
       + a7
       + x * a8
       + x2 * a9
+    );
+}
+
+/** SR3 Eq. (10): 14 terms; returns Σ nᵢ x^Iᵢ y^Jᵢ. */
+export function region3PsatHSum(x: number, y: number): number {
+  const x2 = x * x;
+  const x3 = x * x2;
+  const x5 = x2 * x3;
+  const x4 = x2 * x2;
+  const x7 = x3 * x4;
+  const x8 = x4 * x4;
+  const x14 = x7 * x7;
+  const x10 = x5 * x5;
+  const x20 = x10 * x10;
+  const x6 = x3 * x3;
+  const x11 = x5 * x6;
+  const x22 = x11 * x11;
+  const x12 = x6 * x6;
+  const x24 = x12 * x12;
+  const x28 = x14 * x14;
+  const x9 = x4 * x5;
+  const x18 = x9 * x9;
+  const x36 = x18 * x18;
+  const y2 = y * y;
+  const y3 = y * y2;
+  const y4 = y2 * y2;
+  const y8 = y4 * y4;
+  const y16 = y8 * y8;
+  const y5 = y2 * y3;
+  const y9 = y4 * y5;
+  const y18 = y9 * y9;
+  const y6 = y3 * y3;
+  const y12 = y6 * y6;
+  const y24 = y12 * y12;
+  const y36 = y18 * y18;
+  // I = 0
+  const a0 =
+      0.600073641753024;
+  // I = 1
+  const a1 =
+      -9.36203654849857 * y
+      + 24.6590798594147 * y3
+      - 107.014222858224 * y4
+      - 91582131580576.8 * y36;
+  // I = 5
+  const a2 =
+      -8623.32011700662 * y3;
+  // I = 7
+  const a3 =
+      -23.5837344740032;
+  // I = 8
+  const a4 =
+      252304969384128000 * y24;
+  // I = 14
+  const a5 =
+      -3897187719977190000 * y16;
+  // I = 20
+  const a6 =
+      -3.33775713645296e+22 * y16;
+  // I = 22
+  const a7 =
+      35649946963.6328 * y3;
+  // I = 24
+  const a8 =
+      -1.48547544720641e+26 * y18;
+  // I = 28
+  const a9 =
+      3306115148387980000 * y8;
+  // I = 36
+  const a10 =
+      8.13641294467829e+37 * y24;
+  return (
+      a0
+      + x * a1
+      + x5 * a2
+      + x7 * a3
+      + x8 * a4
+      + x14 * a5
+      + x20 * a6
+      + x22 * a7
+      + x24 * a8
+      + x28 * a9
+      + x36 * a10
+    );
+}
+
+/** SR3 Eq. (11): 10 terms; returns Σ nᵢ x^Iᵢ y^Jᵢ. */
+export function region3PsatSSum(x: number, y: number): number {
+  const x2 = x * x;
+  const x4 = x2 * x2;
+  const x3 = x * x2;
+  const x6 = x3 * x3;
+  const x12 = x6 * x6;
+  const x8 = x4 * x4;
+  const x16 = x8 * x8;
+  const x24 = x12 * x12;
+  const x7 = x3 * x4;
+  const x14 = x7 * x7;
+  const x28 = x14 * x14;
+  const x32 = x16 * x16;
+  const y2 = y * y;
+  const y4 = y2 * y2;
+  const y3 = y * y2;
+  const y7 = y3 * y4;
+  const y5 = y2 * y3;
+  const y10 = y5 * y5;
+  const y14 = y7 * y7;
+  const y9 = y4 * y5;
+  const y18 = y9 * y9;
+  const y8 = y4 * y4;
+  const y16 = y8 * y8;
+  const y32 = y16 * y16;
+  const y36 = y18 * y18;
+  // I = 0
+  const a0 =
+      0.639767553612785;
+  // I = 1
+  const a1 =
+      -12.9727445396014 * y
+      - 2245951258484030 * y32;
+  // I = 4
+  const a2 =
+      1774667.41801846 * y7;
+  // I = 12
+  const a3 =
+      7170793495.71538 * y4
+      - 378829107169011000 * y14;
+  // I = 16
+  const a4 =
+      -9.55586736431328e+34 * y36;
+  // I = 24
+  const a5 =
+      1.87269814676188e+23 * y10;
+  // I = 28
+  const a6 =
+      119254746466.473;
+  // I = 32
+  const a7 =
+      1.10649277244882e+36 * y18;
+  return (
+      a0
+      + x * a1
+      + x4 * a2
+      + x12 * a3
+      + x16 * a4
+      + x24 * a5
+      + x28 * a6
+      + x32 * a7
     );
 }
