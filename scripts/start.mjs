@@ -16,11 +16,21 @@ import { localJwtSecret } from './secret.mjs';
 const ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '..');
 const t0 = Date.now();
 
+/** Seconds each step took, printed when the server is ready. */
+const steps = [];
+let stepStart = t0;
+function stepDone(name) {
+  const now = Date.now();
+  steps.push(`${name} ${((now - stepStart) / 1000).toFixed(1)} s`);
+  stepStart = now;
+}
 
 async function main() {
   ensureInstall();
+  stepDone('install');
   const { startCluster } = await import('./pg.mjs');
   const pg = await startCluster({ test: false });
+  stepDone('PostgreSQL');
   const env = {
     ...process.env,
     NODE_ENV: 'production',
@@ -35,15 +45,20 @@ async function main() {
   const tsx = join(ROOT, 'node_modules', '.bin', 'tsx');
   console.error('[start] migrating and loading the demo site when empty…');
   execFileSync(tsx, ['server/cli/migrate.ts'], { cwd: ROOT, env, stdio: 'inherit' });
+  stepDone('migrate');
   execFileSync(tsx, ['server/cli/seed.ts'], { cwd: ROOT, env, stdio: 'inherit' });
+  stepDone('seed');
   const { buildWeb } = await import('./build-web.mjs');
   await buildWeb();
+  stepDone('web export');
   const server = spawn(tsx, ['server/main.ts'], { cwd: ROOT, env, stdio: ['ignore', 'pipe', 'inherit'] });
   let announced = false;
   server.stdout.on('data', async (chunk) => {
     process.stdout.write(chunk);
     if (!announced && /listening|http:\/\//i.test(String(chunk))) {
       announced = true;
+      stepDone('server');
+      console.error(`[start] steps: ${steps.join(', ')}`);
       const { demoLoginsText } = await import('./demo-logins.mjs');
       console.log(`\nTrueround is ready at http://${env.HOST}:${env.PORT}  (${((Date.now() - t0) / 1000).toFixed(0)} s from npm start)\n`);
       console.log(demoLoginsText());

@@ -4,16 +4,11 @@
  */
 import * as constants from './constants';
 import * as powerSum from './power-sum';
-import { REGION1_GIBBS, REGION1_T_PH, REGION1_T_PS } from './region1.coefficients';
+import * as sums from './sums.generated';
 
-
-// Local bindings of the imported names the hot paths use (why: shared/steam/index.ts).
 const { REGION1_P_STAR, REGION1_T_STAR } = constants;
-const { FX, FXY, PowerSum } = powerSum;
-
-const GIBBS = new PowerSum(REGION1_GIBBS);
-const T_PH = new PowerSum(REGION1_T_PH);
-const T_PS = new PowerSum(REGION1_T_PS);
+const { FX, FXY } = powerSum;
+const { region1GibbsSum, region1TPhSum, region1TPsSum } = sums;
 
 /**
  * IF97 Eq. (7): γ(π, τ) with π = p/16.53 MPa, τ = 1386 K/T. Fills g with
@@ -22,7 +17,7 @@ const T_PS = new PowerSum(REGION1_T_PS);
 export function region1Gibbs(p: number, T: number, g: Float64Array): void {
   const pi = p / REGION1_P_STAR;
   const tau = REGION1_T_STAR / T;
-  GIBBS.derivs(7.1 - pi, tau - 1.222, g);
+  region1GibbsSum(7.1 - pi, tau - 1.222, g);
   // d/dπ = −d/d(7.1 − π)
   g[FX] = -g[FX];
   g[FXY] = -g[FXY];
@@ -30,10 +25,10 @@ export function region1Gibbs(p: number, T: number, g: Float64Array): void {
 
 /** IF97 Eq. (11): backward T(p, h) in region 1; θ = Σ nᵢ π^Iᵢ (η + 1)^Jᵢ, π = p/1 MPa, η = h/2500 kJ/kg. */
 export function region1TPh(p: number, h: number): number {
-  return T_PH.value(p / 1e6, h / 2500e3 + 1);
+  return region1TPhSum(p / 1e6, h / 2500e3 + 1);
 }
 
 /** IF97 Eq. (13): backward T(p, s) in region 1; θ = Σ nᵢ π^Iᵢ (σ + 2)^Jᵢ, π = p/1 MPa, σ = s/1 kJ/(kg·K). */
 export function region1TPs(p: number, s: number): number {
-  return T_PS.value(p / 1e6, s / 1e3 + 2);
+  return region1TPsSum(p / 1e6, s / 1e3 + 2);
 }

@@ -5,32 +5,13 @@
  */
 import * as constants from './constants';
 import * as powerSum from './power-sum';
-import {
-  B2BC_N,
-  REGION2A_T_PH,
-  REGION2A_T_PS,
-  REGION2B_T_PH,
-  REGION2B_T_PS,
-  REGION2C_T_PH,
-  REGION2C_T_PS,
-  REGION2_IDEAL,
-  REGION2_RESIDUAL,
-} from './region2.coefficients';
+import * as sums from './sums.generated';
 
-
-// Local bindings of the imported names the hot paths use (why: shared/steam/index.ts).
 const { REGION2_P_STAR, REGION2_T_STAR } = constants;
-const { F, FX, FXX, FY, FYY, PowerSum, derivVector } = powerSum;
-const [B2BC_1, B2BC_2, B2BC_3, B2BC_4, B2BC_5] = B2BC_N;
+const { F, FX, FXX, FY, FYY, derivVector } = powerSum;
+const { region2IdealSum, region2ResidualSum, region2aTPhSum, region2bTPhSum, region2cTPhSum, region2aTPsSum, region2bTPsSum, region2cTPsSum } = sums;
+const [B2BC_1, B2BC_2, B2BC_3, B2BC_4, B2BC_5] = sums.B2BC_N;
 
-const IDEAL = new PowerSum(REGION2_IDEAL);
-const RESIDUAL = new PowerSum(REGION2_RESIDUAL);
-const T2A_PH = new PowerSum(REGION2A_T_PH);
-const T2B_PH = new PowerSum(REGION2B_T_PH);
-const T2C_PH = new PowerSum(REGION2C_T_PH);
-const T2A_PS = new PowerSum(REGION2A_T_PS, 4); // I in quarters: pass π^(1/4)
-const T2B_PS = new PowerSum(REGION2B_T_PS);
-const T2C_PS = new PowerSum(REGION2C_T_PS);
 const ideal = derivVector();
 
 /**
@@ -40,8 +21,8 @@ const ideal = derivVector();
 export function region2Gibbs(p: number, T: number, g: Float64Array): void {
   const pi = p / REGION2_P_STAR;
   const tau = REGION2_T_STAR / T;
-  IDEAL.derivs(1, tau, ideal); // Eq. (16) without ln π
-  RESIDUAL.derivs(pi, tau - 0.5, g); // Eq. (17)
+  region2IdealSum(tau, ideal); // Eq. (16) without ln π
+  region2ResidualSum(pi, tau - 0.5, g); // Eq. (17)
   g[F] += Math.log(pi) + ideal[F];
   g[FX] += 1 / pi;
   g[FXX] -= 1 / (pi * pi);
@@ -69,15 +50,15 @@ export function b2bcH(p: number): number {
 
 /** IF97 Eq. (22): backward T(p, h), subregion 2a; π = p/1 MPa, η = h/2000 kJ/kg. */
 export function region2aTPh(p: number, h: number): number {
-  return T2A_PH.value(p / 1e6, h / 2000e3 - 2.1);
+  return region2aTPhSum(p / 1e6, h / 2000e3 - 2.1);
 }
 /** IF97 Eq. (23): backward T(p, h), subregion 2b. */
 export function region2bTPh(p: number, h: number): number {
-  return T2B_PH.value(p / 1e6 - 2, h / 2000e3 - 2.6);
+  return region2bTPhSum(p / 1e6 - 2, h / 2000e3 - 2.6);
 }
 /** IF97 Eq. (24): backward T(p, h), subregion 2c. */
 export function region2cTPh(p: number, h: number): number {
-  return T2C_PH.value(p / 1e6 + 25, h / 2000e3 - 1.8);
+  return region2cTPhSum(p / 1e6 + 25, h / 2000e3 - 1.8);
 }
 
 /** Subregion (a, b or c) that holds (p, h) for the backward equation T(p, h) (IF97 Sect. 6.3.1). */
@@ -101,15 +82,15 @@ export function region2TPh(p: number, h: number): number {
 
 /** IF97 Eq. (25): backward T(p, s), subregion 2a; π = p/1 MPa, σ = s/2 kJ/(kg·K). */
 export function region2aTPs(p: number, s: number): number {
-  return T2A_PS.value(Math.sqrt(Math.sqrt(p / 1e6)), s / 2e3 - 2);
+  return region2aTPsSum(Math.sqrt(Math.sqrt(p / 1e6)), s / 2e3 - 2);
 }
 /** IF97 Eq. (26): backward T(p, s), subregion 2b; σ = s/0.7853 kJ/(kg·K). */
 export function region2bTPs(p: number, s: number): number {
-  return T2B_PS.value(p / 1e6, 10 - s / 0.7853e3);
+  return region2bTPsSum(p / 1e6, 10 - s / 0.7853e3);
 }
 /** IF97 Eq. (27): backward T(p, s), subregion 2c; σ = s/2.9251 kJ/(kg·K). */
 export function region2cTPs(p: number, s: number): number {
-  return T2C_PS.value(p / 1e6, 2 - s / 2.9251e3);
+  return region2cTPsSum(p / 1e6, 2 - s / 2.9251e3);
 }
 
 /** Subregion for the backward equation T(p, s) (IF97 Sect. 6.3.2). */

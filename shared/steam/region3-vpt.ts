@@ -9,7 +9,6 @@ import { PowerSum } from './power-sum';
 import { VPT3_BOUNDARY_LOG, VPT3_BOUNDARY_POLY, VPT3_SUBREGIONS, type Vpt3Subregion } from './region3-vpt.coefficients';
 import * as region4 from './region4';
 
-// Local bindings of the imported names the hot paths use (why: shared/steam/index.ts).
 const { psatEq30, tsatEq31 } = region4;
 
 type PolyName = keyof typeof VPT3_BOUNDARY_POLY;

@@ -4,15 +4,12 @@
  */
 import * as constants from './constants';
 import * as powerSum from './power-sum';
-import { REGION5_IDEAL, REGION5_RESIDUAL } from './region5.coefficients';
+import * as sums from './sums.generated';
 
-
-// Local bindings of the imported names the hot paths use (why: shared/steam/index.ts).
 const { REGION5_P_STAR, REGION5_T_STAR } = constants;
-const { F, FX, FXX, FY, FYY, PowerSum, derivVector } = powerSum;
+const { F, FX, FXX, FY, FYY, derivVector } = powerSum;
+const { region5IdealSum, region5ResidualSum } = sums;
 
-const IDEAL = new PowerSum(REGION5_IDEAL);
-const RESIDUAL = new PowerSum(REGION5_RESIDUAL);
 const ideal = derivVector();
 
 /**
@@ -22,8 +19,8 @@ const ideal = derivVector();
 export function region5Gibbs(p: number, T: number, g: Float64Array): void {
   const pi = p / REGION5_P_STAR;
   const tau = REGION5_T_STAR / T;
-  IDEAL.derivs(1, tau, ideal); // Eq. (33) without ln π
-  RESIDUAL.derivs(pi, tau, g); // Eq. (34)
+  region5IdealSum(tau, ideal); // Eq. (33) without ln π
+  region5ResidualSum(pi, tau, g); // Eq. (34)
   g[F] += Math.log(pi) + ideal[F];
   g[FX] += 1 / pi;
   g[FXX] -= 1 / (pi * pi);

@@ -19,8 +19,7 @@ import * as region4 from './region4';
 import * as region5 from './region5';
 import type { SinglePhaseRegion, SteamPhase, SteamRegion, SteamState } from './types';
 
-// Local bindings of the imported names the hot paths use: some module loaders (tsx among them)
-// turn each use of an imported name into a getter call, which inner loops should not pay for.
+// Local bindings of the imported names the hot paths use (why: shared/steam/index.ts).
 const { b23P, b23T } = boundaries;
 const { P_CRIT, P_MAX, P_MAX_5, R, RHO_CRIT, T_13, T_CRIT, T_MAX_2, T_MAX_5, T_MIN } = constants;
 const { REGION1_P_STAR, REGION1_T_STAR, REGION2_P_STAR, REGION2_T_STAR, REGION5_P_STAR, REGION5_T_STAR } = constants;
@@ -33,6 +32,8 @@ const { psatEq30, tsatEq31 } = region4;
 const { region5Gibbs } = region5;
 
 type GibbsRegion = 1 | 2 | 5;
+/** Which property a (p, h) or (p, s) problem gives: specific enthalpy or specific entropy. */
+type HOrS = 'h' | 's';
 
 /** Lowest pressure of the saturation line: p_sat(273.15 K) by IF97 Eq. (30), ≈ 611.213 Pa. */
 export const P_SAT_MIN = psatEq30(T_MIN);
@@ -58,17 +59,17 @@ function tStar(region: GibbsRegion): number {
   return region === 1 ? REGION1_T_STAR : region === 2 ? REGION2_T_STAR : REGION5_T_STAR;
 }
 
-/** Enthalpy (kind 0, J/kg) or entropy (kind 1, J/(kg·K)) from the Gibbs scratch at T (IF97 Tables 3, 12, 39). */
-function yFromGibbs(region: GibbsRegion, T: number, kind: 0 | 1): number {
+/** Enthalpy (kind 'h', J/kg) or entropy (kind 's', J/(kg·K)) from the Gibbs scratch at T (IF97 Tables 3, 12, 39). */
+function yFromGibbs(region: GibbsRegion, T: number, kind: HOrS): number {
   const tau = tStar(region) / T;
-  return kind === 0 ? R * T * tau * g[FY] : R * (tau * g[FY] - g[F]);
+  return kind === 'h' ? R * T * tau * g[FY] : R * (tau * g[FY] - g[F]);
 }
 
 /** d(h)/dT = cp, d(s)/dT = cp/T at constant p, from the Gibbs scratch. */
-function dyFromGibbs(region: GibbsRegion, T: number, kind: 0 | 1): number {
+function dyFromGibbs(region: GibbsRegion, T: number, kind: HOrS): number {
   const tau = tStar(region) / T;
   const cp = -R * tau * tau * g[FYY];
-  return kind === 0 ? cp : cp / T;
+  return kind === 'h' ? cp : cp / T;
 }
 
 /** Specific volume from the Gibbs scratch, m³/kg. */
@@ -86,7 +87,7 @@ function s3FromScratch(T: number): number {
   return R * ((T_CRIT / T) * f3[FY] - f3[F]);
 }
 
-function yGibbs(region: GibbsRegion, p: number, T: number, kind: 0 | 1): number {
+function yGibbs(region: GibbsRegion, p: number, T: number, kind: HOrS): number {
   gibbs(region, p, T);
   return yFromGibbs(region, T, kind);
 }
@@ -256,10 +257,10 @@ function spinodal3(T: number, a: number, b: number): number {
 let solve3Stable = true;
 
 /**
- * Region 3 state of given p and h (kind 0) or s (kind 1): Newton steps in (ρ, T) on IF97
+ * Region 3 state of given p and h (kind 'h') or s (kind 's'): Newton steps in (ρ, T) on IF97
  * Eq. (28), from the SR3 backward values.
  */
-function solve3(p: number, y: number, kind: 0 | 1, rho0: number, T0: number): SteamState {
+function solve3(p: number, y: number, kind: HOrS, rho0: number, T0: number): SteamState {
   let rho = rho0;
   let T = T0;
   for (let it = 0; it < 100; it++) {
@@ -279,7 +280,7 @@ function solve3(p: number, y: number, kind: 0 | 1, rho0: number, T0: number): St
     let y3: number;
     let yRho: number;
     let yT: number;
-    if (kind === 0) {
+    if (kind === 'h') {
       y3 = RT * (tau * f3[FY] + dfd);
       yRho = (RT / rho) * (dtfdt + dfd + d * d * fdd);
       yT = R * (-tau * tau * ftt + dfd - dtfdt);
@@ -311,7 +312,7 @@ function solve3(p: number, y: number, kind: 0 | 1, rho0: number, T0: number): St
     T += dT;
   }
   throw new SolverError(
-    `no convergence in region 3 at p = ${formatQuantity('p', p)}, ${kind === 0 ? 'h' : 's'} = ${formatQuantity(kind === 0 ? 'h' : 's', y)}`,
+    `no convergence in region 3 at p = ${formatQuantity('p', p)}, ${kind} = ${formatQuantity(kind, y)}`,
   );
 }
 
@@ -344,12 +345,12 @@ function saturate(p: number, T: number): void {
   if (p <= P_SAT_623 && T <= T_13) {
     region1Gibbs(p, T, g);
     sat.vL = vFromGibbs(1, p, T);
-    sat.hL = yFromGibbs(1, T, 0);
-    sat.sL = yFromGibbs(1, T, 1);
+    sat.hL = yFromGibbs(1, T, 'h');
+    sat.sL = yFromGibbs(1, T, 's');
     region2Gibbs(p, T, g);
     sat.vV = vFromGibbs(2, p, T);
-    sat.hV = yFromGibbs(2, T, 0);
-    sat.sV = yFromGibbs(2, T, 1);
+    sat.hV = yFromGibbs(2, T, 'h');
+    sat.sV = yFromGibbs(2, T, 's');
     return;
   }
   const rhoL = density3(p, T, 1 / vpt3Subregion(vpt3SaturatedSubregion(p, false), p, T), 1);
@@ -474,7 +475,7 @@ const T_LOW: Readonly<Record<GibbsRegion, number>> = { 1: 260, 2: 260, 5: 1000 }
 const T_HIGH: Readonly<Record<GibbsRegion, number>> = { 1: 700, 2: 1150, 5: 2400 };
 
 /** Gibbs-region state of given p and h or s: Newton steps in T from T0. */
-function solveGibbs(region: GibbsRegion, p: number, y: number, kind: 0 | 1, T0: number): SteamState {
+function solveGibbs(region: GibbsRegion, p: number, y: number, kind: HOrS, T0: number): SteamState {
   let T = Number.isFinite(T0) ? Math.min(Math.max(T0, T_LOW[region]), T_HIGH[region]) : 0.5 * (T_LOW[region] + T_HIGH[region]);
   let last = Infinity;
   for (let it = 0; it < 100; it++) {
@@ -491,7 +492,7 @@ function solveGibbs(region: GibbsRegion, p: number, y: number, kind: 0 | 1, T0: 
     else if (T > T_HIGH[region]) T = T_HIGH[region];
   }
   throw new SolverError(
-    `no convergence in region ${region} at p = ${formatQuantity('p', p)}, ${kind === 0 ? 'h' : 's'} = ${formatQuantity(kind === 0 ? 'h' : 's', y)}`,
+    `no convergence in region ${region} at p = ${formatQuantity('p', p)}, ${kind} = ${formatQuantity(kind, y)}`,
   );
 }
 
@@ -522,15 +523,15 @@ class Border {
     for (let i = 0; i < n; i++) {
       for (const t of [0.25, 0.5, 0.75]) {
         const p = Math.exp(this.lnLo + (i + t) * this.step);
-        err = Math.max(err, Math.abs(this.at(p) - fn(p)));
+        err = Math.max(err, Math.abs(this.at(Math.log(p)) - fn(p)));
       }
       scale = Math.max(scale, Math.abs(this.y[i]));
     }
     this.margin = 4 * err + 1e-9 * scale;
   }
 
-  private at(p: number): number {
-    let u = (Math.log(p) - this.lnLo) / this.step;
+  private at(lnp: number): number {
+    let u = (lnp - this.lnLo) / this.step;
     const last = this.y.length - 1;
     if (u < 0) u = 0;
     else if (u > last) u = last;
@@ -539,10 +540,10 @@ class Border {
     return this.y[i] + t * (this.y[i + 1] - this.y[i]);
   }
 
-  /** +1 if y is surely above the border at p, −1 surely below, 0 if it must be evaluated. */
-  side(p: number, y: number): -1 | 0 | 1 {
+  /** +1 if y is surely above the border at p, −1 surely below, 0 if it must be evaluated; lnp = ln(p/Pa). */
+  side(p: number, lnp: number, y: number): -1 | 0 | 1 {
     if (p < this.pLo || p > this.pHi) return 0;
-    const d = y - this.at(p);
+    const d = y - this.at(lnp);
     return d > this.margin ? 1 : d < -this.margin ? -1 : 0;
   }
 }
@@ -564,7 +565,7 @@ interface Borders {
   top: Border;
 }
 
-function makeBorders(kind: 0 | 1): Borders {
+function makeBorders(kind: HOrS): Borders {
   return {
     bottom: new Border(P_SAT_MIN, P_MAX, (p) => yGibbs(1, p, T_MIN, kind)),
     liquid: new Border(P_SAT_MIN, P_SAT_623, (p) => yGibbs(1, p, tsatEq31(p), kind)),
@@ -576,7 +577,8 @@ function makeBorders(kind: 0 | 1): Borders {
   };
 }
 
-const BORDERS: readonly [Borders, Borders] = [makeBorders(0), makeBorders(1)];
+const BORDERS_H = makeBorders('h');
+const BORDERS_S = makeBorders('s');
 
 /**
  * How far (J/kg or J/(kg·K)) an h or s may lie beyond a limit of the range and still be taken:
@@ -584,62 +586,58 @@ const BORDERS: readonly [Borders, Borders] = [makeBorders(0), makeBorders(1)];
  * the range (273.15000000000003 K, what 32 °F becomes in double precision) could be refused by
  * ph or ps on its own h or s, whose last digits fall on the far side of the limit's.
  */
-function limitSlack(kind: 0 | 1, yLimit: number, T: number): number {
-  return 1e-12 * Math.max(Math.abs(yLimit), kind === 0 ? R * T : R);
+function limitSlack(kind: HOrS, yLimit: number, T: number): number {
+  return 1e-12 * Math.max(Math.abs(yLimit), kind === 'h' ? R * T : R);
 }
 
 /** h or s of a region at a border temperature, moved by its round-off (limitSlack) towards `side`. */
-function yBorder(region: GibbsRegion, p: number, T: number, kind: 0 | 1, side: 1 | -1): number {
+function yBorder(region: GibbsRegion, p: number, T: number, kind: HOrS, side: 1 | -1): number {
   const y = yGibbs(region, p, T, kind);
   return y + side * limitSlack(kind, y, T);
-}
-
-function inputName(kind: 0 | 1): 'h' | 's' {
-  return kind === 0 ? 'h' : 's';
 }
 
 /**
  * Region 2 or 5 above the saturation line / B23, given y ≥ the region-2 lower border. T0 replaces
  * the backward equation as the region-2 start where that is not valid (below 611.213 Pa).
  */
-function solveVapour(p: number, y: number, kind: 0 | 1, T0?: number): SteamState {
-  const b = BORDERS[kind];
-  if (b.b25.side(p, y) >= 0) {
+function solveVapour(p: number, lnp: number, y: number, kind: HOrS, T0?: number): SteamState {
+  const b = kind === 'h' ? BORDERS_H : BORDERS_S;
+  if (b.b25.side(p, lnp, y) >= 0) {
     const y25 = yGibbs(2, p, T_MAX_2, kind);
     // region 2 up to its 1073.15 K state, round-off included (a region-2 state a few ulps below
     // 1073.15 K stays region 2); beyond it region 5, or above 50 MPa the end of the range
     if (y > y25 + limitSlack(kind, y25, T_MAX_2)) {
       if (p > P_MAX_5) {
-        throw rangeError(inputName(kind), y, y25, 'above', 'the IF97 limit', `at p = ${formatQuantity('p', p)} (1073.15 K)`);
+        throw rangeError(kind, y, y25, 'above', 'the IF97 limit', `at p = ${formatQuantity('p', p)} (1073.15 K)`);
       }
       // start region 5 from the 1073.15 K border: g holds region 2 there
       const dy = dyFromGibbs(2, T_MAX_2, kind);
-      const T5 = kind === 0 ? T_MAX_2 + (y - y25) / dy : T_MAX_2 * Math.exp((y - y25) / (dy * T_MAX_2));
-      if (b.top.side(p, y) >= 0) {
+      const T5 = kind === 'h' ? T_MAX_2 + (y - y25) / dy : T_MAX_2 * Math.exp((y - y25) / (dy * T_MAX_2));
+      if (b.top.side(p, lnp, y) >= 0) {
         const yTop = yGibbs(5, p, T_MAX_5, kind);
         if (y > yTop + limitSlack(kind, yTop, T_MAX_5)) {
-          throw rangeError(inputName(kind), y, yTop, 'above', 'the IF97 limit', `at p = ${formatQuantity('p', p)} (2273.15 K)`);
+          throw rangeError(kind, y, yTop, 'above', 'the IF97 limit', `at p = ${formatQuantity('p', p)} (2273.15 K)`);
         }
       }
       return solveGibbs(5, p, y, kind, T5);
     }
   }
-  const start = T0 ?? (kind === 0 ? region2TPh(p, y) : region2TPs(p, y));
+  const start = T0 ?? (kind === 'h' ? region2TPh(p, y) : region2TPs(p, y));
   return solveGibbs(2, p, y, kind, start);
 }
 
-function solveLiquid(p: number, y: number, kind: 0 | 1): SteamState {
-  const T0 = kind === 0 ? region1TPh(p, y) : region1TPs(p, y);
+function solveLiquid(p: number, y: number, kind: HOrS): SteamState {
+  const T0 = kind === 'h' ? region1TPh(p, y) : region1TPs(p, y);
   return solveGibbs(1, p, y, kind, T0);
 }
 
 /** h and s of the wet region at 623.15 K (IF97 Eq. (30) with regions 1 and 2), widened by a margin. */
-const DOME3: readonly [readonly [number, number], readonly [number, number]] = (() => {
+const DOME3: Readonly<Record<HOrS, readonly [number, number]>> = (() => {
   saturate(P_SAT_623, T_13);
-  return [
-    [sat.hL - 5e3, sat.hV + 5e3],
-    [sat.sL - 10, sat.sV + 10],
-  ];
+  return {
+    h: [sat.hL - 5e3, sat.hV + 5e3],
+    s: [sat.sL - 10, sat.sV + 10],
+  };
 })();
 
 /**
@@ -648,10 +646,10 @@ const DOME3: readonly [readonly [number, number], readonly [number, number]] = (
  * equations stay within 1 kPa of the region-3 saturation line, measured). Spares the exact
  * saturated states in most of region 3.
  */
-function mayBeWet3(p: number, y: number, kind: 0 | 1): boolean {
-  const [lo, hi] = DOME3[kind];
-  if (y <= lo || y >= hi) return false;
-  return p < (kind === 0 ? p3satH(y) : p3satS(y)) + 5e4;
+function mayBeWet3(p: number, y: number, kind: HOrS): boolean {
+  const dome = DOME3[kind];
+  if (y <= dome[0] || y >= dome[1]) return false;
+  return p < (kind === 'h' ? p3satH(y) : p3satS(y)) + 5e4;
 }
 
 /**
@@ -660,55 +658,56 @@ function mayBeWet3(p: number, y: number, kind: 0 | 1): boolean {
  * inconsistencies there are up to ~0.1 kJ/kg), the border value decides: up to h1(p, 623.15 K)
  * region 1, from h2(p, T_B23(p)) region 2, up to h2(p, 1073.15 K) region 2.
  */
-function solvePY(p: number, y: number, kind: 0 | 1): SteamState {
+function solvePY(p: number, y: number, kind: HOrS): SteamState {
   checkPressure(p);
-  requireFinite(inputName(kind), y);
-  const b = BORDERS[kind];
+  requireFinite(kind, y);
+  const b = kind === 'h' ? BORDERS_H : BORDERS_S;
+  const lnp = Math.log(p);
   // bottom of the range: 273.15 K (liquid, or vapour below p_sat(273.15 K))
-  if (p < P_SAT_MIN || b.bottom.side(p, y) <= 0) {
+  if (p < P_SAT_MIN || b.bottom.side(p, lnp, y) <= 0) {
     const yMin = yGibbs(p >= P_SAT_MIN ? 1 : 2, p, T_MIN, kind); // leaves g at (p, 273.15 K)
     if (y < yMin - limitSlack(kind, yMin, T_MIN)) {
-      throw rangeError(inputName(kind), y, yMin, 'below', 'the IF97 limit', `at p = ${formatQuantity('p', p)} (273.15 K)`);
+      throw rangeError(kind, y, yMin, 'below', 'the IF97 limit', `at p = ${formatQuantity('p', p)} (273.15 K)`);
     }
     if (p < P_SAT_MIN) {
       // below p_sat(273.15 K) only vapour exists; the backward equations do not reach down
       // here, so start from the 273.15 K state with a constant-cp step
       const dy = dyFromGibbs(2, T_MIN, kind);
-      const T0 = kind === 0 ? T_MIN + (y - yMin) / dy : T_MIN * Math.exp((y - yMin) / (dy * T_MIN));
-      return solveVapour(p, y, kind, T0);
+      const T0 = kind === 'h' ? T_MIN + (y - yMin) / dy : T_MIN * Math.exp((y - yMin) / (dy * T_MIN));
+      return solveVapour(p, lnp, y, kind, T0);
     }
   }
 
   if (p <= P_SAT_623) {
-    if (b.vapour.side(p, y) > 0) return solveVapour(p, y, kind);
-    if (b.liquid.side(p, y) < 0) return solveLiquid(p, y, kind);
+    if (b.vapour.side(p, lnp, y) > 0) return solveVapour(p, lnp, y, kind);
+    if (b.liquid.side(p, lnp, y) < 0) return solveLiquid(p, y, kind);
     const T = tsatEq31(p);
     saturate(p, T);
-    const yL = kind === 0 ? sat.hL : sat.sL;
-    const yV = kind === 0 ? sat.hV : sat.sV;
+    const yL = kind === 'h' ? sat.hL : sat.sL;
+    const yV = kind === 'h' ? sat.hV : sat.sV;
     if (y <= yL) return solveLiquid(p, y, kind);
-    if (y >= yV) return solveVapour(p, y, kind);
+    if (y >= yV) return solveVapour(p, lnp, y, kind);
     return twoPhase(p, T, (y - yL) / (yV - yL));
   }
 
   // p > p_sat(623.15 K): region 1 up to 623.15 K, region 3 up to B23, then region 2 (and 5)
   // (the border states with their round-off: a state a few ulps inside region 1 or 2 stays there)
-  const s13 = b.b13.side(p, y);
+  const s13 = b.b13.side(p, lnp, y);
   if (s13 < 0 || (s13 === 0 && y <= yBorder(1, p, T_13, kind, 1))) return solveLiquid(p, y, kind);
-  const s23 = b.b23.side(p, y);
-  if (s23 > 0 || (s23 === 0 && y >= yBorder(2, p, b23T(p), kind, -1))) return solveVapour(p, y, kind);
+  const s23 = b.b23.side(p, lnp, y);
+  if (s23 > 0 || (s23 === 0 && y >= yBorder(2, p, b23T(p), kind, -1))) return solveVapour(p, lnp, y, kind);
   let Ts = NaN;
   let vapourSide = false;
   if (p < P_CRIT && mayBeWet3(p, y, kind)) {
     Ts = tsatEq31(p);
     saturate(p, Ts);
-    const yL = kind === 0 ? sat.hL : sat.sL;
-    const yV = kind === 0 ? sat.hV : sat.sV;
+    const yL = kind === 'h' ? sat.hL : sat.sL;
+    const yV = kind === 'h' ? sat.hV : sat.sV;
     if (y > yL && y < yV) return twoPhase(p, Ts, (y - yL) / (yV - yL));
     vapourSide = y >= yV;
   }
-  const T0 = kind === 0 ? region3TPh(p, y) : region3TPs(p, y);
-  const v0 = kind === 0 ? region3VPh(p, y) : region3VPs(p, y);
+  const T0 = kind === 'h' ? region3TPh(p, y) : region3TPs(p, y);
+  const v0 = kind === 'h' ? region3VPh(p, y) : region3VPs(p, y);
   const st = solve3(p, y, kind, 1 / v0, T0);
   if (solve3Stable || Number.isNaN(Ts)) return st;
   // Within a few kPa of the critical point Newton can land on the unstable part of an
@@ -721,10 +720,10 @@ function solvePY(p: number, y: number, kind: 0 | 1): SteamState {
  * T ≤ Ts): bisection in T, the density of each T from density3 on that branch. A slow but sure
  * fallback for the immediate neighbourhood of the critical point.
  */
-function solve3Branch(p: number, y: number, kind: 0 | 1, side: -1 | 1, Ts: number): SteamState {
+function solve3Branch(p: number, y: number, kind: HOrS, side: -1 | 1, Ts: number): SteamState {
   const yAt = (T: number): number => {
     const rho = density3(p, T, 1 / vpt3(p, T), side);
-    return kind === 0 ? h3FromScratch(rho, T) : s3FromScratch(T);
+    return kind === 'h' ? h3FromScratch(rho, T) : s3FromScratch(T);
   };
   let lo = side < 0 ? Ts : Ts - 1;
   let hi = side < 0 ? Ts + 1 : Ts;
@@ -740,12 +739,12 @@ function solve3Branch(p: number, y: number, kind: 0 | 1, side: -1 | 1, Ts: numbe
 
 /** State at pressure p (Pa) and specific enthalpy h (J/kg). */
 export function ph(p: number, h: number): SteamState {
-  return solvePY(p, h, 0);
+  return solvePY(p, h, 'h');
 }
 
 /** State at pressure p (Pa) and specific entropy s (J/(kg·K)). */
 export function ps(p: number, s: number): SteamState {
-  return solvePY(p, s, 1);
+  return solvePY(p, s, 's');
 }
 
 /** Region (1–5) of the state at (p, h); throws SteamRangeError like {@link ph}. */
