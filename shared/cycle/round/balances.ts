@@ -7,7 +7,7 @@
 import { type BalanceSpec } from '../equations';
 import type { BalanceRow, BalanceValues, EquipmentBalance } from '../types';
 import { fin, type PState } from './base';
-import type { StatesCtx } from './context';
+import type { StatesCtx } from './states';
 
 /** Every balance of the model on the readings and on the reconciled values. */
 export function balancesStage(c: StatesCtx) {

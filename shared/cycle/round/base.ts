@@ -219,3 +219,6 @@ export function makeBase(model: CycleModel, opt: Options, context: RoundContext)
 
   return { model, opt, context, b, k, findings, instByTag, instById, eqById, pointById, idsOf, add, placeOf, placeLabel, critOf };
 }
+
+/** The context every stage starts from. */
+export type BaseCtx = ReturnType<typeof makeBase>;

@@ -10,8 +10,7 @@ import { P_LOW } from '../properties';
 import { messages } from '../messages';
 import type { RoundReading } from '../types';
 import { ATTEND, NOTE } from '../severity';
-import { fin, shownOf, ownReference, rangeText, specSigmaOf, type Intake } from './base';
-import type { BaseCtx } from './context';
+import { fin, shownOf, ownReference, rangeText, specSigmaOf, type BaseCtx, type Intake } from './base';
 
 /** Intake: each reading matched to its instrument, its σ, range and IF97 checks; missing readings noted. */
 export function intakeStage(c: BaseCtx, readings: readonly RoundReading[]) {
@@ -121,3 +120,6 @@ export function intakeStage(c: BaseCtx, readings: readonly RoundReading[]) {
 
   return { resolve, accepted, excluded, invalid, readingSigma, baroSigma };
 }
+
+/** What the intake stage adds. */
+export type IntakeOut = ReturnType<typeof intakeStage>;

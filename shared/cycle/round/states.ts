@@ -7,7 +7,7 @@ import { SCALE, type HExpr } from '../equations';
 import { propsPT, propsSat, stateFromPH, stateFromPT, stateFromPX, tsatSafe } from '../properties';
 import type { PointValues, StatePointResult } from '../types';
 import { fin, orNull, combine, EMPTY, type PState, type Combined } from './base';
-import type { RecCtx } from './context';
+import type { RecCtx } from './reconciliation';
 
 /** State points from the readings and from the reconciled values. */
 export function statesStage(c: RecCtx) {
@@ -147,3 +147,6 @@ export function statesStage(c: RecCtx) {
 
   return { measuredOf, getRec, getMeas, getMixed, measPower, recPower, statePoints };
 }
+
+/** What the analysis knows once the states are rebuilt. */
+export type StatesCtx = RecCtx & ReturnType<typeof statesStage>;
