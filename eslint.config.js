@@ -16,7 +16,30 @@ module.exports = tseslint.config(
   js.configs.recommended,
   ...tseslint.configs.recommended,
   {
-    languageOptions: { globals: { console: 'readonly', process: 'readonly', require: 'readonly', module: 'writable', __dirname: 'readonly', setTimeout: 'readonly', clearTimeout: 'readonly', setInterval: 'readonly', clearInterval: 'readonly', URL: 'readonly', fetch: 'readonly', Buffer: 'readonly', window: 'readonly', document: 'readonly', navigator: 'readonly', self: 'readonly', performance: 'readonly', structuredClone: 'readonly', TextEncoder: 'readonly', TextDecoder: 'readonly' } },
+    languageOptions: {
+      globals: {
+        console: 'readonly',
+        process: 'readonly',
+        require: 'readonly',
+        module: 'writable',
+        __dirname: 'readonly',
+        setTimeout: 'readonly',
+        clearTimeout: 'readonly',
+        setInterval: 'readonly',
+        clearInterval: 'readonly',
+        URL: 'readonly',
+        fetch: 'readonly',
+        Buffer: 'readonly',
+        window: 'readonly',
+        document: 'readonly',
+        navigator: 'readonly',
+        self: 'readonly',
+        performance: 'readonly',
+        structuredClone: 'readonly',
+        TextEncoder: 'readonly',
+        TextDecoder: 'readonly',
+      },
+    },
     rules: {
       '@typescript-eslint/no-require-imports': 'off',
       '@typescript-eslint/no-unused-vars': ['error', { argsIgnorePattern: '^_', varsIgnorePattern: '^_' }],
@@ -24,7 +47,15 @@ module.exports = tseslint.config(
     },
   },
   {
-    files: ['app/**/*.{ts,tsx}', 'components/**/*.{ts,tsx}', 'screens/**/*.{ts,tsx}', 'hooks/**/*.{ts,tsx}', 'offline/**/*.{ts,tsx}', 'lib/**/*.{ts,tsx}', 'tests/app/**/*.{ts,tsx}'],
+    files: [
+      'app/**/*.{ts,tsx}',
+      'components/**/*.{ts,tsx}',
+      'screens/**/*.{ts,tsx}',
+      'hooks/**/*.{ts,tsx}',
+      'offline/**/*.{ts,tsx}',
+      'lib/**/*.{ts,tsx}',
+      'tests/app/**/*.{ts,tsx}',
+    ],
     plugins: { 'react-hooks': reactHooks },
     rules: {
       'react-hooks/rules-of-hooks': 'error',
@@ -35,23 +66,76 @@ module.exports = tseslint.config(
     // Pure domain code: the phone and the server run it alike, so no UI, HTTP, database or Node.
     files: ['shared/**/*.ts'],
     rules: {
-      'no-restricted-imports': ['error', {
-        paths: nodeBuiltins.map((name) => ({ name, message: 'shared/ is pure domain code: no Node built-ins.' })),
-        patterns: [
-          { group: ['react', 'react-*', 'react/*', 'react-native', 'react-native/*', 'expo', 'expo-*', 'expo-*/*', '@expo/*', '@tanstack/*'], message: 'shared/ is pure domain code: no React or Expo.' },
-          { group: ['express', 'express-*', 'multer', 'helmet', 'pino', 'pino-*', 'nodemailer', 'jsonwebtoken', 'argon2', 'sharp', '@aws-sdk/*'], message: 'shared/ is pure domain code: no server libraries.' },
-          { group: ['typeorm', 'typeorm/*', 'pg', 'pg-*', 'expo-sqlite'], message: 'shared/ is pure domain code: no database.' },
-          { group: ['@/*', '!@/shared', '!@/shared/*'], message: 'shared/ imports only shared/ and its npm libraries.' },
-        ],
-      }],
+      'no-restricted-imports': [
+        'error',
+        {
+          paths: nodeBuiltins.map((name) => ({ name, message: 'shared/ is pure domain code: no Node built-ins.' })),
+          patterns: [
+            {
+              group: [
+                'react',
+                'react-*',
+                'react/*',
+                'react-native',
+                'react-native/*',
+                'expo',
+                'expo-*',
+                'expo-*/*',
+                '@expo/*',
+                '@tanstack/*',
+              ],
+              message: 'shared/ is pure domain code: no React or Expo.',
+            },
+            {
+              group: [
+                'express',
+                'express-*',
+                'multer',
+                'helmet',
+                'pino',
+                'pino-*',
+                'nodemailer',
+                'jsonwebtoken',
+                'argon2',
+                'sharp',
+                '@aws-sdk/*',
+              ],
+              message: 'shared/ is pure domain code: no server libraries.',
+            },
+            {
+              group: ['typeorm', 'typeorm/*', 'pg', 'pg-*', 'expo-sqlite'],
+              message: 'shared/ is pure domain code: no database.',
+            },
+            {
+              group: ['@/*', '!@/shared', '!@/shared/*'],
+              message: 'shared/ imports only shared/ and its npm libraries.',
+            },
+          ],
+        },
+      ],
     },
   },
   {
-    files: ['app/**/*.{ts,tsx}', 'screens/**/*.{ts,tsx}', 'components/**/*.{ts,tsx}', 'hooks/**/*.{ts,tsx}', 'offline/**/*.{ts,tsx}', 'lib/**/*.{ts,tsx}'],
+    files: [
+      'app/**/*.{ts,tsx}',
+      'screens/**/*.{ts,tsx}',
+      'components/**/*.{ts,tsx}',
+      'hooks/**/*.{ts,tsx}',
+      'offline/**/*.{ts,tsx}',
+      'lib/**/*.{ts,tsx}',
+    ],
     rules: {
-      'no-restricted-imports': ['error', {
-        patterns: [{ group: ['@/server', '@/server/*', '**/server/*'], message: 'The app never imports server/ code; share it through shared/.' }],
-      }],
+      'no-restricted-imports': [
+        'error',
+        {
+          patterns: [
+            {
+              group: ['@/server', '@/server/*', '**/server/*'],
+              message: 'The app never imports server/ code; share it through shared/.',
+            },
+          ],
+        },
+      ],
     },
   },
   {

@@ -11,10 +11,7 @@
  * type errors in tests/unit, tests/api, tests/e2e and tests/app are the typecheck gate's
  * (`npm run typecheck` covers those folders), which keeps jest's start-up quick.
  */
-const tsJest = [
-  'ts-jest',
-  { tsconfig: '<rootDir>/tsconfig.server.json', diagnostics: true },
-];
+const tsJest = ['ts-jest', { tsconfig: '<rootDir>/tsconfig.server.json', diagnostics: true }];
 const nodeProject = (name, extra = {}) => ({
   displayName: name,
   testEnvironment: 'node',

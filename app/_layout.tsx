@@ -9,7 +9,9 @@ import { SessionProvider, useSession } from '@/hooks/session';
 
 export default function RootLayout() {
   const [fontsLoaded, fontError] = useFonts(fontFiles);
-  const [queryClient] = useState(() => new QueryClient({ defaultOptions: { queries: { retry: 1, staleTime: 30_000 } } }));
+  const [queryClient] = useState(
+    () => new QueryClient({ defaultOptions: { queries: { retry: 1, staleTime: 30_000 } } }),
+  );
   if (!fontsLoaded && !fontError) return <Splash />;
   return (
     <SafeAreaProvider>

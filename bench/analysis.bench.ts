@@ -49,7 +49,10 @@ const sigma = new Map(design.instruments.map((i) => [i.tag, i.sigma ?? 0]));
 function roundReadings(): RoundReading[] {
   return demoDesignReadings(BARO).map((r) => {
     const s = sigma.get(r.instrumentTag)!;
-    return { instrumentTag: r.instrumentTag, valueSI: r.valueSI + (r.instrumentTag === 'TI-102A' ? 10 * s : 0) + 0.2 * (2 * rnd() - 1) * s };
+    return {
+      instrumentTag: r.instrumentTag,
+      valueSI: r.valueSI + (r.instrumentTag === 'TI-102A' ? 10 * s : 0) + 0.2 * (2 * rnd() - 1) * s,
+    };
   });
 }
 
@@ -79,7 +82,9 @@ function body(versionId: string, inst: Map<string, string>) {
       payloadVersion: 2,
       deviceId: 'bench-phone',
       sentAt: t,
-      rounds: [{ id: roundId, routeVersionId: versionId, startedAt: t, finishedAt: t, status: 'finished', dismissals: [] }],
+      rounds: [
+        { id: roundId, routeVersionId: versionId, startedAt: t, finishedAt: t, status: 'finished', dismissals: [] },
+      ],
       readings,
       checkAnswers: [],
       photos: [],
@@ -102,7 +107,9 @@ export async function run(): Promise<void> {
   try {
     await admin('select 1');
   } catch (e) {
-    console.log(`analysis bench skipped: no PostgreSQL at ${ADMIN_URL} (${e instanceof Error ? e.message : String(e)}); start it with npm run db:start -- --test`);
+    console.log(
+      `analysis bench skipped: no PostgreSQL at ${ADMIN_URL} (${e instanceof Error ? e.message : String(e)}); start it with npm run db:start -- --test`,
+    );
     return;
   }
   const name = `tr_bench_${Date.now()}`;
@@ -121,17 +128,24 @@ export async function run(): Promise<void> {
     const techs: string[] = [];
     for (let i = 1; i <= CONCURRENT; i++) {
       const email = `tech${i}@bench.example`;
-      const [{ id }] = (await ds.query(`INSERT INTO users (email, name, password_hash) VALUES ($1, $2, $3) RETURNING id`, [email, `Bench tech ${i}`, hash])) as {
+      const [{ id }] = (await ds.query(
+        `INSERT INTO users (email, name, password_hash) VALUES ($1, $2, $3) RETURNING id`,
+        [email, `Bench tech ${i}`, hash],
+      )) as {
         id: string;
       }[];
       await ds.query(`INSERT INTO memberships (user_id, site_id, role) VALUES ($1, $2, 'technician')`, [id, fern.id]);
       techs.push(email);
     }
-    const [route] = (await ds.query(`SELECT current_version_id AS v FROM routes WHERE key = 'turbine-hall'`)) as { v: string }[];
+    const [route] = (await ds.query(`SELECT current_version_id AS v FROM routes WHERE key = 'turbine-hall'`)) as {
+      v: string;
+    }[];
     const inst = new Map(
-      ((await ds.query(`SELECT i.tag, i.id FROM instruments i JOIN units u ON u.id = i.unit_id WHERE u.site_id = $1`, [fern.id])) as { tag: string; id: string }[]).map(
-        (r) => [r.tag, r.id],
-      ),
+      (
+        (await ds.query(`SELECT i.tag, i.id FROM instruments i JOIN units u ON u.id = i.unit_id WHERE u.site_id = $1`, [
+          fern.id,
+        ])) as { tag: string; id: string }[]
+      ).map((r) => [r.tag, r.id]),
     );
 
     const config = loadConfig({
@@ -166,12 +180,20 @@ export async function run(): Promise<void> {
     });
     const base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
     const signIn = async (email: string) => {
-      const r = await fetch(`${base}/api/auth/sign-in`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email, password: DEMO_PASSWORD }) });
+      const r = await fetch(`${base}/api/auth/sign-in`, {
+        method: 'POST',
+        headers: { 'content-type': 'application/json' },
+        body: JSON.stringify({ email, password: DEMO_PASSWORD }),
+      });
       if (r.status !== 200) throw new Error(`sign-in ${email}: ${r.status}`);
       return ((await r.json()) as { accessToken: string }).accessToken;
     };
     const push = async (token: string, json: string) => {
-      const r = await fetch(`${base}/api/sync/push`, { method: 'POST', headers: { 'content-type': 'application/json', authorization: `Bearer ${token}` }, body: json });
+      const r = await fetch(`${base}/api/sync/push`, {
+        method: 'POST',
+        headers: { 'content-type': 'application/json', authorization: `Bearer ${token}` },
+        body: json,
+      });
       if (r.status !== 200) throw new Error(`push: ${r.status} ${await r.text()}`);
       await r.arrayBuffer();
     };
@@ -208,9 +230,13 @@ export async function run(): Promise<void> {
     const bodies = tokens.map(() => body(route.v, inst));
     const waits = bodies.map((b) => whenStored(b.roundId));
     const t0 = performance.now();
-    const pushes = await Promise.allSettled(bodies.map((b, i) => push(tokens[i], b.json).then(() => performance.now() - t0)));
+    const pushes = await Promise.allSettled(
+      bodies.map((b, i) => push(tokens[i], b.json).then(() => performance.now() - t0)),
+    );
     const errors = pushes.filter((p) => p.status === 'rejected').length;
-    const concPush = pushes.filter((p): p is PromiseFulfilledResult<number> => p.status === 'fulfilled').map((p) => p.value);
+    const concPush = pushes
+      .filter((p): p is PromiseFulfilledResult<number> => p.status === 'fulfilled')
+      .map((p) => p.value);
     const concTotal = (await Promise.all(waits)).map((t) => t - t0);
     const ids = bodies.map((b) => b.roundId);
     const [check] = (await ds.query(
@@ -245,7 +271,8 @@ export async function run(): Promise<void> {
       `${CONCURRENT} concurrent pushes: ${errors} errors; ${check.analyses} analyses for ${check.rounds} rounds (duplicates: ${check.analyses - check.rounds}); ` +
         `work orders: ${check.orders} (open ${check.open_orders}, expected 1: every round flags TI-102A)`,
     );
-    if (errors || check.analyses !== CONCURRENT || check.orders !== 1) throw new Error('the concurrent run stored something twice or failed');
+    if (errors || check.analyses !== CONCURRENT || check.orders !== 1)
+      throw new Error('the concurrent run stored something twice or failed');
   } finally {
     if (server) await new Promise<void>((r) => server!.close(() => r()));
     await stopRuntime?.();

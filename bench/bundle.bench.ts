@@ -79,7 +79,10 @@ export function bytesBySource(code: string, map: { sources: string[]; mappings: 
 
 /** node_modules/<package> (scoped: @scope/name), else the project's first two folders. */
 export function groupOf(source: string): string {
-  const s = source.replace(/\\/g, '/').replace(/^.*?\/(?=node_modules\/)/, '').replace(/^(\.\.\/)+/, '');
+  const s = source
+    .replace(/\\/g, '/')
+    .replace(/^.*?\/(?=node_modules\/)/, '')
+    .replace(/^(\.\.\/)+/, '');
   const nm = s.lastIndexOf('node_modules/');
   if (nm >= 0) {
     const parts = s.slice(nm + 'node_modules/'.length).split('/');
@@ -138,7 +141,9 @@ export async function run(): Promise<void> {
     },
   ]);
   const assets = statSync(dir).isDirectory() ? readdirSync(dir, { recursive: true, withFileTypes: true }) : [];
-  const total = assets.filter((d) => d.isFile() && !d.name.endsWith('.map')).reduce((n, d) => n + statSync(join(d.parentPath, d.name)).size, 0);
+  const total = assets
+    .filter((d) => d.isFile() && !d.name.endsWith('.map'))
+    .reduce((n, d) => n + statSync(join(d.parentPath, d.name)).size, 0);
   console.log(`whole export without source maps: ${kb(total)} KB`);
 
   const mapFile = join(js, `${entry}.map`);
@@ -152,7 +157,8 @@ export async function run(): Promise<void> {
   const share = (n: number) => `${((100 * n) / entryBytes).toFixed(1)} %`;
   const top = [...by.entries()].sort((a, b) => b[1] - a[1]).slice(0, 20);
   console.log(`largest modules of the entry (of ${by.size} sources; minified bytes through the source map)`);
-  const rel = (source: string) => (source.startsWith(`${ROOT}/`) ? source.slice(ROOT.length + 1) : source).replace(/^\//, '');
+  const rel = (source: string) =>
+    (source.startsWith(`${ROOT}/`) ? source.slice(ROOT.length + 1) : source).replace(/^\//, '');
   console.table(top.map(([source, n]) => ({ module: rel(source), KB: kb(n), share: share(n) })));
   const groups = new Map<string, number>();
   for (const [source, n] of by) groups.set(groupOf(source), (groups.get(groupOf(source)) ?? 0) + n);

@@ -19,9 +19,11 @@ import { timePair } from './timing';
 
 const B = 101325;
 
-
 function plainReadings(change?: { tag: string; f: (v: number) => number }): RoundReading[] {
-  return demoDesignReadings(B).map((r) => ({ instrumentTag: r.instrumentTag, valueSI: change && r.instrumentTag === change.tag ? change.f(r.valueSI) : r.valueSI }));
+  return demoDesignReadings(B).map((r) => ({
+    instrumentTag: r.instrumentTag,
+    valueSI: change && r.instrumentTag === change.tag ? change.f(r.valueSI) : r.valueSI,
+  }));
 }
 
 function accepted(readings: RoundReading[]): Map<string, AcceptedReading> {
@@ -60,7 +62,9 @@ export async function run(): Promise<void> {
       reps: t.reps,
     });
   }
-  console.log('analyseRound per round (median), baseline = reconcile() alone on the same plant equations, same process');
+  console.log(
+    'analyseRound per round (median), baseline = reconcile() alone on the same plant equations, same process',
+  );
   console.table(rows1);
 
   const rows2: Record<string, string | number>[] = [];
@@ -101,7 +105,10 @@ export async function run(): Promise<void> {
     };
     const linRes = reconcile(linInput);
     const t1 = timePair(() => reconcile(input), if97);
-    const t2 = timePair(() => reconcile(input), () => reconcile(linInput));
+    const t2 = timePair(
+      () => reconcile(input),
+      () => reconcile(linInput),
+    );
     rows2.push({
       case: c.name,
       'measured/unmeasured/constraints': `${eq.measured.length}/${eq.unmeasured.length}/${eq.constraints.length}`,
@@ -116,6 +123,8 @@ export async function run(): Promise<void> {
       'ratio to linear': (t2.a / t2.b).toFixed(1),
     });
   }
-  console.log('reconcile() on the demo unit (median); baselines in the same process: IF97 work alone (constraint values + gradients per linearisation), linear-only reconcile');
+  console.log(
+    'reconcile() on the demo unit (median); baselines in the same process: IF97 work alone (constraint values + gradients per linearisation), linear-only reconcile',
+  );
   console.table(rows2);
 }

@@ -22,14 +22,23 @@ const GROUP_RHO = 0.95;
 export async function run(): Promise<void> {
   const rounds = Number(process.env.TR_DETECTION_ROUNDS ?? 400);
   const ff = faultFree(rounds, 1);
-  console.log(`fault-free rounds: ${ff.rounds}; any instrument blamed: ${ff.blamedRounds} (${((100 * ff.blamedRounds) / ff.rounds).toFixed(1)} %); global test failed: ${ff.globalFailed}; mean χ²/dof ${ff.meanChi2PerDof.toFixed(3)}`);
+  console.log(
+    `fault-free rounds: ${ff.rounds}; any instrument blamed: ${ff.blamedRounds} (${((100 * ff.blamedRounds) / ff.rounds).toFixed(1)} %); global test failed: ${ff.globalFailed}; mean χ²/dof ${ff.meanChi2PerDof.toFixed(3)}`,
+  );
   console.log(`  by kind: ${JSON.stringify(ff.byKind)}`);
   const seq = sequence(270, 11);
   console.log(`fault-free sequence of 270 rounds (90 days × 3): work orders the evidence opens: ${seq.orders.length}`);
 
   const rec = base.reconciliation;
   const groups = new Map<string, string[]>();
-  if (rec.ok) for (const p of rec.correlatedCorrections) if (Math.abs(p.rho) >= GROUP_RHO) for (const [x, y] of [[p.a, p.b], [p.b, p.a]]) groups.set(x, [...(groups.get(x) ?? []), y]);
+  if (rec.ok)
+    for (const p of rec.correlatedCorrections)
+      if (Math.abs(p.rho) >= GROUP_RHO)
+        for (const [x, y] of [
+          [p.a, p.b],
+          [p.b, p.a],
+        ])
+          groups.set(x, [...(groups.get(x) ?? []), y]);
   const n = Number(process.env.TR_DETECTION_PER_CELL ?? 40);
   const header = ['tag', 'W', 'group', '3σ', '5σ', '10σ', 'wrong@10σ', 'rounds@u2', 'rounds@u5', 'MDB (SI)', 'MDB/σ'];
   const rows: string[][] = [];
@@ -37,8 +46,12 @@ export async function run(): Promise<void> {
   for (const i of base.instruments.filter((x) => x.redundant)) {
     const W = 1 - (i.reconciledSigma! / i.sigma!) ** 2;
     const d = [3, 5, 10].map((s) => biased(i.tag, s, n, 7 + s));
-    const r2 = [1, 2, 3, 4, 5].map((k) => sequence(20, 100 + k, { tag: i.tag, sigmas: 2 / Math.sqrt(W) }).firstNamed.get(i.tag) ?? Infinity);
-    const r5 = [1, 2, 3, 4, 5].map((k) => sequence(4, 200 + k, { tag: i.tag, sigmas: 5 / Math.sqrt(W) }).firstNamed.get(i.tag) ?? Infinity);
+    const r2 = [1, 2, 3, 4, 5].map(
+      (k) => sequence(20, 100 + k, { tag: i.tag, sigmas: 2 / Math.sqrt(W) }).firstNamed.get(i.tag) ?? Infinity,
+    );
+    const r5 = [1, 2, 3, 4, 5].map(
+      (k) => sequence(4, 200 + k, { tag: i.tag, sigmas: 5 / Math.sqrt(W) }).firstNamed.get(i.tag) ?? Infinity,
+    );
     const mdb = (2.8 * i.sigma!) / Math.sqrt(W);
     rows.push([
       i.tag,
@@ -54,8 +67,9 @@ export async function run(): Promise<void> {
   }
   const widths = header.map((h, k) => Math.max(h.length, ...rows.map((r) => r[k].length)));
   const line = (r: string[]) => r.map((c, k) => c.padEnd(widths[k])).join('  ');
-  console.log(`\nper redundant instrument (${n} rounds per cell; rounds@uX: median first round the evidence names it, of 5 sequences):`);
+  console.log(
+    `\nper redundant instrument (${n} rounds per cell; rounds@uX: median first round the evidence names it, of 5 sequences):`,
+  );
   console.log(line(header));
   for (const r of rows) console.log(line(r));
-
 }

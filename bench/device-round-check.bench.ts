@@ -68,7 +68,9 @@ export async function run(): Promise<void> {
 
   const { launch } = await import('../tests/e2e/helpers/browser');
   const browser = await launch();
-  const rows: { where: string; first: number; again: number }[] = [{ where: 'node (baseline)', first: nodeFirst, again: nodeAgain }];
+  const rows: { where: string; first: number; again: number }[] = [
+    { where: 'node (baseline)', first: nodeFirst, again: nodeAgain },
+  ];
   try {
     for (const rate of [1, 4]) {
       const firsts: number[] = [];
@@ -96,7 +98,9 @@ export async function run(): Promise<void> {
         const page = await context.newPage();
         const cdp = await context.newCDPSession(page);
         await cdp.send('Emulation.setCPUThrottlingRate', { rate });
-        await page.evaluate(`globalThis.__code = ${JSON.stringify(code + ';onmessage = () => { const xs = []; for (let i = 0; i < 11; i++) xs.push(globalThis.__roundCheckBench()); postMessage(xs); };')}`);
+        await page.evaluate(
+          `globalThis.__code = ${JSON.stringify(code + ';onmessage = () => { const xs = []; for (let i = 0; i < 11; i++) xs.push(globalThis.__roundCheckBench()); postMessage(xs); };')}`,
+        );
         const xs = (await page.evaluate(`new Promise((resolve) => {
           const w = new Worker(URL.createObjectURL(new Blob([globalThis.__code], { type: 'text/javascript' })));
           w.onmessage = (e) => resolve(e.data);
@@ -114,7 +118,10 @@ export async function run(): Promise<void> {
   console.log('round check of a demo round (checkRound: assembly, analyseRound, re-take list)');
   console.log('| where | first check (ms) | again (ms, median) | ratio to node (again) |');
   console.log('| --- | ---: | ---: | ---: |');
-  for (const r of rows) console.log(`| ${r.where} | ${r.first.toFixed(1)} | ${r.again.toFixed(1)} | ${(r.again / nodeAgain).toFixed(2)} |`);
+  for (const r of rows)
+    console.log(`| ${r.where} | ${r.first.toFixed(1)} | ${r.again.toFixed(1)} | ${(r.again / nodeAgain).toFixed(2)} |`);
   const t4 = rows.find((r) => r.where === 'chromium, CPU 4×')!;
-  console.log(`budget 100 ms on the 4× throttled processor: first ${t4.first.toFixed(0)} ms, again ${t4.again.toFixed(0)} ms`);
+  console.log(
+    `budget 100 ms on the 4× throttled processor: first ${t4.first.toFixed(0)} ms, again ${t4.again.toFixed(0)} ms`,
+  );
 }

@@ -39,7 +39,10 @@ export async function run(): Promise<void> {
       const value = ((r.band.min + r.band.max) / 2).toFixed(1);
       await page.getByTestId(`reading-${r.tag}-input`).fill(value);
       await page.getByTestId(`reading-${r.tag}-save`).click();
-      await page.getByTestId(`reading-${r.tag}-input`).and(page.locator(`[value="${Number(value)}"]`)).waitFor();
+      await page
+        .getByTestId(`reading-${r.tag}-input`)
+        .and(page.locator(`[value="${Number(value)}"]`))
+        .waitFor();
       n++;
     }
     const saved = (await page.evaluate(
@@ -52,12 +55,17 @@ export async function run(): Promise<void> {
       for (let i = 0; i < ${n}; i++) localStorage.removeItem('bench-' + i);
       return out;
     })()`)) as number[];
-    const q = (xs: number[], p: number) => [...xs].sort((a, b) => a - b)[Math.min(xs.length - 1, Math.floor(p * xs.length))];
+    const q = (xs: number[], p: number) =>
+      [...xs].sort((a, b) => a - b)[Math.min(xs.length - 1, Math.floor(p * xs.length))];
     console.log(`readings saved in the browser: ${saved.length} of ${n}`);
     console.log('| what | p50 (ms) | p95 (ms) | ratio (p50) |');
     console.log('| --- | ---: | ---: | ---: |');
-    console.log(`| baseline: localStorage.setItem of one reading | ${q(base, 0.5).toFixed(3)} | ${q(base, 0.95).toFixed(3)} | 1 |`);
-    console.log(`| Save → reading + outbox row committed (expo-sqlite, OPFS) | ${q(saved, 0.5).toFixed(1)} | ${q(saved, 0.95).toFixed(1)} | ${(q(saved, 0.5) / Math.max(q(base, 0.5), 1e-3)).toFixed(0)} |`);
+    console.log(
+      `| baseline: localStorage.setItem of one reading | ${q(base, 0.5).toFixed(3)} | ${q(base, 0.95).toFixed(3)} | 1 |`,
+    );
+    console.log(
+      `| Save → reading + outbox row committed (expo-sqlite, OPFS) | ${q(saved, 0.5).toFixed(1)} | ${q(saved, 0.95).toFixed(1)} | ${(q(saved, 0.5) / Math.max(q(base, 0.5), 1e-3)).toFixed(0)} |`,
+    );
     await context.close();
   } finally {
     await browser.close();

@@ -35,7 +35,6 @@ const COPIES = Number(process.env.TR_BENCH_HISTORY_COPIES || 10);
 const RUNS = 20;
 const BARO = barometricFromElevation(112);
 
-
 export async function run(): Promise<void> {
   const name = `tr_bench_history_${Date.now()}`;
   await admin(`create database "${name}"`);
@@ -56,7 +55,9 @@ export async function run(): Promise<void> {
     const t0 = performance.now();
     const [site] = (await ds.query(`SELECT s."id" FROM "sites" s WHERE s."slug" = 'fernhallow'`)) as { id: string }[];
     const [unit] = (await ds.query(`SELECT "id" FROM "units" WHERE "site_id" = $1`, [site.id])) as { id: string }[];
-    const [tech] = (await ds.query(`SELECT "id" FROM "users" WHERE "email" = 'tech@fernhallow.example'`)) as { id: string }[];
+    const [tech] = (await ds.query(`SELECT "id" FROM "users" WHERE "email" = 'tech@fernhallow.example'`)) as {
+      id: string;
+    }[];
     // the copies: unit, instruments, routes and their current versions
     await ds.query(
       `INSERT INTO "units" ("site_id", "name", "model", "model_version")
@@ -194,7 +195,9 @@ export async function run(): Promise<void> {
     console.log(`| --- | --- | ---: | ---: | ---: |`);
     cases.forEach((c, j) => {
       const p50 = pct(times[j], 50);
-      console.log(`| ${c.label} | ${sizes[j] || '—'} | ${p50.toFixed(1)} | ${pct(times[j], 95).toFixed(1)} | ${(p50 / base50).toFixed(1)}× |`);
+      console.log(
+        `| ${c.label} | ${sizes[j] || '—'} | ${p50.toFixed(1)} | ${pct(times[j], 95).toFixed(1)} | ${(p50 / base50).toFixed(1)}× |`,
+      );
     });
   } finally {
     await new Promise<void>((resolve) => (server ? server.close(() => resolve()) : resolve()));

@@ -48,8 +48,12 @@ function linearNetwork(nodes: number, grossOn?: string): LinearCase {
   streams.push({ id: 'product', from: last, to: -1, flow: product });
   const s = streams.map((st) => 0.01 * st.flow);
   const x = streams.map((st, i) => st.flow + s[i] * gauss(r) + (st.id === grossOn ? 10 * s[i] : 0));
-  const a = Array.from({ length: nodes }, (_, k) => streams.map((st) => (st.to === k ? 1 : 0) - (st.from === k ? 1 : 0)));
-  const constraints = a.map((row, k) => linear(`n${k}`, Object.fromEntries(row.map((c, i) => [streams[i].id, c]).filter(([, c]) => c !== 0))));
+  const a = Array.from({ length: nodes }, (_, k) =>
+    streams.map((st) => (st.to === k ? 1 : 0) - (st.from === k ? 1 : 0)),
+  );
+  const constraints = a.map((row, k) =>
+    linear(`n${k}`, Object.fromEntries(row.map((c, i) => [streams[i].id, c]).filter(([, c]) => c !== 0))),
+  );
   const measured: Measurement[] = streams.map((st, i) => ({ id: st.id, value: x[i], sigma: s[i] }));
   return { input: { measured, constraints }, a, x, s };
 }
@@ -66,7 +70,11 @@ function closedForm(a: number[][], x: number[], s: number[]): number[] {
 }
 
 /** chain of mixers: main stream (m_i, h_i) joined by side stream (ms_i, hs_i) → (m_{i+1}, h_{i+1}) */
-function mixerChain(mixers: number): { input: ReconcileInput; jacAt: (v: Record<string, number>) => number[][]; ids: string[] } {
+function mixerChain(mixers: number): {
+  input: ReconcileInput;
+  jacAt: (v: Record<string, number>) => number[][];
+  ids: string[];
+} {
   const r = rng(7);
   const truth: Record<string, number> = { m0: 50, h0: 4.0e5 };
   const constraints: Constraint[] = [];
@@ -106,7 +114,6 @@ function mixerChain(mixers: number): { input: ReconcileInput; jacAt: (v: Record<
   return { input: { measured, constraints }, jacAt, ids };
 }
 
-
 export async function run(): Promise<void> {
   const rows: Record<string, string | number>[] = [];
 
@@ -114,7 +121,11 @@ export async function run(): Promise<void> {
   const linRes = reconcile(lin.input);
   const cf = closedForm(lin.a, lin.x, lin.s);
   const maxDiff = Math.max(...lin.input.measured.map((m, i) => Math.abs(linRes.values[m.id] - cf[i]) / m.sigma));
-  const t1 = timePair(() => reconcile(lin.input), () => closedForm(lin.a, lin.x, lin.s), RECONCILE_TIMING);
+  const t1 = timePair(
+    () => reconcile(lin.input),
+    () => closedForm(lin.a, lin.x, lin.s),
+    RECONCILE_TIMING,
+  );
   rows.push({
     case: `linear network, ${lin.x.length} streams, ${lin.a.length} nodes`,
     iterations: linRes.iterations,
@@ -127,7 +138,11 @@ export async function run(): Promise<void> {
 
   const gross = linearNetwork(100, 'm30');
   const gRes = reconcile(gross.input);
-  const t2 = timePair(() => reconcile(gross.input), () => closedForm(gross.a, gross.x, gross.s), RECONCILE_TIMING);
+  const t2 = timePair(
+    () => reconcile(gross.input),
+    () => closedForm(gross.a, gross.x, gross.s),
+    RECONCILE_TIMING,
+  );
   rows.push({
     case: `same, 10σ error on m30 (serial elimination: ${gRes.suspects.join(', ') || 'none'})`,
     iterations: gRes.iterations,
@@ -163,6 +178,8 @@ export async function run(): Promise<void> {
     'max |Δ|/σ vs baseline': '(1 linear step)',
   });
 
-  console.log('median time per call, reconcile() and baseline interleaved; baseline = closed-form WLS with ml-matrix in this process');
+  console.log(
+    'median time per call, reconcile() and baseline interleaved; baseline = closed-form WLS with ml-matrix in this process',
+  );
   console.table(rows);
 }

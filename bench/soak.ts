@@ -126,10 +126,19 @@ async function main(): Promise<void> {
         WHERE u.email LIKE 'soak-tech-%@fernhallow.example' AND s.slug = 'fernhallow'
           AND NOT EXISTS (SELECT 1 FROM memberships m WHERE m.user_id = u.id AND m.site_id = s.id)`,
     );
-    const [site] = (await q.query(`SELECT id, elevation_m FROM sites WHERE slug = 'fernhallow'`)).rows as { id: string; elevation_m: number }[];
-    const [route] = (await q.query(`SELECT current_version_id FROM routes WHERE key = 'turbine-hall'`)).rows as { current_version_id: string }[];
+    const [site] = (await q.query(`SELECT id, elevation_m FROM sites WHERE slug = 'fernhallow'`)).rows as {
+      id: string;
+      elevation_m: number;
+    }[];
+    const [route] = (await q.query(`SELECT current_version_id FROM routes WHERE key = 'turbine-hall'`)).rows as {
+      current_version_id: string;
+    }[];
     const inst = new Map<string, string>();
-    for (const r of (await q.query(`SELECT i.tag, i.id FROM instruments i JOIN units u ON u.id = i.unit_id WHERE u.site_id = $1`, [site.id])).rows as {
+    for (const r of (
+      await q.query(`SELECT i.tag, i.id FROM instruments i JOIN units u ON u.id = i.unit_id WHERE u.site_id = $1`, [
+        site.id,
+      ])
+    ).rows as {
       tag: string;
       id: string;
     }[]) {
@@ -141,23 +150,34 @@ async function main(): Promise<void> {
     const out: string[] = [];
     // SIGUSR2 makes the server run a full GC and print its heap (a plateau after GC tells warm-up from a leak)
     const probe = `process.on('SIGUSR2', () => { globalThis.gc(); const m = process.memoryUsage(); console.log('SOAK-HEAP ' + m.heapUsed + ' ' + m.rss); })`;
-    child = spawn(process.execPath, ['--expose-gc', '--import', `data:text/javascript,${encodeURIComponent(probe)}`, '--import', 'tsx', join(ROOT, 'server/main.ts')], {
-      cwd: ROOT,
-      env: {
-        ...process.env,
-        NODE_ENV: 'production',
-        HOST: '127.0.0.1',
-        PORT: String(port),
-        DATABASE_URL: db.url,
-        JWT_SECRET: randomBytes(32).toString('hex'),
-        ACCESS_TOKEN_TTL_S: '3600',
-        LOG_LEVEL: 'warn',
-        WORKERS_IN_PROCESS: 'false',
-        ANALYSIS_SWEEP_INTERVAL_S: '0',
-        PHOTO_DIR: `/tmp/tr-soak-photos-${port}`,
+    child = spawn(
+      process.execPath,
+      [
+        '--expose-gc',
+        '--import',
+        `data:text/javascript,${encodeURIComponent(probe)}`,
+        '--import',
+        'tsx',
+        join(ROOT, 'server/main.ts'),
+      ],
+      {
+        cwd: ROOT,
+        env: {
+          ...process.env,
+          NODE_ENV: 'production',
+          HOST: '127.0.0.1',
+          PORT: String(port),
+          DATABASE_URL: db.url,
+          JWT_SECRET: randomBytes(32).toString('hex'),
+          ACCESS_TOKEN_TTL_S: '3600',
+          LOG_LEVEL: 'warn',
+          WORKERS_IN_PROCESS: 'false',
+          ANALYSIS_SWEEP_INTERVAL_S: '0',
+          PHOTO_DIR: `/tmp/tr-soak-photos-${port}`,
+        },
+        stdio: ['ignore', 'pipe', 'pipe'],
       },
-      stdio: ['ignore', 'pipe', 'pipe'],
-    });
+    );
     child.stdout!.on('data', (b: Buffer) => out.push(String(b)));
     child.stderr!.on('data', (b: Buffer) => out.push(String(b)));
     const t0 = Date.now();
@@ -167,7 +187,11 @@ async function main(): Promise<void> {
     }
     const base = `http://127.0.0.1:${port}`;
     const signIn = async (email: string) => {
-      const res = await fetch(`${base}/api/auth/sign-in`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email, password: DEMO_PASSWORD }) });
+      const res = await fetch(`${base}/api/auth/sign-in`, {
+        method: 'POST',
+        headers: { 'content-type': 'application/json' },
+        body: JSON.stringify({ email, password: DEMO_PASSWORD }),
+      });
       if (res.status !== 200) throw new Error(`sign-in ${email}: ${res.status} ${await res.text()}`);
       return ((await res.json()) as { accessToken: string }).accessToken;
     };
@@ -189,7 +213,9 @@ async function main(): Promise<void> {
       const readings = design.map((r, j) => {
         const i = demoUnit.instruments.find((x) => x.tag === r.instrumentTag)!;
         const wiggle = 1 + 1e-4 * Math.sin(k * 7.1 + j * 3.3);
-        const value = fromSI(i.quantity, r.valueSI * wiggle, r.shown.unit as Unit, r.shown.reference, { barometricPa: baro });
+        const value = fromSI(i.quantity, r.valueSI * wiggle, r.shown.unit as Unit, r.shown.reference, {
+          barometricPa: baro,
+        });
         return {
           id: randomUUID(),
           roundId,
@@ -212,7 +238,16 @@ async function main(): Promise<void> {
           payloadVersion: 2,
           deviceId: `soak-phone-${tech}`,
           sentAt: t,
-          rounds: [{ id: roundId, routeVersionId: route.current_version_id, startedAt: t, finishedAt: t, status: 'finished', dismissals: [] }],
+          rounds: [
+            {
+              id: roundId,
+              routeVersionId: route.current_version_id,
+              startedAt: t,
+              finishedAt: t,
+              status: 'finished',
+              dismissals: [],
+            },
+          ],
           readings,
           checkAnswers: [],
           photos: [],
@@ -222,11 +257,17 @@ async function main(): Promise<void> {
 
     // warm-up: one request of each kind, then the baseline RSS
     const warm = roundBody(0);
-    await fetch(`${base}/api/sync/push`, { method: 'POST', headers: { authorization: `Bearer ${techTokens[0]}`, 'content-type': 'application/json' }, body: warm.body });
+    await fetch(`${base}/api/sync/push`, {
+      method: 'POST',
+      headers: { authorization: `Bearer ${techTokens[0]}`, 'content-type': 'application/json' },
+      body: warm.body,
+    });
     pushedRounds.push(warm.roundId);
     pushedReadings.push(...warm.readingIds);
     await fetch(`${base}/api/sites/${site.id}/work-orders`, { headers: { authorization: `Bearer ${plannerToken}` } });
-    await fetch(`${base}/api/sites/${site.id}/instruments/${historyTags[0]}/history`, { headers: { authorization: `Bearer ${engineerToken}` } });
+    await fetch(`${base}/api/sites/${site.id}/instruments/${historyTags[0]}/history`, {
+      headers: { authorization: `Bearer ${engineerToken}` },
+    });
     await new Promise((r) => setTimeout(r, 500));
     const rssBefore = rssKb(child.pid!);
     const heapAfterGc = async (): Promise<{ heap: number; rss: number }> => {
@@ -264,7 +305,15 @@ async function main(): Promise<void> {
               if (c.tech === undefined) c.tech = nextTech++ % TECHS;
               const r = roundBody(c.tech);
               inFlight.set(context, { roundId: r.roundId, readingIds: r.readingIds });
-              return { ...req, headers: { ...req.headers, authorization: `Bearer ${techTokens[c.tech]}`, 'content-type': 'application/json' }, body: r.body };
+              return {
+                ...req,
+                headers: {
+                  ...req.headers,
+                  authorization: `Bearer ${techTokens[c.tech]}`,
+                  'content-type': 'application/json',
+                },
+                body: r.body,
+              };
             },
             onResponse: (status, _body, context) => {
               const r = inFlight.get(context);
@@ -287,7 +336,10 @@ async function main(): Promise<void> {
         requests: [
           {
             method: 'GET',
-            setupRequest: (req) => ({ ...req, path: `/api/sites/${site.id}/instruments/${historyTags[historyIx++ % historyTags.length]}/history` }),
+            setupRequest: (req) => ({
+              ...req,
+              path: `/api/sites/${site.id}/instruments/${historyTags[historyIx++ % historyTags.length]}/history`,
+            }),
           },
         ],
       }),
@@ -302,9 +354,14 @@ async function main(): Promise<void> {
 
     // what the database holds of what was pushed
     const [{ stored, distinct }] = (
-      await q.query(`SELECT count(*)::int AS stored, count(DISTINCT id)::int AS distinct FROM readings WHERE round_id = ANY($1::uuid[])`, [pushedRounds])
+      await q.query(
+        `SELECT count(*)::int AS stored, count(DISTINCT id)::int AS distinct FROM readings WHERE round_id = ANY($1::uuid[])`,
+        [pushedRounds],
+      )
     ).rows as { stored: number; distinct: number }[];
-    const [{ rounds }] = (await q.query(`SELECT count(*)::int AS rounds FROM rounds WHERE id = ANY($1::uuid[])`, [pushedRounds])).rows as { rounds: number }[];
+    const [{ rounds }] = (
+      await q.query(`SELECT count(*)::int AS rounds FROM rounds WHERE id = ANY($1::uuid[])`, [pushedRounds])
+    ).rows as { rounds: number }[];
     const pushedSet = new Set(pushedReadings);
     const duplicates = stored - distinct + Math.max(0, distinct - pushedSet.size);
     const lost = Math.max(0, pushedSet.size - distinct);
@@ -312,14 +369,30 @@ async function main(): Promise<void> {
     const rows = [pushes, lists, history].map((k) => {
       const r = k.result!;
       const errors = r.errors + r.timeouts + r.non2xx;
-      return { kind: k.name, requests: r.requests.total, rps: r.requests.average, p50: r.latency.p50, p99: r.latency.p99, errors };
+      return {
+        kind: k.name,
+        requests: r.requests.total,
+        rps: r.requests.average,
+        p50: r.latency.p50,
+        p99: r.latency.p99,
+        errors,
+      };
     });
     const pad = (s: string | number, n: number) => String(s).padStart(n);
-    console.log(`\nSoak: ${SECONDS} s, ${TECHS} technicians pushing, 5 planners listing work orders, 5 engineers reading instrument history (server pid ${child.pid})\n`);
-    console.log(`${'kind'.padEnd(22)}${pad('requests', 10)}${pad('req/s', 9)}${pad('p50 ms', 9)}${pad('p99 ms', 9)}${pad('errors', 8)}`);
-    for (const r of rows) console.log(`${r.kind.padEnd(22)}${pad(r.requests, 10)}${pad(r.rps.toFixed(1), 9)}${pad(r.p50, 9)}${pad(r.p99, 9)}${pad(r.errors, 8)}`);
+    console.log(
+      `\nSoak: ${SECONDS} s, ${TECHS} technicians pushing, 5 planners listing work orders, 5 engineers reading instrument history (server pid ${child.pid})\n`,
+    );
+    console.log(
+      `${'kind'.padEnd(22)}${pad('requests', 10)}${pad('req/s', 9)}${pad('p50 ms', 9)}${pad('p99 ms', 9)}${pad('errors', 8)}`,
+    );
+    for (const r of rows)
+      console.log(
+        `${r.kind.padEnd(22)}${pad(r.requests, 10)}${pad(r.rps.toFixed(1), 9)}${pad(r.p50, 9)}${pad(r.p99, 9)}${pad(r.errors, 8)}`,
+      );
     const totalErrors = rows.reduce((s, r) => s + r.errors, 0);
-    console.log(`\nrounds pushed (200) ${pushedRounds.length}, stored ${rounds}; readings pushed ${pushedSet.size}, stored ${stored} (distinct ids ${distinct})`);
+    console.log(
+      `\nrounds pushed (200) ${pushedRounds.length}, stored ${rounds}; readings pushed ${pushedSet.size}, stored ${stored} (distinct ids ${distinct})`,
+    );
     console.log(`duplicates ${duplicates}, lost ${lost}, errors ${totalErrors}`);
     // Growth is the median RSS of the second half of the run against that of the first half
     // (samples every 10 s under load). From idle every server "grows" while its heap sizes itself
@@ -327,7 +400,11 @@ async function main(): Promise<void> {
     // as the level climbing from one half to the other.
     const median = (xs: number[]) => {
       const s = [...xs].sort((a, b) => a - b);
-      return s.length === 0 ? Number.NaN : s.length % 2 ? s[(s.length - 1) / 2] : (s[s.length / 2 - 1] + s[s.length / 2]) / 2;
+      return s.length === 0
+        ? Number.NaN
+        : s.length % 2
+          ? s[(s.length - 1) / 2]
+          : (s[s.length / 2 - 1] + s[s.length / 2]) / 2;
     };
     const half = Math.max(1, Math.floor(samples.length / 2));
     const firstHalf = median(samples.slice(0, half).length ? samples.slice(0, half) : [rssBefore]);
@@ -344,7 +421,8 @@ async function main(): Promise<void> {
       `server heap after a full GC: before ${mib(gcBefore.heap)} MiB, after ${mib(gcAfter.heap)} MiB (${heapGrowth >= 0 ? '+' : ''}${(heapGrowth * 100).toFixed(1)} %); RSS then ${mib(gcAfter.rss)} MiB`,
     );
     if (child.exitCode !== null) throw new Error(`server exited during the soak: ${out.join('').slice(-2000)}`);
-    if (totalErrors > 0 || duplicates > 0 || lost > 0 || rounds !== pushedRounds.length || growth > 0.1) process.exitCode = 1;
+    if (totalErrors > 0 || duplicates > 0 || lost > 0 || rounds !== pushedRounds.length || growth > 0.1)
+      process.exitCode = 1;
   } finally {
     child?.kill('SIGTERM');
     await q.end();

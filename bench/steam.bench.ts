@@ -134,13 +134,27 @@ interface PyTiming {
 function writePoints(dir: string, points: Points, extra: Record<string, number[]> = {}): string {
   const pairs = (a: Float64Array) => Array.from({ length: a.length / 2 }, (_, i) => [a[2 * i], a[2 * i + 1]]);
   const file = join(dir, 'points.json');
-  writeFileSync(file, JSON.stringify({ pt: pairs(points.pt), ph: pairs(points.ph), ps: pairs(points.ps), tsat: Array.from(points.tsat), ...extra }));
+  writeFileSync(
+    file,
+    JSON.stringify({
+      pt: pairs(points.pt),
+      ph: pairs(points.ph),
+      ps: pairs(points.ps),
+      tsat: Array.from(points.tsat),
+      ...extra,
+    }),
+  );
   return file;
 }
 
-function runPython(python: string, script: string, args: string[]): { ok: true; out: unknown } | { ok: false; message: string } {
+function runPython(
+  python: string,
+  script: string,
+  args: string[],
+): { ok: true; out: unknown } | { ok: false; message: string } {
   const r = spawnSync(python, ['-c', script, ...args], { encoding: 'utf8', maxBuffer: 1 << 26 });
-  if (r.status !== 0) return { ok: false, message: (r.stderr || r.error?.message || '').trim().split('\n').pop() ?? '' };
+  if (r.status !== 0)
+    return { ok: false, message: (r.stderr || r.error?.message || '').trim().split('\n').pop() ?? '' };
   return { ok: true, out: JSON.parse(r.stdout.trim().split('\n').pop() as string) };
 }
 
@@ -312,7 +326,8 @@ export async function run(): Promise<void> {
   }
   const cpRows = CALLS.map((name) => {
     const c = cp[name];
-    const tsSame = c.refused.length === 0 ? ts[name] : timeCall(name, without(points[name], name === 'tsat' ? 1 : 2, c.refused));
+    const tsSame =
+      c.refused.length === 0 ? ts[name] : timeCall(name, without(points[name], name === 'tsat' ? 1 : 2, c.refused));
     const net = c.us - c.loop_us;
     return {
       call: name,
@@ -325,7 +340,9 @@ export async function run(): Promise<void> {
       'max diff from TS': name === 'pt' ? `${c.dev.toExponential(1)} (rel. h)` : `${(c.dev * 1e3).toFixed(2)} mK`,
     };
   });
-  console.log(`CoolProp ${cp.version as unknown as string} IF97 backend on the same points (those it takes); best of 3 passes`);
+  console.log(
+    `CoolProp ${cp.version as unknown as string} IF97 backend on the same points (those it takes); best of 3 passes`,
+  );
   console.table(cpRows);
   for (const name of ['ph', 'ps'] as const) {
     const byRegion: Record<number, number> = {};

@@ -31,7 +31,14 @@ export async function run(): Promise<void> {
   await seedDemo(ds);
   await ds.destroy();
   const server = await start(
-    loadConfig({ NODE_ENV: 'production', PORT: '0', DATABASE_URL: url, JWT_SECRET: randomBytes(32).toString('hex'), LOG_LEVEL: 'warn', PHOTO_DIR: `/tmp/${name}-photos` }),
+    loadConfig({
+      NODE_ENV: 'production',
+      PORT: '0',
+      DATABASE_URL: url,
+      JWT_SECRET: randomBytes(32).toString('hex'),
+      LOG_LEVEL: 'warn',
+      PHOTO_DIR: `/tmp/${name}-photos`,
+    }),
   );
   process.env.EXPO_PUBLIC_API_URL = server.url;
 
@@ -44,7 +51,10 @@ export async function run(): Promise<void> {
     const { openSqlJsDb } = await import('../tests/unit/offline/sqljs-db');
     const { createHash } = await import('node:crypto');
 
-    const signIn = await rawRequest<{ accessToken: string; user: { memberships: { siteId: string; siteName: string }[] } }>('/api/auth/sign-in', {
+    const signIn = await rawRequest<{
+      accessToken: string;
+      user: { memberships: { siteId: string; siteName: string }[] };
+    }>('/api/auth/sign-in', {
       method: 'POST',
       json: { email: 'tech@fernhallow.example', password: 'trueround-demo' },
     });
@@ -57,7 +67,13 @@ export async function run(): Promise<void> {
     const clock = { now: () => Date.now() };
     const sha256 = async (b: Uint8Array) => createHash('sha256').update(b).digest('hex');
     const actions = createActions({ store, ids, clock, sha256 });
-    const sync = createSyncClient({ store, transport: createHttpTransport(() => request), ids, clock, siteId: () => siteId });
+    const sync = createSyncClient({
+      store,
+      transport: createHttpTransport(() => request),
+      ids,
+      clock,
+      siteId: () => siteId,
+    });
     await sync.syncNow({ force: true }); // pull reference data
 
     const route = (await store.listRoutes(siteId)).find((r) => r.version.template.id === 'boiler-house')!;
@@ -91,10 +107,32 @@ export async function run(): Promise<void> {
       payloadVersion: 2,
       deviceId: randomUUID(),
       sentAt: now,
-      rounds: [{ id: baseRound, routeVersionId: route.version.id, startedAt: now, finishedAt: null, status: 'in-progress', dismissals: [] }],
+      rounds: [
+        {
+          id: baseRound,
+          routeVersionId: route.version.id,
+          startedAt: now,
+          finishedAt: null,
+          status: 'in-progress',
+          dismissals: [],
+        },
+      ],
       readings: Array.from({ length: N }, (_, k) => {
         const spec = specs[k % specs.length];
-        return { id: randomUUID(), roundId: baseRound, instrumentId: byTag[spec.tag], valueTyped: (spec.band.min + spec.band.max) / 2, unit: spec.unit, reference: spec.reference ?? null, deviceTime: now, note: null, skipReason: null, supersedes: null, confirmedAfterFlag: false, flags: [] };
+        return {
+          id: randomUUID(),
+          roundId: baseRound,
+          instrumentId: byTag[spec.tag],
+          valueTyped: (spec.band.min + spec.band.max) / 2,
+          unit: spec.unit,
+          reference: spec.reference ?? null,
+          deviceTime: now,
+          note: null,
+          skipReason: null,
+          supersedes: null,
+          confirmedAfterFlag: false,
+          flags: [],
+        };
       }),
       checkAnswers: [],
       photos: [],
@@ -110,15 +148,23 @@ export async function run(): Promise<void> {
 
     const db = new Client({ connectionString: url });
     await db.connect();
-    const stored = Number((await db.query('select count(*)::int as n from readings where round_id = $1', [round.id])).rows[0].n);
+    const stored = Number(
+      (await db.query('select count(*)::int as n from readings where round_id = $1', [round.id])).rows[0].n,
+    );
     await db.end();
 
-    console.log(`readings recorded on the device: ${N} (${(tRecord / N).toFixed(2)} ms each, record + outbox row in one SQLite transaction)`);
-    console.log(`outbox after sync: waiting ${counts.waiting}, sent ${counts.sent}, refused ${counts.refused}; rows stored on the server: ${stored}`);
+    console.log(
+      `readings recorded on the device: ${N} (${(tRecord / N).toFixed(2)} ms each, record + outbox row in one SQLite transaction)`,
+    );
+    console.log(
+      `outbox after sync: waiting ${counts.waiting}, sent ${counts.sent}, refused ${counts.refused}; rows stored on the server: ${stored}`,
+    );
     console.log('| what | time (ms) | ratio |');
     console.log('| --- | ---: | ---: |');
     console.log(`| baseline: one hand-made push of ${N} readings | ${tBase.toFixed(0)} | 1.00 |`);
-    console.log(`| sync client: outbox of ${N} readings → server (batches of 500) | ${tSync.toFixed(0)} | ${(tSync / tBase).toFixed(2)} |`);
+    console.log(
+      `| sync client: outbox of ${N} readings → server (batches of 500) | ${tSync.toFixed(0)} | ${(tSync / tBase).toFixed(2)} |`,
+    );
     if (!result.ok || stored !== N) throw new Error(`sync incomplete: ok=${result.ok}, stored ${stored} of ${N}`);
   } finally {
     await server.stop();

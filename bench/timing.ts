@@ -2,7 +2,11 @@
  * Median ms per call of `a` and `b`, measured interleaved so that machine load hits both alike.
  * `warmup` calls of each first; then at least `minReps` pairs and at least `minMs` of wall time.
  */
-export function timePair(a: () => unknown, b: () => unknown, opts: { minMs?: number; minReps?: number; warmup?: number } = {}): { a: number; b: number; reps: number } {
+export function timePair(
+  a: () => unknown,
+  b: () => unknown,
+  opts: { minMs?: number; minReps?: number; warmup?: number } = {},
+): { a: number; b: number; reps: number } {
   const { minMs = 1500, minReps = 15, warmup = 20 } = opts;
   for (let i = 0; i < warmup; i++) {
     a();

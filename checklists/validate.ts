@@ -37,9 +37,7 @@ export interface RouteModel {
   instruments: readonly RouteModelInstrument[];
 }
 
-export type RouteValidation =
-  | { ok: true; route: RouteTemplate; issues: [] }
-  | { ok: false; issues: RouteIssue[] };
+export type RouteValidation = { ok: true; route: RouteTemplate; issues: [] } | { ok: false; issues: RouteIssue[] };
 
 /**
  * Quantity of an ISA-5.1 tag from its first letter (ISA-5.1 table of identification letters:
@@ -67,7 +65,9 @@ export class RouteTemplateError extends Error {
     readonly routeId: string,
     readonly issues: RouteIssue[],
   ) {
-    super(`Route template ${JSON.stringify(routeId)} is invalid: ${issues.map((i) => `${i.path}: ${i.message}`).join('; ')}`);
+    super(
+      `Route template ${JSON.stringify(routeId)} is invalid: ${issues.map((i) => `${i.path}: ${i.message}`).join('; ')}`,
+    );
     this.name = 'RouteTemplateError';
   }
 }
@@ -77,7 +77,10 @@ export function validateRoute(template: unknown, model?: RouteModel): RouteValid
   if (!parsed.success) {
     return {
       ok: false,
-      issues: parsed.error.issues.map((i) => ({ path: i.path.map(String).join('.') || '(template)', message: i.message })),
+      issues: parsed.error.issues.map((i) => ({
+        path: i.path.map(String).join('.') || '(template)',
+        message: i.message,
+      })),
     };
   }
   const route = parsed.data;
@@ -130,7 +133,10 @@ export function validateRoute(template: unknown, model?: RouteModel): RouteValid
 
       const unit = lookupUnit(r.unit);
       if (!unit) {
-        add(`${rp}.unit`, `unknown unit "${r.unit}"${quantity ? `; a ${QUANTITY_NAMES[quantity]} takes ${UNITS_BY_QUANTITY[quantity].join(', ')}` : ''}`);
+        add(
+          `${rp}.unit`,
+          `unknown unit "${r.unit}"${quantity ? `; a ${QUANTITY_NAMES[quantity]} takes ${UNITS_BY_QUANTITY[quantity].join(', ')}` : ''}`,
+        );
       } else if (quantity && unit.quantity !== quantity) {
         add(
           `${rp}.unit`,
@@ -177,7 +183,8 @@ export function validateRoute(template: unknown, model?: RouteModel): RouteValid
 export function parseRoute(template: unknown, model?: RouteModel): RouteTemplate {
   const r = validateRoute(template, model);
   if (!r.ok) {
-    const id = typeof template === 'object' && template && 'id' in template ? String((template as { id: unknown }).id) : '?';
+    const id =
+      typeof template === 'object' && template && 'id' in template ? String((template as { id: unknown }).id) : '?';
     throw new RouteTemplateError(id, r.issues);
   }
   return r.route;

@@ -27,14 +27,23 @@ export function AppShell({ nav, title, children }: { nav: NavItem[]; title: stri
   const { user, membership, signOut: endSession } = useSession();
   const signOut = useSignOut(endSession);
   const router = useRouter();
-  const password = <Button testID="password-open" label="Password" kind="inverse" onPress={() => router.push('/password')} />;
+  const password = (
+    <Button testID="password-open" label="Password" kind="inverse" onPress={() => router.push('/password')} />
+  );
   // The group's title heads its home only; deeper screens carry their own heading.
-  const heading = pathname === nav[0]?.href ? <ThemedText variant="heading" accessibilityRole="header">{title}</ThemedText> : null;
+  const heading =
+    pathname === nav[0]?.href ? (
+      <ThemedText variant="heading" accessibilityRole="header">
+        {title}
+      </ThemedText>
+    ) : null;
 
   const places = nav.map((item) => {
     // A place is active on its own path and below it, unless a more specific place claims the path.
     const under = (href: string) => pathname === href || pathname.startsWith(href + '/');
-    const active = under(item.href) && !nav.some((o) => o.href.length > item.href.length && o.href.startsWith(item.href) && under(o.href));
+    const active =
+      under(item.href) &&
+      !nav.some((o) => o.href.length > item.href.length && o.href.startsWith(item.href) && under(o.href));
     const edge = active ? colors.accent : colors.clear;
     return (
       <Link key={item.href} href={item.href} asChild>
@@ -67,7 +76,9 @@ export function AppShell({ nav, title, children }: { nav: NavItem[]; title: stri
     return (
       <View style={[styles.row, { backgroundColor: colors.background }]}>
         <View style={[styles.side, { backgroundColor: colors.primary }]} testID="nav-side">
-          <ThemedText variant="title" style={{ color: colors.onPrimary }}>Trueround</ThemedText>
+          <ThemedText variant="title" style={{ color: colors.onPrimary }}>
+            Trueround
+          </ThemedText>
           <View style={styles.sideList}>{places}</View>
           {account}
         </View>
@@ -81,7 +92,9 @@ export function AppShell({ nav, title, children }: { nav: NavItem[]; title: stri
   return (
     <SafeAreaView style={[styles.flex, { backgroundColor: colors.background }]}>
       <View style={[styles.top, { backgroundColor: colors.primary }]}>
-        <ThemedText variant="title" style={{ color: colors.onPrimary }}>Trueround</ThemedText>
+        <ThemedText variant="title" style={{ color: colors.onPrimary }}>
+          Trueround
+        </ThemedText>
         <View style={styles.topActions}>
           {password}
           <Button testID="sign-out" label="Sign out" kind="inverse" onPress={() => void signOut()} />
@@ -92,7 +105,10 @@ export function AppShell({ nav, title, children }: { nav: NavItem[]; title: stri
         {children}
       </ScrollView>
       {nav.length > 1 ? (
-        <View style={[styles.bottom, { backgroundColor: colors.surface, borderColor: colors.rule }]} testID="nav-bottom">
+        <View
+          style={[styles.bottom, { backgroundColor: colors.surface, borderColor: colors.rule }]}
+          testID="nav-bottom"
+        >
           {places}
         </View>
       ) : null}
@@ -107,8 +123,20 @@ const styles = StyleSheet.create({
   sideList: { flex: 1, gap: space.xs },
   sideItem: { minHeight: touchTarget, justifyContent: 'center', paddingHorizontal: space.md, borderLeftWidth: 4 },
   bottom: { flexDirection: 'row', borderTopWidth: 1 },
-  bottomItem: { flex: 1, minHeight: touchTarget + 8, alignItems: 'center', justifyContent: 'center', borderTopWidth: 4 },
-  top: { flexDirection: 'row', alignItems: 'center', justifyContent: 'space-between', paddingHorizontal: space.lg, paddingVertical: space.sm },
+  bottomItem: {
+    flex: 1,
+    minHeight: touchTarget + 8,
+    alignItems: 'center',
+    justifyContent: 'center',
+    borderTopWidth: 4,
+  },
+  top: {
+    flexDirection: 'row',
+    alignItems: 'center',
+    justifyContent: 'space-between',
+    paddingHorizontal: space.lg,
+    paddingVertical: space.sm,
+  },
   account: { gap: space.sm },
   topActions: { flexDirection: 'row', gap: space.sm },
   content: { padding: space.lg, gap: space.lg, maxWidth: 1100, width: '100%' },

@@ -8,7 +8,11 @@ export function Card({ style, children, ...rest }: ViewProps) {
   return (
     <View
       {...rest}
-      style={[styles.card, { backgroundColor: colors.surface, borderColor: colors.rule, borderLeftColor: colors.primary }, style]}
+      style={[
+        styles.card,
+        { backgroundColor: colors.surface, borderColor: colors.rule, borderLeftColor: colors.primary },
+        style,
+      ]}
     >
       {children}
     </View>

@@ -13,7 +13,9 @@ export function Caution({ children, testID = 'caution' }: { children: string; te
     <View testID={testID} accessibilityRole="alert" style={[styles.band, { backgroundColor: colors.caution }]}>
       <View style={[styles.edge, { backgroundColor: colors.onCaution }]} />
       <ThemedText variant="label" style={[styles.text, { color: colors.onCaution }]}>
-        <ThemedText variant="label" bold style={{ color: colors.onCaution }}>CAUTION  </ThemedText>
+        <ThemedText variant="label" bold style={{ color: colors.onCaution }}>
+          CAUTION{' '}
+        </ThemedText>
         {children}
       </ThemedText>
     </View>

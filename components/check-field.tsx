@@ -6,10 +6,17 @@ import type { RouteCheck } from '@/shared/route/template';
 import { Button } from './button';
 import { ThemedText } from './themed-text';
 
-export type CheckValue = { kind: 'yes-no'; value: boolean } | { kind: 'choice'; value: string } | { kind: 'text'; value: string };
+export type CheckValue =
+  { kind: 'yes-no'; value: boolean } | { kind: 'choice'; value: string } | { kind: 'text'; value: string };
 
 /** One yes/no, choice or free-text check at a stop. */
-export function CheckField({ check, answer, onAnswer, onPhoto, photoCount }: {
+export function CheckField({
+  check,
+  answer,
+  onAnswer,
+  onPhoto,
+  photoCount,
+}: {
   check: RouteCheck;
   answer?: CheckValue;
   onAnswer(v: CheckValue): void;
@@ -22,10 +29,19 @@ export function CheckField({ check, answer, onAnswer, onPhoto, photoCount }: {
   useEffect(() => {
     if (answer?.kind === 'text') setText(answer.value);
   }, [answer]);
-  const off = check.kind === 'yes-no' && answer?.kind === 'yes-no' && check.expected !== undefined && answer.value !== check.expected;
+  const off =
+    check.kind === 'yes-no' &&
+    answer?.kind === 'yes-no' &&
+    check.expected !== undefined &&
+    answer.value !== check.expected;
   return (
-    <View testID={id} style={[styles.wrap, { borderColor: off ? colors.warning : colors.rule, backgroundColor: colors.surface }]}>
-      <ThemedText variant="label" bold>{check.prompt}</ThemedText>
+    <View
+      testID={id}
+      style={[styles.wrap, { borderColor: off ? colors.warning : colors.rule, backgroundColor: colors.surface }]}
+    >
+      <ThemedText variant="label" bold>
+        {check.prompt}
+      </ThemedText>
       {check.kind === 'yes-no' ? (
         <View style={styles.row}>
           {[true, false].map((v) => (
@@ -65,11 +81,26 @@ export function CheckField({ check, answer, onAnswer, onPhoto, photoCount }: {
           style={[styles.text, { color: colors.text, borderColor: colors.rule, backgroundColor: colors.background }]}
         />
       ) : null}
-      {off ? <ThemedText variant="caption" tone="warning" testID={`${id}-off`}>Not the healthy answer: add a note or a photo for the planner.</ThemedText> : null}
+      {off ? (
+        <ThemedText variant="caption" tone="warning" testID={`${id}-off`}>
+          Not the healthy answer: add a note or a photo for the planner.
+        </ThemedText>
+      ) : null}
       {check.photoRequired || onPhoto ? (
         <View style={styles.row}>
-          {onPhoto ? <Button testID={`${id}-photo`} label={photoCount ? `Photo (${photoCount})` : 'Add photo'} kind="plain" onPress={onPhoto} /> : null}
-          {check.photoRequired && photoCount === 0 ? <ThemedText variant="caption" muted>A photo is required here.</ThemedText> : null}
+          {onPhoto ? (
+            <Button
+              testID={`${id}-photo`}
+              label={photoCount ? `Photo (${photoCount})` : 'Add photo'}
+              kind="plain"
+              onPress={onPhoto}
+            />
+          ) : null}
+          {check.photoRequired && photoCount === 0 ? (
+            <ThemedText variant="caption" muted>
+              A photo is required here.
+            </ThemedText>
+          ) : null}
         </View>
       ) : null}
     </View>
@@ -79,5 +110,12 @@ export function CheckField({ check, answer, onAnswer, onPhoto, photoCount }: {
 const styles = StyleSheet.create({
   wrap: { borderWidth: 1, borderRadius: radius.sm, padding: space.md, gap: space.sm },
   row: { flexDirection: 'row', gap: space.sm, flexWrap: 'wrap', alignItems: 'center' },
-  text: { minHeight: touchTarget * 1.5, borderWidth: 1, borderRadius: radius.sm, padding: space.sm, fontFamily: fonts.regular, fontSize: type.body.fontSize },
+  text: {
+    minHeight: touchTarget * 1.5,
+    borderWidth: 1,
+    borderRadius: radius.sm,
+    padding: space.sm,
+    fontFamily: fonts.regular,
+    fontSize: type.body.fontSize,
+  },
 });

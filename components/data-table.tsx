@@ -43,10 +43,26 @@ export interface DataTableProps<T> {
   empty?: string;
 }
 
-export function DataTable<T>({ rows, columns, rowKey, cardTitle, onPressRow, sort, onSort, testID, rowTestID, empty = 'Nothing to show.' }: DataTableProps<T>) {
+export function DataTable<T>({
+  rows,
+  columns,
+  rowKey,
+  cardTitle,
+  onPressRow,
+  sort,
+  onSort,
+  testID,
+  rowTestID,
+  empty = 'Nothing to show.',
+}: DataTableProps<T>) {
   const wide = useWide();
   const { colors } = useTheme();
-  if (rows.length === 0) return <ThemedText muted testID={`${testID}-empty`}>{empty}</ThemedText>;
+  if (rows.length === 0)
+    return (
+      <ThemedText muted testID={`${testID}-empty`}>
+        {empty}
+      </ThemedText>
+    );
 
   if (!wide) {
     return (
@@ -59,18 +75,27 @@ export function DataTable<T>({ rows, columns, rowKey, cardTitle, onPressRow, sor
                 .filter((c) => !c.wideOnly)
                 .map((c) => (
                   <View key={c.key} style={styles.cardLine}>
-                    <ThemedText variant="caption" muted>{c.label}</ThemedText>
+                    <ThemedText variant="caption" muted>
+                      {c.label}
+                    </ThemedText>
                     <View style={styles.cardValue}>{wrap(c.render(row), c.numeric)}</View>
                   </View>
                 ))}
             </Card>
           );
           return onPressRow ? (
-            <Pressable key={rowKey(row)} accessibilityRole="button" testID={rowTestID?.(row)} onPress={() => onPressRow(row)}>
+            <Pressable
+              key={rowKey(row)}
+              accessibilityRole="button"
+              testID={rowTestID?.(row)}
+              onPress={() => onPressRow(row)}
+            >
               {body}
             </Pressable>
           ) : (
-            <View key={rowKey(row)} testID={rowTestID?.(row)}>{body}</View>
+            <View key={rowKey(row)} testID={rowTestID?.(row)}>
+              {body}
+            </View>
           );
         })}
       </View>
@@ -78,7 +103,11 @@ export function DataTable<T>({ rows, columns, rowKey, cardTitle, onPressRow, sor
   }
 
   return (
-    <View style={[styles.table, { borderColor: colors.rule, backgroundColor: colors.surface }]} testID={testID} accessibilityRole="list">
+    <View
+      style={[styles.table, { borderColor: colors.rule, backgroundColor: colors.surface }]}
+      testID={testID}
+      accessibilityRole="list"
+    >
       <View style={[styles.row, styles.head, { borderColor: colors.rule, backgroundColor: colors.surfaceAlt }]}>
         {columns.map((c) => {
           const flex = { flex: c.flex ?? 1 };
@@ -93,25 +122,39 @@ export function DataTable<T>({ rows, columns, rowKey, cardTitle, onPressRow, sor
               onPress={() => onSort(active === 'asc' ? `-${c.sortKey}` : c.sortKey!)}
               style={[styles.cell, styles.headCell, flex]}
             >
-              <ThemedText variant="label" bold numeric={c.numeric} tone={active ? 'accent' : undefined}>{label}</ThemedText>
+              <ThemedText variant="label" bold numeric={c.numeric} tone={active ? 'accent' : undefined}>
+                {label}
+              </ThemedText>
             </Pressable>
           ) : (
             <View key={c.key} style={[styles.cell, styles.headCell, flex]}>
-              <ThemedText variant="label" bold numeric={c.numeric}>{c.label}</ThemedText>
+              <ThemedText variant="label" bold numeric={c.numeric}>
+                {c.label}
+              </ThemedText>
             </View>
           );
         })}
       </View>
       {rows.map((row) => {
         const cells = columns.map((c) => (
-          <View key={c.key} style={[styles.cell, { flex: c.flex ?? 1 }]}>{wrap(c.render(row), c.numeric)}</View>
+          <View key={c.key} style={[styles.cell, { flex: c.flex ?? 1 }]}>
+            {wrap(c.render(row), c.numeric)}
+          </View>
         ));
         return onPressRow ? (
-          <Pressable key={rowKey(row)} accessibilityRole="button" testID={rowTestID?.(row)} onPress={() => onPressRow(row)} style={[styles.row, { borderColor: colors.rule }]}>
+          <Pressable
+            key={rowKey(row)}
+            accessibilityRole="button"
+            testID={rowTestID?.(row)}
+            onPress={() => onPressRow(row)}
+            style={[styles.row, { borderColor: colors.rule }]}
+          >
             {cells}
           </Pressable>
         ) : (
-          <View key={rowKey(row)} testID={rowTestID?.(row)} style={[styles.row, { borderColor: colors.rule }]}>{cells}</View>
+          <View key={rowKey(row)} testID={rowTestID?.(row)} style={[styles.row, { borderColor: colors.rule }]}>
+            {cells}
+          </View>
         );
       })}
     </View>
@@ -119,7 +162,13 @@ export function DataTable<T>({ rows, columns, rowKey, cardTitle, onPressRow, sor
 }
 
 function wrap(v: ReactNode, numeric?: boolean): ReactNode {
-  return typeof v === 'string' || typeof v === 'number' ? <ThemedText variant="label" numeric={numeric}>{String(v)}</ThemedText> : v;
+  return typeof v === 'string' || typeof v === 'number' ? (
+    <ThemedText variant="label" numeric={numeric}>
+      {String(v)}
+    </ThemedText>
+  ) : (
+    v
+  );
 }
 
 /** Paging under a list: "21–40 of 57" with previous and next. */
@@ -139,12 +188,32 @@ export function Pager({
   /** what is counted, one and many */
   noun?: [string, string];
 }) {
-  if (total <= limit && offset === 0) return <ThemedText variant="caption" muted testID={`${testID}-count`}>{total === 1 ? `1 ${noun[0]}` : `${total} ${noun[1]}`}</ThemedText>;
+  if (total <= limit && offset === 0)
+    return (
+      <ThemedText variant="caption" muted testID={`${testID}-count`}>
+        {total === 1 ? `1 ${noun[0]}` : `${total} ${noun[1]}`}
+      </ThemedText>
+    );
   return (
     <View style={styles.pager}>
-      <Button label="Previous" kind="plain" testID={`${testID}-prev`} disabled={offset === 0} onPress={() => onOffset(Math.max(0, offset - limit))} />
-      <ThemedText variant="label" testID={`${testID}-count`}>{`${total ? offset + 1 : 0}–${Math.min(total, offset + limit)} of ${total}`}</ThemedText>
-      <Button label="Next" kind="plain" testID={`${testID}-next`} disabled={offset + limit >= total} onPress={() => onOffset(offset + limit)} />
+      <Button
+        label="Previous"
+        kind="plain"
+        testID={`${testID}-prev`}
+        disabled={offset === 0}
+        onPress={() => onOffset(Math.max(0, offset - limit))}
+      />
+      <ThemedText
+        variant="label"
+        testID={`${testID}-count`}
+      >{`${total ? offset + 1 : 0}–${Math.min(total, offset + limit)} of ${total}`}</ThemedText>
+      <Button
+        label="Next"
+        kind="plain"
+        testID={`${testID}-next`}
+        disabled={offset + limit >= total}
+        onPress={() => onOffset(offset + limit)}
+      />
     </View>
   );
 }
@@ -155,7 +224,8 @@ async function storedToken(): Promise<string | null> {
 
 /** GET a path with the session's token as a blob (refreshing the token once on 401 through the session). */
 export async function fetchAuthedBlob(path: string, refresh: () => Promise<unknown>): Promise<Blob> {
-  const get = async () => fetch(`${API_BASE}${path}`, { headers: { Authorization: `Bearer ${(await storedToken()) ?? ''}` } });
+  const get = async () =>
+    fetch(`${API_BASE}${path}`, { headers: { Authorization: `Bearer ${(await storedToken()) ?? ''}` } });
   let res = await get();
   if (res.status === 401) {
     await refresh().catch(() => undefined);
@@ -166,7 +236,17 @@ export async function fetchAuthedBlob(path: string, refresh: () => Promise<unkno
 }
 
 /** A button that downloads a CSV export (web: an <a download> on an object URL). */
-export function ExportButton({ path, filename, label, testID }: { path: string; filename: string; label: string; testID: string }) {
+export function ExportButton({
+  path,
+  filename,
+  label,
+  testID,
+}: {
+  path: string;
+  filename: string;
+  label: string;
+  testID: string;
+}) {
   const { request } = useSession();
   const [busy, setBusy] = useState(false);
   const [error, setError] = useState<string | null>(null);
@@ -196,7 +276,11 @@ export function ExportButton({ path, filename, label, testID }: { path: string; 
   return (
     <View style={styles.exportWrap}>
       <Button label={label} kind="plain" busy={busy} testID={testID} onPress={go} />
-      {error ? <ThemedText variant="caption" tone="danger" testID={`${testID}-error`}>{error}</ThemedText> : null}
+      {error ? (
+        <ThemedText variant="caption" tone="danger" testID={`${testID}-error`}>
+          {error}
+        </ThemedText>
+      ) : null}
     </View>
   );
 }

@@ -9,13 +9,21 @@ import type { InstrumentDetectability, Remedy, UnitDetectability } from '@/share
 import { showDeltaOf } from './instrument-values';
 import { ThemedText } from './themed-text';
 
-const QUANTITY_DEVICE: Record<string, string> = { pressure: 'pressure gauge', temperature: 'thermometer', massFlow: 'flow meter', power: 'power meter', level: 'level gauge' };
+const QUANTITY_DEVICE: Record<string, string> = {
+  pressure: 'pressure gauge',
+  temperature: 'thermometer',
+  massFlow: 'flow meter',
+  power: 'power meter',
+  level: 'level gauge',
+};
 
 /** The one added or upgraded measurement, said with what it would give. */
 export function remedyWords(r: Remedy): string {
   const from = `the balances would notice it from ${showDeltaOf(r.quantity, r.mdb)} off`;
-  if (r.kind === 'twin') return `A second ${QUANTITY_DEVICE[r.quantity] ?? 'instrument'} of its class beside it: ${from}.`;
-  if (r.kind === 'new-reading') return `A new ${r.device} at ${r.pointLabel.charAt(0).toLowerCase()}${r.pointLabel.slice(1)}: ${from}.`;
+  if (r.kind === 'twin')
+    return `A second ${QUANTITY_DEVICE[r.quantity] ?? 'instrument'} of its class beside it: ${from}.`;
+  if (r.kind === 'new-reading')
+    return `A new ${r.device} at ${r.pointLabel.charAt(0).toLowerCase()}${r.pointLabel.slice(1)}: ${from}.`;
   return `${r.tag} with half its uncertainty (a tighter class, ±${showDeltaOf(r.quantity, r.sigmaTo)} instead of ±${showDeltaOf(r.quantity, r.sigmaFrom)}): ${from}.`;
 }
 
@@ -53,8 +61,13 @@ export function DetectabilitySummary({ unit, testID }: { unit: UnitDetectability
       </ThemedText>
       {open.map((r) => (
         <View key={r.tag} style={styles.item} testID={`${testID}-${r.tag}`}>
-          <ThemedText variant="label" tone={r.status === 'unchecked' ? 'danger' : undefined}>{`${r.status === 'unchecked' ? '◆' : '◇'} ${detectabilityWords(r)}`}</ThemedText>
-          {r.remedy ? <ThemedText variant="caption">{`What would check it: ${remedyWords(r.remedy)}`}</ThemedText> : null}
+          <ThemedText
+            variant="label"
+            tone={r.status === 'unchecked' ? 'danger' : undefined}
+          >{`${r.status === 'unchecked' ? '◆' : '◇'} ${detectabilityWords(r)}`}</ThemedText>
+          {r.remedy ? (
+            <ThemedText variant="caption">{`What would check it: ${remedyWords(r.remedy)}`}</ThemedText>
+          ) : null}
         </View>
       ))}
     </View>

@@ -12,7 +12,10 @@ export interface FieldProps extends TextInputProps {
 }
 
 /** A labelled text input with its error under it (the error is announced). */
-export const Field = forwardRef<TextInput, FieldProps>(function Field({ label, error, hint, testID, style, ...rest }, ref) {
+export const Field = forwardRef<TextInput, FieldProps>(function Field(
+  { label, error, hint, testID, style, ...rest },
+  ref,
+) {
   const { colors } = useTheme();
   return (
     <View style={styles.wrap}>
@@ -32,7 +35,11 @@ export const Field = forwardRef<TextInput, FieldProps>(function Field({ label, e
           style,
         ]}
       />
-      {hint && !error ? <ThemedText variant="caption" muted>{hint}</ThemedText> : null}
+      {hint && !error ? (
+        <ThemedText variant="caption" muted>
+          {hint}
+        </ThemedText>
+      ) : null}
       {error ? (
         <ThemedText variant="caption" tone="danger" testID={`${testID}-error`} accessibilityRole="alert">
           {error}

@@ -16,10 +16,13 @@ export interface FilterGroup<V extends string | number> {
 }
 
 export function FilterChoices<V extends string | number>({ group, testID }: { group: FilterGroup<V>; testID: string }) {
-  const toggle = (v: V) => group.onChange(group.chosen.includes(v) ? group.chosen.filter((x) => x !== v) : [...group.chosen, v]);
+  const toggle = (v: V) =>
+    group.onChange(group.chosen.includes(v) ? group.chosen.filter((x) => x !== v) : [...group.chosen, v]);
   return (
     <View style={styles.group} accessibilityRole="toolbar" accessibilityLabel={group.label}>
-      <ThemedText variant="caption" bold muted>{group.label}</ThemedText>
+      <ThemedText variant="caption" bold muted>
+        {group.label}
+      </ThemedText>
       <View style={styles.choices}>
         {group.options.map((o) => (
           <Button
@@ -37,7 +40,15 @@ export function FilterChoices<V extends string | number>({ group, testID }: { gr
   );
 }
 
-export function FilterBar({ groups, children, testID }: { groups: FilterGroup<string | number>[]; children?: React.ReactNode; testID: string }) {
+export function FilterBar({
+  groups,
+  children,
+  testID,
+}: {
+  groups: FilterGroup<string | number>[];
+  children?: React.ReactNode;
+  testID: string;
+}) {
   return (
     <View style={styles.bar} testID={testID}>
       {children}

@@ -24,7 +24,14 @@ export function InstrumentTrend({ history, height = 280 }: { history: Instrument
   const onLayout = (e: LayoutChangeEvent) => setWidth(Math.floor(e.nativeEvent.layout.width));
   return (
     <View onLayout={onLayout} testID="instrument-trend">
-      {width > 0 ? <TrendChart samples={trendSamples(history)} unit={displayUnit(history.instrument.quantity)} width={width} height={height} /> : null}
+      {width > 0 ? (
+        <TrendChart
+          samples={trendSamples(history)}
+          unit={displayUnit(history.instrument.quantity)}
+          width={width}
+          height={height}
+        />
+      ) : null}
     </View>
   );
 }

@@ -9,7 +9,17 @@ import { ThemedText } from './themed-text';
 
 export function quantityOfTag(tag: string): Quantity | null {
   const first = tag.trim().toUpperCase()[0];
-  return first === 'P' ? 'pressure' : first === 'T' ? 'temperature' : first === 'F' ? 'massFlow' : first === 'J' || first === 'W' ? 'power' : first === 'L' ? 'level' : null;
+  return first === 'P'
+    ? 'pressure'
+    : first === 'T'
+      ? 'temperature'
+      : first === 'F'
+        ? 'massFlow'
+        : first === 'J' || first === 'W'
+          ? 'power'
+          : first === 'L'
+            ? 'level'
+            : null;
 }
 
 const fix = (x: number, d: number) => (Math.abs(x) < 0.5 * 10 ** -d ? (0).toFixed(d) : x.toFixed(d));
@@ -37,7 +47,11 @@ export function showDeltaOf(q: Quantity | null, dSi: number, digits?: number): s
   const a = Math.abs(dSi);
   switch (q) {
     case 'pressure':
-      return a < 1000 ? `${fix(a, digits ?? 0)} Pa` : a < 100_000 ? `${fix(a / 1000, digits ?? 1)} kPa` : `${fix(a / 1e5, digits ?? 3)} bar`;
+      return a < 1000
+        ? `${fix(a, digits ?? 0)} Pa`
+        : a < 100_000
+          ? `${fix(a / 1000, digits ?? 1)} kPa`
+          : `${fix(a / 1e5, digits ?? 3)} bar`;
     case 'temperature':
       return `${fix(a, digits ?? 1)} K`;
     case 'massFlow':
@@ -72,7 +86,17 @@ export function displayScale(q: Quantity | null): number {
   return q === 'pressure' ? 1e-5 : q === 'massFlow' ? 3.6 : q === 'power' ? 1e-6 : q === 'level' ? 100 : 1;
 }
 export function displayUnit(q: Quantity | null): string {
-  return q === 'pressure' ? 'bar abs' : q === 'temperature' ? '°C' : q === 'massFlow' ? 't/h' : q === 'power' ? 'MW' : q === 'level' ? '%' : '';
+  return q === 'pressure'
+    ? 'bar abs'
+    : q === 'temperature'
+      ? '°C'
+      : q === 'massFlow'
+        ? 't/h'
+        : q === 'power'
+          ? 'MW'
+          : q === 'level'
+            ? '%'
+            : '';
 }
 
 /** "reads 6.2 K high" / "reads 0.4 kPa low" / "reads true". */

@@ -12,7 +12,19 @@ function base64(bytes: Uint8Array): string {
 }
 
 /** A photo held on the device, shown from its stored bytes (works offline). */
-export function PhotoThumb({ store, id, mime, state, testID }: { store: Store; id: string; mime: string; state: string; testID: string }) {
+export function PhotoThumb({
+  store,
+  id,
+  mime,
+  state,
+  testID,
+}: {
+  store: Store;
+  id: string;
+  mime: string;
+  state: string;
+  testID: string;
+}) {
   const { colors } = useTheme();
   const [uri, setUri] = useState<string | null>(null);
   useEffect(() => {
@@ -25,7 +37,9 @@ export function PhotoThumb({ store, id, mime, state, testID }: { store: Store; i
   return (
     <View style={[styles.box, { borderColor: colors.rule }]} testID={testID}>
       {uri ? <Image source={{ uri }} style={styles.img} accessibilityLabel="Photo taken on this round" /> : null}
-      <ThemedText variant="caption" muted testID={`${testID}-state`}>{state === 'stored' ? 'On server' : 'On this device'}</ThemedText>
+      <ThemedText variant="caption" muted testID={`${testID}-state`}>
+        {state === 'stored' ? 'On server' : 'On this device'}
+      </ThemedText>
     </View>
   );
 }

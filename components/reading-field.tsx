@@ -7,7 +7,12 @@ import { Button } from './button';
 import { SeverityMark } from './severity-mark';
 import { ThemedText } from './themed-text';
 
-export const SKIP_REASONS = ['Gauge not reachable', 'Gauge broken or unreadable', 'Equipment out of service', 'Isolated for work'] as const;
+export const SKIP_REASONS = [
+  'Gauge not reachable',
+  'Gauge broken or unreadable',
+  'Equipment out of service',
+  'Isolated for work',
+] as const;
 
 export interface ReadingFieldProps {
   tag: string;
@@ -56,7 +61,8 @@ export function ReadingField(p: ReadingFieldProps) {
   // Leaving the field and tapping Save both save: the same text is recorded once.
   const submitted = useRef<string | null>(null);
   const save = async () => {
-    if (text === submitted.current || (p.saved !== undefined && Number(text) === Number(p.saved) && text.trim() !== '')) return;
+    if (text === submitted.current || (p.saved !== undefined && Number(text) === Number(p.saved) && text.trim() !== ''))
+      return;
     submitted.current = text;
     const e = await p.onSave(text);
     if (e) submitted.current = null;
@@ -64,12 +70,25 @@ export function ReadingField(p: ReadingFieldProps) {
   };
 
   return (
-    <View testID={id} style={[styles.wrap, { borderColor: flagged ? colors.warning : colors.rule, backgroundColor: colors.surface }]}>
+    <View
+      testID={id}
+      style={[styles.wrap, { borderColor: flagged ? colors.warning : colors.rule, backgroundColor: colors.surface }]}
+    >
       <View style={styles.head}>
-        <ThemedText variant="title" testID={`${id}-tag`}>{p.tag}</ThemedText>
-        {p.bandText ? <ThemedText variant="caption" muted testID={`${id}-band`}>expected {p.bandText} {p.unitLabel}</ThemedText> : null}
+        <ThemedText variant="title" testID={`${id}-tag`}>
+          {p.tag}
+        </ThemedText>
+        {p.bandText ? (
+          <ThemedText variant="caption" muted testID={`${id}-band`}>
+            expected {p.bandText} {p.unitLabel}
+          </ThemedText>
+        ) : null}
       </View>
-      {p.description ? <ThemedText variant="label" muted>{p.description}</ThemedText> : null}
+      {p.description ? (
+        <ThemedText variant="label" muted>
+          {p.description}
+        </ThemedText>
+      ) : null}
       {p.skipped ? (
         <View style={styles.row}>
           <ThemedText testID={`${id}-skipped`}>Skipped: {p.skipped}</ThemedText>
@@ -87,37 +106,74 @@ export function ReadingField(p: ReadingFieldProps) {
             onSubmitEditing={save}
             placeholder="—"
             placeholderTextColor={colors.textMuted}
-            style={[styles.input, { color: colors.text, borderColor: error ? colors.danger : colors.rule, backgroundColor: colors.background }]}
+            style={[
+              styles.input,
+              {
+                color: colors.text,
+                borderColor: error ? colors.danger : colors.rule,
+                backgroundColor: colors.background,
+              },
+            ]}
           />
-          <ThemedText variant="title" style={styles.unit} testID={`${id}-unit`}>{p.unitLabel}</ThemedText>
+          <ThemedText variant="title" style={styles.unit} testID={`${id}-unit`}>
+            {p.unitLabel}
+          </ThemedText>
           <Button testID={`${id}-save`} label="Save" kind="plain" onPress={save} />
         </View>
       )}
-      {error ? <ThemedText tone="danger" variant="caption" testID={`${id}-error`} accessibilityRole="alert">{error}</ThemedText> : null}
+      {error ? (
+        <ThemedText tone="danger" variant="caption" testID={`${id}-error`} accessibilityRole="alert">
+          {error}
+        </ThemedText>
+      ) : null}
       {p.flags.map((f, i) => (
-        <View key={i} style={[styles.flag, { borderLeftColor: f.severity === 1 ? colors.danger : colors.warning, backgroundColor: colors.surfaceAlt }]} testID={`${id}-flag-${f.kind}`}>
+        <View
+          key={i}
+          style={[
+            styles.flag,
+            { borderLeftColor: f.severity === 1 ? colors.danger : colors.warning, backgroundColor: colors.surfaceAlt },
+          ]}
+          testID={`${id}-flag-${f.kind}`}
+        >
           <SeverityMark severity={f.severity} />
           <ThemedText variant="label">{f.message}</ThemedText>
         </View>
       ))}
       {flagged ? (
         <View style={styles.actions}>
-          <ThemedText variant="label" bold testID={`${id}-reread`}>Re-read the gauge now. Correct the value, or confirm it if the gauge really shows it.</ThemedText>
+          <ThemedText variant="label" bold testID={`${id}-reread`}>
+            Re-read the gauge now. Correct the value, or confirm it if the gauge really shows it.
+          </ThemedText>
           <View style={styles.row}>
             <Button testID={`${id}-confirm`} label="Gauge shows this" kind="accent" onPress={p.onConfirm} />
-            {p.onPhoto ? <Button testID={`${id}-photo-suggest`} label="Add a photo" kind="plain" onPress={p.onPhoto} /> : null}
+            {p.onPhoto ? (
+              <Button testID={`${id}-photo-suggest`} label="Add a photo" kind="plain" onPress={p.onPhoto} />
+            ) : null}
           </View>
         </View>
       ) : null}
-      {p.confirmed && p.flags.length > 0 ? <ThemedText variant="caption" muted testID={`${id}-confirmed`}>Confirmed at the gauge.</ThemedText> : null}
+      {p.confirmed && p.flags.length > 0 ? (
+        <ThemedText variant="caption" muted testID={`${id}-confirmed`}>
+          Confirmed at the gauge.
+        </ThemedText>
+      ) : null}
       {!p.skipped ? (
         <View style={styles.row}>
-          <Pressable testID={`${id}-skip`} accessibilityRole="button" onPress={() => setSkipOpen((o) => !o)} style={styles.link}>
-            <ThemedText variant="label" style={{ color: colors.primary }}>{skipOpen ? 'Keep this reading' : 'Cannot read it…'}</ThemedText>
+          <Pressable
+            testID={`${id}-skip`}
+            accessibilityRole="button"
+            onPress={() => setSkipOpen((o) => !o)}
+            style={styles.link}
+          >
+            <ThemedText variant="label" style={{ color: colors.primary }}>
+              {skipOpen ? 'Keep this reading' : 'Cannot read it…'}
+            </ThemedText>
           </Pressable>
           {p.onPhoto && !flagged ? (
             <Pressable testID={`${id}-photo`} accessibilityRole="button" onPress={p.onPhoto} style={styles.link}>
-              <ThemedText variant="label" style={{ color: colors.primary }}>Photo of the gauge</ThemedText>
+              <ThemedText variant="label" style={{ color: colors.primary }}>
+                Photo of the gauge
+              </ThemedText>
             </Pressable>
           ) : null}
         </View>
@@ -125,7 +181,16 @@ export function ReadingField(p: ReadingFieldProps) {
       {skipOpen && !p.skipped ? (
         <View style={styles.reasons}>
           {SKIP_REASONS.map((r, i) => (
-            <Button key={r} testID={`${id}-skip-${i}`} label={r} kind="plain" onPress={() => { setSkipOpen(false); p.onSkip(r); }} />
+            <Button
+              key={r}
+              testID={`${id}-skip-${i}`}
+              label={r}
+              kind="plain"
+              onPress={() => {
+                setSkipOpen(false);
+                p.onSkip(r);
+              }}
+            />
           ))}
         </View>
       ) : null}
@@ -135,7 +200,13 @@ export function ReadingField(p: ReadingFieldProps) {
 
 const styles = StyleSheet.create({
   wrap: { borderWidth: 1, borderRadius: radius.sm, padding: space.md, gap: space.sm },
-  head: { flexDirection: 'row', justifyContent: 'space-between', alignItems: 'baseline', flexWrap: 'wrap', gap: space.sm },
+  head: {
+    flexDirection: 'row',
+    justifyContent: 'space-between',
+    alignItems: 'baseline',
+    flexWrap: 'wrap',
+    gap: space.sm,
+  },
   row: { flexDirection: 'row', alignItems: 'center', gap: space.sm, flexWrap: 'wrap' },
   input: {
     minHeight: touchTarget + 8,

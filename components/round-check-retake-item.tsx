@@ -28,14 +28,33 @@ export function RoundCheckRetakeItem({ item, selected, onSelect, onRetake }: Rou
       accessibilityRole="button"
       aria-selected={!!selected}
       onPress={onSelect ?? onRetake}
-      style={StyleSheet.flatten([styles.item, { borderColor: selected ? colors.accent : colors.rule, backgroundColor: selected ? colors.surfaceAlt : colors.surface }])}
+      style={StyleSheet.flatten([
+        styles.item,
+        {
+          borderColor: selected ? colors.accent : colors.rule,
+          backgroundColor: selected ? colors.surfaceAlt : colors.surface,
+        },
+      ])}
     >
       <View style={styles.head}>
         <SeverityMark severity={markOf(item.severity)} />
-        {item.dismissed !== null ? <ThemedText variant="caption" muted testID={`${id}-dismissed`}>Dismissed: {item.dismissed}</ThemedText> : null}
+        {item.dismissed !== null ? (
+          <ThemedText variant="caption" muted testID={`${id}-dismissed`}>
+            Dismissed: {item.dismissed}
+          </ThemedText>
+        ) : null}
       </View>
-      <ThemedText variant="label" testID={`${id}-line`}>{item.line}</ThemedText>
-      {onRetake ? <Button testID={`${id}-go`} label={`Re-take ${item.tag} at stop ${(item.stop ?? 0) + 1}`} kind="accent" onPress={onRetake} /> : null}
+      <ThemedText variant="label" testID={`${id}-line`}>
+        {item.line}
+      </ThemedText>
+      {onRetake ? (
+        <Button
+          testID={`${id}-go`}
+          label={`Re-take ${item.tag} at stop ${(item.stop ?? 0) + 1}`}
+          kind="accent"
+          onPress={onRetake}
+        />
+      ) : null}
     </Pressable>
   );
 }

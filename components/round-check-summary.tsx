@@ -14,11 +14,23 @@ export function roundCheckHeadline(r: RoundCheck): { text: string; tone: 'ok' | 
       tone: 'danger',
     };
   }
-  if (r.clean && r.complete) return { text: 'The round holds together: every balance closes and no reading stands out.', tone: 'ok' };
-  if (r.clean) return { text: 'No reading stands out, but some balances cannot be formed yet: see what is missing.', tone: 'warning' };
+  if (r.clean && r.complete)
+    return { text: 'The round holds together: every balance closes and no reading stands out.', tone: 'ok' };
+  if (r.clean)
+    return {
+      text: 'No reading stands out, but some balances cannot be formed yet: see what is missing.',
+      tone: 'warning',
+    };
   const elsewhere = r.elsewhere.filter((i) => i.dismissed === null);
-  if (elsewhere.length) return { text: `Nothing to re-take on this route; ${elsewhere.map((i) => i.tag).join(', ')} on another round look${elsewhere.length > 1 ? '' : 's'} wrong.`, tone: 'warning' };
-  return { text: 'Nothing left to re-take, but a balance still does not close: the engineer will see it.', tone: 'warning' };
+  if (elsewhere.length)
+    return {
+      text: `Nothing to re-take on this route; ${elsewhere.map((i) => i.tag).join(', ')} on another round look${elsewhere.length > 1 ? '' : 's'} wrong.`,
+      tone: 'warning',
+    };
+  return {
+    text: 'Nothing left to re-take, but a balance still does not close: the engineer will see it.',
+    tone: 'warning',
+  };
 }
 
 /** The round check in the finish panel: its headline and the way to the full check. */
@@ -30,7 +42,9 @@ export function RoundCheckSummary({ roundId, onOpen }: { roundId: string; onOpen
   else if (review && !checking) line = roundCheckHeadline(review);
   return (
     <View style={styles.box} testID="review-summary">
-      <ThemedText variant="label" bold tone={line.tone} testID="review-summary-text">{line.text}</ThemedText>
+      <ThemedText variant="label" bold tone={line.tone} testID="review-summary-text">
+        {line.text}
+      </ThemedText>
       <Button testID="finish-check" label="Check the round" kind="plain" onPress={onOpen} />
     </View>
   );

@@ -44,33 +44,73 @@ export function RoundCheckSuspect({ item, suspect, onDismiss }: RoundCheckSuspec
   };
   return (
     <Card testID={id}>
-      <ThemedText variant="title">{item.tag}{suspect ? ` · ${suspect.label}` : ''}</ThemedText>
+      <ThemedText variant="title">
+        {item.tag}
+        {suspect ? ` · ${suspect.label}` : ''}
+      </ThemedText>
       <ThemedText variant="caption" muted>
-        {item.stop !== null ? `Stop ${item.stop + 1}, ${item.stopName}` : `Read on the ${item.routeName ?? 'other'} round`}
+        {item.stop !== null
+          ? `Stop ${item.stop + 1}, ${item.stopName}`
+          : `Read on the ${item.routeName ?? 'other'} round`}
       </ThemedText>
       {suspect ? (
         <View style={styles.figures} testID={`${id}-figures`}>
-          <ThemedText variant="label">Reads <ThemedText variant="label" bold testID={`${id}-reading`}>{suspect.readingText}</ThemedText></ThemedText>
+          <ThemedText variant="label">
+            Reads{' '}
+            <ThemedText variant="label" bold testID={`${id}-reading`}>
+              {suspect.readingText}
+            </ThemedText>
+          </ThemedText>
           {suspect.estimateText ? (
-            <ThemedText variant="label">The rest of the plant says <ThemedText variant="label" bold testID={`${id}-estimate`}>{suspect.estimateText}</ThemedText></ThemedText>
+            <ThemedText variant="label">
+              The rest of the plant says{' '}
+              <ThemedText variant="label" bold testID={`${id}-estimate`}>
+                {suspect.estimateText}
+              </ThemedText>
+            </ThemedText>
           ) : null}
         </View>
       ) : null}
       {item.messages.map((m, i) => (
-        <ThemedText key={i} variant="label" testID={`${id}-message-${i}`}>{m}</ThemedText>
+        <ThemedText key={i} variant="label" testID={`${id}-message-${i}`}>
+          {m}
+        </ThemedText>
       ))}
       {item.dismissed !== null ? (
-        <ThemedText variant="label" tone="info" testID={`${id}-dismissed`}>Dismissed: {item.dismissed}</ThemedText>
+        <ThemedText variant="label" tone="info" testID={`${id}-dismissed`}>
+          Dismissed: {item.dismissed}
+        </ThemedText>
       ) : onDismiss ? (
         <View style={styles.dismiss}>
-          <ThemedText variant="label" bold>Not a wrong reading? Dismiss the flag with a reason</ThemedText>
+          <ThemedText variant="label" bold>
+            Not a wrong reading? Dismiss the flag with a reason
+          </ThemedText>
           <View style={styles.reasons}>
             {DISMISS_REASONS.map((r, i) => (
-              <Button key={r} testID={`${id}-reason-${i}`} label={r} kind="plain" disabled={busy} onPress={() => void dismiss(r)} />
+              <Button
+                key={r}
+                testID={`${id}-reason-${i}`}
+                label={r}
+                kind="plain"
+                disabled={busy}
+                onPress={() => void dismiss(r)}
+              />
             ))}
           </View>
-          <Field testID={`${id}-reason`} label="Another reason" value={reason} onChangeText={setReason} error={problem ?? undefined} />
-          <Button testID={`${id}-dismiss`} label="Dismiss with this reason" kind="plain" busy={busy} onPress={() => void dismiss(reason)} />
+          <Field
+            testID={`${id}-reason`}
+            label="Another reason"
+            value={reason}
+            onChangeText={setReason}
+            error={problem ?? undefined}
+          />
+          <Button
+            testID={`${id}-dismiss`}
+            label="Dismiss with this reason"
+            kind="plain"
+            busy={busy}
+            onPress={() => void dismiss(reason)}
+          />
         </View>
       ) : null}
     </Card>

@@ -17,8 +17,12 @@ export function SeverityMark({ severity, testID }: { severity: Severity; testID?
   const { glyph, word } = severityWords[severity];
   return (
     <View style={styles.row} testID={testID} accessibilityLabel={`Severity: ${word}`}>
-      <ThemedText variant="label" style={{ color: tone }}>{glyph}</ThemedText>
-      <ThemedText variant="label" bold style={{ color: tone }}>{word}</ThemedText>
+      <ThemedText variant="label" style={{ color: tone }}>
+        {glyph}
+      </ThemedText>
+      <ThemedText variant="label" bold style={{ color: tone }}>
+        {word}
+      </ThemedText>
     </View>
   );
 }

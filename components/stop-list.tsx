@@ -12,7 +12,15 @@ export interface StopSummary {
 }
 
 /** The stops of a round in walking order, with how much of each is done. */
-export function StopList({ stops, current, onPick }: { stops: StopSummary[]; current: number; onPick(i: number): void }) {
+export function StopList({
+  stops,
+  current,
+  onPick,
+}: {
+  stops: StopSummary[];
+  current: number;
+  onPick(i: number): void;
+}) {
   const { colors } = useTheme();
   return (
     <View style={styles.list} testID="stop-list" accessibilityRole="list">
@@ -26,12 +34,23 @@ export function StopList({ stops, current, onPick }: { stops: StopSummary[]; cur
             accessibilityRole="button"
             aria-selected={active}
             onPress={() => onPick(i)}
-            style={StyleSheet.flatten([styles.item, { borderColor: active ? colors.accent : colors.rule, backgroundColor: active ? colors.surfaceAlt : colors.surface }])}
+            style={StyleSheet.flatten([
+              styles.item,
+              {
+                borderColor: active ? colors.accent : colors.rule,
+                backgroundColor: active ? colors.surfaceAlt : colors.surface,
+              },
+            ])}
           >
-            <ThemedText variant="label" bold>{i + 1}. {s.name}</ThemedText>
-            <ThemedText variant="caption" muted>{s.area}</ThemedText>
+            <ThemedText variant="label" bold>
+              {i + 1}. {s.name}
+            </ThemedText>
+            <ThemedText variant="caption" muted>
+              {s.area}
+            </ThemedText>
             <ThemedText variant="caption" tone={complete ? 'ok' : undefined} testID={`stop-${i}-progress`}>
-              {complete ? '✓ ' : ''}{s.done} of {s.total} done
+              {complete ? '✓ ' : ''}
+              {s.done} of {s.total} done
             </ThemedText>
           </Pressable>
         );

@@ -21,11 +21,33 @@ const PAD = { left: 56, right: 12, top: 12, bottom: 36 };
  * An instrument's readings against what the balances say it should read: measured values as
  * rings, the reconciled value as a line, and its ±2σ band shaded (coverage k = 2, GUM §6.3).
  */
-export function TrendChart({ samples, unit, width, height, testID = 'trend-chart' }: { samples: TrendSample[]; unit: string; width: number; height: number; testID?: string }) {
+export function TrendChart({
+  samples,
+  unit,
+  width,
+  height,
+  testID = 'trend-chart',
+}: {
+  samples: TrendSample[];
+  unit: string;
+  width: number;
+  height: number;
+  testID?: string;
+}) {
   const { colors } = useTheme();
-  const ys = samples.flatMap((s) => [s.measured, s.reconciled !== null && s.sigma !== null ? s.reconciled + 2 * s.sigma : s.reconciled, s.reconciled !== null && s.sigma !== null ? s.reconciled - 2 * s.sigma : null]).filter((v): v is number => v !== null && Number.isFinite(v));
+  const ys = samples
+    .flatMap((s) => [
+      s.measured,
+      s.reconciled !== null && s.sigma !== null ? s.reconciled + 2 * s.sigma : s.reconciled,
+      s.reconciled !== null && s.sigma !== null ? s.reconciled - 2 * s.sigma : null,
+    ])
+    .filter((v): v is number => v !== null && Number.isFinite(v));
   if (samples.length === 0 || ys.length === 0) {
-    return <ThemedText muted testID={`${testID}-empty`}>No readings in this period.</ThemedText>;
+    return (
+      <ThemedText muted testID={`${testID}-empty`}>
+        No readings in this period.
+      </ThemedText>
+    );
   }
   const t0 = Math.min(...samples.map((s) => s.t));
   const t1 = Math.max(...samples.map((s) => s.t));
@@ -39,9 +61,14 @@ export function TrendChart({ samples, unit, width, height, testID = 'trend-chart
   const withBand = samples.filter((s) => s.reconciled !== null && s.sigma !== null);
   const band =
     withBand.length > 1
-      ? withBand.map((s, i) => `${i ? 'L' : 'M'}${X(s.t).toFixed(1)},${Y(s.reconciled! + 2 * s.sigma!).toFixed(1)}`).join(' ') +
+      ? withBand
+          .map((s, i) => `${i ? 'L' : 'M'}${X(s.t).toFixed(1)},${Y(s.reconciled! + 2 * s.sigma!).toFixed(1)}`)
+          .join(' ') +
         ' ' +
-        [...withBand].reverse().map((s) => `L${X(s.t).toFixed(1)},${Y(s.reconciled! - 2 * s.sigma!).toFixed(1)}`).join(' ') +
+        [...withBand]
+          .reverse()
+          .map((s) => `L${X(s.t).toFixed(1)},${Y(s.reconciled! - 2 * s.sigma!).toFixed(1)}`)
+          .join(' ') +
         ' Z'
       : null;
   const rec = samples.filter((s) => s.reconciled !== null);
@@ -51,24 +78,78 @@ export function TrendChart({ samples, unit, width, height, testID = 'trend-chart
   const dateLabel = (t: number) => new Date(t).toISOString().slice(days > 2 ? 5 : 11, days > 2 ? 10 : 16);
 
   return (
-    <View testID={testID} accessibilityLabel={`Trend of readings in ${unit} against reconciled values`} style={styles.wrap}>
+    <View
+      testID={testID}
+      accessibilityLabel={`Trend of readings in ${unit} against reconciled values`}
+      style={styles.wrap}
+    >
       <Svg width={width} height={height}>
         {band ? <Path d={band} fill={colors.surfaceAlt} stroke="none" testID={`${testID}-band`} /> : null}
-        {rec.length > 1 ? <Path d={recPath} stroke={colors.primary} strokeWidth={2} fill="none" testID={`${testID}-reconciled`} /> : null}
-        {samples.map((s, i) => (s.measured === null ? null : <Circle key={i} cx={X(s.t)} cy={Y(s.measured)} r={3.5} fill={colors.clear} stroke={colors.accent} strokeWidth={1.5} />))}
+        {rec.length > 1 ? (
+          <Path d={recPath} stroke={colors.primary} strokeWidth={2} fill="none" testID={`${testID}-reconciled`} />
+        ) : null}
+        {samples.map((s, i) =>
+          s.measured === null ? null : (
+            <Circle
+              key={i}
+              cx={X(s.t)}
+              cy={Y(s.measured)}
+              r={3.5}
+              fill={colors.clear}
+              stroke={colors.accent}
+              strokeWidth={1.5}
+            />
+          ),
+        )}
         {yTicks.map((v) => (
           <G key={v}>
             <Line x1={PAD.left - 4} x2={PAD.left} y1={Y(v)} y2={Y(v)} stroke={colors.textMuted} />
-            <SvgText x={PAD.left - 6} y={Y(v) + 4} fontSize={11} textAnchor="end" fill={colors.textMuted} fontFamily={fonts.regular}>{String(v)}</SvgText>
+            <SvgText
+              x={PAD.left - 6}
+              y={Y(v) + 4}
+              fontSize={11}
+              textAnchor="end"
+              fill={colors.textMuted}
+              fontFamily={fonts.regular}
+            >
+              {String(v)}
+            </SvgText>
           </G>
         ))}
-        <Line x1={PAD.left} x2={width - PAD.right} y1={height - PAD.bottom} y2={height - PAD.bottom} stroke={colors.text} />
+        <Line
+          x1={PAD.left}
+          x2={width - PAD.right}
+          y1={height - PAD.bottom}
+          y2={height - PAD.bottom}
+          stroke={colors.text}
+        />
         <Line x1={PAD.left} x2={PAD.left} y1={PAD.top} y2={height - PAD.bottom} stroke={colors.text} />
-        <SvgText x={PAD.left} y={height - PAD.bottom + 16} fontSize={11} fill={colors.textMuted} fontFamily={fonts.regular}>{dateLabel(t0)}</SvgText>
-        <SvgText x={width - PAD.right} y={height - PAD.bottom + 16} fontSize={11} textAnchor="end" fill={colors.textMuted} fontFamily={fonts.regular}>{dateLabel(t1)}</SvgText>
-        <SvgText x={4} y={PAD.top + 4} fontSize={11} fill={colors.text} fontFamily={fonts.regular}>{unit}</SvgText>
+        <SvgText
+          x={PAD.left}
+          y={height - PAD.bottom + 16}
+          fontSize={11}
+          fill={colors.textMuted}
+          fontFamily={fonts.regular}
+        >
+          {dateLabel(t0)}
+        </SvgText>
+        <SvgText
+          x={width - PAD.right}
+          y={height - PAD.bottom + 16}
+          fontSize={11}
+          textAnchor="end"
+          fill={colors.textMuted}
+          fontFamily={fonts.regular}
+        >
+          {dateLabel(t1)}
+        </SvgText>
+        <SvgText x={4} y={PAD.top + 4} fontSize={11} fill={colors.text} fontFamily={fonts.regular}>
+          {unit}
+        </SvgText>
       </Svg>
-      <ThemedText variant="caption" muted style={styles.legend}>○ reading   — reconciled   shaded: reconciled ± 2σ</ThemedText>
+      <ThemedText variant="caption" muted style={styles.legend}>
+        ○ reading — reconciled shaded: reconciled ± 2σ
+      </ThemedText>
     </View>
   );
 }

@@ -23,7 +23,9 @@ const priorityNames = { 1: '1 · Urgent', 2: '2 · Soon', 3: '3 · When convenie
 function Section({ title, children, testID }: { title: string; children: React.ReactNode; testID: string }) {
   return (
     <Card testID={testID}>
-      <ThemedText variant="label" bold>{title}</ThemedText>
+      <ThemedText variant="label" bold>
+        {title}
+      </ThemedText>
       {children}
     </Card>
   );
@@ -44,11 +46,18 @@ export function WorkOrderActions({ wo }: { wo: WorkOrderDetail }) {
         </ThemedText>
       ) : null}
       {allowed.has('triage') ? <TriageForm wo={wo} busy={busy} run={run} /> : null}
-      {allowed.has('assign') ? <AssignForm wo={wo} busy={busy} run={run} me={user ? { id: user.id, name: user.name } : null} /> : null}
+      {allowed.has('assign') ? (
+        <AssignForm wo={wo} busy={busy} run={run} me={user ? { id: user.id, name: user.name } : null} />
+      ) : null}
       {allowed.has('schedule') ? <ScheduleForm wo={wo} busy={busy} run={run} /> : null}
       {allowed.has('start') ? (
         <Section title="Start the work" testID="wo-start-section">
-          <Button label="Mark as started" testID="wo-start" busy={busy} onPress={() => run({ action: 'start', body: {} })} />
+          <Button
+            label="Mark as started"
+            testID="wo-start"
+            busy={busy}
+            onPress={() => run({ action: 'start', body: {} })}
+          />
         </Section>
       ) : null}
       {allowed.has('close') ? <CloseForm wo={wo} busy={busy} run={run} /> : null}
@@ -69,11 +78,30 @@ function TriageForm({ wo, busy, run }: FormProps) {
     <Section title="Triage: how urgent, and by when" testID="wo-triage-section">
       <View style={styles.row}>
         {([1, 2, 3] as const).map((p) => (
-          <Button key={p} label={priorityNames[p]} kind={priority === p ? 'primary' : 'plain'} selected={priority === p} testID={`wo-triage-p${p}`} onPress={() => setPriority(p)} />
+          <Button
+            key={p}
+            label={priorityNames[p]}
+            kind={priority === p ? 'primary' : 'plain'}
+            selected={priority === p}
+            testID={`wo-triage-p${p}`}
+            onPress={() => setPriority(p)}
+          />
         ))}
       </View>
-      <Field label="Due date (YYYY-MM-DD)" value={due} onChangeText={setDue} testID="wo-triage-due" error={dueOk ? undefined : 'Write the date as 2026-12-01'} />
-      <Button label="Save triage" testID="wo-triage-submit" busy={busy} disabled={!dueOk} onPress={() => run({ action: 'triage', body: { priority, ...(due ? { dueDate: due } : {}) } })} />
+      <Field
+        label="Due date (YYYY-MM-DD)"
+        value={due}
+        onChangeText={setDue}
+        testID="wo-triage-due"
+        error={dueOk ? undefined : 'Write the date as 2026-12-01'}
+      />
+      <Button
+        label="Save triage"
+        testID="wo-triage-submit"
+        busy={busy}
+        disabled={!dueOk}
+        onPress={() => run({ action: 'triage', body: { priority, ...(due ? { dueDate: due } : {}) } })}
+      />
     </Section>
   );
 }
@@ -86,20 +114,46 @@ function AssignForm({ wo, busy, run, me }: FormProps & { me: { id: string; name:
   return (
     <Section title={wo.assignee ? `Assigned to ${wo.assignee.name}` : 'Assign'} testID="wo-assign-section">
       {me ? (
-        <Button label="Assign to me" kind="plain" testID="wo-assign-me" busy={busy} onPress={() => run({ action: 'assign', body: { userId: me.id, assigneeName: me.name } })} />
+        <Button
+          label="Assign to me"
+          kind="plain"
+          testID="wo-assign-me"
+          busy={busy}
+          onPress={() => run({ action: 'assign', body: { userId: me.id, assigneeName: me.name } })}
+        />
       ) : null}
       {members.data ? (
         <View style={styles.row}>
           {members.data.members
             .filter((m) => !m.disabled && m.role !== 'admin')
             .map((m) => (
-              <Button key={m.userId} label={`${m.name} (${m.role})`} kind="plain" testID={`wo-assign-${m.userId}`} busy={busy} onPress={() => run({ action: 'assign', body: { userId: m.userId, assigneeName: m.name } })} />
+              <Button
+                key={m.userId}
+                label={`${m.name} (${m.role})`}
+                kind="plain"
+                testID={`wo-assign-${m.userId}`}
+                busy={busy}
+                onPress={() => run({ action: 'assign', body: { userId: m.userId, assigneeName: m.name } })}
+              />
             ))}
         </View>
       ) : (
         <>
-          <Field label="Or a person's user id" value={userId} onChangeText={setUserId} autoCapitalize="none" testID="wo-assign-user" hint="The site's member list is open to admins only for now." />
-          <Button label="Assign" testID="wo-assign-submit" busy={busy} disabled={!uuidOk} onPress={() => run({ action: 'assign', body: { userId: userId.trim() } }, () => setUserId(''))} />
+          <Field
+            label="Or a person's user id"
+            value={userId}
+            onChangeText={setUserId}
+            autoCapitalize="none"
+            testID="wo-assign-user"
+            hint="The site's member list is open to admins only for now."
+          />
+          <Button
+            label="Assign"
+            testID="wo-assign-submit"
+            busy={busy}
+            disabled={!uuidOk}
+            onPress={() => run({ action: 'assign', body: { userId: userId.trim() } }, () => setUserId(''))}
+          />
         </>
       )}
     </Section>
@@ -111,8 +165,20 @@ function ScheduleForm({ busy, run }: FormProps) {
   const ok = /^\d{4}-\d{2}-\d{2}$/.test(date);
   return (
     <Section title="Schedule" testID="wo-schedule-section">
-      <Field label="Work on (YYYY-MM-DD)" value={date} onChangeText={setDate} testID="wo-schedule-date" error={ok ? undefined : 'Write the date as 2026-12-01'} />
-      <Button label="Schedule" testID="wo-schedule-submit" busy={busy} disabled={!ok} onPress={() => run({ action: 'schedule', body: { scheduledFor: date } })} />
+      <Field
+        label="Work on (YYYY-MM-DD)"
+        value={date}
+        onChangeText={setDate}
+        testID="wo-schedule-date"
+        error={ok ? undefined : 'Write the date as 2026-12-01'}
+      />
+      <Button
+        label="Schedule"
+        testID="wo-schedule-submit"
+        busy={busy}
+        disabled={!ok}
+        onPress={() => run({ action: 'schedule', body: { scheduledFor: date } })}
+      />
     </Section>
   );
 }
@@ -142,26 +208,54 @@ function CloseForm({ wo, busy, run }: FormProps) {
     <Section title={calibrate ? 'Close with the calibration' : 'Close'} testID="wo-close-section">
       {calibrate ? (
         <>
-          <ThemedText variant="caption" muted>{`As the gauge face shows it${unit ? ` (${unit})` : ', in the instrument’s own unit'}, against the reference standard.`}</ThemedText>
+          <ThemedText
+            variant="caption"
+            muted
+          >{`As the gauge face shows it${unit ? ` (${unit})` : ', in the instrument’s own unit'}, against the reference standard.`}</ThemedText>
           <View style={styles.row}>
             <View style={styles.grow}>
-              <Field label="As found" value={asFound} onChangeText={setAsFound} keyboardType="decimal-pad" testID="wo-close-asfound" error={asFound && !Number.isFinite(f) ? 'A number, please' : undefined} />
+              <Field
+                label="As found"
+                value={asFound}
+                onChangeText={setAsFound}
+                keyboardType="decimal-pad"
+                testID="wo-close-asfound"
+                error={asFound && !Number.isFinite(f) ? 'A number, please' : undefined}
+              />
             </View>
             <View style={styles.grow}>
-              <Field label="As left" value={asLeft} onChangeText={setAsLeft} keyboardType="decimal-pad" testID="wo-close-asleft" error={asLeft && !Number.isFinite(l) ? 'A number, please' : undefined} />
+              <Field
+                label="As left"
+                value={asLeft}
+                onChangeText={setAsLeft}
+                keyboardType="decimal-pad"
+                testID="wo-close-asleft"
+                error={asLeft && !Number.isFinite(l) ? 'A number, please' : undefined}
+              />
             </View>
           </View>
           <Field label="Calibrated on (YYYY-MM-DD)" value={date} onChangeText={setDate} testID="wo-close-date" />
         </>
       ) : null}
       <Field label="Closing note" value={note} onChangeText={setNote} multiline testID="wo-close-note" />
-      <Button label="Close the work order" kind="accent" testID="wo-close-submit" busy={busy} disabled={!ok} onPress={submit} />
+      <Button
+        label="Close the work order"
+        kind="accent"
+        testID="wo-close-submit"
+        busy={busy}
+        disabled={!ok}
+        onPress={submit}
+      />
     </Section>
   );
 }
 
 function MergeForm({ wo, busy, run }: FormProps) {
-  const others = useWorkOrders({ status: ['active'], ...(wo.instrumentTag ? { tag: wo.instrumentTag } : { kind: [wo.kind] }), limit: 50 });
+  const others = useWorkOrders({
+    status: ['active'],
+    ...(wo.instrumentTag ? { tag: wo.instrumentTag } : { kind: [wo.kind] }),
+    limit: 50,
+  });
   const [chosen, setChosen] = useState<string[]>([]);
   const candidates = (others.data?.items ?? []).filter((o) => o.id !== wo.id && o.unitId === wo.unitId);
   if (candidates.length === 0) return null;
@@ -179,7 +273,13 @@ function MergeForm({ wo, busy, run }: FormProps) {
           />
         ))}
       </View>
-      <Button label="Merge" testID="wo-merge-submit" busy={busy} disabled={chosen.length === 0} onPress={() => run({ action: 'merge', body: { duplicateIds: chosen } }, () => setChosen([]))} />
+      <Button
+        label="Merge"
+        testID="wo-merge-submit"
+        busy={busy}
+        disabled={chosen.length === 0}
+        onPress={() => run({ action: 'merge', body: { duplicateIds: chosen } }, () => setChosen([]))}
+      />
     </Section>
   );
 }
@@ -189,7 +289,14 @@ function CommentForm({ busy, run }: Omit<FormProps, 'wo'>) {
   return (
     <Section title="Comment" testID="wo-comment-section">
       <Field label="Comment" value={text} onChangeText={setText} multiline testID="wo-comment-text" />
-      <Button label="Add comment" kind="plain" testID="wo-comment-submit" busy={busy} disabled={!text.trim()} onPress={() => run({ action: 'comment', body: { comment: text.trim() } }, () => setText(''))} />
+      <Button
+        label="Add comment"
+        kind="plain"
+        testID="wo-comment-submit"
+        busy={busy}
+        disabled={!text.trim()}
+        onPress={() => run({ action: 'comment', body: { comment: text.trim() } }, () => setText(''))}
+      />
     </Section>
   );
 }
@@ -199,7 +306,14 @@ function CancelForm({ busy, run }: Omit<FormProps, 'wo'>) {
   return (
     <Section title="Cancel" testID="wo-cancel-section">
       <Field label="Why is it cancelled?" value={reason} onChangeText={setReason} testID="wo-cancel-reason" />
-      <Button label="Cancel the work order" kind="danger" testID="wo-cancel-submit" busy={busy} disabled={!reason.trim()} onPress={() => run({ action: 'cancel', body: { reason: reason.trim() } })} />
+      <Button
+        label="Cancel the work order"
+        kind="danger"
+        testID="wo-cancel-submit"
+        busy={busy}
+        disabled={!reason.trim()}
+        onPress={() => run({ action: 'cancel', body: { reason: reason.trim() } })}
+      />
     </Section>
   );
 }

@@ -44,7 +44,13 @@ function PhotoThumb({ path, testID }: { path: string; testID: string }) {
   useEffect(() => () => void (q.data && URL.revokeObjectURL(q.data)), [q.data]);
   return (
     <View style={[styles.thumb, { borderColor: colors.rule, backgroundColor: colors.surfaceAlt }]} testID={testID}>
-      {q.data ? <Image source={{ uri: q.data }} style={styles.img} accessibilityLabel="Photo of the gauge face" /> : <ThemedText variant="caption" muted>{q.error ? 'Photo not available' : 'Loading…'}</ThemedText>}
+      {q.data ? (
+        <Image source={{ uri: q.data }} style={styles.img} accessibilityLabel="Photo of the gauge face" />
+      ) : (
+        <ThemedText variant="caption" muted>
+          {q.error ? 'Photo not available' : 'Loading…'}
+        </ThemedText>
+      )}
     </View>
   );
 }
@@ -54,42 +60,73 @@ function ReadingLine({ r }: { r: EvidenceReading }) {
   return (
     <View style={styles.reading} testID={`wo-reading-${r.instrumentTag}`}>
       <View style={styles.readingHead}>
-        <ThemedText variant="label" bold>{r.instrumentTag}</ThemedText>
-        <ThemedText variant="label" numeric>{r.valueTyped === null ? 'skipped' : `${r.valueTyped} ${r.unit}${ref}`}</ThemedText>
+        <ThemedText variant="label" bold>
+          {r.instrumentTag}
+        </ThemedText>
+        <ThemedText variant="label" numeric>
+          {r.valueTyped === null ? 'skipped' : `${r.valueTyped} ${r.unit}${ref}`}
+        </ThemedText>
       </View>
-      <ThemedText variant="caption" muted>{new Date(r.deviceTime).toLocaleString()}{r.note ? ` · “${r.note}”` : ''}</ThemedText>
+      <ThemedText variant="caption" muted>
+        {new Date(r.deviceTime).toLocaleString()}
+        {r.note ? ` · “${r.note}”` : ''}
+      </ThemedText>
       {r.photos.length ? (
         <View style={styles.photos}>
-          {r.photos.filter((p) => p.stored).map((p) => <PhotoThumb key={p.id} path={p.thumbUrl} testID={`wo-photo-${p.id}`} />)}
+          {r.photos
+            .filter((p) => p.stored)
+            .map((p) => (
+              <PhotoThumb key={p.id} path={p.thumbUrl} testID={`wo-photo-${p.id}`} />
+            ))}
         </View>
       ) : null}
     </View>
   );
 }
 
-export function WorkOrderEvidence({ items, cycleHref }: { items: EvidenceItem[]; cycleHref: (roundId: string) => Href }) {
-  if (items.length === 0) return <ThemedText muted testID="wo-evidence-empty">No findings are attached.</ThemedText>;
+export function WorkOrderEvidence({
+  items,
+  cycleHref,
+}: {
+  items: EvidenceItem[];
+  cycleHref: (roundId: string) => Href;
+}) {
+  if (items.length === 0)
+    return (
+      <ThemedText muted testID="wo-evidence-empty">
+        No findings are attached.
+      </ThemedText>
+    );
   return (
     <View style={styles.stack} testID="wo-evidence">
       {items.map((e, n) => (
         <Card key={e.findingId} testID={`wo-evidence-${n}`}>
           <View style={styles.readingHead}>
             <SeverityMark severity={markOfFinding(e.severity)} />
-            <ThemedText variant="caption" muted>{new Date(e.findingAt).toLocaleString()}{e.current ? '' : ' · superseded by a re-take'}</ThemedText>
+            <ThemedText variant="caption" muted>
+              {new Date(e.findingAt).toLocaleString()}
+              {e.current ? '' : ' · superseded by a re-take'}
+            </ThemedText>
           </View>
           <ThemedText testID={`wo-evidence-${n}-message`}>{e.message}</ThemedText>
           {e.instruments.map((i) => (
-            <ThemedText key={i.tag} variant="label" bold={i.suspect} testID={`wo-evidence-${n}-${i.tag}`}>{evidenceSentence(i)}</ThemedText>
+            <ThemedText key={i.tag} variant="label" bold={i.suspect} testID={`wo-evidence-${n}-${i.tag}`}>
+              {evidenceSentence(i)}
+            </ThemedText>
           ))}
           {e.reconciliation.chiSquare !== null && e.reconciliation.critical !== null ? (
             <ThemedText variant="caption" muted>
               {`Whole-round test: χ² ${e.reconciliation.chiSquare.toFixed(1)} against ${e.reconciliation.critical.toFixed(1)} allowed (${e.reconciliation.dof} degrees of freedom) — ${e.reconciliation.passed ? 'passed' : 'failed'}.`}
             </ThemedText>
           ) : null}
-          {e.readings.map((r) => <ReadingLine key={r.id} r={r} />)}
+          {e.readings.map((r) => (
+            <ReadingLine key={r.id} r={r} />
+          ))}
           <Link href={cycleHref(e.roundId)} asChild>
             <Pressable accessibilityRole="link" testID={`wo-evidence-${n}-cycle`} style={styles.link}>
-              <ThemedText variant="label" tone="info">See this round’s cycle →</ThemedText>
+              <ThemedText variant="label" tone="info">
+                See this round’s cycle →
+              </ThemedText>
             </Pressable>
           </Link>
         </Card>
@@ -103,7 +140,15 @@ const styles = StyleSheet.create({
   reading: { gap: space.xxs, paddingTop: space.xs },
   readingHead: { flexDirection: 'row', justifyContent: 'space-between', alignItems: 'center', gap: space.md },
   photos: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
-  thumb: { width: 96, height: 96, borderWidth: 1, borderRadius: radius.sm, alignItems: 'center', justifyContent: 'center', overflow: 'hidden' },
+  thumb: {
+    width: 96,
+    height: 96,
+    borderWidth: 1,
+    borderRadius: radius.sm,
+    alignItems: 'center',
+    justifyContent: 'center',
+    overflow: 'hidden',
+  },
   img: { width: 96, height: 96 },
   link: { minHeight: 48, justifyContent: 'center' },
 });

@@ -188,9 +188,22 @@ const r4 = (x: number) => Number(x.toPrecision(4));
 
 type InstrumentIn = Omit<Instrument, 'range'> & { range: { min: number; max: number } };
 
-const en837 = (cls: 0.6 | 1 | 1.6, spanPa: number, resolution: number): AccuracySpec => ({ kind: 'en837', class: cls, spanPa, resolution });
+const en837 = (cls: 0.6 | 1 | 1.6, spanPa: number, resolution: number): AccuracySpec => ({
+  kind: 'en837',
+  class: cls,
+  spanPa,
+  resolution,
+});
 
-function gaugeBar(tag: string, point: string, label: string, maxBar: number, cls: 0.6 | 1 | 1.6, resBar: number, twin?: string): InstrumentIn {
+function gaugeBar(
+  tag: string,
+  point: string,
+  label: string,
+  maxBar: number,
+  cls: 0.6 | 1 | 1.6,
+  resBar: number,
+  twin?: string,
+): InstrumentIn {
   return {
     tag,
     label,
@@ -205,7 +218,16 @@ function gaugeBar(tag: string, point: string, label: string, maxBar: number, cls
   };
 }
 
-function thermo(tag: string, point: string, label: string, device: string, accuracy: AccuracySpec, maxC: number, twin?: string, minC = 0): InstrumentIn {
+function thermo(
+  tag: string,
+  point: string,
+  label: string,
+  device: string,
+  accuracy: AccuracySpec,
+  maxC: number,
+  twin?: string,
+  minC = 0,
+): InstrumentIn {
   return {
     tag,
     label,
@@ -219,8 +241,24 @@ function thermo(tag: string, point: string, label: string, device: string, accur
   };
 }
 
-function flow(tag: string, point: string, label: string, device: string, accuracy: AccuracySpec, maxTph: number): InstrumentIn {
-  return { tag, label, device, quantity: 'massFlow', point, range: { min: 0, max: maxTph * TPH }, accuracy, unit: 't/h' };
+function flow(
+  tag: string,
+  point: string,
+  label: string,
+  device: string,
+  accuracy: AccuracySpec,
+  maxTph: number,
+): InstrumentIn {
+  return {
+    tag,
+    label,
+    device,
+    quantity: 'massFlow',
+    point,
+    range: { min: 0, max: maxTph * TPH },
+    accuracy,
+    unit: 't/h',
+  };
 }
 
 function level(tag: string, equipment: string, label: string): InstrumentIn {
@@ -250,7 +288,13 @@ function demoModelInput(dp: DesignPoint): Omit<CycleModelInput, 'version'> {
   const K2 = (res: number): AccuracySpec => ({ kind: 'iec60584', type: 'K', class: 2, resolution: res });
   const rtdA = (res: number): AccuracySpec => ({ kind: 'iec60751', class: 'A', resolution: res });
   const rtdB = (res: number): AccuracySpec => ({ kind: 'iec60751', class: 'B', resolution: res });
-  const bimetal = (percent: number, spanK: number, res: number): AccuracySpec => ({ kind: 'percentSpan', percent, span: spanK, basis: 'tolerance', resolution: res });
+  const bimetal = (percent: number, spanK: number, res: number): AccuracySpec => ({
+    kind: 'percentSpan',
+    percent,
+    span: spanK,
+    basis: 'tolerance',
+    resolution: res,
+  });
   const instruments: InstrumentIn[] = [
     // boiler and main steam
     gaugeBar('PI-101', 'drum', 'Drum pressure', 100, 1, 0.5),
@@ -261,16 +305,37 @@ function demoModelInput(dp: DesignPoint): Omit<CycleModelInput, 'version'> {
     flow('FI-101', 'ms', 'Main steam flow', 'orifice plate', { kind: 'orifice', beta: 0.55, otherPercent: 1.0 }, 150),
     gaugeBar('PI-103', 'fw', 'Boiler feed pump discharge pressure', 160, 1.6, 1),
     thermo('TI-103', 'fw', 'Feedwater temperature to boiler', 'Pt100 RTD', rtdA(0.5), 250),
-    flow('FI-102', 'fw', 'Feedwater flow to boiler', 'orifice plate', { kind: 'orifice', beta: 0.5, otherPercent: 0.8 }, 150),
+    flow(
+      'FI-102',
+      'fw',
+      'Feedwater flow to boiler',
+      'orifice plate',
+      { kind: 'orifice', beta: 0.5, otherPercent: 0.8 },
+      150,
+    ),
     level('LI-101', 'drum', 'Drum level'),
     // HP exhaust header
     gaugeBar('PI-201', 'hpx', 'HP exhaust pressure', 25, 1, 0.2),
     thermo('TI-201', 'hpx', 'HP exhaust temperature', 'type K thermocouple', K1(1), 400),
     gaugeBar('PI-202', 'proc', 'Process steam header pressure', 25, 1.6, 0.2),
     thermo('TI-202', 'proc', 'Process steam temperature', 'bimetal thermometer', bimetal(1, 400, 2), 400),
-    flow('FI-201', 'proc', 'Process steam flow to site', 'orifice plate', { kind: 'orifice', beta: 0.6, otherPercent: 1.2 }, 60),
+    flow(
+      'FI-201',
+      'proc',
+      'Process steam flow to site',
+      'orifice plate',
+      { kind: 'orifice', beta: 0.6, otherPercent: 1.2 },
+      60,
+    ),
     thermo('TI-203', 'das2', 'Deaerator steam after reducing valve', 'bimetal thermometer', bimetal(1.5, 400, 2), 400),
-    flow('FI-202', 'das2', 'Deaerator steam flow', 'vortex meter', { kind: 'percentReading', percent: 1.5, basis: 'u95' }, 20),
+    flow(
+      'FI-202',
+      'das2',
+      'Deaerator steam flow',
+      'vortex meter',
+      { kind: 'percentReading', percent: 1.5, basis: 'u95' },
+      20,
+    ),
     // LP section and heater
     gaugeBar('PI-203', 'lpe', 'LP extraction pressure', 6, 1, 0.05),
     thermo('TI-204', 'lpe', 'LP extraction temperature', 'type K thermocouple', K1(0.5), 300),
@@ -282,7 +347,14 @@ function demoModelInput(dp: DesignPoint): Omit<CycleModelInput, 'version'> {
     gaugeBar('PI-302', 'dao', 'Feed pump suction pressure', 10, 0.6, 0.05, 'PI-301'),
     thermo('TI-301', 'dao', 'Deaerator outlet temperature', 'Pt100 RTD', rtdA(0.2), 200),
     thermo('TI-302', 'mu', 'Process return and make-up temperature', 'bimetal thermometer', bimetal(1, 120, 1), 120),
-    flow('FI-301', 'mu', 'Process return and make-up flow', 'electromagnetic flowmeter', { kind: 'percentReading', percent: 0.5, basis: 'u95' }, 60),
+    flow(
+      'FI-301',
+      'mu',
+      'Process return and make-up flow',
+      'electromagnetic flowmeter',
+      { kind: 'percentReading', percent: 0.5, basis: 'u95' },
+      60,
+    ),
     level('LI-301', 'da', 'Deaerator storage tank level'),
     // condenser
     {
@@ -324,7 +396,14 @@ function demoModelInput(dp: DesignPoint): Omit<CycleModelInput, 'version'> {
       60,
       'TI-403A',
     ),
-    flow('FI-401', 'cwi', 'Cooling water flow', 'clamp-on ultrasonic flowmeter', { kind: 'percentReading', percent: 2, basis: 'u95' }, 4000),
+    flow(
+      'FI-401',
+      'cwi',
+      'Cooling water flow',
+      'clamp-on ultrasonic flowmeter',
+      { kind: 'percentReading', percent: 2, basis: 'u95' },
+      4000,
+    ),
     // generator
     {
       tag: 'JI-601',
@@ -360,29 +439,106 @@ function demoModelInput(dp: DesignPoint): Omit<CycleModelInput, 'version'> {
       { id: 'ms', label: 'Main steam', phase: 'vapour', nominal: nominal('ms') },
       { id: 'hpx', label: 'HP exhaust', phase: 'vapour', nominal: nominal('hpx') },
       { id: 'proc', label: 'Process steam to site', phase: 'vapour', nominal: nominal('proc') },
-      { id: 'das', label: 'Deaerator steam before reducing valve', phase: 'vapour', samePressureAs: 'hpx', nominal: nominal('das', false) },
-      { id: 'das2', label: 'Deaerator steam after reducing valve', phase: 'vapour', samePressureAs: 'dao', nominal: nominal('das2', false) },
+      {
+        id: 'das',
+        label: 'Deaerator steam before reducing valve',
+        phase: 'vapour',
+        samePressureAs: 'hpx',
+        nominal: nominal('das', false),
+      },
+      {
+        id: 'das2',
+        label: 'Deaerator steam after reducing valve',
+        phase: 'vapour',
+        samePressureAs: 'dao',
+        nominal: nominal('das2', false),
+      },
       { id: 'lpi', label: 'LP section inlet', phase: 'vapour', samePressureAs: 'hpx', nominal: nominal('lpi', false) },
       { id: 'lpe', label: 'LP extraction to LP heater', phase: 'vapour', nominal: nominal('lpe') },
       { id: 'lpx', label: 'LP exhaust to condenser', phase: 'two-phase', nominal: nominal('lpx') },
-      { id: 'hw', label: 'Hotwell condensate', phase: 'saturated-liquid', samePressureAs: 'lpx', nominal: nominal('hw', false) },
+      {
+        id: 'hw',
+        label: 'Hotwell condensate',
+        phase: 'saturated-liquid',
+        samePressureAs: 'lpx',
+        nominal: nominal('hw', false),
+      },
       { id: 'cpo', label: 'Condensate pump discharge', phase: 'liquid', nominal: nominal('cpo') },
-      { id: 'lhf', label: 'Condensate after LP heater', phase: 'liquid', samePressureAs: 'cpo', nominal: nominal('lhf', false) },
-      { id: 'lhd', label: 'LP heater drain to condenser', phase: 'liquid', samePressureAs: 'lpe', nominal: nominal('lhd', false) },
+      {
+        id: 'lhf',
+        label: 'Condensate after LP heater',
+        phase: 'liquid',
+        samePressureAs: 'cpo',
+        nominal: nominal('lhf', false),
+      },
+      {
+        id: 'lhd',
+        label: 'LP heater drain to condenser',
+        phase: 'liquid',
+        samePressureAs: 'lpe',
+        nominal: nominal('lhd', false),
+      },
       // no gauge on the return line: its pressure is the nominal 6 bar(a) (it barely moves the enthalpy of water)
-      { id: 'mu', label: 'Process return and make-up water', phase: 'liquid', nominal: { p: d.makeupP, T: r4(d.makeupT), m: r4(P.mu.m) } },
+      {
+        id: 'mu',
+        label: 'Process return and make-up water',
+        phase: 'liquid',
+        nominal: { p: d.makeupP, T: r4(d.makeupT), m: r4(P.mu.m) },
+      },
       { id: 'dao', label: 'Deaerator outlet / feed pump suction', phase: 'saturated-liquid', nominal: nominal('dao') },
-      { id: 'cwi', label: 'Cooling water inlet', phase: 'liquid', circuit: 'cooling', nominal: { p: d.coolingP, T: r4(d.coolingInT), m: r4(P.cwi.m) } },
-      { id: 'cwo', label: 'Cooling water outlet', phase: 'liquid', circuit: 'cooling', nominal: { p: d.coolingP, T: r4(d.coolingOutT), m: r4(P.cwo.m) } },
+      {
+        id: 'cwi',
+        label: 'Cooling water inlet',
+        phase: 'liquid',
+        circuit: 'cooling',
+        nominal: { p: d.coolingP, T: r4(d.coolingInT), m: r4(P.cwi.m) },
+      },
+      {
+        id: 'cwo',
+        label: 'Cooling water outlet',
+        phase: 'liquid',
+        circuit: 'cooling',
+        nominal: { p: d.coolingP, T: r4(d.coolingOutT), m: r4(P.cwo.m) },
+      },
     ],
     equipment: [
-      { id: 'boiler', kind: 'boiler', label: 'Boiler (economiser and furnace walls)', criticality: 3, ports: { feedIn: 'fw', steamOut: 'drum' } },
+      {
+        id: 'boiler',
+        kind: 'boiler',
+        label: 'Boiler (economiser and furnace walls)',
+        criticality: 3,
+        ports: { feedIn: 'fw', steamOut: 'drum' },
+      },
       { id: 'drum', kind: 'drum', label: 'Steam drum', criticality: 3, ports: { steam: 'drum' } },
       { id: 'sh', kind: 'superheater', label: 'Superheater', criticality: 3, ports: { inlet: 'drum', outlet: 'ms' } },
-      { id: 'hp', kind: 'turbine-section', label: 'HP turbine section', criticality: 3, ports: { inlet: 'ms', outlet: 'hpx' } },
-      { id: 'hdr', kind: 'splitter', label: '13 bar header', criticality: 2, ports: { inlet: 'hpx', outlets: ['proc', 'das', 'lpi'] } },
-      { id: 'prv', kind: 'throttle', label: 'Deaerator steam reducing valve', criticality: 1, ports: { inlet: 'das', outlet: 'das2' } },
-      { id: 'lp', kind: 'turbine-section', label: 'LP turbine section', criticality: 3, ports: { inlet: 'lpi', outlet: 'lpx', extractions: ['lpe'] } },
+      {
+        id: 'hp',
+        kind: 'turbine-section',
+        label: 'HP turbine section',
+        criticality: 3,
+        ports: { inlet: 'ms', outlet: 'hpx' },
+      },
+      {
+        id: 'hdr',
+        kind: 'splitter',
+        label: '13 bar header',
+        criticality: 2,
+        ports: { inlet: 'hpx', outlets: ['proc', 'das', 'lpi'] },
+      },
+      {
+        id: 'prv',
+        kind: 'throttle',
+        label: 'Deaerator steam reducing valve',
+        criticality: 1,
+        ports: { inlet: 'das', outlet: 'das2' },
+      },
+      {
+        id: 'lp',
+        kind: 'turbine-section',
+        label: 'LP turbine section',
+        criticality: 3,
+        ports: { inlet: 'lpi', outlet: 'lpx', extractions: ['lpe'] },
+      },
       {
         id: 'cond',
         kind: 'condenser',
@@ -391,10 +547,29 @@ function demoModelInput(dp: DesignPoint): Omit<CycleModelInput, 'version'> {
         ports: { steamIn: 'lpx', drainsIn: ['lhd'], condensateOut: 'hw', coolingIn: 'cwi', coolingOut: 'cwo' },
       },
       { id: 'cep', kind: 'pump', label: 'Condensate pump', criticality: 2, ports: { inlet: 'hw', outlet: 'cpo' } },
-      { id: 'lph', kind: 'closed-heater', label: 'LP feedwater heater', criticality: 2, ports: { feedIn: 'cpo', feedOut: 'lhf', steamIn: 'lpe', drainOut: 'lhd' } },
-      { id: 'da', kind: 'deaerator', label: 'Deaerator', criticality: 3, ports: { steamIn: 'das2', inlets: ['lhf', 'mu'], outlet: 'dao' } },
+      {
+        id: 'lph',
+        kind: 'closed-heater',
+        label: 'LP feedwater heater',
+        criticality: 2,
+        ports: { feedIn: 'cpo', feedOut: 'lhf', steamIn: 'lpe', drainOut: 'lhd' },
+      },
+      {
+        id: 'da',
+        kind: 'deaerator',
+        label: 'Deaerator',
+        criticality: 3,
+        ports: { steamIn: 'das2', inlets: ['lhf', 'mu'], outlet: 'dao' },
+      },
       { id: 'bfp', kind: 'pump', label: 'Boiler feed pump', criticality: 3, ports: { inlet: 'dao', outlet: 'fw' } },
-      { id: 'gen', kind: 'generator', label: 'Generator', criticality: 3, sections: ['hp', 'lp'], efficiency: d.generatorEfficiency },
+      {
+        id: 'gen',
+        kind: 'generator',
+        label: 'Generator',
+        criticality: 3,
+        sections: ['hp', 'lp'],
+        efficiency: d.generatorEfficiency,
+      },
     ],
     instruments: instruments as Instrument[],
   };
@@ -434,7 +609,11 @@ export function demoDesignReadings(barometricPa: number): DemoReading[] {
     }
     const unit = i.unit as Unit;
     const shown = fromSI(i.quantity, v, unit, i.pressureReference, { barometricPa });
-    out.push({ instrumentTag: i.tag, valueSI: v, shown: { value: shown, unit, ...(i.pressureReference ? { reference: i.pressureReference } : {}) } });
+    out.push({
+      instrumentTag: i.tag,
+      valueSI: v,
+      shown: { value: shown, unit, ...(i.pressureReference ? { reference: i.pressureReference } : {}) },
+    });
   }
   return out;
 }

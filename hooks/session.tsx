@@ -111,8 +111,7 @@ export function SessionProvider({ children }: { children: ReactNode }) {
 
   const value: SessionValue = useMemo(() => {
     const user = session?.user ?? null;
-    const membership =
-      user?.memberships.find((m) => m.siteId === session?.siteId) ?? user?.memberships[0] ?? null;
+    const membership = user?.memberships.find((m) => m.siteId === session?.siteId) ?? user?.memberships[0] ?? null;
     return {
       status,
       user,
@@ -122,19 +121,31 @@ export function SessionProvider({ children }: { children: ReactNode }) {
           await rawRequest('/api/auth/sign-in', { method: 'POST', json: { email, password } }),
         );
         queryClient.clear();
-        await save({ version: 1, accessToken: r.accessToken, refreshToken: r.refreshToken, user: r.user, siteId: r.user.memberships[0]?.siteId ?? null });
+        await save({
+          version: 1,
+          accessToken: r.accessToken,
+          refreshToken: r.refreshToken,
+          user: r.user,
+          siteId: r.user.memberships[0]?.siteId ?? null,
+        });
         return r.user;
       },
       async signOut() {
         const cur = ref.current;
         if (cur) {
-          await rawRequest('/api/auth/sign-out', { method: 'POST', json: { refreshToken: cur.refreshToken } }, cur.accessToken).catch(() => undefined);
+          await rawRequest(
+            '/api/auth/sign-out',
+            { method: 'POST', json: { refreshToken: cur.refreshToken } },
+            cur.accessToken,
+          ).catch(() => undefined);
         }
         queryClient.clear();
         await save(null);
       },
       async changePassword(currentPassword, newPassword) {
-        const r = TokenPair.parse(await authedRequest(tokens, '/api/auth/password', { method: 'POST', json: { currentPassword, newPassword } }));
+        const r = TokenPair.parse(
+          await authedRequest(tokens, '/api/auth/password', { method: 'POST', json: { currentPassword, newPassword } }),
+        );
         if (ref.current) await save({ ...ref.current, accessToken: r.accessToken, refreshToken: r.refreshToken });
       },
       chooseSite(siteId) {

@@ -10,7 +10,12 @@
  */
 import { useEffect, useMemo, useRef, useState } from 'react';
 import { isoTime } from '@/offline/ids';
-import { loadRoundCheckInput, ROUND_CHECK_META, type DeviceRoundCheckLoad, type RoundCheckRecord } from '@/offline/round-check';
+import {
+  loadRoundCheckInput,
+  ROUND_CHECK_META,
+  type DeviceRoundCheckLoad,
+  type RoundCheckRecord,
+} from '@/offline/round-check';
 import { useStore, useStoreQuery } from '@/offline/use-offline';
 import type { RoundCheck } from '@/shared/round-check';
 import { runRoundCheck, type RoundCheckRun } from '../lib/round-check-runner';
@@ -86,7 +91,11 @@ export function useRoundCheck(roundId: string): RoundCheckState {
       (run) => {
         if (inFlight.current === key) inFlight.current = null;
         if (!mounted.current || latest.current !== key) return;
-        performance.measure?.(ROUND_CHECK_MEASURE, { start: started, end: started + run.ms, detail: { where: run.where, roundId } });
+        performance.measure?.(ROUND_CHECK_MEASURE, {
+          start: started,
+          end: started + run.ms,
+          detail: { where: run.where, roundId },
+        });
         remember(key, run);
         setDone({ key, run });
         setFailure(null);

@@ -22,7 +22,11 @@ export interface TokenSource {
   refresh(): Promise<boolean>;
 }
 
-export async function rawRequest<T>(path: string, init: RequestInit & { json?: unknown } = {}, token?: string | null): Promise<T> {
+export async function rawRequest<T>(
+  path: string,
+  init: RequestInit & { json?: unknown } = {},
+  token?: string | null,
+): Promise<T> {
   const headers: Record<string, string> = { Accept: 'application/json', ...(init.headers as Record<string, string>) };
   let body = init.body;
   if (init.json !== undefined) {
@@ -47,13 +51,22 @@ export async function rawRequest<T>(path: string, init: RequestInit & { json?: u
   }
   if (!res.ok) {
     const err = (data as { error?: { code?: string; message?: string; details?: unknown } } | undefined)?.error;
-    throw new ApiError(res.status, err?.code ?? 'http_' + res.status, err?.message ?? `The server answered ${res.status}.`, err?.details);
+    throw new ApiError(
+      res.status,
+      err?.code ?? 'http_' + res.status,
+      err?.message ?? `The server answered ${res.status}.`,
+      err?.details,
+    );
   }
   return data as T;
 }
 
 /** A request with the session's token, refreshing once on 401. */
-export async function authedRequest<T>(tokens: TokenSource, path: string, init: RequestInit & { json?: unknown } = {}): Promise<T> {
+export async function authedRequest<T>(
+  tokens: TokenSource,
+  path: string,
+  init: RequestInit & { json?: unknown } = {},
+): Promise<T> {
   try {
     return await rawRequest<T>(path, init, tokens.getAccessToken());
   } catch (e) {

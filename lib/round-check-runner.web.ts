@@ -8,7 +8,9 @@ import { roundCheckOnThisThread as mainThread, type RoundCheckRun } from './roun
 
 export type { RoundCheckRun } from './round-check-on-this-thread';
 
-type Reply = { id: number; ok: true; review: RoundCheckRun['review'] | null; ms: number } | { id: number; ok: false; message: string; ms: number };
+type Reply =
+  | { id: number; ok: true; review: RoundCheckRun['review'] | null; ms: number }
+  | { id: number; ok: false; message: string; ms: number };
 
 let worker: Worker | null | undefined;
 let seq = 0;

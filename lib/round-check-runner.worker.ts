@@ -37,7 +37,17 @@ function warmInputs(): RoundCheckInput[] {
     }));
     return {
       model,
-      round: { id: 'warm', routeId: 'warm', routeName: 'warm-up', stops: [{ name: 'all', tags: readings.map((r) => r.tag) }], startedAt: t, finishedAt: null, status: 'in-progress', barometricPa: b, readings },
+      round: {
+        id: 'warm',
+        routeId: 'warm',
+        routeName: 'warm-up',
+        stops: [{ name: 'all', tags: readings.map((r) => r.tag) }],
+        startedAt: t,
+        finishedAt: null,
+        status: 'in-progress',
+        barometricPa: b,
+        readings,
+      },
       others: [],
       at: t,
     };
@@ -55,6 +65,11 @@ scope.onmessage = (e) => {
     const review = kind === 'warm' ? null : checkRound(input!);
     scope.postMessage({ id, ok: true, review, ms: performance.now() - t0 });
   } catch (err) {
-    scope.postMessage({ id, ok: false, message: err instanceof Error ? err.message : String(err), ms: performance.now() - t0 });
+    scope.postMessage({
+      id,
+      ok: false,
+      message: err instanceof Error ? err.message : String(err),
+      ms: performance.now() - t0,
+    });
   }
 };

@@ -133,7 +133,9 @@ function wire<S extends z.ZodType>(schema: S, value: unknown, prefix = ''): z.ou
 }
 
 async function webCryptoSha256(bytes: Uint8Array): Promise<string> {
-  const subtle = (globalThis as { crypto?: { subtle?: { digest(alg: string, data: Uint8Array): Promise<ArrayBuffer> } } }).crypto?.subtle;
+  const subtle = (
+    globalThis as { crypto?: { subtle?: { digest(alg: string, data: Uint8Array): Promise<ArrayBuffer> } } }
+  ).crypto?.subtle;
   if (!subtle) throw new Error('No SHA-256 available: pass ActionDeps.sha256 (expo-crypto digest in the app)');
   return toHex(new Uint8Array(await subtle.digest('SHA-256', bytes)));
 }
@@ -161,23 +163,26 @@ export function createActions(deps: ActionDeps): Actions {
 
   async function enqueue<K extends OutboxKind>(tx: LocalDbOps, kind: K, recordId: string, payload: OutboxPayloadOf<K>) {
     const a = author();
-    await tx.run('INSERT INTO outbox (kind, record_id, payload, created_at, author_id, author_name) VALUES (?, ?, ?, ?, ?, ?)', [
-      kind,
-      recordId,
-      JSON.stringify(payload),
-      now(),
-      a?.id ?? null,
-      a?.name ?? null,
-    ]);
+    await tx.run(
+      'INSERT INTO outbox (kind, record_id, payload, created_at, author_id, author_name) VALUES (?, ?, ?, ?, ?, ?)',
+      [kind, recordId, JSON.stringify(payload), now(), a?.id ?? null, a?.name ?? null],
+    );
   }
 
   /** A round on this device is added to only by the person who started it (the server would refuse anyone else). */
   async function assertAuthorOf(tx: LocalDbOps, roundId: string) {
     const a = author();
     if (!a) return;
-    const row = await tx.first<{ author_id: string | null; author_name: string | null }>('SELECT author_id, author_name FROM rounds WHERE id = ?', [roundId]);
+    const row = await tx.first<{ author_id: string | null; author_name: string | null }>(
+      'SELECT author_id, author_name FROM rounds WHERE id = ?',
+      [roundId],
+    );
     if (row?.author_id && row.author_id !== a.id) {
-      throw new ActionError('roundId', roundId, `this round was started by ${row.author_name ?? 'another person'} on this device; only they add to it`);
+      throw new ActionError(
+        'roundId',
+        roundId,
+        `this round was started by ${row.author_name ?? 'another person'} on this device; only they add to it`,
+      );
     }
   }
 
@@ -200,15 +205,29 @@ export function createActions(deps: ActionDeps): Actions {
     });
   }
 
-  async function openRound(tx: LocalDbOps, roundId: string): Promise<{ round: LocalRound; version: LocalRouteVersion; unitId: string }> {
+  async function openRound(
+    tx: LocalDbOps,
+    roundId: string,
+  ): Promise<{ round: LocalRound; version: LocalRouteVersion; unitId: string }> {
     const round = await store.getRound(roundId, tx);
     if (!round) throw new ActionError('roundId', roundId, 'no such round on this device');
     await assertAuthorOf(tx, roundId);
-    if (round.status !== 'in-progress') throw new ActionError('roundId', roundId, 'this round is finished; start a new round to record more');
+    if (round.status !== 'in-progress')
+      throw new ActionError('roundId', roundId, 'this round is finished; start a new round to record more');
     const version = await store.getRouteVersion(round.routeVersionId, tx);
-    if (!version) throw new ActionError('roundId', roundId, `the round's route version ${round.routeVersionId} is missing or damaged on this device`);
+    if (!version)
+      throw new ActionError(
+        'roundId',
+        roundId,
+        `the round's route version ${round.routeVersionId} is missing or damaged on this device`,
+      );
     const route = await store.getRoute(version.routeId, tx);
-    if (!route) throw new ActionError('roundId', roundId, `the round's route ${version.routeId} is missing or damaged on this device`);
+    if (!route)
+      throw new ActionError(
+        'roundId',
+        roundId,
+        `the round's route ${version.routeId} is missing or damaged on this device`,
+      );
     return { round, version, unitId: route.unitId };
   }
 
@@ -223,20 +242,30 @@ export function createActions(deps: ActionDeps): Actions {
       const round = await store.db.transaction(async (tx) => {
         const existing = await store.getRound(id, tx);
         if (existing) {
-          if (existing.routeVersionId !== routeVersionId) throw new ActionError('id', id, `already used by a round of route version ${existing.routeVersionId}`);
+          if (existing.routeVersionId !== routeVersionId)
+            throw new ActionError('id', id, `already used by a round of route version ${existing.routeVersionId}`);
           return existing;
         }
         const version = await store.getRouteVersion(routeVersionId, tx);
-        if (!version) throw new ActionError('routeVersionId', routeVersionId, 'no such route version on this device; pull reference data first');
-        const payload = wire(PushRound, { id, routeVersionId, startedAt: now(), finishedAt: null, status: 'in-progress', dismissals: [] });
-        const a = author();
-        await tx.run(`INSERT INTO rounds (id, route_version_id, status, started_at, finished_at, author_id, author_name) VALUES (?, ?, 'in-progress', ?, NULL, ?, ?)`, [
+        if (!version)
+          throw new ActionError(
+            'routeVersionId',
+            routeVersionId,
+            'no such route version on this device; pull reference data first',
+          );
+        const payload = wire(PushRound, {
           id,
           routeVersionId,
-          payload.startedAt,
-          a?.id ?? null,
-          a?.name ?? null,
-        ]);
+          startedAt: now(),
+          finishedAt: null,
+          status: 'in-progress',
+          dismissals: [],
+        });
+        const a = author();
+        await tx.run(
+          `INSERT INTO rounds (id, route_version_id, status, started_at, finished_at, author_id, author_name) VALUES (?, ?, 'in-progress', ?, NULL, ?, ?)`,
+          [id, routeVersionId, payload.startedAt, a?.id ?? null, a?.name ?? null],
+        );
         await enqueue(tx, 'round', id, payload);
         return (await store.getRound(id, tx))!;
       });
@@ -248,22 +277,36 @@ export function createActions(deps: ActionDeps): Actions {
       const reading = await store.db.transaction(async (tx) => {
         const existing = await store.getReading(id, tx);
         if (existing) {
-          if (existing.roundId !== input.roundId) throw new ActionError('id', id, `already used by a reading of round ${existing.roundId}`);
+          if (existing.roundId !== input.roundId)
+            throw new ActionError('id', id, `already used by a reading of round ${existing.roundId}`);
           return existing;
         }
         const { unitId } = await openRound(tx, input.roundId);
         const instrument = await store.instrumentByTag(unitId, input.instrumentTag, tx);
         if (!instrument) {
-          throw new ActionError('instrumentTag', input.instrumentTag, "no instrument with this tag on the round's unit; pull reference data first");
+          throw new ActionError(
+            'instrumentTag',
+            input.instrumentTag,
+            "no instrument with this tag on the round's unit; pull reference data first",
+          );
         }
         if (input.supersedes) {
           const old = await store.getReading(input.supersedes, tx);
-          if (!old || old.roundId !== input.roundId) throw new ActionError('supersedes', input.supersedes, 'no such reading on this round');
+          if (!old || old.roundId !== input.roundId)
+            throw new ActionError('supersedes', input.supersedes, 'no such reading on this round');
           if (old.instrumentId !== instrument.id) {
-            throw new ActionError('supersedes', input.supersedes, `that reading is of ${old.tag}, not ${input.instrumentTag}`);
+            throw new ActionError(
+              'supersedes',
+              input.supersedes,
+              `that reading is of ${old.tag}, not ${input.instrumentTag}`,
+            );
           }
           if (old.supersededBy) {
-            throw new ActionError('supersedes', input.supersedes, `already superseded by ${old.supersededBy}; supersede the current reading`);
+            throw new ActionError(
+              'supersedes',
+              input.supersedes,
+              `already superseded by ${old.supersededBy}; supersede the current reading`,
+            );
           }
         }
         const payload = wire(PushReading, {
@@ -310,15 +353,22 @@ export function createActions(deps: ActionDeps): Actions {
       const answer = await store.db.transaction(async (tx) => {
         const existing = await tx.first<{ round_id: string }>('SELECT round_id FROM check_answers WHERE id = ?', [id]);
         if (existing) {
-          if (existing.round_id !== input.roundId) throw new ActionError('id', id, `already used by an answer of round ${existing.round_id}`);
+          if (existing.round_id !== input.roundId)
+            throw new ActionError('id', id, `already used by an answer of round ${existing.round_id}`);
         } else {
           const { version } = await openRound(tx, input.roundId);
           const check = version.template.stops.flatMap((s) => s.checks).find((c) => c.id === input.checkId);
-          if (!check) throw new ActionError('checkId', input.checkId, `no such check on route version ${version.number}`);
+          if (!check)
+            throw new ActionError('checkId', input.checkId, `no such check on route version ${version.number}`);
           const value = wire(CheckAnswerValue, input.answer, 'answer.');
-          if (value.kind !== check.kind) throw new ActionError('answer.kind', value.kind, `check "${check.id}" takes a ${check.kind} answer`);
+          if (value.kind !== check.kind)
+            throw new ActionError('answer.kind', value.kind, `check "${check.id}" takes a ${check.kind} answer`);
           if (check.kind === 'choice' && !check.options.includes(value.value as string)) {
-            throw new ActionError('answer.value', value.value, `must be one of ${check.options.map((o) => JSON.stringify(o)).join(', ')}`);
+            throw new ActionError(
+              'answer.value',
+              value.value,
+              `must be one of ${check.options.map((o) => JSON.stringify(o)).join(', ')}`,
+            );
           }
           const payload = wire(PushCheckAnswer, {
             id,
@@ -328,30 +378,51 @@ export function createActions(deps: ActionDeps): Actions {
             note: input.note ?? null,
             deviceTime: now(),
           });
-          await tx.run('INSERT INTO check_answers (id, round_id, check_id, answer_json, note, device_time) VALUES (?, ?, ?, ?, ?, ?)', [
-            id,
-            payload.roundId,
-            payload.checkId,
-            JSON.stringify(payload.answer),
-            payload.note ?? null,
-            payload.deviceTime,
-          ]);
+          await tx.run(
+            'INSERT INTO check_answers (id, round_id, check_id, answer_json, note, device_time) VALUES (?, ?, ?, ?, ?, ?)',
+            [
+              id,
+              payload.roundId,
+              payload.checkId,
+              JSON.stringify(payload.answer),
+              payload.note ?? null,
+              payload.deviceTime,
+            ],
+          );
           await enqueue(tx, 'checkAnswer', id, payload);
         }
-        const row = await tx.first<{ seq: number; id: string; round_id: string; check_id: string; answer_json: string; note: string | null; device_time: string }>(
-          'SELECT * FROM check_answers WHERE id = ?',
-          [id],
-        );
-        const parsed = store.parseJson(CheckAnswerValue, row!.answer_json, { table: 'check_answers', id, column: 'answer_json' });
+        const row = await tx.first<{
+          seq: number;
+          id: string;
+          round_id: string;
+          check_id: string;
+          answer_json: string;
+          note: string | null;
+          device_time: string;
+        }>('SELECT * FROM check_answers WHERE id = ?', [id]);
+        const parsed = store.parseJson(CheckAnswerValue, row!.answer_json, {
+          table: 'check_answers',
+          id,
+          column: 'answer_json',
+        });
         if (!parsed) throw new Error(`check answer ${id} is damaged on this device`);
-        return { seq: Number(row!.seq), id, roundId: row!.round_id, checkId: row!.check_id, answer: parsed, note: row!.note, deviceTime: row!.device_time };
+        return {
+          seq: Number(row!.seq),
+          id,
+          roundId: row!.round_id,
+          checkId: row!.check_id,
+          answer: parsed,
+          note: row!.note,
+          deviceTime: row!.device_time,
+        };
       });
       return done(answer);
     },
 
     async attachPhoto(input) {
       const id = newId(input.id);
-      if (!(input.bytes instanceof Uint8Array)) throw new ActionError('bytes', input.bytes, 'must be the image bytes (Uint8Array)');
+      if (!(input.bytes instanceof Uint8Array))
+        throw new ActionError('bytes', input.bytes, 'must be the image bytes (Uint8Array)');
       if (input.bytes.length < 1) throw new ActionError('bytes', input.bytes, 'the photo is empty');
       if (input.bytes.length > MAX_ANNOUNCED_PHOTO_BYTES) {
         throw new ActionError('bytes', input.bytes, `a photo may be at most ${MAX_ANNOUNCED_PHOTO_BYTES} bytes`);
@@ -367,7 +438,8 @@ export function createActions(deps: ActionDeps): Actions {
           const { version } = await openRound(tx, input.roundId);
           if (input.readingId) {
             const r = await store.getReading(input.readingId, tx);
-            if (!r || r.roundId !== input.roundId) throw new ActionError('readingId', input.readingId, 'no such reading on this round');
+            if (!r || r.roundId !== input.roundId)
+              throw new ActionError('readingId', input.readingId, 'no such reading on this round');
           }
           if (input.checkId && !version.template.stops.some((s) => s.checks.some((c) => c.id === input.checkId))) {
             throw new ActionError('checkId', input.checkId, `no such check on route version ${version.number}`);
@@ -384,7 +456,18 @@ export function createActions(deps: ActionDeps): Actions {
           await tx.run(
             `INSERT INTO photos (id, round_id, reading_id, check_id, mime, sha256, byte_size, data, device_time, author_id)
              VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
-            [id, payload.roundId, payload.readingId ?? null, payload.checkId ?? null, payload.mime, payload.sha256, payload.bytes, input.bytes, now(), author()?.id ?? null],
+            [
+              id,
+              payload.roundId,
+              payload.readingId ?? null,
+              payload.checkId ?? null,
+              payload.mime,
+              payload.sha256,
+              payload.bytes,
+              input.bytes,
+              now(),
+              author()?.id ?? null,
+            ],
           );
           await enqueue(tx, 'photo', id, payload);
         }
@@ -392,7 +475,8 @@ export function createActions(deps: ActionDeps): Actions {
       });
       const stored = await store.getPhoto(photo);
       if (!stored) throw new Error(`photo ${photo} vanished after it was recorded`);
-      if (stored.roundId !== input.roundId) throw new ActionError('id', id, `already used by a photo of round ${stored.roundId}`);
+      if (stored.roundId !== input.roundId)
+        throw new ActionError('id', id, `already used by a photo of round ${stored.roundId}`);
       return done(stored);
     },
 
@@ -414,7 +498,8 @@ export function createActions(deps: ActionDeps): Actions {
       const round = await store.db.transaction(async (tx) => {
         const existing = await tx.first<{ round_id: string }>('SELECT round_id FROM dismissals WHERE id = ?', [id]);
         if (existing) {
-          if (existing.round_id !== roundId) throw new ActionError('id', id, `already used by a dismissal on round ${existing.round_id}`);
+          if (existing.round_id !== roundId)
+            throw new ActionError('id', id, `already used by a dismissal on round ${existing.round_id}`);
           return (await store.getRound(roundId, tx))!;
         }
         const { unitId } = await openRound(tx, roundId);
@@ -424,7 +509,8 @@ export function createActions(deps: ActionDeps): Actions {
         let readingId = opts.readingId;
         if (readingId) {
           const r = await store.getReading(readingId, tx);
-          if (!r || r.roundId !== roundId) throw new ActionError('readingId', readingId, 'no such reading on this round');
+          if (!r || r.roundId !== roundId)
+            throw new ActionError('readingId', readingId, 'no such reading on this round');
         } else {
           const cur = await tx.first<{ id: string }>(
             `SELECT r.id FROM readings r WHERE r.round_id = ? AND r.instrument_id = ?
@@ -433,16 +519,17 @@ export function createActions(deps: ActionDeps): Actions {
           );
           readingId = cur?.id;
         }
-        const d = wire(Dismissal, { readingId, tag, flag: opts.flag ?? 'suspect', note: reason.trim(), deviceTime: now() });
-        await tx.run('INSERT INTO dismissals (id, round_id, reading_id, tag, flag, note, device_time) VALUES (?, ?, ?, ?, ?, ?, ?)', [
-          id,
-          roundId,
-          d.readingId ?? null,
-          d.tag ?? null,
-          d.flag,
-          d.note ?? null,
-          d.deviceTime,
-        ]);
+        const d = wire(Dismissal, {
+          readingId,
+          tag,
+          flag: opts.flag ?? 'suspect',
+          note: reason.trim(),
+          deviceTime: now(),
+        });
+        await tx.run(
+          'INSERT INTO dismissals (id, round_id, reading_id, tag, flag, note, device_time) VALUES (?, ?, ?, ?, ?, ?, ?)',
+          [id, roundId, d.readingId ?? null, d.tag ?? null, d.flag, d.note ?? null, d.deviceTime],
+        );
         await enqueue(tx, 'round', roundId, await roundPayload(tx, roundId));
         return (await store.getRound(roundId, tx))!;
       });

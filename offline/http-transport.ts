@@ -32,6 +32,9 @@ export function createHttpTransport(request: () => AuthedRequest): SyncTransport
       return request()<unknown>(`/api/photos/${encodeURIComponent(id)}`, { method: 'POST', body: form });
     },
     pull: (cursor, siteId) =>
-      request()<unknown>(`/api/sync/pull?siteId=${encodeURIComponent(siteId)}&cursor=${encodeURIComponent(String(cursor))}`, { method: 'GET' }),
+      request()<unknown>(
+        `/api/sync/pull?siteId=${encodeURIComponent(siteId)}&cursor=${encodeURIComponent(String(cursor))}`,
+        { method: 'GET' },
+      ),
   };
 }

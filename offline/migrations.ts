@@ -184,7 +184,12 @@ const v2: Migration = {
         continue; // reported as a bad row when read; a migration does not guess at damaged data
       }
       if (r.kind === 'round') item = { ...item, dismissals: Array.isArray(item.dismissals) ? item.dismissals : [] };
-      else item = { ...item, confirmedAfterFlag: item.confirmedAfterFlag === true, flags: Array.isArray(item.flags) ? item.flags : [] };
+      else
+        item = {
+          ...item,
+          confirmedAfterFlag: item.confirmedAfterFlag === true,
+          flags: Array.isArray(item.flags) ? item.flags : [],
+        };
       await tx.run('UPDATE outbox SET payload = ? WHERE seq = ?', [JSON.stringify(item), r.seq]);
     }
   },
@@ -213,7 +218,8 @@ export async function schemaVersion(db: LocalDbOps): Promise<number> {
   const row = await db.first<{ value: string }>(`SELECT value FROM meta WHERE key = 'schema_version'`);
   if (!row) return 0;
   const v = Number(row.value);
-  if (!Number.isInteger(v) || v < 0) throw new Error(`meta.schema_version is ${JSON.stringify(row.value)}, not a whole number`);
+  if (!Number.isInteger(v) || v < 0)
+    throw new Error(`meta.schema_version is ${JSON.stringify(row.value)}, not a whole number`);
   return v;
 }
 
@@ -244,9 +250,10 @@ export async function migrate(
     if (m.version <= from || m.version > target) continue;
     await db.transaction(async (tx) => {
       await m.up(tx);
-      await tx.run(`INSERT INTO meta (key, value) VALUES ('schema_version', ?) ON CONFLICT(key) DO UPDATE SET value = excluded.value`, [
-        String(m.version),
-      ]);
+      await tx.run(
+        `INSERT INTO meta (key, value) VALUES ('schema_version', ?) ON CONFLICT(key) DO UPDATE SET value = excluded.value`,
+        [String(m.version)],
+      );
     });
     applied.push(`${m.version} ${m.name}`);
   }

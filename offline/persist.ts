@@ -30,7 +30,10 @@ export function browserStorageManager(): StorageManagerLike | null {
   return nav?.storage ?? null;
 }
 
-export async function ensurePersistentStorage(store: Store, storage: StorageManagerLike | null = browserStorageManager()): Promise<PersistOutcome> {
+export async function ensurePersistentStorage(
+  store: Store,
+  storage: StorageManagerLike | null = browserStorageManager(),
+): Promise<PersistOutcome> {
   if (!storage || typeof storage.persist !== 'function') return 'unsupported';
   try {
     if (typeof storage.persisted === 'function' && (await storage.persisted())) return 'persisted';

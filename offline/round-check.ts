@@ -44,7 +44,11 @@ const ms = (iso: string | null): number | null => {
 };
 
 /** Reads everything the check of `roundId` needs from the device store. `now` stands in for the clock while the round is under way. */
-export async function loadRoundCheckInput(store: Store, roundId: string, opts: { now?: number; windowHours?: number } = {}): Promise<DeviceRoundCheckLoad> {
+export async function loadRoundCheckInput(
+  store: Store,
+  roundId: string,
+  opts: { now?: number; windowHours?: number } = {},
+): Promise<DeviceRoundCheckLoad> {
   const round = await store.getRound(roundId);
   if (!round) return { ok: false, problem: 'This round is not on this device.', round: null };
   const versions = new Map<string, LocalRouteVersion | null>();
@@ -59,15 +63,26 @@ export async function loadRoundCheckInput(store: Store, roundId: string, opts: {
   };
   const version = await versionOf(round.routeVersionId);
   const route = version ? await routeOf(version.routeId) : null;
-  if (!version || !route) return { ok: false, problem: "The round's route is not on this device; sync once, then check again.", round };
+  if (!version || !route)
+    return { ok: false, problem: "The round's route is not on this device; sync once, then check again.", round };
   const unit = await store.getUnit(route.unitId);
-  if (!unit) return { ok: false, problem: "The unit's cycle model is not on this device; sync once, then check again.", round };
+  if (!unit)
+    return { ok: false, problem: "The unit's cycle model is not on this device; sync once, then check again.", round };
   const parsed = validateModel(unit.model);
-  if (!parsed.ok) return { ok: false, problem: `The unit's cycle model on this device is damaged (${parsed.errors[0]?.path}: ${parsed.errors[0]?.message}); sync again.`, round };
+  if (!parsed.ok)
+    return {
+      ok: false,
+      problem: `The unit's cycle model on this device is damaged (${parsed.errors[0]?.path}: ${parsed.errors[0]?.message}); sync again.`,
+      round,
+    };
   const model = parsed.model;
-  const instruments = Object.fromEntries((await store.listInstruments(unit.id)).map((i) => [i.tag, i])) as Record<string, LocalInstrument>;
+  const instruments = Object.fromEntries((await store.listInstruments(unit.id)).map((i) => [i.tag, i])) as Record<
+    string,
+    LocalInstrument
+  >;
   const elev = await store.getMeta(SITE_ELEVATION_META(route.siteId));
-  const elevationPa = elev !== null && Number.isFinite(Number(elev)) ? barometricFromElevation(Number(elev)) : undefined;
+  const elevationPa =
+    elev !== null && Number.isFinite(Number(elev)) ? barometricFromElevation(Number(elev)) : undefined;
 
   const windowHours = opts.windowHours ?? ROUND_CHECK_WINDOW_HOURS;
   const now = opts.now ?? Date.now();
@@ -119,7 +134,12 @@ export async function loadRoundCheckInput(store: Store, roundId: string, opts: {
 
   const mine = await asRoundCheck(round, version, route);
   if (!mine) {
-    return { ok: false, problem: 'No barometric pressure for this round: read the site barometer, or connect once so the device knows the site’s elevation.', round };
+    return {
+      ok: false,
+      problem:
+        'No barometric pressure for this round: read the site barometer, or connect once so the device knows the site’s elevation.',
+      round,
+    };
   }
 
   const from = at - windowHours * 3.6e6;
@@ -153,7 +173,9 @@ export async function loadRoundCheckInput(store: Store, roundId: string, opts: {
       others,
       at,
       windowHours,
-      dismissals: round.dismissals.filter((d) => d.tag).map((d) => ({ tag: d.tag!, note: d.note ?? '', ...(d.readingId ? { readingId: d.readingId } : {}) })),
+      dismissals: round.dismissals
+        .filter((d) => d.tag)
+        .map((d) => ({ tag: d.tag!, note: d.note ?? '', ...(d.readingId ? { readingId: d.readingId } : {}) })),
       routes: unitRoutes,
     },
   };

@@ -37,7 +37,13 @@ export const flagCodes: Record<SpotFlag['kind'], string> = {
   if97: 'outside-if97',
 };
 
-export function siOf(quantity: Quantity, value: number, unit: string, reference: PressureRef | null | undefined, barometricPa: number | undefined): number {
+export function siOf(
+  quantity: Quantity,
+  value: number,
+  unit: string,
+  reference: PressureRef | null | undefined,
+  barometricPa: number | undefined,
+): number {
   return toSI({ quantity, value, unit, reference: reference ?? undefined }, { barometricPa });
 }
 
@@ -91,16 +97,35 @@ export async function loadRound(store: Store, roundId: string, siteId: string | 
     const p = await store.previousReading(inst.id, roundId);
     if (!p || p.valueTyped === null) continue;
     try {
-      previous[inst.tag] = { valueSI: siOf(inst.quantity, p.valueTyped, p.unit, p.reference, barometricPa), hoursAgo: (now - Date.parse(p.deviceTime)) / 3.6e6 };
+      previous[inst.tag] = {
+        valueSI: siOf(inst.quantity, p.valueTyped, p.unit, p.reference, barometricPa),
+        hoursAgo: (now - Date.parse(p.deviceTime)) / 3.6e6,
+      };
     } catch {
       /* skip */
     }
   }
-  return { round, template: version.template, routeName: route?.name ?? version.template.name, model, instruments, readings, answers, photos, barometricPa, values, previous };
+  return {
+    round,
+    template: version.template,
+    routeName: route?.name ?? version.template.name,
+    model,
+    instruments,
+    readings,
+    answers,
+    photos,
+    barometricPa,
+    values,
+    previous,
+  };
 }
 
 /** The band of a route reading in SI absolute, or undefined when it cannot be converted yet. */
-export function bandSI(spec: RouteReading, quantity: Quantity, barometricPa: number | undefined): { min: number; max: number } | undefined {
+export function bandSI(
+  spec: RouteReading,
+  quantity: Quantity,
+  barometricPa: number | undefined,
+): { min: number; max: number } | undefined {
   try {
     const a = siOf(quantity, spec.band.min, spec.unit, spec.reference, barometricPa);
     const b = siOf(quantity, spec.band.max, spec.unit, spec.reference, barometricPa);
@@ -121,7 +146,15 @@ export function flagsFor(data: RoundData, spec: RouteReading, valueSI: number): 
       const spec0 = parseAccuracySpec(inst.accuracy);
       const range = inst.range && (inst.reference ?? 'absolute') === 'absolute' ? inst.range : undefined;
       return checkReading(
-        { tag: spec.tag, quantity: inst.quantity, valueSI, sigma: sigmaFor(spec0, valueSI), display: { unit: spec.unit as Unit, reference: spec.reference }, range, band },
+        {
+          tag: spec.tag,
+          quantity: inst.quantity,
+          valueSI,
+          sigma: sigmaFor(spec0, valueSI),
+          display: { unit: spec.unit as Unit, reference: spec.reference },
+          range,
+          band,
+        },
         { barometricPa: data.barometricPa, previous: data.previous[spec.tag] },
       );
     } catch {
@@ -141,11 +174,15 @@ export function flagsFor(data: RoundData, spec: RouteReading, valueSI: number): 
 }
 
 /** What is still missing before the round is complete. */
-export function missingOf(data: RoundData): { readings: { stop: string; tag: string }[]; checks: { stop: string; id: string; prompt: string }[] } {
+export function missingOf(data: RoundData): {
+  readings: { stop: string; tag: string }[];
+  checks: { stop: string; id: string; prompt: string }[];
+} {
   const readings: { stop: string; tag: string }[] = [];
   const checks: { stop: string; id: string; prompt: string }[] = [];
   for (const stop of data.template.stops) {
-    for (const r of stop.readings) if (r.required && !data.readings[r.tag]) readings.push({ stop: stop.name, tag: r.tag });
+    for (const r of stop.readings)
+      if (r.required && !data.readings[r.tag]) readings.push({ stop: stop.name, tag: r.tag });
     for (const c of stop.checks) if (!data.answers[c.id]) checks.push({ stop: stop.name, id: c.id, prompt: c.prompt });
   }
   return { readings, checks };

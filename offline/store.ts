@@ -120,7 +120,9 @@ export type AuthorScope = string | undefined;
 
 /** `AND (<col> IS NULL OR <col> = ?)` for a scope, with its parameter. */
 function byAuthor(scope: AuthorScope, column = 'author_id'): { sql: string; params: string[] } {
-  return scope === undefined ? { sql: '', params: [] } : { sql: ` AND (${column} IS NULL OR ${column} = ?)`, params: [scope] };
+  return scope === undefined
+    ? { sql: '', params: [] }
+    : { sql: ` AND (${column} IS NULL OR ${column} = ?)`, params: [scope] };
 }
 
 /** Records another person made on this device, waiting until they sign in here again. */
@@ -231,7 +233,10 @@ export class Store {
   }
 
   async setMeta(key: string, value: string, db: LocalDbOps = this.db): Promise<void> {
-    await db.run('INSERT INTO meta (key, value) VALUES (?, ?) ON CONFLICT(key) DO UPDATE SET value = excluded.value', [key, value]);
+    await db.run('INSERT INTO meta (key, value) VALUES (?, ?) ON CONFLICT(key) DO UPDATE SET value = excluded.value', [
+      key,
+      value,
+    ]);
   }
 
   /** The device's own id, made once and kept. */
@@ -329,7 +334,11 @@ export class Store {
     return counts;
   }
 
-  private parseRows<S extends z.ZodType>(table: string, schema: S, rows: { id: string; json: string }[]): z.output<S>[] {
+  private parseRows<S extends z.ZodType>(
+    table: string,
+    schema: S,
+    rows: { id: string; json: string }[],
+  ): z.output<S>[] {
     const out: z.output<S>[] = [];
     for (const r of rows) {
       const v = this.parseJson(schema, r.json, { table, id: r.id, column: 'json' });
@@ -339,7 +348,10 @@ export class Store {
   }
 
   async listUnits(siteId: string): Promise<LocalUnit[]> {
-    const rows = await this.db.all<{ id: string; json: string }>('SELECT id, json FROM units WHERE site_id = ? ORDER BY id', [siteId]);
+    const rows = await this.db.all<{ id: string; json: string }>(
+      'SELECT id, json FROM units WHERE site_id = ? ORDER BY id',
+      [siteId],
+    );
     return this.parseRows('units', StoredUnit, rows);
   }
 
@@ -349,17 +361,26 @@ export class Store {
   }
 
   async listInstruments(unitId: string): Promise<LocalInstrument[]> {
-    const rows = await this.db.all<{ id: string; json: string }>('SELECT id, json FROM instruments WHERE unit_id = ? ORDER BY tag', [unitId]);
+    const rows = await this.db.all<{ id: string; json: string }>(
+      'SELECT id, json FROM instruments WHERE unit_id = ? ORDER BY tag',
+      [unitId],
+    );
     return this.parseRows('instruments', StoredInstrument, rows);
   }
 
   async instrumentByTag(unitId: string, tag: string, db: LocalDbOps = this.db): Promise<LocalInstrument | null> {
-    const rows = await db.all<{ id: string; json: string }>('SELECT id, json FROM instruments WHERE unit_id = ? AND tag = ?', [unitId, tag]);
+    const rows = await db.all<{ id: string; json: string }>(
+      'SELECT id, json FROM instruments WHERE unit_id = ? AND tag = ?',
+      [unitId, tag],
+    );
     return this.parseRows('instruments', StoredInstrument, rows)[0] ?? null;
   }
 
   async listRoutes(siteId: string): Promise<LocalRoute[]> {
-    const rows = await this.db.all<{ id: string; json: string }>('SELECT id, json FROM routes WHERE site_id = ? ORDER BY id', [siteId]);
+    const rows = await this.db.all<{ id: string; json: string }>(
+      'SELECT id, json FROM routes WHERE site_id = ? ORDER BY id',
+      [siteId],
+    );
     return this.parseRows('routes', StoredRoute, rows).sort((a, b) => a.name.localeCompare(b.name));
   }
 
@@ -376,15 +397,22 @@ export class Store {
   // ── rounds and what was recorded on them ───────────────────────────────────────────────
 
   async getRound(id: string, db: LocalDbOps = this.db): Promise<LocalRound | null> {
-    const r = await db.first<{ id: string; route_version_id: string; status: string; started_at: string; finished_at: string | null }>(
-      'SELECT id, route_version_id, status, started_at, finished_at FROM rounds WHERE id = ?',
-      [id],
-    );
+    const r = await db.first<{
+      id: string;
+      route_version_id: string;
+      status: string;
+      started_at: string;
+      finished_at: string | null;
+    }>('SELECT id, route_version_id, status, started_at, finished_at FROM rounds WHERE id = ?', [id]);
     if (!r) return null;
-    const ds = await db.all<{ id: string; reading_id: string | null; tag: string | null; flag: string; note: string | null; device_time: string }>(
-      'SELECT id, reading_id, tag, flag, note, device_time FROM dismissals WHERE round_id = ? ORDER BY seq',
-      [id],
-    );
+    const ds = await db.all<{
+      id: string;
+      reading_id: string | null;
+      tag: string | null;
+      flag: string;
+      note: string | null;
+      device_time: string;
+    }>('SELECT id, reading_id, tag, flag, note, device_time FROM dismissals WHERE round_id = ? ORDER BY seq', [id]);
     return {
       id: r.id,
       routeVersionId: r.route_version_id,
@@ -405,7 +433,10 @@ export class Store {
   /** Rounds on the device, newest first; `siteId` limits to that site's routes. */
   /** Who started the round on this device (null: not kept, a round from before authors were). */
   async roundAuthor(roundId: string): Promise<{ id: string; name: string | null } | null> {
-    const r = await this.db.first<{ author_id: string | null; author_name: string | null }>('SELECT author_id, author_name FROM rounds WHERE id = ?', [roundId]);
+    const r = await this.db.first<{ author_id: string | null; author_name: string | null }>(
+      'SELECT author_id, author_name FROM rounds WHERE id = ?',
+      [roundId],
+    );
     return r?.author_id ? { id: r.author_id, name: r.author_name } : null;
   }
 
@@ -487,7 +518,15 @@ export class Store {
 
   /** The latest answer to each check of the round (an answer given again replaces the earlier one). */
   async roundCheckAnswers(roundId: string): Promise<LocalCheckAnswer[]> {
-    const rows = await this.db.all<{ seq: number; id: string; round_id: string; check_id: string; answer_json: string; note: string | null; device_time: string }>(
+    const rows = await this.db.all<{
+      seq: number;
+      id: string;
+      round_id: string;
+      check_id: string;
+      answer_json: string;
+      note: string | null;
+      device_time: string;
+    }>(
       `SELECT a.* FROM check_answers a
        WHERE a.round_id = ? AND a.seq = (SELECT MAX(b.seq) FROM check_answers b WHERE b.round_id = a.round_id AND b.check_id = a.check_id)
        ORDER BY a.seq`,
@@ -495,15 +534,29 @@ export class Store {
     );
     const out: LocalCheckAnswer[] = [];
     for (const r of rows) {
-      const answer = this.parseJson(StoredAnswer, r.answer_json, { table: 'check_answers', id: r.id, column: 'answer_json' });
+      const answer = this.parseJson(StoredAnswer, r.answer_json, {
+        table: 'check_answers',
+        id: r.id,
+        column: 'answer_json',
+      });
       if (!answer) continue;
-      out.push({ seq: Number(r.seq), id: r.id, roundId: r.round_id, checkId: r.check_id, answer, note: r.note, deviceTime: r.device_time });
+      out.push({
+        seq: Number(r.seq),
+        id: r.id,
+        roundId: r.round_id,
+        checkId: r.check_id,
+        answer,
+        note: r.note,
+        deviceTime: r.device_time,
+      });
     }
     return out;
   }
 
   async roundPhotos(roundId: string): Promise<LocalPhoto[]> {
-    const rows = await this.db.all<PhotoRow>(`SELECT ${PHOTO_COLUMNS} FROM photos WHERE round_id = ? ORDER BY rowid`, [roundId]);
+    const rows = await this.db.all<PhotoRow>(`SELECT ${PHOTO_COLUMNS} FROM photos WHERE round_id = ? ORDER BY rowid`, [
+      roundId,
+    ]);
     return rows.map(toPhoto);
   }
 
@@ -522,7 +575,10 @@ export class Store {
 
   async outboxCounts(scope?: AuthorScope): Promise<OutboxCounts> {
     const a = byAuthor(scope);
-    const rows = await this.db.all<{ state: string; n: number }>(`SELECT state, COUNT(*) AS n FROM outbox WHERE 1 = 1${a.sql} GROUP BY state`, a.params);
+    const rows = await this.db.all<{ state: string; n: number }>(
+      `SELECT state, COUNT(*) AS n FROM outbox WHERE 1 = 1${a.sql} GROUP BY state`,
+      a.params,
+    );
     const by = Object.fromEntries(rows.map((r) => [r.state, Number(r.n)]));
     const others =
       scope === undefined
@@ -532,11 +588,17 @@ export class Store {
               WHERE state IN ('waiting', 'isolating') AND author_id IS NOT NULL AND author_id <> ? GROUP BY author_id ORDER BY MIN(seq)`,
             [scope],
           );
-    const photos = await this.db.all<{ upload_state: string; n: number }>('SELECT upload_state, COUNT(*) AS n FROM photos GROUP BY upload_state');
+    const photos = await this.db.all<{ upload_state: string; n: number }>(
+      'SELECT upload_state, COUNT(*) AS n FROM photos GROUP BY upload_state',
+    );
     const ph = Object.fromEntries(photos.map((r) => [r.upload_state, Number(r.n)]));
     return {
       waiting: (by.waiting ?? 0) + (by.isolating ?? 0),
-      othersWaiting: others.map((o) => ({ authorId: o.author_id, authorName: o.author_name ?? 'another person', records: Number(o.n) })),
+      othersWaiting: others.map((o) => ({
+        authorId: o.author_id,
+        authorName: o.author_name ?? 'another person',
+        records: Number(o.n),
+      })),
       sent: by.sent ?? 0,
       refused: by.refused ?? 0,
       photosWaiting: (ph.local ?? 0) + (ph.announced ?? 0),
@@ -545,16 +607,28 @@ export class Store {
     };
   }
 
-  private async parseOutbox(rows: { seq: number; kind: string; record_id: string; payload: string }[]): Promise<OutboxItem[]> {
+  private async parseOutbox(
+    rows: { seq: number; kind: string; record_id: string; payload: string }[],
+  ): Promise<OutboxItem[]> {
     const out: OutboxItem[] = [];
     for (const r of rows) {
       const schema = OutboxPayload[r.kind as OutboxKind];
       const payload = schema
         ? this.parseJson(schema, r.payload, { table: 'outbox', id: String(r.seq), column: 'payload' })
-        : (this.reportBad({ table: 'outbox', id: String(r.seq), column: 'kind', problem: `unknown kind ${JSON.stringify(r.kind)}` }), null);
+        : (this.reportBad({
+            table: 'outbox',
+            id: String(r.seq),
+            column: 'kind',
+            problem: `unknown kind ${JSON.stringify(r.kind)}`,
+          }),
+          null);
       if (payload === null) {
         const bad = this.bad.get(`outbox:${r.seq}:payload`) ?? this.bad.get(`outbox:${r.seq}:kind`);
-        await this.markRefused([Number(r.seq)], `This record is damaged on the device and cannot be sent (${bad?.problem ?? 'unreadable'}).`, null);
+        await this.markRefused(
+          [Number(r.seq)],
+          `This record is damaged on the device and cannot be sent (${bad?.problem ?? 'unreadable'}).`,
+          null,
+        );
         continue;
       }
       out.push({ seq: Number(r.seq), kind: r.kind as OutboxKind, recordId: r.record_id, payload } as OutboxItem);
@@ -611,10 +685,10 @@ export class Store {
       for (const it of items) {
         if (it.kind !== 'photo') continue;
         const state = wanted.has(it.recordId) ? 'announced' : 'stored';
-        await tx.run(`UPDATE photos SET upload_state = ?, next_attempt_at = 0 WHERE id = ? AND upload_state IN ('local', 'announced')`, [
-          state,
-          it.recordId,
-        ]);
+        await tx.run(
+          `UPDATE photos SET upload_state = ?, next_attempt_at = 0 WHERE id = ? AND upload_state IN ('local', 'announced')`,
+          [state, it.recordId],
+        );
       }
     });
   }
@@ -625,7 +699,10 @@ export class Store {
     await this.db.transaction(async (tx) => {
       for (let i = 0; i < seqs.length; i += 500) {
         const part = seqs.slice(i, i + 500);
-        await tx.run(`UPDATE outbox SET state = 'isolating', attempts = attempts + 1 WHERE seq IN (${placeholders(part.length)})`, part);
+        await tx.run(
+          `UPDATE outbox SET state = 'isolating', attempts = attempts + 1 WHERE seq IN (${placeholders(part.length)})`,
+          part,
+        );
       }
     });
   }
@@ -654,7 +731,14 @@ export class Store {
   /** Refused rows (of the scope's author, and those without one). */
   async refusedItems(scope?: AuthorScope): Promise<RefusedItem[]> {
     const a = byAuthor(scope);
-    const rows = await this.db.all<{ seq: number; kind: string; record_id: string; refused_message: string | null; refused_details: string | null; refused_at: string | null }>(
+    const rows = await this.db.all<{
+      seq: number;
+      kind: string;
+      record_id: string;
+      refused_message: string | null;
+      refused_details: string | null;
+      refused_at: string | null;
+    }>(
       `SELECT seq, kind, record_id, refused_message, refused_details, refused_at FROM outbox WHERE state = 'refused'${a.sql} ORDER BY seq`,
       a.params,
     );
@@ -682,9 +766,15 @@ export class Store {
   async retryRefused(seqs?: number[]): Promise<number> {
     const n = await this.db.transaction(async (tx) => {
       const r = seqs
-        ? await tx.run(`UPDATE outbox SET state = 'waiting' WHERE state = 'refused' AND seq IN (${placeholders(seqs.length)})`, seqs)
+        ? await tx.run(
+            `UPDATE outbox SET state = 'waiting' WHERE state = 'refused' AND seq IN (${placeholders(seqs.length)})`,
+            seqs,
+          )
         : await tx.run(`UPDATE outbox SET state = 'waiting' WHERE state = 'refused'`);
-      if (!seqs) await tx.run(`UPDATE photos SET upload_state = 'announced', next_attempt_at = 0, attempts = 0 WHERE upload_state = 'refused'`);
+      if (!seqs)
+        await tx.run(
+          `UPDATE photos SET upload_state = 'announced', next_attempt_at = 0, attempts = 0 WHERE upload_state = 'refused'`,
+        );
       return r.changes;
     });
     this.notifyChange();
@@ -706,20 +796,33 @@ export class Store {
   /** The earliest time (ms) an announced photo is due, or null when none waits. */
   async nextPhotoDue(scope?: AuthorScope): Promise<number | null> {
     const a = byAuthor(scope);
-    const r = await this.db.first<{ t: number | null }>(`SELECT MIN(next_attempt_at) AS t FROM photos WHERE upload_state = 'announced'${a.sql}`, a.params);
+    const r = await this.db.first<{ t: number | null }>(
+      `SELECT MIN(next_attempt_at) AS t FROM photos WHERE upload_state = 'announced'${a.sql}`,
+      a.params,
+    );
     return r?.t === null || r?.t === undefined ? null : Number(r.t);
   }
 
   async markPhotoStored(id: string): Promise<void> {
-    await this.db.run(`UPDATE photos SET upload_state = 'stored', last_error = NULL, attempts = attempts + 1 WHERE id = ?`, [id]);
+    await this.db.run(
+      `UPDATE photos SET upload_state = 'stored', last_error = NULL, attempts = attempts + 1 WHERE id = ?`,
+      [id],
+    );
   }
 
   async markPhotoFailed(id: string, error: string, nextAttemptAt: number): Promise<void> {
-    await this.db.run(`UPDATE photos SET attempts = attempts + 1, last_error = ?, next_attempt_at = ? WHERE id = ?`, [error, nextAttemptAt, id]);
+    await this.db.run(`UPDATE photos SET attempts = attempts + 1, last_error = ?, next_attempt_at = ? WHERE id = ?`, [
+      error,
+      nextAttemptAt,
+      id,
+    ]);
   }
 
   async markPhotoRefused(id: string, error: string): Promise<void> {
-    await this.db.run(`UPDATE photos SET upload_state = 'refused', attempts = attempts + 1, last_error = ? WHERE id = ?`, [error, id]);
+    await this.db.run(
+      `UPDATE photos SET upload_state = 'refused', attempts = attempts + 1, last_error = ? WHERE id = ?`,
+      [error, id],
+    );
   }
 }
 

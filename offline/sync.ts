@@ -156,7 +156,15 @@ const addCounts = (a: PushCounts, b: PushCounts): PushCounts => ({
  */
 export function buildPushBody(items: OutboxItem[], deviceId: string, sentAt: string): PushRequestV2 {
   const rounds = new Map<string, OutboxItem<'round'>>();
-  const body: PushRequestV2 = { payloadVersion: CURRENT_PAYLOAD_VERSION as 2, deviceId, sentAt, rounds: [], readings: [], checkAnswers: [], photos: [] };
+  const body: PushRequestV2 = {
+    payloadVersion: CURRENT_PAYLOAD_VERSION as 2,
+    deviceId,
+    sentAt,
+    rounds: [],
+    readings: [],
+    checkAnswers: [],
+    photos: [],
+  };
   for (const it of items) {
     if (it.kind === 'round') {
       const prev = rounds.get(it.recordId);
@@ -242,7 +250,15 @@ export class SyncClient {
     if (this.running) return this.running;
     const now = this.clock.now();
     if (!opts.force && this.backoffUntil !== null && now < this.backoffUntil) {
-      return Promise.resolve({ ok: false, skipped: true, sent: 0, refused: 0, photosUploaded: 0, pulled: false, problem: this.problem });
+      return Promise.resolve({
+        ok: false,
+        skipped: true,
+        sent: 0,
+        refused: 0,
+        photosUploaded: 0,
+        pulled: false,
+        problem: this.problem,
+      });
     }
     this.running = this.run().finally(() => {
       this.running = null;
@@ -261,7 +277,11 @@ export class SyncClient {
 
   async status(): Promise<SyncStatus> {
     const scope = this.scope() ?? undefined;
-    const [counts, meta, refusedItems] = await Promise.all([this.store.outboxCounts(scope), this.store.syncMeta(), this.store.refusedItems(scope)]);
+    const [counts, meta, refusedItems] = await Promise.all([
+      this.store.outboxCounts(scope),
+      this.store.syncMeta(),
+      this.store.refusedItems(scope),
+    ]);
     return {
       ...counts,
       ...meta,
@@ -363,7 +383,15 @@ export class SyncClient {
   }
 
   private async run(): Promise<SyncResult> {
-    const result: SyncResult = { ok: true, skipped: false, sent: 0, refused: 0, photosUploaded: 0, pulled: false, problem: null };
+    const result: SyncResult = {
+      ok: true,
+      skipped: false,
+      sent: 0,
+      refused: 0,
+      photosUploaded: 0,
+      pulled: false,
+      problem: null,
+    };
     this.signedOut = false;
     try {
       await this.pushAll(result);
@@ -410,7 +438,12 @@ export class SyncClient {
           if (kind === 'signed-out') this.signOut();
           if (kind === 'retry') {
             const status = (e as { status?: number }).status;
-            this.backOff(status === 0 ? 'offline' : 'server', status === 0 ? 'No connection to the server; will retry.' : `The server could not take the records (${failureMessage(e)}); will retry.`);
+            this.backOff(
+              status === 0 ? 'offline' : 'server',
+              status === 0
+                ? 'No connection to the server; will retry.'
+                : `The server could not take the records (${failureMessage(e)}); will retry.`,
+            );
           }
           const message = failureMessage(e);
           const details = (e as { details?: unknown }).details ?? null;
@@ -425,7 +458,11 @@ export class SyncClient {
           continue;
         }
         const parsed = PushResponse.safeParse(raw);
-        if (!parsed.success) this.backOff('bad-response', `The server's answer to a push did not make sense (${describeIssues(parsed.error)}); will retry.`);
+        if (!parsed.success)
+          this.backOff(
+            'bad-response',
+            `The server's answer to a push did not make sense (${describeIssues(parsed.error)}); will retry.`,
+          );
         const resp = parsed.data!;
         await this.store.markSent(items, resp.photosWanted);
         result.sent += items.length;
@@ -446,7 +483,9 @@ export class SyncClient {
     const scope = this.scope();
     if (scope === null) return;
     for (;;) {
-      const due = (await this.store.photosDue(this.clock.now(), tried.size + 10, scope)).filter((p) => !tried.has(p.id));
+      const due = (await this.store.photosDue(this.clock.now(), tried.size + 10, scope)).filter(
+        (p) => !tried.has(p.id),
+      );
       if (due.length === 0) return;
       for (const p of due) {
         tried.add(p.id);
@@ -492,13 +531,20 @@ export class SyncClient {
       if (kind === 'signed-out') this.signOut();
       if (kind === 'retry') {
         const status = (e as { status?: number }).status;
-        this.backOff(status === 0 ? 'offline' : 'server', `Could not fetch routes and instruments (${failureMessage(e)}); will retry.`);
+        this.backOff(
+          status === 0 ? 'offline' : 'server',
+          `Could not fetch routes and instruments (${failureMessage(e)}); will retry.`,
+        );
       }
       this.note('server', `The server refused to send routes and instruments: ${failureMessage(e)}`);
       throw new Stop();
     }
     const parsed = PullResponse.safeParse(raw);
-    if (!parsed.success) this.backOff('bad-response', `The server's routes and instruments did not make sense (${describeIssues(parsed.error)}); will retry.`);
+    if (!parsed.success)
+      this.backOff(
+        'bad-response',
+        `The server's routes and instruments did not make sense (${describeIssues(parsed.error)}); will retry.`,
+      );
     await this.store.applyPull(siteId, parsed.data!);
     await this.store.noteSync(parsed.data!.serverTime);
     this.store.notifyChange();

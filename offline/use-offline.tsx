@@ -39,7 +39,8 @@ interface OfflineValue {
 const OfflineContext = createContext<OfflineValue | null>(null);
 
 const deviceIds: IdSource = { uuid: () => Crypto.randomUUID() };
-const sha256 = async (bytes: Uint8Array) => toHex(new Uint8Array(await Crypto.digest(Crypto.CryptoDigestAlgorithm.SHA256, bytes as Uint8Array<ArrayBuffer>)));
+const sha256 = async (bytes: Uint8Array) =>
+  toHex(new Uint8Array(await Crypto.digest(Crypto.CryptoDigestAlgorithm.SHA256, bytes as Uint8Array<ArrayBuffer>)));
 
 const browserTimers = {
   setTimeout: (fn: () => void, ms: number) => setTimeout(fn, ms),
@@ -62,7 +63,13 @@ export interface OfflineAuthor {
 }
 
 export function OfflineProvider({ session, children }: { session: OfflineSession; children: ReactNode }) {
-  const [value, setValue] = useState<OfflineValue>({ state: 'opening', error: null, store: null, actions: null, sync: null });
+  const [value, setValue] = useState<OfflineValue>({
+    state: 'opening',
+    error: null,
+    store: null,
+    actions: null,
+    sync: null,
+  });
   const requestRef = useRef<AuthedRequest>(session.request);
   requestRef.current = session.request;
   const siteRef = useRef<string | null>(session.siteId);
@@ -78,7 +85,13 @@ export function OfflineProvider({ session, children }: { session: OfflineSession
       try {
         db = await openExpoDb();
         const store = await openStore(db, { clock: systemClock });
-        const actions = createActions({ store, ids: deviceIds, clock: systemClock, sha256, author: () => authorRef.current });
+        const actions = createActions({
+          store,
+          ids: deviceIds,
+          clock: systemClock,
+          sha256,
+          author: () => authorRef.current,
+        });
         const sync = createSyncClient({
           store,
           transport: createHttpTransport(() => requestRef.current),
@@ -94,7 +107,13 @@ export function OfflineProvider({ session, children }: { session: OfflineSession
       } catch (e) {
         if (!live) return;
         const err = e instanceof Error ? e : new Error(String(e));
-        setValue({ state: err instanceof StoreLockedError ? 'locked' : 'error', error: err, store: null, actions: null, sync: null });
+        setValue({
+          state: err instanceof StoreLockedError ? 'locked' : 'error',
+          error: err,
+          store: null,
+          actions: null,
+          sync: null,
+        });
       }
     })();
     void registerServiceWorker();
@@ -111,7 +130,10 @@ export function OfflineProvider({ session, children }: { session: OfflineSession
     if (!sync || !signedIn) return;
     sync.start();
     const online = () => void sync.syncNow({ force: true });
-    const g = globalThis as { addEventListener?: (t: string, f: () => void) => void; removeEventListener?: (t: string, f: () => void) => void };
+    const g = globalThis as {
+      addEventListener?: (t: string, f: () => void) => void;
+      removeEventListener?: (t: string, f: () => void) => void;
+    };
     g.addEventListener?.('online', online);
     return () => {
       g.removeEventListener?.('online', online);
@@ -142,7 +164,10 @@ export function useStore(): Pick<OfflineValue, 'state' | 'error' | 'store' | 'ac
  * the read depends on, joined into one string, so the effect's dependencies stay a fixed list).
  * `data` is undefined until the first read; a failed read gives `error`.
  */
-export function useStoreQuery<T>(read: (store: Store) => Promise<T>, key: string): { data: T | undefined; error: Error | null } {
+export function useStoreQuery<T>(
+  read: (store: Store) => Promise<T>,
+  key: string,
+): { data: T | undefined; error: Error | null } {
   const { store } = useOffline();
   const [data, setData] = useState<T | undefined>(undefined);
   const [error, setError] = useState<Error | null>(null);
@@ -177,7 +202,10 @@ export function useOutboxStatus(): SyncStatus | null {
     if (!sync) return;
     let live = true;
     const off = sync.subscribe((s) => live && setStatus(s));
-    sync.status().then((s) => live && setStatus(s), () => undefined);
+    sync.status().then(
+      (s) => live && setStatus(s),
+      () => undefined,
+    );
     return () => {
       live = false;
       off();
@@ -202,7 +230,11 @@ export function useSignOut(signOut: () => Promise<void>): () => Promise<void> {
   }, [sync, signOut]);
 }
 
-export function useSyncNow(): { syncNow: () => Promise<SyncResult | null>; retryRefused: (seqs?: number[]) => Promise<number>; running: boolean } {
+export function useSyncNow(): {
+  syncNow: () => Promise<SyncResult | null>;
+  retryRefused: (seqs?: number[]) => Promise<number>;
+  running: boolean;
+} {
   const { sync } = useOffline();
   const [running, setRunning] = useState(false);
   const syncNow = useCallback(async () => {
@@ -214,11 +246,14 @@ export function useSyncNow(): { syncNow: () => Promise<SyncResult | null>; retry
       setRunning(false);
     }
   }, [sync]);
-  const retryRefused = useCallback(async (seqs?: number[]) => {
-    if (!sync) return 0;
-    const n = await sync.retryRefused(seqs);
-    void sync.syncNow({ force: true });
-    return n;
-  }, [sync]);
+  const retryRefused = useCallback(
+    async (seqs?: number[]) => {
+      if (!sync) return 0;
+      const n = await sync.retryRefused(seqs);
+      void sync.syncNow({ force: true });
+      return n;
+    },
+    [sync],
+  );
   return { syncNow, retryRefused, running };
 }

@@ -31,23 +31,43 @@ export function RoleHomeScreen({ role }: { role: Role }) {
     <View style={styles.stack}>
       <Card testID="home-identity">
         {me.isPending ? <ThemedText muted>Loading…</ThemedText> : null}
-        {me.error ? <ThemedText tone="danger" testID="home-error">{me.error.message}</ThemedText> : null}
+        {me.error ? (
+          <ThemedText tone="danger" testID="home-error">
+            {me.error.message}
+          </ThemedText>
+        ) : null}
         {me.data ? (
           <>
-            <ThemedText variant="title" testID="home-name">{me.data.name}</ThemedText>
-            <ThemedText muted testID="home-email">{me.data.email}</ThemedText>
+            <ThemedText variant="title" testID="home-name">
+              {me.data.name}
+            </ThemedText>
+            <ThemedText muted testID="home-email">
+              {me.data.email}
+            </ThemedText>
             <View style={styles.row}>
-              <ThemedText variant="label" muted>Site</ThemedText>
-              <ThemedText variant="label" bold testID="home-site">{site.data?.name ?? m?.siteName ?? '—'}</ThemedText>
+              <ThemedText variant="label" muted>
+                Site
+              </ThemedText>
+              <ThemedText variant="label" bold testID="home-site">
+                {site.data?.name ?? m?.siteName ?? '—'}
+              </ThemedText>
             </View>
             <View style={styles.row}>
-              <ThemedText variant="label" muted>Role</ThemedText>
-              <ThemedText variant="label" bold testID="home-role">{m ? roleNames[m.role] : roleNames[role]}</ThemedText>
+              <ThemedText variant="label" muted>
+                Role
+              </ThemedText>
+              <ThemedText variant="label" bold testID="home-role">
+                {m ? roleNames[m.role] : roleNames[role]}
+              </ThemedText>
             </View>
             {site.data?.timezone ? (
               <View style={styles.row}>
-                <ThemedText variant="label" muted>Site time zone</ThemedText>
-                <ThemedText variant="label" testID="home-timezone">{site.data.timezone}</ThemedText>
+                <ThemedText variant="label" muted>
+                  Site time zone
+                </ThemedText>
+                <ThemedText variant="label" testID="home-timezone">
+                  {site.data.timezone}
+                </ThemedText>
               </View>
             ) : null}
           </>

@@ -15,8 +15,23 @@ import { fileURLToPath } from 'node:url';
 const ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '..');
 const OUT = join(ROOT, 'dist', 'web');
 const INPUTS = [
-  'app', 'components', 'hooks', 'lib', 'constants', 'screens', 'offline', 'checklists', 'shared', 'demo', 'assets',
-  'app.json', 'metro.config.js', 'babel.config.js', 'package-lock.json', 'scripts/build-web.mjs', 'scripts/service-worker.mjs',
+  'app',
+  'components',
+  'hooks',
+  'lib',
+  'constants',
+  'screens',
+  'offline',
+  'checklists',
+  'shared',
+  'demo',
+  'assets',
+  'app.json',
+  'metro.config.js',
+  'babel.config.js',
+  'package-lock.json',
+  'scripts/build-web.mjs',
+  'scripts/service-worker.mjs',
 ];
 
 function walk(p, out) {
@@ -41,7 +56,12 @@ export function inputsHash() {
 export async function buildWeb({ force = false, clearCache = force } = {}) {
   const want = inputsHash();
   const stamp = join(OUT, '.build-hash');
-  if (!force && existsSync(stamp) && readFileSync(stamp, 'utf8').trim() === want && existsSync(join(OUT, 'index.html'))) {
+  if (
+    !force &&
+    existsSync(stamp) &&
+    readFileSync(stamp, 'utf8').trim() === want &&
+    existsSync(join(OUT, 'index.html'))
+  ) {
     console.error('[web] build is up to date');
     return false;
   }

@@ -11,7 +11,6 @@ import { localJwtSecret } from './secret.mjs';
 
 const ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '..');
 
-
 ensureInstall();
 const { startCluster } = await import('./pg.mjs');
 const pg = await startCluster({ test: false });
@@ -30,7 +29,13 @@ execFileSync(bin('tsx'), ['server/cli/seed.ts'], { cwd: ROOT, env, stdio: 'inher
 const api = spawn(bin('tsx'), ['watch', 'server/main.ts'], { cwd: ROOT, env, stdio: 'inherit' });
 const web = spawn(bin('expo'), ['start', '--web', '--port', '8081'], {
   cwd: ROOT,
-  env: { ...process.env, EXPO_PUBLIC_API_URL: 'http://127.0.0.1:8080', EXPO_OFFLINE: '1', EXPO_NO_TELEMETRY: '1', EXPO_UNSTABLE_HEADLESS: '1' },
+  env: {
+    ...process.env,
+    EXPO_PUBLIC_API_URL: 'http://127.0.0.1:8080',
+    EXPO_OFFLINE: '1',
+    EXPO_NO_TELEMETRY: '1',
+    EXPO_UNSTABLE_HEADLESS: '1',
+  },
   stdio: 'inherit',
 });
 const stop = () => {

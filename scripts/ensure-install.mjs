@@ -19,7 +19,11 @@ export function ensureInstall() {
   if (have === want && existsSync(join(ROOT, 'node_modules', '.bin', 'tsx'))) return false;
   // An `npm install` run by hand since the last check leaves npm's own record newer than the lock.
   const npmRecord = join(ROOT, 'node_modules', '.package-lock.json');
-  if (existsSync(npmRecord) && statSync(npmRecord).mtimeMs >= statSync(lock).mtimeMs && existsSync(join(ROOT, 'node_modules', '.bin', 'tsx'))) {
+  if (
+    existsSync(npmRecord) &&
+    statSync(npmRecord).mtimeMs >= statSync(lock).mtimeMs &&
+    existsSync(join(ROOT, 'node_modules', '.bin', 'tsx'))
+  ) {
     writeFileSync(stamp, want + '\n');
     return false;
   }

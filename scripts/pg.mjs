@@ -58,10 +58,10 @@ function ensureBinaries() {
   if (!isRoot()) {
     throw new Error(
       'PostgreSQL server binaries not found under /usr/lib/postgresql/*/bin. ' +
-        'Install Debian\'s server package: sudo apt-get install -y postgresql',
+        "Install Debian's server package: sudo apt-get install -y postgresql",
     );
   }
-  log('PostgreSQL server not found; installing Debian\'s postgresql package (apt-get)…');
+  log("PostgreSQL server not found; installing Debian's postgresql package (apt-get)…");
   const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' };
   spawnSync('apt-get', ['update'], { stdio: 'inherit', env });
   const r = spawnSync('apt-get', ['install', '-y', '--no-install-recommends', 'postgresql'], {
@@ -136,9 +136,7 @@ export async function startCluster(opts = {}) {
   }
   if (!isRunning(bin, cfg)) {
     if (await portOpen(cfg.port)) {
-      throw new Error(
-        `port ${cfg.port} on 127.0.0.1 is taken by another server; set TR_PG_PORT to a free port`,
-      );
+      throw new Error(`port ${cfg.port} on 127.0.0.1 is taken by another server; set TR_PG_PORT to a free port`);
     }
     mkdirSync(sock, { recursive: true });
     if (isRoot()) {
@@ -167,7 +165,10 @@ export function stopCluster(opts = {}) {
   const cfg = clusterConfig(opts);
   const bin = findBinDir();
   if (!bin) return;
-  for (const dir of [cfg.dir, join('/var/tmp', `trueround-pg-${createHash('sha1').update(cfg.dir).digest('hex').slice(0, 10)}`)]) {
+  for (const dir of [
+    cfg.dir,
+    join('/var/tmp', `trueround-pg-${createHash('sha1').update(cfg.dir).digest('hex').slice(0, 10)}`),
+  ]) {
     const data = join(dir, 'data');
     if (existsSync(join(data, 'postmaster.pid'))) {
       log(`stopping ${data}`);

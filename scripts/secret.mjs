@@ -9,6 +9,7 @@ const ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '..');
 export function localJwtSecret() {
   const file = join(ROOT, '.data', 'secret.json');
   mkdirSync(dirname(file), { recursive: true });
-  if (!existsSync(file)) writeFileSync(file, JSON.stringify({ jwtSecret: randomBytes(48).toString('base64url') }), { mode: 0o600 });
+  if (!existsSync(file))
+    writeFileSync(file, JSON.stringify({ jwtSecret: randomBytes(48).toString('base64url') }), { mode: 0o600 });
   return JSON.parse(readFileSync(file, 'utf8')).jwtSecret;
 }

@@ -60,7 +60,9 @@ async function main() {
       stepDone('server');
       console.error(`[start] steps: ${steps.join(', ')}`);
       const { demoLoginsText } = await import('./demo-logins.mjs');
-      console.log(`\nTrueround is ready at http://${env.HOST}:${env.PORT}  (${((Date.now() - t0) / 1000).toFixed(0)} s from npm start)\n`);
+      console.log(
+        `\nTrueround is ready at http://${env.HOST}:${env.PORT}  (${((Date.now() - t0) / 1000).toFixed(0)} s from npm start)\n`,
+      );
       console.log(demoLoginsText());
       console.log('Stop with Ctrl-C; `npm run db:stop` stops PostgreSQL.\n');
     }

@@ -99,12 +99,7 @@ const ENTROPY_UNITS: Readonly<Record<string, number>> = {
 
 const fold = (unit: string): string => unit.replace(/[\s·⋅*.]/g, '').toLowerCase();
 
-function specificUnit(
-  name: 'h' | 's',
-  text: string,
-  table: Readonly<Record<string, number>>,
-  allowed: string,
-): number {
+function specificUnit(name: 'h' | 's', text: string, table: Readonly<Record<string, number>>, allowed: string): number {
   const { value, rest } = parseLeadingNumber(text);
   const factor = table[fold(rest)];
   if (factor === undefined) {
@@ -123,14 +118,26 @@ function vapourFraction(text: string): number {
   let x: number;
   if (rest === '') x = value;
   else if (rest === '%') x = value / 100;
-  else throw new SteamArgError(`x=${text}: x is a fraction from 0 to 1 (or a percentage with %), got unit "${rest}"`, 'x');
+  else
+    throw new SteamArgError(`x=${text}: x is a fraction from 0 to 1 (or a percentage with %), got unit "${rest}"`, 'x');
   if (x < 0 || x > 1) {
     throw new SteamArgError(`x=${text}: vapour fraction must be from 0 to 1, got ${x}`, 'x');
   }
   return x;
 }
 
-const NAMES: Readonly<Record<string, StateVariable>> = { p: 'p', P: 'p', t: 'T', T: 'T', h: 'h', H: 'h', s: 's', S: 's', x: 'x', X: 'x' };
+const NAMES: Readonly<Record<string, StateVariable>> = {
+  p: 'p',
+  P: 'p',
+  t: 'T',
+  T: 'T',
+  h: 'h',
+  H: 'h',
+  s: 's',
+  S: 's',
+  x: 'x',
+  X: 'x',
+};
 
 function elevationMetres(text: string): number {
   const { value, rest } = parseLeadingNumber(text);
@@ -223,15 +230,21 @@ export function parseSteamArgs(argv: readonly string[]): SteamArgs {
     const text = elevationText;
     const metres = named('--elevation', `--elevation ${text}`, () => elevationMetres(text));
     const ctx: SiteContext = { elevationM: metres };
-    barometric = { pa: named('--elevation', `--elevation ${text}`, () => siteBarometricPa(ctx)!), source: 'elevation', text };
+    barometric = {
+      pa: named('--elevation', `--elevation ${text}`, () => siteBarometricPa(ctx)!),
+      source: 'elevation',
+      text,
+    };
   } else if (barometricText !== undefined) {
     const text = barometricText;
-    barometric = { pa: named('--barometric', `--barometric ${text}`, () => barometricReading(text)), source: 'reading', text };
+    barometric = {
+      pa: named('--barometric', `--barometric ${text}`, () => barometricReading(text)),
+      source: 'reading',
+      text,
+    };
   }
 
-  const given = (Object.keys(texts) as StateVariable[]).sort(
-    (a, b) => 'pThsx'.indexOf(a) - 'pThsx'.indexOf(b),
-  );
+  const given = (Object.keys(texts) as StateVariable[]).sort((a, b) => 'pThsx'.indexOf(a) - 'pThsx'.indexOf(b));
   if (given.length !== 2) {
     throw new SteamArgError(
       `give exactly two properties, one of the pairs ${PAIRS_TEXT}; got ${given.length === 0 ? 'none' : given.join(', ')}`,

@@ -42,7 +42,6 @@ import {
 } from '../shared/steam/region3.coefficients';
 import { REGION5_IDEAL, REGION5_RESIDUAL } from '../shared/steam/region5.coefficients';
 
-
 /**
  * derivs: (x, y, out) fills out = [f, f_x, f_xx, f_y, f_yy, f_xy] like PowerSum.derivs;
  * derivsY: (y, out) for tables without x (every I is 0) fills out[0], out[3], out[4] (f, f_y, f_yy);
@@ -60,18 +59,54 @@ export interface SumSpec {
 }
 
 export const SUMS: readonly SumSpec[] = [
-  { name: 'region1GibbsSum', doc: 'IF97 Eq. (7), Table 2: γ of region 1, x = 7.1 − π, y = τ − 1.222', rows: REGION1_GIBBS, kind: 'derivs' },
-  { name: 'region2ResidualSum', doc: 'IF97 Eq. (17), Table 11: γʳ of region 2, x = π, y = τ − 0.5', rows: REGION2_RESIDUAL, kind: 'derivs' },
-  { name: 'region2IdealSum', doc: 'IF97 Eq. (16), Table 10: γ° of region 2 without ln π, y = τ', rows: REGION2_IDEAL, kind: 'derivsY' },
-  { name: 'region3HelmholtzSum', doc: 'IF97 Eq. (28), Table 30: φ of region 3 without n1 ln δ, x = δ, y = τ', rows: REGION3_HELMHOLTZ, kind: 'derivs' },
-  { name: 'region5ResidualSum', doc: 'IF97 Eq. (34), Table 38: γʳ of region 5, x = π, y = τ', rows: REGION5_RESIDUAL, kind: 'derivs' },
-  { name: 'region5IdealSum', doc: 'IF97 Eq. (33), Table 37: γ° of region 5 without ln π, y = τ', rows: REGION5_IDEAL, kind: 'derivsY' },
+  {
+    name: 'region1GibbsSum',
+    doc: 'IF97 Eq. (7), Table 2: γ of region 1, x = 7.1 − π, y = τ − 1.222',
+    rows: REGION1_GIBBS,
+    kind: 'derivs',
+  },
+  {
+    name: 'region2ResidualSum',
+    doc: 'IF97 Eq. (17), Table 11: γʳ of region 2, x = π, y = τ − 0.5',
+    rows: REGION2_RESIDUAL,
+    kind: 'derivs',
+  },
+  {
+    name: 'region2IdealSum',
+    doc: 'IF97 Eq. (16), Table 10: γ° of region 2 without ln π, y = τ',
+    rows: REGION2_IDEAL,
+    kind: 'derivsY',
+  },
+  {
+    name: 'region3HelmholtzSum',
+    doc: 'IF97 Eq. (28), Table 30: φ of region 3 without n1 ln δ, x = δ, y = τ',
+    rows: REGION3_HELMHOLTZ,
+    kind: 'derivs',
+  },
+  {
+    name: 'region5ResidualSum',
+    doc: 'IF97 Eq. (34), Table 38: γʳ of region 5, x = π, y = τ',
+    rows: REGION5_RESIDUAL,
+    kind: 'derivs',
+  },
+  {
+    name: 'region5IdealSum',
+    doc: 'IF97 Eq. (33), Table 37: γ° of region 5 without ln π, y = τ',
+    rows: REGION5_IDEAL,
+    kind: 'derivsY',
+  },
   { name: 'region1TPhSum', doc: 'IF97 Eq. (11), Table 6', rows: REGION1_T_PH, kind: 'value' },
   { name: 'region1TPsSum', doc: 'IF97 Eq. (13), Table 8', rows: REGION1_T_PS, kind: 'value' },
   { name: 'region2aTPhSum', doc: 'IF97 Eq. (22), Table 20', rows: REGION2A_T_PH, kind: 'value' },
   { name: 'region2bTPhSum', doc: 'IF97 Eq. (23), Table 21', rows: REGION2B_T_PH, kind: 'value' },
   { name: 'region2cTPhSum', doc: 'IF97 Eq. (24), Table 22', rows: REGION2C_T_PH, kind: 'value' },
-  { name: 'region2aTPsSum', doc: 'IF97 Eq. (25), Table 25 (I in quarters: x = π^(1/4))', rows: REGION2A_T_PS, kind: 'value', iScale: 4 },
+  {
+    name: 'region2aTPsSum',
+    doc: 'IF97 Eq. (25), Table 25 (I in quarters: x = π^(1/4))',
+    rows: REGION2A_T_PS,
+    kind: 'value',
+    iScale: 4,
+  },
   { name: 'region2bTPsSum', doc: 'IF97 Eq. (26), Table 26', rows: REGION2B_T_PS, kind: 'value' },
   { name: 'region2cTPsSum', doc: 'IF97 Eq. (27), Table 27', rows: REGION2C_T_PS, kind: 'value' },
   { name: 'region3aTPhSum', doc: 'SR3 Eq. (2)', rows: REGION3A_T_PH, kind: 'value' },
@@ -145,7 +180,10 @@ const pow = (prefix: string, base: string, e: number): string => (e === 1 ? base
 
 /** Signature and doc words of each kind of generated function. */
 const KIND_TEXT: Readonly<Record<SumKind, { sig: string; what: string }>> = {
-  derivs: { sig: '(x: number, y: number, out: Float64Array): void', what: 'fills out = [f, f_x, f_xx, f_y, f_yy, f_xy]' },
+  derivs: {
+    sig: '(x: number, y: number, out: Float64Array): void',
+    what: 'fills out = [f, f_x, f_xx, f_y, f_yy, f_xy]',
+  },
   derivsY: { sig: '(y: number, out: Float64Array): void', what: 'fills out[0], out[3], out[4] = f, f_y, f_yy' },
   value: { sig: '(x: number, y: number): number', what: 'returns Σ nᵢ x^Iᵢ y^Jᵢ' },
 };
@@ -154,23 +192,52 @@ function generateOne(spec: SumSpec): string {
   const iScale = spec.iScale ?? 1;
   const rows = spec.rows.map((r) => ({ I: r.I * iScale, J: r.J, n: r.n })).sort((a, b) => a.I - b.I || a.J - b.J);
   for (const r of rows) {
-    if (!Number.isInteger(r.I) || !Number.isInteger(r.J)) throw new Error(`steam-sums: ${spec.name} has exponents ${r.I}, ${r.J} that are not integers`);
+    if (!Number.isInteger(r.I) || !Number.isInteger(r.J))
+      throw new Error(`steam-sums: ${spec.name} has exponents ${r.I}, ${r.J} that are not integers`);
   }
   const groups = [...new Set(rows.map((r) => r.I))].map((I) => ({ I, rows: rows.filter((r) => r.I === I) }));
-  if (spec.kind === 'derivsY' && groups.some((g) => g.I !== 0)) throw new Error(`steam-sums: ${spec.name} has powers of x`);
+  if (spec.kind === 'derivsY' && groups.some((g) => g.I !== 0))
+    throw new Error(`steam-sums: ${spec.name} has powers of x`);
   const ind = '    ';
   const y = (J: number) => (J === 0 ? '1' : pow('y', 'y', J));
   const body: string[] = [];
-  body.push(...powers('x', 'x', groups.map((g) => g.I).filter((I) => I !== 0)));
-  body.push(...powers('y', 'y', rows.map((r) => r.J).filter((J) => J !== 0)));
+  body.push(
+    ...powers(
+      'x',
+      'x',
+      groups.map((g) => g.I).filter((I) => I !== 0),
+    ),
+  );
+  body.push(
+    ...powers(
+      'y',
+      'y',
+      rows.map((r) => r.J).filter((J) => J !== 0),
+    ),
+  );
   const xI = (I: number) => (I === 0 ? '' : `${pow('x', 'x', I)} * `);
   const withDerivs = spec.kind !== 'value';
   groups.forEach((g, gi) => {
     body.push(`// I = ${g.I}`);
-    body.push(`const a${gi} =\n${ind}${sum(g.rows.map((r) => ({ c: r.n, v: y(r.J) })), ind)};`);
+    body.push(
+      `const a${gi} =\n${ind}${sum(
+        g.rows.map((r) => ({ c: r.n, v: y(r.J) })),
+        ind,
+      )};`,
+    );
     if (withDerivs) {
-      body.push(`const b${gi} =\n${ind}${sum(g.rows.map((r) => ({ c: r.n * r.J, v: y(r.J) })), ind)};`);
-      body.push(`const c${gi} =\n${ind}${sum(g.rows.map((r) => ({ c: r.n * r.J * (r.J - 1), v: y(r.J) })), ind)};`);
+      body.push(
+        `const b${gi} =\n${ind}${sum(
+          g.rows.map((r) => ({ c: r.n * r.J, v: y(r.J) })),
+          ind,
+        )};`,
+      );
+      body.push(
+        `const c${gi} =\n${ind}${sum(
+          g.rows.map((r) => ({ c: r.n * r.J * (r.J - 1), v: y(r.J) })),
+          ind,
+        )};`,
+      );
     }
   });
   const over = (f: (g: { I: number }, gi: number) => { c: number; v: string } | null) =>

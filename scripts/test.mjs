@@ -48,12 +48,15 @@ function runGates() {
 function ensureChromium() {
   if (existsSync('/usr/bin/chromium')) return;
   if (process.getuid?.() !== 0) {
-    throw new Error('Browser tests need Debian\'s chromium at /usr/bin/chromium: sudo apt-get install -y chromium');
+    throw new Error("Browser tests need Debian's chromium at /usr/bin/chromium: sudo apt-get install -y chromium");
   }
-  console.error('[test] installing Debian\'s chromium for the browser tests…');
+  console.error("[test] installing Debian's chromium for the browser tests…");
   const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' };
   spawnSync('apt-get', ['update'], { stdio: 'inherit', env });
-  const r = spawnSync('apt-get', ['install', '-y', '--no-install-recommends', 'chromium', 'fonts-noto-core'], { stdio: 'inherit', env });
+  const r = spawnSync('apt-get', ['install', '-y', '--no-install-recommends', 'chromium', 'fonts-noto-core'], {
+    stdio: 'inherit',
+    env,
+  });
   if (r.status !== 0) throw new Error('apt-get install -y chromium failed');
 }
 

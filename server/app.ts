@@ -88,7 +88,8 @@ export function createApp({
   app.disable('x-powered-by');
 
   const webDir = webDistPresent(config.WEB_DIST) ? config.WEB_DIST : undefined;
-  if (config.WEB_DIST && !webDir) logger.warn({ WEB_DIST: config.WEB_DIST }, 'WEB_DIST has no index.html; not serving the web app');
+  if (config.WEB_DIST && !webDir)
+    logger.warn({ WEB_DIST: config.WEB_DIST }, 'WEB_DIST has no index.html; not serving the web app');
 
   app.use(httpLogger(logger));
   app.use(
@@ -120,7 +121,15 @@ export function createApp({
   app.use('/api/auth', authRouter(config));
   app.use('/api/me', meRouter());
   app.use('/api/sites', sitesRouter());
-  app.use('/api/sites', workOrdersRouter(), instrumentsRouter(), analysisRouter(), roundsRouter(), exportsRouter(), adminRouter());
+  app.use(
+    '/api/sites',
+    workOrdersRouter(),
+    instrumentsRouter(),
+    analysisRouter(),
+    roundsRouter(),
+    exportsRouter(),
+    adminRouter(),
+  );
   app.use('/api/sync', syncRouter(syncHooks));
   app.use('/api/photos', photosRouter(config, photoStore));
   app.use('/api/dev', devRouter(devMailbox));

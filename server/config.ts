@@ -42,9 +42,7 @@ const EnvShape = z.object({
   HOST: z.string().min(1, 'must not be empty').default('127.0.0.1'),
   /** 0 asks the OS for a free port (tests). */
   PORT: int(0, 65535, 8080),
-  DATABASE_URL: z
-    .string({ error: required })
-    .regex(/^postgres(ql)?:\/\/\S+$/, 'must be a postgres:// URL'),
+  DATABASE_URL: z.string({ error: required }).regex(/^postgres(ql)?:\/\/\S+$/, 'must be a postgres:// URL'),
   JWT_SECRET: z.string({ error: required }).min(32, 'must be at least 32 characters'),
   /** Access token (JWT) lifetime, s. */
   ACCESS_TOKEN_TTL_S: int(10, 24 * 3600, 900),
@@ -63,7 +61,10 @@ const EnvShape = z.object({
     .string()
     .optional()
     .transform((v, ctx) => {
-      const list = (v ?? '').split(',').map((o) => o.trim()).filter(Boolean);
+      const list = (v ?? '')
+        .split(',')
+        .map((o) => o.trim())
+        .filter(Boolean);
       for (const o of list) {
         let ok = false;
         try {
@@ -72,7 +73,10 @@ const EnvShape = z.object({
           ok = false;
         }
         if (!ok) {
-          ctx.addIssue({ code: 'custom', message: `must be a comma-separated list of origins like http://localhost:8081, got "${o}"` });
+          ctx.addIssue({
+            code: 'custom',
+            message: `must be a comma-separated list of origins like http://localhost:8081, got "${o}"`,
+          });
           return z.NEVER;
         }
       }
@@ -100,7 +104,9 @@ const EnvShape = z.object({
   SMTP_URL: z
     .string()
     .optional()
-    .refine((v) => v === undefined || /^smtps?:\/\/[^\s/]+(:\d+)?\/?$/.test(v), { message: 'must be an smtp:// or smtps:// URL like smtp://127.0.0.1:2525' }),
+    .refine((v) => v === undefined || /^smtps?:\/\/[^\s/]+(:\d+)?\/?$/.test(v), {
+      message: 'must be an smtp:// or smtps:// URL like smtp://127.0.0.1:2525',
+    }),
   /** Sender of the notices, an address or "Name <address>". */
   MAIL_FROM: z
     .string()
@@ -127,7 +133,11 @@ const EnvShape = z.object({
     .string()
     .optional()
     .refine((v) => v === undefined || /^https?:\/\/\S+$/.test(v), { message: 'must be an http:// or https:// URL' }),
-  PHOTO_S3_BUCKET: z.string().min(3, 'must be at least 3 characters').max(63, 'must be at most 63 characters').optional(),
+  PHOTO_S3_BUCKET: z
+    .string()
+    .min(3, 'must be at least 3 characters')
+    .max(63, 'must be at most 63 characters')
+    .optional(),
   PHOTO_S3_REGION: z.string().min(1).default('us-east-1'),
   PHOTO_S3_ACCESS_KEY_ID: z.string().min(1).optional(),
   PHOTO_S3_SECRET_ACCESS_KEY: z.string().min(1).optional(),
@@ -163,10 +173,15 @@ const EnvShape = z.object({
 /** Settings that depend on each other. */
 const EnvSchema = EnvShape.superRefine((c, ctx) => {
   if (c.ANALYSIS_FAULT_DELAY_MS > 0 && c.NODE_ENV === 'production') {
-    ctx.addIssue({ code: 'custom', path: ['ANALYSIS_FAULT_DELAY_MS'], message: 'is a test setting and must be 0 in production' });
+    ctx.addIssue({
+      code: 'custom',
+      path: ['ANALYSIS_FAULT_DELAY_MS'],
+      message: 'is a test setting and must be 0 in production',
+    });
   }
   if (c.PHOTO_STORE !== 's3') return;
-  if (!c.PHOTO_S3_BUCKET) ctx.addIssue({ code: 'custom', path: ['PHOTO_S3_BUCKET'], message: 'is required when PHOTO_STORE is s3' });
+  if (!c.PHOTO_S3_BUCKET)
+    ctx.addIssue({ code: 'custom', path: ['PHOTO_S3_BUCKET'], message: 'is required when PHOTO_STORE is s3' });
   if (!c.PHOTO_S3_ACCESS_KEY_ID !== !c.PHOTO_S3_SECRET_ACCESS_KEY) {
     ctx.addIssue({
       code: 'custom',

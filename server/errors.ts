@@ -32,7 +32,10 @@ export function validationError(error: ZodError, where = 'request'): AppError {
   const details = all.slice(0, MAX_DETAILS);
   const more = all.length - MAX_NAMED;
   const summary =
-    all.slice(0, MAX_NAMED).map((d) => `${d.path}: ${d.message}`).join('; ') + (more > 0 ? `; and ${more} more problem${more === 1 ? '' : 's'}` : '');
+    all
+      .slice(0, MAX_NAMED)
+      .map((d) => `${d.path}: ${d.message}`)
+      .join('; ') + (more > 0 ? `; and ${more} more problem${more === 1 ? '' : 's'}` : '');
   return new AppError(400, 'validation', `Invalid ${where}: ${summary}`, details);
 }
 
@@ -49,11 +52,21 @@ interface HttpishError {
 export const DB_RETRY_AFTER_S = 5;
 
 /** Socket-level errors of the connection to PostgreSQL (node's net / the pg driver). */
-const NET_CODES = new Set(['ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EPIPE', 'EHOSTUNREACH', 'ENETUNREACH', 'ENOTFOUND', 'EAI_AGAIN']);
+const NET_CODES = new Set([
+  'ECONNREFUSED',
+  'ECONNRESET',
+  'ETIMEDOUT',
+  'EPIPE',
+  'EHOSTUNREACH',
+  'ENETUNREACH',
+  'ENOTFOUND',
+  'EAI_AGAIN',
+]);
 /** SQLSTATEs of a database that is going away or not there yet (PostgreSQL Appendix A): class 08, 57P01–57P03, 53300. */
 const PG_UNAVAILABLE = /^(08...|57P0[123]|53300)$/;
 /** What pg and pg-pool say when the socket went away under a query or no connection came in time. */
-const LOST_CONNECTION = /Connection terminated|connection error and is not queryable|timeout exceeded when trying to connect|Client was closed and is not queryable/i;
+const LOST_CONNECTION =
+  /Connection terminated|connection error and is not queryable|timeout exceeded when trying to connect|Client was closed and is not queryable/i;
 
 /**
  * True when `err` says the database cannot be reached right now (refused, restarting, shutting
@@ -61,7 +74,11 @@ const LOST_CONNECTION = /Connection terminated|connection error and is not query
  * TypeORM's QueryFailedError keeps the driver's error in `driverError`.
  */
 export function isDbUnavailable(err: unknown): boolean {
-  for (let e = err as { code?: unknown; message?: unknown; driverError?: unknown; cause?: unknown } | null, depth = 0; e && typeof e === 'object' && depth < 4; depth++) {
+  for (
+    let e = err as { code?: unknown; message?: unknown; driverError?: unknown; cause?: unknown } | null, depth = 0;
+    e && typeof e === 'object' && depth < 4;
+    depth++
+  ) {
     const code = typeof e.code === 'string' ? e.code : '';
     if (NET_CODES.has(code) || PG_UNAVAILABLE.test(code)) return true;
     if (typeof e.message === 'string' && LOST_CONNECTION.test(e.message)) return true;
@@ -74,9 +91,14 @@ export function isDbUnavailable(err: unknown): boolean {
 }
 
 export const dbUnavailable = () =>
-  new AppError(503, 'db_unavailable', `Database is unreachable; retry in ${DB_RETRY_AFTER_S} s (pushes are idempotent: resend the same batch)`, {
-    retryAfterS: DB_RETRY_AFTER_S,
-  });
+  new AppError(
+    503,
+    'db_unavailable',
+    `Database is unreachable; retry in ${DB_RETRY_AFTER_S} s (pushes are idempotent: resend the same batch)`,
+    {
+      retryAfterS: DB_RETRY_AFTER_S,
+    },
+  );
 
 function toAppError(err: unknown): AppError | null {
   if (err instanceof AppError) return err;
@@ -88,9 +110,14 @@ function toAppError(err: unknown): AppError | null {
     case 'entity.parse.failed':
       return new AppError(400, 'bad_json', 'Request body is not valid JSON');
     case 'entity.too.large':
-      return new AppError(413, 'too_large', `Request body is larger than the limit of ${e.limit ?? 'the server'} bytes`, {
-        limit: e.limit ?? null,
-      });
+      return new AppError(
+        413,
+        'too_large',
+        `Request body is larger than the limit of ${e.limit ?? 'the server'} bytes`,
+        {
+          limit: e.limit ?? null,
+        },
+      );
     case 'encoding.unsupported':
     case 'charset.unsupported':
       return new AppError(415, 'unsupported_media_type', e.message ?? 'Unsupported encoding');

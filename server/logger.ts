@@ -57,7 +57,8 @@ export function httpLogger(logger: Logger) {
       res.setHeader('X-Request-Id', id);
       return id;
     },
-    customLogLevel: (_req, res, err) => (err || res.statusCode >= 500 ? 'error' : res.statusCode >= 400 ? 'warn' : 'info'),
+    customLogLevel: (_req, res, err) =>
+      err || res.statusCode >= 500 ? 'error' : res.statusCode >= 400 ? 'warn' : 'info',
     serializers: {
       req: (req: { id: unknown; method: string; url: string; remoteAddress?: string }) => ({
         id: req.id,

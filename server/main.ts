@@ -50,7 +50,13 @@ export async function start(config: Config = loadConfig(), options: StartOptions
     }
     mail = await startMail({ config, dataSource, logger });
     const notifier = options.notifier ?? mail.notifier;
-    analysis = await startAnalysisRuntime({ config, dataSource, logger, notify: notifier, work: config.WORKERS_IN_PROCESS });
+    analysis = await startAnalysisRuntime({
+      config,
+      dataSource,
+      logger,
+      notify: notifier,
+      work: config.WORKERS_IN_PROCESS,
+    });
     const app = createApp({ config, dataSource, logger, syncHooks: analysis.hooks, notifier });
     const server = await new Promise<Server>((resolve, reject) => {
       const s = app.listen(config.PORT, config.HOST, (err?: Error) => (err ? reject(err) : resolve(s)));
@@ -101,4 +107,9 @@ export async function stop(): Promise<void> {
   await Promise.all([...running].map((r) => r.stop()));
 }
 
-if (require.main === module) runUntilSignalled(() => start(), (r) => `Trueround listening on ${r.url}`, 'server');
+if (require.main === module)
+  runUntilSignalled(
+    () => start(),
+    (r) => `Trueround listening on ${r.url}`,
+    'server',
+  );

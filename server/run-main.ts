@@ -5,7 +5,11 @@
  */
 import type { Logger } from './logger';
 
-export function runUntilSignalled<T extends { logger: Logger; stop(): Promise<void> }>(start: () => Promise<T>, banner: (r: T) => string, label: string): void {
+export function runUntilSignalled<T extends { logger: Logger; stop(): Promise<void> }>(
+  start: () => Promise<T>,
+  banner: (r: T) => string,
+  label: string,
+): void {
   start()
     .then((r) => {
       console.log(banner(r));

@@ -32,7 +32,10 @@ const running = new Set<RunningWorker>();
 
 export async function start(config: Config = loadConfig(), options: WorkerOptions = {}): Promise<RunningWorker> {
   const logger = makeLogger(config).child({ role: 'worker' });
-  const dataSource = makeDataSource(config.DATABASE_URL, { applicationName: 'trueround-worker', poolSize: Math.max(2, config.ANALYSIS_CONCURRENCY + 1) });
+  const dataSource = makeDataSource(config.DATABASE_URL, {
+    applicationName: 'trueround-worker',
+    poolSize: Math.max(2, config.ANALYSIS_CONCURRENCY + 1),
+  });
   await dataSource.initialize();
   try {
     const analysis = await startAnalysisRuntime({
@@ -70,4 +73,9 @@ export async function stop(): Promise<void> {
   await Promise.all([...running].map((w) => w.stop()));
 }
 
-if (require.main === module) runUntilSignalled(() => start(), () => `Trueround analysis worker running (pid ${process.pid})`, 'worker');
+if (require.main === module)
+  runUntilSignalled(
+    () => start(),
+    () => `Trueround analysis worker running (pid ${process.pid})`,
+    'worker',
+  );

@@ -13,14 +13,21 @@ export const brackenmoorBoilerRoute: RouteTemplate = {
       id: 'boiler-front',
       name: 'Boiler 1 front',
       area: 'Boiler house, firing floor',
-      caution: 'Hot surfaces around the burner and the front smoke box; flame viewing only through the sight glass, with tinted glasses.',
+      caution:
+        'Hot surfaces around the burner and the front smoke box; flame viewing only through the sight glass, with tinted glasses.',
       readings: [
         { tag: 'PI-101', unit: 'bar', reference: 'gauge', band: { min: 8, max: 11 }, required: true },
         { tag: 'LI-101', unit: '%', band: { min: 35, max: 65 }, required: true },
         { tag: 'FI-101', unit: 't/h', band: { min: 3, max: 12 }, required: true },
       ],
       checks: [
-        { id: 'burner-flame', prompt: 'Burner flame', kind: 'choice', options: ['steady', 'unstable', 'smoky'], photoRequired: false },
+        {
+          id: 'burner-flame',
+          prompt: 'Burner flame',
+          kind: 'choice',
+          options: ['steady', 'unstable', 'smoky'],
+          photoRequired: false,
+        },
       ],
     },
     {
@@ -28,7 +35,15 @@ export const brackenmoorBoilerRoute: RouteTemplate = {
       name: 'Feed tank and feed pumps',
       area: 'Boiler house, feed tank platform',
       readings: [{ tag: 'TI-101', unit: '°C', band: { min: 85, max: 115 }, required: true }],
-      checks: [{ id: 'feed-pump-leak', prompt: 'Feed pump gland leaking?', kind: 'yes-no', expected: false, photoRequired: true }],
+      checks: [
+        {
+          id: 'feed-pump-leak',
+          prompt: 'Feed pump gland leaking?',
+          kind: 'yes-no',
+          expected: false,
+          photoRequired: true,
+        },
+      ],
     },
   ],
 };

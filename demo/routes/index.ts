@@ -9,5 +9,9 @@ export { boilerHouseRoute, brackenmoorBoilerRoute, condenserCoolingWaterRoute, t
 export { fernhallowBarometer, fernhallowRouteModel } from './fernhallow-site';
 
 /** Fernhallow Works, in the order a shift usually walks them. */
-export const fernhallowRoutes: readonly RouteTemplate[] = [boilerHouseRoute, turbineHallRoute, condenserCoolingWaterRoute];
+export const fernhallowRoutes: readonly RouteTemplate[] = [
+  boilerHouseRoute,
+  turbineHallRoute,
+  condenserCoolingWaterRoute,
+];
 export const brackenmoorRoutes: readonly RouteTemplate[] = [brackenmoorBoilerRoute];

@@ -35,7 +35,8 @@ export const turbineHallRoute: RouteTemplate = {
       id: 'hp-exhaust',
       name: 'HP exhaust and 13 bar header',
       area: 'Turbine hall, mezzanine, header station',
-      caution: 'Hot surfaces up to 300 °C on the header and the reducing-valve station; gloves on before touching any valve wheel.',
+      caution:
+        'Hot surfaces up to 300 °C on the header and the reducing-valve station; gloves on before touching any valve wheel.',
       readings: [
         { tag: 'PI-201', unit: 'bar', reference: 'gauge', band: { min: 10, max: 14 }, required: true },
         { tag: 'TI-201', unit: '°C', band: { min: 270, max: 310 }, required: true },

@@ -1,11 +1,6 @@
 /** Admin data and actions: the site's members, invitations, route versions, instrument changes and the dev mailbox (what the mail fake received). Wire schemas: shared/api/admin.ts. */
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import {
-  InvitationResult,
-  MailboxResponse,
-  PublishVersionResponse,
-  type InvitationRequest,
-} from '@/shared/api/admin';
+import { InvitationResult, MailboxResponse, PublishVersionResponse, type InvitationRequest } from '@/shared/api/admin';
 import { InstrumentUpdateResponse, type InstrumentUpdateRequest } from '@/shared/api/instruments';
 import { instrumentKeys } from './instruments';
 import { SiteMembersResponse } from '@/shared/api/sites';
@@ -52,7 +47,8 @@ export function useMailbox() {
     enabled: status === 'signed-in' && !!siteId,
     retry: false,
     refetchInterval: 15_000,
-    queryFn: async () => MailboxResponse.parse(await request(`/api/dev/mailbox?siteId=${encodeURIComponent(siteId)}&limit=100`)),
+    queryFn: async () =>
+      MailboxResponse.parse(await request(`/api/dev/mailbox?siteId=${encodeURIComponent(siteId)}&limit=100`)),
   });
 }
 
@@ -64,13 +60,23 @@ export function useInvite() {
   const siteId = membership?.siteId ?? '';
   const qc = useQueryClient();
   return useMutation<InvitationResult, Error, InvitationInput, { before: SiteMembersResponse | undefined }>({
-    mutationFn: async (body) => InvitationResult.parse(await request(`/api/sites/${siteId}/invitations`, { method: 'POST', json: body })),
+    mutationFn: async (body) =>
+      InvitationResult.parse(await request(`/api/sites/${siteId}/invitations`, { method: 'POST', json: body })),
     onMutate: async (v) => {
       await qc.cancelQueries({ queryKey: adminKeys.members(siteId) });
       const before = qc.getQueryData<SiteMembersResponse>(adminKeys.members(siteId));
       if (before) {
         qc.setQueryData<SiteMembersResponse>(adminKeys.members(siteId), {
-          members: [...before.members, { userId: `pending-${v.email}`, name: v.name, email: v.email.trim().toLowerCase(), role: v.role, disabled: false }],
+          members: [
+            ...before.members,
+            {
+              userId: `pending-${v.email}`,
+              name: v.name,
+              email: v.email.trim().toLowerCase(),
+              role: v.role,
+              disabled: false,
+            },
+          ],
         });
       }
       return { before };
@@ -89,7 +95,9 @@ export function usePublishVersion() {
   const qc = useQueryClient();
   return useMutation<PublishVersionResponse, Error, { routeId: string; template: unknown }>({
     mutationFn: async ({ routeId, template }) =>
-      PublishVersionResponse.parse(await request(`/api/sites/${siteId}/routes/${routeId}/versions`, { method: 'POST', json: { template } })),
+      PublishVersionResponse.parse(
+        await request(`/api/sites/${siteId}/routes/${routeId}/versions`, { method: 'POST', json: { template } }),
+      ),
     onSuccess: () => void qc.invalidateQueries({ queryKey: instrumentKeys.reference(siteId) }),
   });
 }
@@ -101,7 +109,9 @@ export function useUpdateInstrument() {
   const qc = useQueryClient();
   return useMutation<InstrumentUpdateResponse, Error, { instrumentId: string; body: InstrumentUpdateRequest }>({
     mutationFn: async ({ instrumentId, body }) =>
-      InstrumentUpdateResponse.parse(await request(`/api/sites/${siteId}/instruments/${instrumentId}`, { method: 'PATCH', json: body })),
+      InstrumentUpdateResponse.parse(
+        await request(`/api/sites/${siteId}/instruments/${instrumentId}`, { method: 'PATCH', json: body }),
+      ),
     onSuccess: () => void qc.invalidateQueries({ queryKey: instrumentKeys.all(siteId) }),
   });
 }

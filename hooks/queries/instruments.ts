@@ -29,7 +29,9 @@ export function useInstrumentHistory(tag: string | undefined, from: string) {
     queryKey: instrumentKeys.history(siteId, tag ?? '', from),
     enabled: status === 'signed-in' && !!siteId && !!tag,
     queryFn: async () =>
-      InstrumentHistoryResponse.parse(await request(`/api/sites/${siteId}/instruments/${encodeURIComponent(tag ?? '')}/history?from=${from}`)),
+      InstrumentHistoryResponse.parse(
+        await request(`/api/sites/${siteId}/instruments/${encodeURIComponent(tag ?? '')}/history?from=${from}`),
+      ),
   });
 }
 

@@ -14,6 +14,7 @@ export function useAnalysedRounds(page: number, limit = 25) {
     queryKey: roundKeys.analysed(siteId, page, limit),
     enabled: status === 'signed-in' && !!siteId,
     placeholderData: keepPreviousData,
-    queryFn: async () => AnalysedRoundsResponse.parse(await request(`/api/sites/${siteId}/rounds?analysed=1&page=${page}&limit=${limit}`)),
+    queryFn: async () =>
+      AnalysedRoundsResponse.parse(await request(`/api/sites/${siteId}/rounds?analysed=1&page=${page}&limit=${limit}`)),
   });
 }

@@ -54,7 +54,8 @@ export function useWorkOrders(filters: WorkOrderFilters) {
     queryKey: workOrderKeys.list(siteId, filters),
     enabled: status === 'signed-in' && !!siteId,
     placeholderData: (prev) => prev,
-    queryFn: async () => WorkOrderListResponse.parse(await request(`/api/sites/${siteId}/work-orders?${workOrderQuery(filters)}`)),
+    queryFn: async () =>
+      WorkOrderListResponse.parse(await request(`/api/sites/${siteId}/work-orders?${workOrderQuery(filters)}`)),
   });
 }
 
@@ -93,7 +94,11 @@ export function optimisticPatch(wo: WorkOrderSummary, v: ActionVariables): Parti
     case 'assign':
       return { assignee: { id: v.body.userId, name: v.body.assigneeName ?? 'Assigning…' } };
     case 'schedule':
-      return { status: 'scheduled', scheduledFor: v.body.scheduledFor, ...(v.body.dueDate !== undefined ? { dueDate: v.body.dueDate } : {}) };
+      return {
+        status: 'scheduled',
+        scheduledFor: v.body.scheduledFor,
+        ...(v.body.dueDate !== undefined ? { dueDate: v.body.dueDate } : {}),
+      };
     case 'start':
       return { status: 'in-progress' };
     case 'close':
@@ -111,17 +116,46 @@ interface Snapshot {
   lists: [readonly unknown[], WorkOrderListResponse | undefined][];
 }
 
-function applyEverywhere(qc: QueryClient, siteId: string, id: string, patch: Partial<WorkOrderSummary>, v: ActionVariables) {
+function applyEverywhere(
+  qc: QueryClient,
+  siteId: string,
+  id: string,
+  patch: Partial<WorkOrderSummary>,
+  v: ActionVariables,
+) {
   qc.setQueryData<WorkOrderDetail>(workOrderKeys.detail(siteId, id), (old) => {
     if (!old) return old;
     const events =
       v.action === 'comment'
-        ? [...old.events, { id: '00000000-0000-4000-8000-000000000000', at: new Date().toISOString(), actor: null, type: 'comment', fromStatus: null, toStatus: null, changes: {}, comment: v.body.comment }]
+        ? [
+            ...old.events,
+            {
+              id: '00000000-0000-4000-8000-000000000000',
+              at: new Date().toISOString(),
+              actor: null,
+              type: 'comment',
+              fromStatus: null,
+              toStatus: null,
+              changes: {},
+              comment: v.body.comment,
+            },
+          ]
         : old.events;
     return { ...old, ...patch, events };
   });
   qc.setQueriesData<WorkOrderListResponse>({ queryKey: workOrderKeys.lists(siteId) }, (old) =>
-    old ? { ...old, items: old.items.map((w) => (w.id === id ? { ...w, ...patch } : v.action === 'merge' && v.body.duplicateIds.includes(w.id) ? { ...w, status: 'cancelled' } : w)) } : old,
+    old
+      ? {
+          ...old,
+          items: old.items.map((w) =>
+            w.id === id
+              ? { ...w, ...patch }
+              : v.action === 'merge' && v.body.duplicateIds.includes(w.id)
+                ? { ...w, status: 'cancelled' }
+                : w,
+          ),
+        }
+      : old,
   );
 }
 
@@ -132,8 +166,13 @@ export function useWorkOrderAction(id: string) {
   const qc = useQueryClient();
   return useMutation<WorkOrderDetail, Error, ActionVariables, Snapshot>({
     mutationFn: async (v) => {
-      const body = v.action === 'assign' ? { userId: v.body.userId, ...(v.body.comment ? { comment: v.body.comment } : {}) } : v.body;
-      return WorkOrderDetail.parse(await request(`/api/sites/${siteId}/work-orders/${id}/${v.action}`, { method: 'POST', json: body }));
+      const body =
+        v.action === 'assign'
+          ? { userId: v.body.userId, ...(v.body.comment ? { comment: v.body.comment } : {}) }
+          : v.body;
+      return WorkOrderDetail.parse(
+        await request(`/api/sites/${siteId}/work-orders/${id}/${v.action}`, { method: 'POST', json: body }),
+      );
     },
     onMutate: async (v) => {
       await qc.cancelQueries({ queryKey: workOrderKeys.all(siteId) });

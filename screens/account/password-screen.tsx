@@ -58,7 +58,8 @@ export function PasswordScreen() {
             placed = true;
           }
         }
-        if (!placed) setFailure(e.status === 429 ? 'Too many attempts. Wait a few minutes, then try again.' : e.message);
+        if (!placed)
+          setFailure(e.status === 429 ? 'Too many attempts. Wait a few minutes, then try again.' : e.message);
       } else setFailure('The password was not changed. Try again.');
     }
   });
@@ -86,9 +87,12 @@ export function PasswordScreen() {
   return (
     <FormPage>
       <Card>
-        <ThemedText variant="title" accessibilityRole="header">Your password</ThemedText>
+        <ThemedText variant="title" accessibilityRole="header">
+          Your password
+        </ThemedText>
         <ThemedText muted>
-          At least {NEW_PASSWORD_MIN} characters; a few unrelated words make a good one. Not your e-mail address, not a common password.
+          At least {NEW_PASSWORD_MIN} characters; a few unrelated words make a good one. Not your e-mail address, not a
+          common password.
         </ThemedText>
         {field('currentPassword', 'Current password', 'current-password')}
         {field('newPassword', 'New password', 'new-password')}

@@ -37,8 +37,10 @@ export function SignInScreen() {
       const role = user.memberships[0]?.role;
       router.replace(role ? homeFor[role] : '/');
     } catch (e) {
-      if (e instanceof ApiError && e.status === 401) setFailure('E-mail or password is wrong. Check both and try again.');
-      else if (e instanceof ApiError && e.status === 429) setFailure('Too many attempts. Wait a few minutes, then try again.');
+      if (e instanceof ApiError && e.status === 401)
+        setFailure('E-mail or password is wrong. Check both and try again.');
+      else if (e instanceof ApiError && e.status === 429)
+        setFailure('Too many attempts. Wait a few minutes, then try again.');
       else if (e instanceof ApiError) setFailure(e.message);
       else setFailure('Sign-in failed. Try again.');
     }
@@ -47,11 +49,15 @@ export function SignInScreen() {
   return (
     <FormPage>
       <View style={styles.brand}>
-        <ThemedText variant="display" style={{ color: colors.primary }}>Trueround</ThemedText>
+        <ThemedText variant="display" style={{ color: colors.primary }}>
+          Trueround
+        </ThemedText>
         <ThemedText muted>Rounds readings, held against the steam tables.</ThemedText>
       </View>
       <Card>
-        <ThemedText variant="title" accessibilityRole="header">Sign in</ThemedText>
+        <ThemedText variant="title" accessibilityRole="header">
+          Sign in
+        </ThemedText>
         <Controller
           control={control}
           name="email"

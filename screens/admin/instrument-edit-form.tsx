@@ -16,19 +16,35 @@ import { ThemedText } from '@/components/themed-text';
 import { space } from '@/constants/theme';
 import { ApiError } from '@/lib/api-client';
 import { useUpdateInstrument } from '@/hooks/queries/admin';
-import { ACCURACY_CLASSES, CALIBRATION_INTERVAL_MAX_DAYS, type InstrumentUpdateRequest } from '@/shared/api/instruments';
+import {
+  ACCURACY_CLASSES,
+  CALIBRATION_INTERVAL_MAX_DAYS,
+  type InstrumentUpdateRequest,
+} from '@/shared/api/instruments';
 import { INSTRUMENT_STATUSES, type InstrumentStatus, type SyncInstrument } from '@/shared/api/sync';
 
 /** Range ends as typed ↔ SI, by quantity (1 bar = 10⁵ Pa, 1 t/h = 1/3.6 kg/s, 1 MW = 10⁶ W: NIST SP 811). */
-export const rangeUnit: Record<SyncInstrument['quantity'], { unit: (i: SyncInstrument) => string; toSI: (v: number) => number; fromSI: (v: number) => number; digits: number }> = {
-  pressure: { unit: (i) => `bar ${i.reference ?? 'absolute'}`, toSI: (v) => v * 1e5, fromSI: (v) => v / 1e5, digits: 3 },
+export const rangeUnit: Record<
+  SyncInstrument['quantity'],
+  { unit: (i: SyncInstrument) => string; toSI: (v: number) => number; fromSI: (v: number) => number; digits: number }
+> = {
+  pressure: {
+    unit: (i) => `bar ${i.reference ?? 'absolute'}`,
+    toSI: (v) => v * 1e5,
+    fromSI: (v) => v / 1e5,
+    digits: 3,
+  },
   temperature: { unit: () => '°C', toSI: (v) => v + 273.15, fromSI: (v) => v - 273.15, digits: 1 },
   massFlow: { unit: () => 't/h', toSI: (v) => v / 3.6, fromSI: (v) => v * 3.6, digits: 2 },
   power: { unit: () => 'MW', toSI: (v) => v * 1e6, fromSI: (v) => v / 1e6, digits: 3 },
   level: { unit: () => '%', toSI: (v) => v / 100, fromSI: (v) => v * 100, digits: 1 },
 };
 
-const statusWords: Record<InstrumentStatus, string> = { ok: 'In service', suspect: 'Suspect', 'out-of-service': 'Out of service' };
+const statusWords: Record<InstrumentStatus, string> = {
+  ok: 'In service',
+  suspect: 'Suspect',
+  'out-of-service': 'Out of service',
+};
 
 /** A decimal number as typed: a point, not a comma. */
 const decimal = z
@@ -47,10 +63,16 @@ export const instrumentFormSchema = z
       .string()
       .trim()
       .refine((v) => v === '' || /^\d+$/.test(v), 'Enter whole days, or leave empty for none.')
-      .refine((v) => v === '' || (Number(v) >= 1 && Number(v) <= CALIBRATION_INTERVAL_MAX_DAYS), `From 1 to ${CALIBRATION_INTERVAL_MAX_DAYS} days.`),
+      .refine(
+        (v) => v === '' || (Number(v) >= 1 && Number(v) <= CALIBRATION_INTERVAL_MAX_DAYS),
+        `From 1 to ${CALIBRATION_INTERVAL_MAX_DAYS} days.`,
+      ),
     status: z.enum(INSTRUMENT_STATUSES),
   })
-  .refine((f) => !(Number(f.rangeMax) <= Number(f.rangeMin)), { path: ['rangeMax'], message: 'Must be above the lower end.' });
+  .refine((f) => !(Number(f.rangeMax) <= Number(f.rangeMin)), {
+    path: ['rangeMax'],
+    message: 'Must be above the lower end.',
+  });
 export type InstrumentForm = z.infer<typeof instrumentFormSchema>;
 
 export function classOf(i: SyncInstrument): { value: string; spec: (typeof ACCURACY_CLASSES)[string] } | null {
@@ -77,14 +99,21 @@ export function changesOf(i: SyncInstrument, f: InstrumentForm): InstrumentUpdat
   const d = defaultsOf(i);
   const u = rangeUnit[i.quantity];
   const out: InstrumentUpdateRequest = { rowVersion: i.rowVersion };
-  if (f.rangeMin.trim() !== d.rangeMin || f.rangeMax.trim() !== d.rangeMax) out.range = { min: u.toSI(Number(f.rangeMin)), max: u.toSI(Number(f.rangeMax)) };
+  if (f.rangeMin.trim() !== d.rangeMin || f.rangeMax.trim() !== d.rangeMax)
+    out.range = { min: u.toSI(Number(f.rangeMin)), max: u.toSI(Number(f.rangeMax)) };
   if (classOf(i) && f.accuracyClass.trim() !== d.accuracyClass) out.accuracyClass = f.accuracyClass.trim();
-  if (f.interval.trim() !== d.interval) out.calibrationIntervalDays = f.interval.trim() === '' ? null : Number(f.interval);
+  if (f.interval.trim() !== d.interval)
+    out.calibrationIntervalDays = f.interval.trim() === '' ? null : Number(f.interval);
   if (f.status !== d.status) out.status = f.status;
   return out;
 }
 
-const FIELD_WORDS: Record<string, string> = { range: 'range', accuracy: 'accuracy class', calibrationIntervalDays: 'calibration interval', status: 'status' };
+const FIELD_WORDS: Record<string, string> = {
+  range: 'range',
+  accuracy: 'accuracy class',
+  calibrationIntervalDays: 'calibration interval',
+  status: 'status',
+};
 
 /** The form field a server detail path belongs to. */
 const FIELD_OF: Record<string, keyof InstrumentForm> = {
@@ -118,9 +147,14 @@ export function InstrumentEditForm({ instrument, onClose }: { instrument: SyncIn
     try {
       const out = await update.mutateAsync({ instrumentId: instrument.id, body });
       const fields = Object.keys(out.changes).map((k) => FIELD_WORDS[k] ?? k);
-      setSaved(fields.length ? `✓ Saved ${out.instrument.tag}: ${fields.join(', ')} changed.` : `✓ ${out.instrument.tag} was already so.`);
+      setSaved(
+        fields.length
+          ? `✓ Saved ${out.instrument.tag}: ${fields.join(', ')} changed.`
+          : `✓ ${out.instrument.tag} was already so.`,
+      );
     } catch (e) {
-      const details = e instanceof ApiError && Array.isArray(e.details) ? (e.details as { path?: string; message?: string }[]) : [];
+      const details =
+        e instanceof ApiError && Array.isArray(e.details) ? (e.details as { path?: string; message?: string }[]) : [];
       let placed = false;
       for (const d of details) {
         const field = d.path ? FIELD_OF[d.path] : undefined;
@@ -133,7 +167,12 @@ export function InstrumentEditForm({ instrument, onClose }: { instrument: SyncIn
     }
   });
 
-  const text = (name: 'rangeMin' | 'rangeMax' | 'accuracyClass' | 'interval', label: string, testID: string, hint?: string) => (
+  const text = (
+    name: 'rangeMin' | 'rangeMax' | 'accuracyClass' | 'interval',
+    label: string,
+    testID: string,
+    hint?: string,
+  ) => (
     <Controller
       control={control}
       name={name}
@@ -166,9 +205,20 @@ export function InstrumentEditForm({ instrument, onClose }: { instrument: SyncIn
         {text('rangeMax', `Range to, ${u.unit(instrument)}`, 'instrument-edit-max')}
       </View>
       <View style={styles.row}>
-        {cls
-          ? text('accuracyClass', `${cls.spec.standard} ${cls.spec.field}`, 'instrument-edit-class', `One of ${cls.spec.values.join(', ')}`)
-          : <View style={styles.grow}><ThemedText variant="label" muted testID="instrument-edit-no-class">Its accuracy is not given by a class: change it in the unit’s model.</ThemedText></View>}
+        {cls ? (
+          text(
+            'accuracyClass',
+            `${cls.spec.standard} ${cls.spec.field}`,
+            'instrument-edit-class',
+            `One of ${cls.spec.values.join(', ')}`,
+          )
+        ) : (
+          <View style={styles.grow}>
+            <ThemedText variant="label" muted testID="instrument-edit-no-class">
+              Its accuracy is not given by a class: change it in the unit’s model.
+            </ThemedText>
+          </View>
+        )}
         {text('interval', 'Calibration interval, days', 'instrument-edit-interval', 'Empty: no interval')}
       </View>
       <Controller
@@ -176,26 +226,58 @@ export function InstrumentEditForm({ instrument, onClose }: { instrument: SyncIn
         name="status"
         render={({ field, fieldState }) => (
           <View style={styles.stack}>
-            <ThemedText variant="label" bold>Status</ThemedText>
+            <ThemedText variant="label" bold>
+              Status
+            </ThemedText>
             <View style={styles.row}>
               {INSTRUMENT_STATUSES.map((s) => (
-                <Button key={s} label={statusWords[s]} kind={field.value === s ? 'primary' : 'plain'} selected={field.value === s} testID={`instrument-edit-status-${s}`} onPress={() => field.onChange(s)} />
+                <Button
+                  key={s}
+                  label={statusWords[s]}
+                  kind={field.value === s ? 'primary' : 'plain'}
+                  selected={field.value === s}
+                  testID={`instrument-edit-status-${s}`}
+                  onPress={() => field.onChange(s)}
+                />
               ))}
             </View>
-            {fieldState.error ? <ThemedText variant="caption" tone="danger" accessibilityRole="alert" testID="instrument-edit-status-error">{fieldState.error.message}</ThemedText> : null}
+            {fieldState.error ? (
+              <ThemedText
+                variant="caption"
+                tone="danger"
+                accessibilityRole="alert"
+                testID="instrument-edit-status-error"
+              >
+                {fieldState.error.message}
+              </ThemedText>
+            ) : null}
           </View>
         )}
       />
       <Button label="Save" testID="instrument-edit-save" busy={formState.isSubmitting} onPress={onSubmit} />
-      {failure ? <ThemedText tone="danger" accessibilityRole="alert" testID="instrument-edit-error">{failure}</ThemedText> : null}
-      {saved ? <ThemedText tone="ok" testID="instrument-edit-saved">{saved}</ThemedText> : null}
+      {failure ? (
+        <ThemedText tone="danger" accessibilityRole="alert" testID="instrument-edit-error">
+          {failure}
+        </ThemedText>
+      ) : null}
+      {saved ? (
+        <ThemedText tone="ok" testID="instrument-edit-saved">
+          {saved}
+        </ThemedText>
+      ) : null}
     </Card>
   );
 }
 
 const styles = StyleSheet.create({
   stack: { gap: space.sm },
-  head: { flexDirection: 'row', justifyContent: 'space-between', alignItems: 'center', flexWrap: 'wrap', gap: space.md },
+  head: {
+    flexDirection: 'row',
+    justifyContent: 'space-between',
+    alignItems: 'center',
+    flexWrap: 'wrap',
+    gap: space.md,
+  },
   row: { flexDirection: 'row', flexWrap: 'wrap', gap: space.md },
   grow: { flexGrow: 1, flexBasis: 200 },
 });

@@ -13,7 +13,8 @@ import { InstrumentEditForm } from './instrument-edit-form';
 export function accuracyWords(a: unknown, q: SyncInstrument['quantity']): string {
   if (!a || typeof a !== 'object') return '—';
   const x = a as Record<string, string | number | undefined>;
-  const basis = x.basis === 'u95' ? ' (95 %)' : x.basis === 'tolerance' ? ' (tolerance)' : x.basis ? ` (${x.basis})` : '';
+  const basis =
+    x.basis === 'u95' ? ' (95 %)' : x.basis === 'tolerance' ? ' (tolerance)' : x.basis ? ` (${x.basis})` : '';
   switch (x.kind) {
     case 'en837':
       return `EN 837 class ${x.class}`;
@@ -39,12 +40,38 @@ export function accuracyWords(a: unknown, q: SyncInstrument['quantity']): string
 }
 
 const columns: Column<SyncInstrument>[] = [
-  { key: 'tag', label: 'Tag', flex: 1, render: (i) => <ThemedText variant="label" bold>{i.tag}</ThemedText> },
+  {
+    key: 'tag',
+    label: 'Tag',
+    flex: 1,
+    render: (i) => (
+      <ThemedText variant="label" bold>
+        {i.tag}
+      </ThemedText>
+    ),
+  },
   { key: 'ref', label: 'Reads', flex: 1, render: (i) => `${i.gaugeUnit}${i.reference ? ` ${i.reference}` : ''}` },
-  { key: 'range', label: 'Range', flex: 1.8, numeric: true, render: (i) => (i.range ? (i.quantity === 'pressure' && i.reference !== 'absolute' ? `${(i.range.min / 1e5).toFixed(2)} – ${(i.range.max / 1e5).toFixed(2)} bar ${i.reference}` : `${showValueOf(i.quantity, i.range.min)} – ${showValueOf(i.quantity, i.range.max)}`) : '—') },
+  {
+    key: 'range',
+    label: 'Range',
+    flex: 1.8,
+    numeric: true,
+    render: (i) =>
+      i.range
+        ? i.quantity === 'pressure' && i.reference !== 'absolute'
+          ? `${(i.range.min / 1e5).toFixed(2)} – ${(i.range.max / 1e5).toFixed(2)} bar ${i.reference}`
+          : `${showValueOf(i.quantity, i.range.min)} – ${showValueOf(i.quantity, i.range.max)}`
+        : '—',
+  },
   { key: 'acc', label: 'Accuracy', flex: 2, render: (i) => accuracyWords(i.accuracy, i.quantity) },
   { key: 'cal', label: 'Calibrated', flex: 1, numeric: true, render: (i) => i.calibrationDate ?? '—' },
-  { key: 'int', label: 'Interval, days', flex: 0.9, numeric: true, render: (i) => (i.calibrationIntervalDays === null ? '—' : String(i.calibrationIntervalDays)) },
+  {
+    key: 'int',
+    label: 'Interval, days',
+    flex: 0.9,
+    numeric: true,
+    render: (i) => (i.calibrationIntervalDays === null ? '—' : String(i.calibrationIntervalDays)),
+  },
   { key: 'status', label: 'Status', flex: 1.1, render: (i) => <InstrumentStatusMark status={i.status} /> },
 ];
 
@@ -56,8 +83,15 @@ export function AdminInstrumentsScreen() {
   return (
     <View style={styles.stack}>
       <ThemedText variant="heading">Instruments</ThemedText>
-      <ThemedText variant="label" muted>As configured for the site. Press an instrument to change its range, accuracy class, calibration interval or status; phones get the change on their next sync.</ThemedText>
-      {q.error ? <ThemedText tone="danger" testID="admin-instruments-error">{q.error.message}</ThemedText> : null}
+      <ThemedText variant="label" muted>
+        As configured for the site. Press an instrument to change its range, accuracy class, calibration interval or
+        status; phones get the change on their next sync.
+      </ThemedText>
+      {q.error ? (
+        <ThemedText tone="danger" testID="admin-instruments-error">
+          {q.error.message}
+        </ThemedText>
+      ) : null}
       {q.isPending ? <ThemedText muted>Loading…</ThemedText> : null}
       {editing ? <InstrumentEditForm key={editing.id} instrument={editing} onClose={() => setSelected(null)} /> : null}
       {q.data && !editing ? (

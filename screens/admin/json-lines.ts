@@ -25,7 +25,14 @@ export function jsonValueLines(text: string): Map<string, number> {
     while (i < text.length && text[i] !== '"') {
       if (text[i] === '\\') {
         const esc = text[i + 1];
-        out += esc === 'n' ? '\n' : esc === 't' ? '\t' : esc === 'u' ? String.fromCharCode(parseInt(text.slice(i + 2, i + 6), 16)) : esc;
+        out +=
+          esc === 'n'
+            ? '\n'
+            : esc === 't'
+              ? '\t'
+              : esc === 'u'
+                ? String.fromCharCode(parseInt(text.slice(i + 2, i + 6), 16))
+                : esc;
         i += esc === 'u' ? 6 : 2;
       } else {
         if (text[i] === '\n') fail('Unterminated string');

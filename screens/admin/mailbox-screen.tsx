@@ -17,16 +17,38 @@ export function MailboxScreen() {
       <ThemedText variant="label" muted>
         {`Mail the server sent about ${membership?.siteName ?? 'this site'} while no real mail server is set up. Other sites' mail is not shown. Nothing here left the machine.`}
       </ThemedText>
-      {q.error ? <ThemedText tone="danger" testID="mailbox-error">{q.error.message}</ThemedText> : null}
+      {q.error ? (
+        <ThemedText tone="danger" testID="mailbox-error">
+          {q.error.message}
+        </ThemedText>
+      ) : null}
       {q.isPending ? <ThemedText muted>Loading…</ThemedText> : null}
-      {q.data && q.data.messages.length === 0 ? <ThemedText muted testID="mailbox-empty">No mail yet.</ThemedText> : null}
+      {q.data && q.data.messages.length === 0 ? (
+        <ThemedText muted testID="mailbox-empty">
+          No mail yet.
+        </ThemedText>
+      ) : null}
       {q.data?.messages.map((m) => (
         <Card key={m.id} testID={`mail-${m.id}`}>
-          <Pressable accessibilityRole="button" onPress={() => setOpen(open === m.id ? null : m.id)} style={styles.head} testID={`mail-${m.id}-toggle`}>
-            <ThemedText variant="label" bold>{m.subject}</ThemedText>
-            <ThemedText variant="caption" muted>{`${new Date(m.receivedAt).toLocaleString()} · to ${m.to.join(', ')}`}</ThemedText>
+          <Pressable
+            accessibilityRole="button"
+            onPress={() => setOpen(open === m.id ? null : m.id)}
+            style={styles.head}
+            testID={`mail-${m.id}-toggle`}
+          >
+            <ThemedText variant="label" bold>
+              {m.subject}
+            </ThemedText>
+            <ThemedText
+              variant="caption"
+              muted
+            >{`${new Date(m.receivedAt).toLocaleString()} · to ${m.to.join(', ')}`}</ThemedText>
           </Pressable>
-          {open === m.id ? <ThemedText variant="label" testID={`mail-${m.id}-text`}>{m.text}</ThemedText> : null}
+          {open === m.id ? (
+            <ThemedText variant="label" testID={`mail-${m.id}-text`}>
+              {m.text}
+            </ThemedText>
+          ) : null}
         </Card>
       ))}
     </View>

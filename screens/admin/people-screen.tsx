@@ -13,10 +13,24 @@ import type { SiteMember } from '@/shared/api/sites';
 import { roleNames } from '@/screens/role-home-screen';
 
 const columns: Column<SiteMember>[] = [
-  { key: 'name', label: 'Name', flex: 1.5, render: (m) => <ThemedText variant="label" bold>{m.name}</ThemedText> },
+  {
+    key: 'name',
+    label: 'Name',
+    flex: 1.5,
+    render: (m) => (
+      <ThemedText variant="label" bold>
+        {m.name}
+      </ThemedText>
+    ),
+  },
   { key: 'email', label: 'E-mail', flex: 2, render: (m) => m.email },
   { key: 'role', label: 'Role', flex: 1.5, render: (m) => roleNames[m.role] },
-  { key: 'state', label: 'Account', flex: 1, render: (m) => (m.userId.startsWith('pending-') ? '… Inviting' : m.disabled ? '✕ Disabled' : '✓ Active') },
+  {
+    key: 'state',
+    label: 'Account',
+    flex: 1,
+    render: (m) => (m.userId.startsWith('pending-') ? '… Inviting' : m.disabled ? '✕ Disabled' : '✓ Active'),
+  },
 ];
 
 const ROLES: Role[] = ['technician', 'planner', 'engineer', 'admin'];
@@ -30,10 +44,19 @@ function InviteForm() {
   const ok = /^\S+@\S+\.\S+$/.test(email.trim()) && name.trim().length > 0;
   return (
     <Card testID="invite-form">
-      <ThemedText variant="label" bold>Invite someone</ThemedText>
+      <ThemedText variant="label" bold>
+        Invite someone
+      </ThemedText>
       <View style={styles.row}>
         <View style={styles.grow}>
-          <Field label="E-mail" value={email} onChangeText={setEmail} autoCapitalize="none" keyboardType="email-address" testID="invite-email" />
+          <Field
+            label="E-mail"
+            value={email}
+            onChangeText={setEmail}
+            autoCapitalize="none"
+            keyboardType="email-address"
+            testID="invite-email"
+          />
         </View>
         <View style={styles.grow}>
           <Field label="Name" value={name} onChangeText={setName} testID="invite-name" />
@@ -41,7 +64,14 @@ function InviteForm() {
       </View>
       <View style={styles.row}>
         {ROLES.map((r) => (
-          <Button key={r} label={roleNames[r]} kind={role === r ? 'primary' : 'plain'} selected={role === r} testID={`invite-role-${r}`} onPress={() => setRole(r)} />
+          <Button
+            key={r}
+            label={roleNames[r]}
+            kind={role === r ? 'primary' : 'plain'}
+            selected={role === r}
+            testID={`invite-role-${r}`}
+            onPress={() => setRole(r)}
+          />
         ))}
       </View>
       <Button
@@ -62,8 +92,19 @@ function InviteForm() {
           )
         }
       />
-      {invite.error ? <ThemedText tone="danger" testID="invite-error" accessibilityRole="alert">{`Not invited: ${invite.error.message}`}</ThemedText> : null}
-      {sent && !invite.error ? <ThemedText tone="ok" testID="invite-sent">{`✓ ${sent} is invited; the e-mail with a one-time password is on its way.`}</ThemedText> : null}
+      {invite.error ? (
+        <ThemedText
+          tone="danger"
+          testID="invite-error"
+          accessibilityRole="alert"
+        >{`Not invited: ${invite.error.message}`}</ThemedText>
+      ) : null}
+      {sent && !invite.error ? (
+        <ThemedText
+          tone="ok"
+          testID="invite-sent"
+        >{`✓ ${sent} is invited; the e-mail with a one-time password is on its way.`}</ThemedText>
+      ) : null}
     </Card>
   );
 }
@@ -73,9 +114,21 @@ export function PeopleScreen() {
   return (
     <View style={styles.stack}>
       <ThemedText variant="heading">People</ThemedText>
-      {q.error ? <ThemedText tone="danger" testID="people-error">{q.error.message}</ThemedText> : null}
+      {q.error ? (
+        <ThemedText tone="danger" testID="people-error">
+          {q.error.message}
+        </ThemedText>
+      ) : null}
       {q.isPending ? <ThemedText muted>Loading…</ThemedText> : null}
-      {q.data ? <DataTable rows={q.data.members} columns={columns} rowKey={(m) => m.userId} testID="people-table" rowTestID={(m) => `person-${m.email}`} /> : null}
+      {q.data ? (
+        <DataTable
+          rows={q.data.members}
+          columns={columns}
+          rowKey={(m) => m.userId}
+          testID="people-table"
+          rowTestID={(m) => `person-${m.email}`}
+        />
+      ) : null}
       <InviteForm />
     </View>
   );

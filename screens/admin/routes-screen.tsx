@@ -35,7 +35,11 @@ export function issuesOf(e: unknown, text: string): Issue[] {
   if (e instanceof ApiError && Array.isArray(e.details) && e.details.length) {
     return (e.details as { path?: unknown; message?: unknown }[]).map((d) => {
       const path = typeof d.path === 'string' ? d.path : '';
-      return { path: path.replace(/^template\.?/, '') || '(template)', message: String(d.message ?? ''), line: lineOfPath(lines, path) };
+      return {
+        path: path.replace(/^template\.?/, '') || '(template)',
+        message: String(d.message ?? ''),
+        line: lineOfPath(lines, path),
+      };
     });
   }
   return [{ path: '', message: e instanceof Error ? e.message : String(e), line: null }];
@@ -76,11 +80,20 @@ export function RoutesScreen() {
   return (
     <View style={styles.stack}>
       <ThemedText variant="heading">Routes</ThemedText>
-      <ThemedText variant="label" muted>A route changes by publishing a new version of its template. Rounds under way keep the version they started on; phones take the new one on their next sync.</ThemedText>
-      {ref.error ? <ThemedText tone="danger" testID="routes-error">{ref.error.message}</ThemedText> : null}
+      <ThemedText variant="label" muted>
+        A route changes by publishing a new version of its template. Rounds under way keep the version they started on;
+        phones take the new one on their next sync.
+      </ThemedText>
+      {ref.error ? (
+        <ThemedText tone="danger" testID="routes-error">
+          {ref.error.message}
+        </ThemedText>
+      ) : null}
       {ref.isPending ? <ThemedText muted>Loading…</ThemedText> : null}
       <Card testID="publish-routes">
-        <ThemedText variant="label" bold>Route</ThemedText>
+        <ThemedText variant="label" bold>
+          Route
+        </ThemedText>
         <View style={styles.row}>
           {routes.map((r) => (
             <Button
@@ -135,10 +148,20 @@ export function RoutesScreen() {
             style={styles.json}
             hint="Paste the route template; the server checks it against the unit before it is published."
           />
-          <Button label="Check and publish" testID="publish-submit" busy={publish.isPending} disabled={text.trim() === ''} onPress={onPublish} />
+          <Button
+            label="Check and publish"
+            testID="publish-submit"
+            busy={publish.isPending}
+            disabled={text.trim() === ''}
+            onPress={onPublish}
+          />
           {issues.length ? (
             <View style={styles.issues} testID="publish-issues" accessibilityRole="alert">
-              <ThemedText variant="label" bold tone="danger">{`Not published: ${issues.length} problem${issues.length === 1 ? '' : 's'}`}</ThemedText>
+              <ThemedText
+                variant="label"
+                bold
+                tone="danger"
+              >{`Not published: ${issues.length} problem${issues.length === 1 ? '' : 's'}`}</ThemedText>
               {issues.map((i, n) => (
                 <ThemedText key={n} variant="label" testID={`publish-issue-${n}`}>
                   {`${i.line !== null ? `Line ${i.line}` : '—'} · ${i.path ? `${i.path}: ` : ''}${i.message}`}
@@ -147,7 +170,10 @@ export function RoutesScreen() {
             </View>
           ) : null}
           {done ? (
-            <ThemedText tone="ok" testID="publish-done">{`✓ Published version ${done.v.number} of ${done.name} (${new Date(done.v.publishedAt).toLocaleString()}).`}</ThemedText>
+            <ThemedText
+              tone="ok"
+              testID="publish-done"
+            >{`✓ Published version ${done.v.number} of ${done.name} (${new Date(done.v.publishedAt).toLocaleString()}).`}</ThemedText>
           ) : null}
         </Card>
       ) : null}

@@ -52,7 +52,8 @@ export function originsByPoint(origins: ReadingOrigin[] | undefined): Map<string
   return out;
 }
 
-const shortTime = (iso: string) => new Date(iso).toLocaleString([], { month: 'short', day: 'numeric', hour: '2-digit', minute: '2-digit' });
+const shortTime = (iso: string) =>
+  new Date(iso).toLocaleString([], { month: 'short', day: 'numeric', hour: '2-digit', minute: '2-digit' });
 
 /** Why a point without a gauge of its own still has values. */
 const NO_GAUGE: Record<StatePointResult['pressureSource'], (p: StatePointResult) => string> = {
@@ -67,12 +68,26 @@ export function originWords(o: PointOrigin | undefined, p?: StatePointResult): s
   if (!o || (o.own === 0 && o.borrowed.length === 0)) return p ? NO_GAUGE[p.pressureSource](p) : 'No gauge here';
   if (o.borrowed.length === 0) return 'This round';
   const rounds = [...new Map(o.borrowed.map((b) => [b.roundId ?? '?', b])).values()];
-  const names = rounds.map((b) => (b.routeName && b.measuredAt ? `${b.routeName}, ${shortTime(b.measuredAt)}` : 'another round'));
+  const names = rounds.map((b) =>
+    b.routeName && b.measuredAt ? `${b.routeName}, ${shortTime(b.measuredAt)}` : 'another round',
+  );
   return `◇ ${o.own ? 'This round and ' : ''}${names.join('; ')}`;
 }
 
 const pointColumns = (origins: Map<string, PointOrigin>): Column<StatePointResult>[] => [
-  { key: 'id', label: 'Point', flex: 2.4, render: (p) => <ThemedText variant="label"><ThemedText variant="label" bold>{p.id}</ThemedText>{` ${p.label}`}</ThemedText> },
+  {
+    key: 'id',
+    label: 'Point',
+    flex: 2.4,
+    render: (p) => (
+      <ThemedText variant="label">
+        <ThemedText variant="label" bold>
+          {p.id}
+        </ThemedText>
+        {` ${p.label}`}
+      </ThemedText>
+    ),
+  },
   { key: 'pm', label: 'p read, bar', flex: 1, numeric: true, render: (p) => f(p.measured.p, 3, 1e-5) },
   { key: 'pr', label: 'p balanced, bar', flex: 1, numeric: true, render: (p) => f(p.reconciled.p, 3, 1e-5) },
   { key: 'Tm', label: 'T read, °C', flex: 1, numeric: true, render: (p) => f(p.measured.T, 1, 1, -273.15) },
@@ -88,7 +103,12 @@ const pointColumns = (origins: Map<string, PointOrigin>): Column<StatePointResul
     render: (p) => {
       const o = origins.get(p.id);
       return (
-        <ThemedText variant="label" tone={o?.borrowed.length ? 'info' : undefined} muted={!o} testID={`cycle-point-${p.id}-origin`}>
+        <ThemedText
+          variant="label"
+          tone={o?.borrowed.length ? 'info' : undefined}
+          muted={!o}
+          testID={`cycle-point-${p.id}-origin`}
+        >
           {originWords(o, p)}
         </ThemedText>
       );
@@ -98,7 +118,11 @@ const pointColumns = (origins: Map<string, PointOrigin>): Column<StatePointResul
 
 function showBalance(r: BalanceRow, v: number | null): string {
   if (v === null) return '—';
-  return r.unit === 'W' ? `${fixed(v / 1e3, 1)} kW` : r.unit === 'kg/s' ? `${fixed(v * 3.6, 3)} t/h` : `${fixed(v / 1e3, 2)} kJ/kg`;
+  return r.unit === 'W'
+    ? `${fixed(v / 1e3, 1)} kW`
+    : r.unit === 'kg/s'
+      ? `${fixed(v * 3.6, 3)} t/h`
+      : `${fixed(v / 1e3, 2)} kJ/kg`;
 }
 
 function showFigure(p: PerformanceFigure, v: number | null): string {
@@ -118,9 +142,21 @@ interface BalanceLine {
 const balanceColumns: Column<BalanceLine>[] = [
   { key: 'eq', label: 'Equipment', flex: 1.6, render: (b) => b.equipment },
   { key: 'what', label: 'Balance', flex: 1.8, render: (b) => b.row.label },
-  { key: 'meas', label: 'Residual as read', flex: 1.2, numeric: true, render: (b) => showBalance(b.row, b.row.measured?.residual ?? null) },
+  {
+    key: 'meas',
+    label: 'Residual as read',
+    flex: 1.2,
+    numeric: true,
+    render: (b) => showBalance(b.row, b.row.measured?.residual ?? null),
+  },
   { key: 'sig', label: '±σ', flex: 1, numeric: true, render: (b) => showBalance(b.row, b.row.measuredSigma) },
-  { key: 'rec', label: 'Residual balanced', flex: 1.2, numeric: true, render: (b) => showBalance(b.row, b.row.reconciled?.residual ?? null) },
+  {
+    key: 'rec',
+    label: 'Residual balanced',
+    flex: 1.2,
+    numeric: true,
+    render: (b) => showBalance(b.row, b.row.reconciled?.residual ?? null),
+  },
 ];
 
 export const NOT_DETERMINABLE = 'not determinable from these instruments';
@@ -163,7 +199,12 @@ const figureColumns: Column<PerformanceFigure>[] = [
     flex: 1.2,
     numeric: true,
     render: (p) => (
-      <ThemedText variant="label" numeric muted={figureValueWords(p) === NOT_DETERMINABLE} testID={`cycle-figure-${p.id}-value`}>
+      <ThemedText
+        variant="label"
+        numeric
+        muted={figureValueWords(p) === NOT_DETERMINABLE}
+        testID={`cycle-figure-${p.id}-value`}
+      >
         {figureValueWords(p)}
       </ThemedText>
     ),
@@ -179,7 +220,13 @@ const figureColumns: Column<PerformanceFigure>[] = [
       </ThemedText>
     ),
   },
-  { key: 'measured', label: 'As read', flex: 1, numeric: true, render: (p) => (p.uncertainty && !p.uncertainty.determinable ? '—' : showFigure(p, p.measured)) },
+  {
+    key: 'measured',
+    label: 'As read',
+    flex: 1,
+    numeric: true,
+    render: (p) => (p.uncertainty && !p.uncertainty.determinable ? '—' : showFigure(p, p.measured)),
+  },
 ];
 
 /** The performance figures with their intervals. */
@@ -187,11 +234,21 @@ export function PerformanceTable({ figures }: { figures: PerformanceFigure[] }) 
   return (
     <View style={styles.stack}>
       <ThemedText variant="caption" muted>
-        {'Balanced: from the reconciled state, with the 95 % interval propagated from every reading’s uncertainty through the balances (GUM law of propagation, JCGM 100:2008). A figure whose interval is wider than half its meaningful span (0–100 % for an efficiency, 20 K for a temperature difference, ±25 % for a power or the heat rate) is '}
+        {
+          'Balanced: from the reconciled state, with the 95 % interval propagated from every reading’s uncertainty through the balances (GUM law of propagation, JCGM 100:2008). A figure whose interval is wider than half its meaningful span (0–100 % for an efficiency, 20 K for a temperature difference, ±25 % for a power or the heat rate) is '
+        }
         {NOT_DETERMINABLE}
-        {'; the line names the readings that carry its variance. As read: the readings alone, without the balances; their uncertainty is never smaller than the balanced one.'}
+        {
+          '; the line names the readings that carry its variance. As read: the readings alone, without the balances; their uncertainty is never smaller than the balanced one.'
+        }
       </ThemedText>
-      <DataTable rows={figures} columns={figureColumns} rowKey={(p) => p.id} testID="cycle-figures" rowTestID={(p) => `cycle-figure-${p.id}`} />
+      <DataTable
+        rows={figures}
+        columns={figureColumns}
+        rowKey={(p) => p.id}
+        testID="cycle-figures"
+        rowTestID={(p) => `cycle-figure-${p.id}`}
+      />
     </View>
   );
 }
@@ -201,7 +258,14 @@ function Chart({ a, model, borrowed }: { a: RoundAnalysisResponse; model: unknow
   const fig = useMemo(() => tsFigure(a.statePoints, turbineSections(model), borrowed), [a, model, borrowed]);
   return (
     <View onLayout={(e: LayoutChangeEvent) => setWidth(Math.floor(e.nativeEvent.layout.width))}>
-      {width > 0 ? <TsChart points={fig.points} lines={fig.lines} width={width} height={Math.min(520, Math.max(300, width * 0.7))} /> : null}
+      {width > 0 ? (
+        <TsChart
+          points={fig.points}
+          lines={fig.lines}
+          width={width}
+          height={Math.min(520, Math.max(300, width * 0.7))}
+        />
+      ) : null}
     </View>
   );
 }
@@ -209,15 +273,24 @@ function Chart({ a, model, borrowed }: { a: RoundAnalysisResponse; model: unknow
 export function CycleScreen({ roundId }: { roundId: string }) {
   const q = useRoundAnalysis(roundId);
   const ref = useSiteReference();
-  if (q.error) return <ThemedText tone="danger" testID="cycle-error">{q.error.message}</ThemedText>;
+  if (q.error)
+    return (
+      <ThemedText tone="danger" testID="cycle-error">
+        {q.error.message}
+      </ThemedText>
+    );
   if (!q.data) return <ThemedText muted>Loading…</ThemedText>;
   const a = q.data;
   const model = ref.data?.units.find((u) => u.id === a.unitId)?.model ?? null;
   const r = a.reconciliation;
-  const balances: BalanceLine[] = a.balances.flatMap((b) => b.rows.map((row) => ({ key: `${b.equipmentId}-${row.id}`, equipment: b.label, row })));
+  const balances: BalanceLine[] = a.balances.flatMap((b) =>
+    b.rows.map((row) => ({ key: `${b.equipmentId}-${row.id}`, equipment: b.label, row })),
+  );
   const origins = originsByPoint(a.readingOrigins);
   const borrowed = new Set([...origins.entries()].filter(([, o]) => o.borrowed.length > 0).map(([id]) => id));
-  const others = [...new Map((a.readingOrigins ?? []).filter((o) => !o.own).map((o) => [o.roundId ?? '?', o])).values()];
+  const others = [
+    ...new Map((a.readingOrigins ?? []).filter((o) => !o.own).map((o) => [o.roundId ?? '?', o])).values(),
+  ];
   return (
     <View style={styles.stack} testID="cycle-page">
       <ThemedText variant="heading">Cycle of the round</ThemedText>
@@ -228,46 +301,81 @@ export function CycleScreen({ roundId }: { roundId: string }) {
             ? `${r.passed ? '✓ The readings agree with the balances' : '◆ The readings do not agree with the balances'}: χ² ${r.chiSquare.toFixed(1)} against ${r.critical.toFixed(1)} allowed (${r.dof} degrees of freedom).`
             : `The balances could not be closed${r.error ? `: ${r.error}` : '.'}`}
         </ThemedText>
-        {r.suspects.length ? <ThemedText variant="label" tone="danger">{`◆ Suspect: ${r.suspects.join(', ')}`}</ThemedText> : null}
-        {a.modelVersionMismatch ? <ThemedText variant="caption" muted>The phone recorded this round against an older model of the unit.</ThemedText> : null}
+        {r.suspects.length ? (
+          <ThemedText variant="label" tone="danger">{`◆ Suspect: ${r.suspects.join(', ')}`}</ThemedText>
+        ) : null}
+        {a.modelVersionMismatch ? (
+          <ThemedText variant="caption" muted>
+            The phone recorded this round against an older model of the unit.
+          </ThemedText>
+        ) : null}
       </Card>
       {others.length ? (
         <Card testID="cycle-borrowed">
-          <ThemedText variant="label" bold>Readings from other rounds of the unit</ThemedText>
-          <ThemedText variant="caption" muted>The balances take the whole unit. What this round’s route does not read comes from the latest reading of another round within {ROUND_CHECK_WINDOW_HOURS} hours; those points say “◇” in the table and have a dashed ring on the chart.</ThemedText>
+          <ThemedText variant="label" bold>
+            Readings from other rounds of the unit
+          </ThemedText>
+          <ThemedText variant="caption" muted>
+            The balances take the whole unit. What this round’s route does not read comes from the latest reading of
+            another round within {ROUND_CHECK_WINDOW_HOURS} hours; those points say “◇” in the table and have a dashed
+            ring on the chart.
+          </ThemedText>
           {others.map((o) => {
             const n = (a.readingOrigins ?? []).filter((x) => !x.own && x.roundId === o.roundId).length;
             const words = `${n} reading${n === 1 ? '' : 's'}`;
             return o.roundId ? (
               <Link key={o.roundId} href={`/eng/rounds/${o.roundId}`} asChild>
                 <Pressable accessibilityRole="link" style={styles.link} testID={`cycle-borrowed-${o.roundId}`}>
-                  <ThemedText variant="label" tone="info">{`${o.routeName ?? 'Another round'}${o.measuredAt ? `, read ${new Date(o.measuredAt).toLocaleString()}` : ''} · ${words} →`}</ThemedText>
+                  <ThemedText
+                    variant="label"
+                    tone="info"
+                  >{`${o.routeName ?? 'Another round'}${o.measuredAt ? `, read ${new Date(o.measuredAt).toLocaleString()}` : ''} · ${words} →`}</ThemedText>
                 </Pressable>
               </Link>
             ) : (
-              <ThemedText key="unknown" variant="label" muted testID="cycle-borrowed-unknown">{`A round no longer told apart (re-taken since) · ${words}`}</ThemedText>
+              <ThemedText
+                key="unknown"
+                variant="label"
+                muted
+                testID="cycle-borrowed-unknown"
+              >{`A round no longer told apart (re-taken since) · ${words}`}</ThemedText>
             );
           })}
         </Card>
       ) : null}
       {a.findings.length ? (
         <Card testID="cycle-findings">
-          <ThemedText variant="label" bold>Findings</ThemedText>
+          <ThemedText variant="label" bold>
+            Findings
+          </ThemedText>
           {a.findings.map((fd) => (
             <View key={fd.id} style={styles.finding}>
               <SeverityMark severity={markOfFinding(fd.severity)} />
-              <ThemedText variant="label" style={styles.grow}>{fd.message}</ThemedText>
+              <ThemedText variant="label" style={styles.grow}>
+                {fd.message}
+              </ThemedText>
             </View>
           ))}
         </Card>
       ) : null}
       <Card>
-        <ThemedText variant="label" bold>Temperature–entropy chart</ThemedText>
-        <ThemedText variant="caption" muted>Rings: as read (dashed: read on another round). Discs: balanced. Crosses: where each turbine section would end if it expanded without loss (dashed).</ThemedText>
+        <ThemedText variant="label" bold>
+          Temperature–entropy chart
+        </ThemedText>
+        <ThemedText variant="caption" muted>
+          Rings: as read (dashed: read on another round). Discs: balanced. Crosses: where each turbine section would end
+          if it expanded without loss (dashed).
+        </ThemedText>
         <Chart a={a} model={model} borrowed={borrowed} />
       </Card>
       <ThemedText variant="title">State points</ThemedText>
-      <DataTable rows={a.statePoints} columns={pointColumns(origins)} rowKey={(p) => p.id} testID="cycle-points" rowTestID={(p) => `cycle-point-${p.id}`} />
+      <DataTable
+        rows={a.statePoints}
+        columns={pointColumns(origins)}
+        rowKey={(p) => p.id}
+        testID="cycle-points"
+        rowTestID={(p) => `cycle-point-${p.id}`}
+      />
       <ThemedText variant="title">Performance</ThemedText>
       <PerformanceTable figures={a.performance} />
       <ThemedText variant="title">Balances</ThemedText>

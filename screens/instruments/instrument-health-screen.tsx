@@ -65,7 +65,12 @@ const columnsWith = (det: Map<string, InstrumentDetectability>): Column<Instrume
     render: (i) => {
       const d = det.get(`${i.unitId}|${i.tag}`);
       return (
-        <ThemedText variant="label" numeric tone={d?.status === 'unchecked' ? 'danger' : undefined} testID={`health-${i.tag}-mdb`}>
+        <ThemedText
+          variant="label"
+          numeric
+          tone={d?.status === 'unchecked' ? 'danger' : undefined}
+          testID={`health-${i.tag}-mdb`}
+        >
           {noticeFromWords(d)}
         </ThemedText>
       );
@@ -74,14 +79,65 @@ const columnsWith = (det: Map<string, InstrumentDetectability>): Column<Instrume
 ];
 
 const columns: Column<InstrumentHealth>[] = [
-  { key: 'tag', label: 'Tag', flex: 1, sortKey: 'tag', render: (i) => <ThemedText variant="label" bold>{i.tag}</ThemedText> },
-  { key: 'status', label: 'Status', flex: 1.2, render: (i) => <InstrumentStatusMark status={i.status} testID={`health-${i.tag}-status`} /> },
+  {
+    key: 'tag',
+    label: 'Tag',
+    flex: 1,
+    sortKey: 'tag',
+    render: (i) => (
+      <ThemedText variant="label" bold>
+        {i.tag}
+      </ThemedText>
+    ),
+  },
+  {
+    key: 'status',
+    label: 'Status',
+    flex: 1.2,
+    render: (i) => <InstrumentStatusMark status={i.status} testID={`health-${i.tag}-status`} />,
+  },
   { key: 'flags', label: 'Flags, 30 d', flex: 0.9, numeric: true, sortKey: 'flags', render: (i) => String(i.flags30d) },
-  { key: 'z', label: 'Mean |z|', flex: 0.9, numeric: true, sortKey: 'z', render: (i) => (i.meanAbsZ30d === null ? '—' : i.meanAbsZ30d.toFixed(2)) },
-  { key: 'bias', label: 'Estimated bias', flex: 1.6, sortKey: 'bias', numeric: true, render: (i) => biasWords(i.quantity, i.biasSi30d) },
+  {
+    key: 'z',
+    label: 'Mean |z|',
+    flex: 0.9,
+    numeric: true,
+    sortKey: 'z',
+    render: (i) => (i.meanAbsZ30d === null ? '—' : i.meanAbsZ30d.toFixed(2)),
+  },
+  {
+    key: 'bias',
+    label: 'Estimated bias',
+    flex: 1.6,
+    sortKey: 'bias',
+    numeric: true,
+    render: (i) => biasWords(i.quantity, i.biasSi30d),
+  },
   { key: 'cal', label: 'Calibrated', flex: 1, numeric: true, render: (i) => i.lastCalibration ?? '—' },
-  { key: 'due', label: 'Due', flex: 1.1, numeric: true, sortKey: 'due', render: (i) => (i.calibrationDue ? <ThemedText variant="label" numeric bold={i.calibrationOverdue} tone={i.calibrationOverdue ? 'danger' : undefined}>{`${i.calibrationOverdue ? '▲ overdue ' : ''}${i.calibrationDue}`}</ThemedText> : '—') },
-  { key: 'wo', label: 'Open work', flex: 1, render: (i) => (i.openWorkOrders.length ? i.openWorkOrders.map((w) => w.number).join(', ') : '—') },
+  {
+    key: 'due',
+    label: 'Due',
+    flex: 1.1,
+    numeric: true,
+    sortKey: 'due',
+    render: (i) =>
+      i.calibrationDue ? (
+        <ThemedText
+          variant="label"
+          numeric
+          bold={i.calibrationOverdue}
+          tone={i.calibrationOverdue ? 'danger' : undefined}
+        >{`${i.calibrationOverdue ? '▲ overdue ' : ''}${i.calibrationDue}`}</ThemedText>
+      ) : (
+        '—'
+      ),
+  },
+  {
+    key: 'wo',
+    label: 'Open work',
+    flex: 1,
+    render: (i) => (i.openWorkOrders.length ? i.openWorkOrders.map((w) => w.number).join(', ') : '—'),
+  },
 ];
 
 function daysAgo(n: number): string {
@@ -98,12 +154,21 @@ export function RecentRounds({ tag, roundHref }: { tag: string | undefined; roun
   }, [h.data]);
   return (
     <Card testID="recent-rounds">
-      <ThemedText variant="label" bold>Recent analysed rounds</ThemedText>
-      {rounds.length === 0 ? <ThemedText variant="caption" muted>{h.isPending ? 'Loading…' : 'No analysed rounds in the last 7 days.'}</ThemedText> : null}
+      <ThemedText variant="label" bold>
+        Recent analysed rounds
+      </ThemedText>
+      {rounds.length === 0 ? (
+        <ThemedText variant="caption" muted>
+          {h.isPending ? 'Loading…' : 'No analysed rounds in the last 7 days.'}
+        </ThemedText>
+      ) : null}
       {rounds.map(([roundId, at], n) => (
         <Link key={roundId} href={roundHref(roundId)} asChild>
           <Pressable accessibilityRole="link" testID={`recent-round-${n}`} style={styles.link}>
-            <ThemedText variant="label" tone="info">{`Cycle of the round read ${new Date(at).toLocaleString()} →`}</ThemedText>
+            <ThemedText
+              variant="label"
+              tone="info"
+            >{`Cycle of the round read ${new Date(at).toLocaleString()} →`}</ThemedText>
           </Pressable>
         </Link>
       ))}
@@ -129,17 +194,37 @@ export function InstrumentHealthScreen() {
     <View style={styles.stack}>
       <View style={styles.head}>
         <ThemedText variant="heading">Instrument health</ThemedText>
-        {membership ? <ExportButton path={`/api/sites/${membership.siteId}/exports/readings.csv?from=${daysAgo(30)}`} filename="readings-30-days.csv" label="Export readings (30 days)" testID="health-export" /> : null}
+        {membership ? (
+          <ExportButton
+            path={`/api/sites/${membership.siteId}/exports/readings.csv?from=${daysAgo(30)}`}
+            filename="readings-30-days.csv"
+            label="Export readings (30 days)"
+            testID="health-export"
+          />
+        ) : null}
       </View>
       <ThemedText muted variant="label">
-        {'Worst first. |z| is how far the balances had to move a reading, in its own standard uncertainties; a bias is the mean of reading − estimate over the last 30 days.'}
+        {
+          'Worst first. |z| is how far the balances had to move a reading, in its own standard uncertainties; a bias is the mean of reading − estimate over the last 30 days.'
+        }
       </ThemedText>
       {sort !== 'worst' ? (
-        <Pressable accessibilityRole="button" testID="health-sort-worst" onPress={() => setSort('worst')} style={styles.link}>
-          <ThemedText variant="label" tone="info">Back to worst first</ThemedText>
+        <Pressable
+          accessibilityRole="button"
+          testID="health-sort-worst"
+          onPress={() => setSort('worst')}
+          style={styles.link}
+        >
+          <ThemedText variant="label" tone="info">
+            Back to worst first
+          </ThemedText>
         </Pressable>
       ) : null}
-      {q.error ? <ThemedText tone="danger" testID="health-error">{q.error.message}</ThemedText> : null}
+      {q.error ? (
+        <ThemedText tone="danger" testID="health-error">
+          {q.error.message}
+        </ThemedText>
+      ) : null}
       {q.isPending ? <ThemedText muted>Loading…</ThemedText> : null}
       {q.data ? (
         <DataTable
@@ -153,7 +238,11 @@ export function InstrumentHealthScreen() {
           onPressRow={(i) => router.push(`/eng/instruments/${encodeURIComponent(i.tag)}`)}
         />
       ) : null}
-      {det.error ? <ThemedText tone="danger" testID="detectability-error">{det.error.message}</ThemedText> : null}
+      {det.error ? (
+        <ThemedText tone="danger" testID="detectability-error">
+          {det.error.message}
+        </ThemedText>
+      ) : null}
       {(det.data?.units ?? []).map((u) => (
         <Card key={u.unitId}>
           <DetectabilitySummary unit={u} testID={`detectability-${u.unitId}`} />
@@ -166,6 +255,12 @@ export function InstrumentHealthScreen() {
 
 const styles = StyleSheet.create({
   stack: { gap: space.lg },
-  head: { flexDirection: 'row', justifyContent: 'space-between', alignItems: 'center', flexWrap: 'wrap', gap: space.md },
+  head: {
+    flexDirection: 'row',
+    justifyContent: 'space-between',
+    alignItems: 'center',
+    flexWrap: 'wrap',
+    gap: space.md,
+  },
   link: { minHeight: touchTarget, justifyContent: 'center' },
 });

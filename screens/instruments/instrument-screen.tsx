@@ -30,47 +30,82 @@ export function InstrumentScreen({ tag }: { tag: string }) {
   return (
     <View style={styles.stack} testID="instrument-page">
       <View style={styles.head}>
-        <ThemedText variant="heading" testID="instrument-tag">{tag}</ThemedText>
+        <ThemedText variant="heading" testID="instrument-tag">
+          {tag}
+        </ThemedText>
         {h.data ? <InstrumentStatusMark status={h.data.instrument.status} testID="instrument-status" /> : null}
       </View>
       {health ? (
         <Card>
           <ThemedText variant="label">{`Over 30 days: ${health.flags30d} flags in ${health.samples30d} analysed rounds; ${biasWords(q, health.biasSi30d)}${health.meanAbsZ30d !== null ? `; mean |z| ${health.meanAbsZ30d.toFixed(2)}` : ''}.`}</ThemedText>
-          <ThemedText variant="label" muted>{`Last calibrated ${health.lastCalibration ?? 'never'}${health.calibrationDue ? `, due ${health.calibrationDue}${health.calibrationOverdue ? ' (overdue)' : ''}` : ''}.`}</ThemedText>
+          <ThemedText
+            variant="label"
+            muted
+          >{`Last calibrated ${health.lastCalibration ?? 'never'}${health.calibrationDue ? `, due ${health.calibrationDue}${health.calibrationOverdue ? ' (overdue)' : ''}` : ''}.`}</ThemedText>
         </Card>
       ) : null}
       {det && detUnit ? (
         <Card testID="instrument-detectability">
-          <ThemedText variant="label" tone={det.status === 'unchecked' ? 'danger' : undefined}>{detectabilityWords(det)}</ThemedText>
-          {det.remedy ? <ThemedText variant="label">{`What would check it: ${remedyWords(det.remedy)}`}</ThemedText> : null}
-          <ThemedText variant="caption" muted>{`At the unit's latest analysed round (analysed ${new Date(detUnit.analysedAt).toLocaleString()}); ${powerWords(detUnit)}.`}</ThemedText>
+          <ThemedText variant="label" tone={det.status === 'unchecked' ? 'danger' : undefined}>
+            {detectabilityWords(det)}
+          </ThemedText>
+          {det.remedy ? (
+            <ThemedText variant="label">{`What would check it: ${remedyWords(det.remedy)}`}</ThemedText>
+          ) : null}
+          <ThemedText
+            variant="caption"
+            muted
+          >{`At the unit's latest analysed round (analysed ${new Date(detUnit.analysedAt).toLocaleString()}); ${powerWords(detUnit)}.`}</ThemedText>
         </Card>
       ) : null}
       <View style={styles.row}>
         {RANGES.map((d) => (
-          <Button key={d} label={`${d} days`} kind={d === days ? 'primary' : 'plain'} selected={d === days} testID={`instrument-range-${d}`} onPress={() => setDays(d)} />
+          <Button
+            key={d}
+            label={`${d} days`}
+            kind={d === days ? 'primary' : 'plain'}
+            selected={d === days}
+            testID={`instrument-range-${d}`}
+            onPress={() => setDays(d)}
+          />
         ))}
       </View>
-      {h.error ? <ThemedText tone="danger" testID="instrument-error">{h.error.message}</ThemedText> : null}
+      {h.error ? (
+        <ThemedText tone="danger" testID="instrument-error">
+          {h.error.message}
+        </ThemedText>
+      ) : null}
       {h.isPending ? <ThemedText muted>Loading…</ThemedText> : null}
       {h.data ? (
         <Card>
-          <ThemedText variant="label" bold>Readings against the balances</ThemedText>
-          <ThemedText variant="caption" muted>Rings: what was read. Line: what the rest of the plant says. Shaded: its ±2σ band (95 %).</ThemedText>
+          <ThemedText variant="label" bold>
+            Readings against the balances
+          </ThemedText>
+          <ThemedText variant="caption" muted>
+            Rings: what was read. Line: what the rest of the plant says. Shaded: its ±2σ band (95 %).
+          </ThemedText>
           <InstrumentTrend history={h.data} />
-          {h.data.truncated ? <ThemedText variant="caption" muted>More points than fit: narrow the range.</ThemedText> : null}
+          {h.data.truncated ? (
+            <ThemedText variant="caption" muted>
+              More points than fit: narrow the range.
+            </ThemedText>
+          ) : null}
         </Card>
       ) : null}
       {last.length ? (
         <Card testID="instrument-points">
-          <ThemedText variant="label" bold>Latest rounds</ThemedText>
+          <ThemedText variant="label" bold>
+            Latest rounds
+          </ThemedText>
           {last.map((p, n) => {
             const ref = p.estimate ?? p.reconciled;
             const sigma = p.estimate !== null ? p.estimateSigma : p.reconciledSigma;
             return (
               <Link key={p.analysisId} href={`/eng/rounds/${p.roundId}`} asChild>
                 <Pressable accessibilityRole="link" testID={`instrument-point-${n}`} style={styles.point}>
-                  <ThemedText variant="caption" muted>{new Date(p.measuredAt).toLocaleString()}</ThemedText>
+                  <ThemedText variant="caption" muted>
+                    {new Date(p.measuredAt).toLocaleString()}
+                  </ThemedText>
                   <ThemedText variant="label" numeric>
                     {`${p.reading === null ? 'no reading' : showValueOf(q, p.reading)}${ref !== null ? ` · balance ${showValueOf(q, ref)}${sigma !== null ? ` ± ${showDeltaOf(q, 2 * sigma)}` : ''}` : ''}${p.z !== null ? ` · z ${p.z.toFixed(1)}` : ''}${p.suspect ? ' · ◆ suspect' : ''}`}
                   </ThemedText>

@@ -23,22 +23,39 @@ export function OutboxScreen() {
         <Row label="Refused by the server" value={status.refused} testID="outbox-refused" />
         <Row label="Photos waiting" value={status.photosWaiting} testID="outbox-photos-waiting" />
         <Row label="Photos on the server" value={status.photosStored} testID="outbox-photos-stored" />
-        <ThemedText variant="caption" muted testID="outbox-last-sync">Last sync: {when(status.lastSyncAt)}</ThemedText>
-        {status.problem ? <ThemedText tone="warning" testID="outbox-problem">{status.problem.message}</ThemedText> : null}
+        <ThemedText variant="caption" muted testID="outbox-last-sync">
+          Last sync: {when(status.lastSyncAt)}
+        </ThemedText>
+        {status.problem ? (
+          <ThemedText tone="warning" testID="outbox-problem">
+            {status.problem.message}
+          </ThemedText>
+        ) : null}
         <OthersWaitingNote status={status} />
         <Button testID="sync-now" label="Sync now" onPress={() => void syncNow()} busy={running || status.running} />
       </Card>
       {status.refusedItems.length ? (
         <Card testID="outbox-refusals">
           <ThemedText variant="title">Refused</ThemedText>
-          <ThemedText variant="caption" muted>These stay on the device and do not hold up the rest. Correct the cause, then send them again.</ThemedText>
+          <ThemedText variant="caption" muted>
+            These stay on the device and do not hold up the rest. Correct the cause, then send them again.
+          </ThemedText>
           {status.refusedItems.map((r) => (
             <View key={r.seq} style={styles.item} testID={`refused-${r.seq}`}>
-              <ThemedText variant="label" bold>{r.kind} {r.recordId.slice(0, 8)}</ThemedText>
-              <ThemedText variant="label" testID={`refused-${r.seq}-message`}>{r.message}</ThemedText>
+              <ThemedText variant="label" bold>
+                {r.kind} {r.recordId.slice(0, 8)}
+              </ThemedText>
+              <ThemedText variant="label" testID={`refused-${r.seq}-message`}>
+                {r.message}
+              </ThemedText>
             </View>
           ))}
-          <Button testID="retry-refused" label="Send the refused again" kind="plain" onPress={() => void retryRefused()} />
+          <Button
+            testID="retry-refused"
+            label="Send the refused again"
+            kind="plain"
+            onPress={() => void retryRefused()}
+          />
         </Card>
       ) : null}
     </View>
@@ -49,7 +66,9 @@ function Row({ label, value, testID }: { label: string; value: number; testID: s
   return (
     <View style={styles.row}>
       <ThemedText variant="label">{label}</ThemedText>
-      <ThemedText variant="label" bold numeric testID={testID}>{value}</ThemedText>
+      <ThemedText variant="label" bold numeric testID={testID}>
+        {value}
+      </ThemedText>
     </View>
   );
 }

@@ -31,7 +31,8 @@ function joinNames(names: string[]): string {
 function borrowedText(r: RoundCheck): string {
   const b = r.assembled.borrowed;
   const h = r.assembled.windowHours;
-  if (b.length === 0) return `Only this round's readings are used: no other round of this unit in the last ${h} h is on this device.`;
+  if (b.length === 0)
+    return `Only this round's readings are used: no other round of this unit in the last ${h} h is on this device.`;
   const rounds = joinNames(b.map((x) => `the ${lcFirst(x.routeName)} round of ${clock(x.startedAt)}`));
   return `For the instruments not on this route, the check uses ${rounds} (the latest reading of each within the last ${h} h on this device).`;
 }
@@ -45,28 +46,51 @@ export function RoundCheckScreen({ roundId }: { roundId: string }) {
   const [picked, setPicked] = useState<string | null>(null);
   const [finishing, setFinishing] = useState(false);
 
-  if (error) return <ThemedText tone="danger" testID="review-error">{error.message}</ThemedText>;
-  if (!load) return <ThemedText muted testID="review-opening">Opening the round…</ThemedText>;
+  if (error)
+    return (
+      <ThemedText tone="danger" testID="review-error">
+        {error.message}
+      </ThemedText>
+    );
+  if (!load)
+    return (
+      <ThemedText muted testID="review-opening">
+        Opening the round…
+      </ThemedText>
+    );
   if (!load.ok) {
     return (
       <View style={styles.stack} testID="review-screen">
-        <ThemedText tone="warning" testID="review-problem">{load.problem}</ThemedText>
-        <Button testID="review-back" label="Back to the stops" kind="plain" onPress={() => router.push(`/tech/round/${roundId}`)} />
+        <ThemedText tone="warning" testID="review-problem">
+          {load.problem}
+        </ThemedText>
+        <Button
+          testID="review-back"
+          label="Back to the stops"
+          kind="plain"
+          onPress={() => router.push(`/tech/round/${roundId}`)}
+        />
       </View>
     );
   }
   const inProgress = load.round.status === 'in-progress';
   const header = (
     <View style={styles.head}>
-      <ThemedText variant="title" testID="review-route">Round check — {load.routeName}</ThemedText>
-      <ThemedText variant="caption" muted>Worked out on this device from the readings it holds; no network needed.</ThemedText>
+      <ThemedText variant="title" testID="review-route">
+        Round check — {load.routeName}
+      </ThemedText>
+      <ThemedText variant="caption" muted>
+        Worked out on this device from the readings it holds; no network needed.
+      </ThemedText>
     </View>
   );
   if (!review) {
     return (
       <View style={styles.stack} testID="review-screen">
         {header}
-        <ThemedText muted testID="review-checking">Checking the round…</ThemedText>
+        <ThemedText muted testID="review-checking">
+          Checking the round…
+        </ThemedText>
       </View>
     );
   }
@@ -75,24 +99,38 @@ export function RoundCheckScreen({ roundId }: { roundId: string }) {
   const flagged = [...review.retakes, ...review.elsewhere];
   const selected = flagged.find((i) => i.tag === picked) ?? flagged[0];
   const suspectOf = (tag: string) => review.suspects.find((s) => s.tag === tag);
-  const retake = (i: RetakeItem) => (inProgress && i.own && i.stop !== null ? () => router.push(`/tech/round/${roundId}?stop=${i.stop}`) : undefined);
-  const dismiss = inProgress && actions
-    ? (tag: string) => async (reason: string) => {
-        try {
-          await actions.dismissSuspect(roundId, tag, reason);
-          return null;
-        } catch (e) {
-          return e instanceof Error ? e.message : String(e);
+  const retake = (i: RetakeItem) =>
+    inProgress && i.own && i.stop !== null ? () => router.push(`/tech/round/${roundId}?stop=${i.stop}`) : undefined;
+  const dismiss =
+    inProgress && actions
+      ? (tag: string) => async (reason: string) => {
+          try {
+            await actions.dismissSuspect(roundId, tag, reason);
+            return null;
+          } catch (e) {
+            return e instanceof Error ? e.message : String(e);
+          }
         }
-      }
-    : null;
+      : null;
 
   const summary = (
     <Card testID="review-headline-card">
-      <ThemedText variant="label" bold tone={headline.tone} testID="review-headline">{headline.text}</ThemedText>
-      {review.clean && review.complete ? <ThemedText testID="review-clean" tone="ok" variant="caption">✓ Clean</ThemedText> : null}
-      <ThemedText variant="caption" testID="review-borrowed">{borrowedText(review)}</ThemedText>
-      {checking ? <ThemedText variant="caption" muted testID="review-checking">Checking again…</ThemedText> : null}
+      <ThemedText variant="label" bold tone={headline.tone} testID="review-headline">
+        {headline.text}
+      </ThemedText>
+      {review.clean && review.complete ? (
+        <ThemedText testID="review-clean" tone="ok" variant="caption">
+          ✓ Clean
+        </ThemedText>
+      ) : null}
+      <ThemedText variant="caption" testID="review-borrowed">
+        {borrowedText(review)}
+      </ThemedText>
+      {checking ? (
+        <ThemedText variant="caption" muted testID="review-checking">
+          Checking again…
+        </ThemedText>
+      ) : null}
     </Card>
   );
 
@@ -100,18 +138,37 @@ export function RoundCheckScreen({ roundId }: { roundId: string }) {
     <View style={styles.stack}>
       <View style={styles.section} testID="review-retakes">
         <ThemedText variant="title">Re-take before you leave</ThemedText>
-        {review.retakes.length === 0 ? <ThemedText testID="review-retakes-none">Nothing to re-take on this route.</ThemedText> : null}
-        {!inProgress && review.retakes.length ? <ThemedText variant="caption" muted>This round is finished: a re-take now goes on the next round of this route.</ThemedText> : null}
+        {review.retakes.length === 0 ? (
+          <ThemedText testID="review-retakes-none">Nothing to re-take on this route.</ThemedText>
+        ) : null}
+        {!inProgress && review.retakes.length ? (
+          <ThemedText variant="caption" muted>
+            This round is finished: a re-take now goes on the next round of this route.
+          </ThemedText>
+        ) : null}
         {review.retakes.map((i) => (
-          <RoundCheckRetakeItem key={i.tag} item={i} selected={wide && selected?.tag === i.tag} onSelect={wide ? () => setPicked(i.tag) : undefined} onRetake={retake(i)} />
+          <RoundCheckRetakeItem
+            key={i.tag}
+            item={i}
+            selected={wide && selected?.tag === i.tag}
+            onSelect={wide ? () => setPicked(i.tag) : undefined}
+            onRetake={retake(i)}
+          />
         ))}
       </View>
       {review.elsewhere.length ? (
         <View style={styles.section} testID="review-elsewhere">
           <ThemedText variant="title">Read on other rounds</ThemedText>
-          <ThemedText variant="caption" muted>These cannot be re-taken on this round: tell the next round of that route, or the shift lead.</ThemedText>
+          <ThemedText variant="caption" muted>
+            These cannot be re-taken on this round: tell the next round of that route, or the shift lead.
+          </ThemedText>
           {review.elsewhere.map((i) => (
-            <RoundCheckRetakeItem key={i.tag} item={i} selected={wide && selected?.tag === i.tag} onSelect={wide ? () => setPicked(i.tag) : undefined} />
+            <RoundCheckRetakeItem
+              key={i.tag}
+              item={i}
+              selected={wide && selected?.tag === i.tag}
+              onSelect={wide ? () => setPicked(i.tag) : undefined}
+            />
           ))}
         </View>
       ) : null}
@@ -120,13 +177,28 @@ export function RoundCheckScreen({ roundId }: { roundId: string }) {
 
   const details = wide
     ? selected
-      ? [<RoundCheckSuspect key={selected.tag} item={selected} suspect={suspectOf(selected.tag)} onDismiss={dismiss ? dismiss(selected.tag) : null} />]
+      ? [
+          <RoundCheckSuspect
+            key={selected.tag}
+            item={selected}
+            suspect={suspectOf(selected.tag)}
+            onDismiss={dismiss ? dismiss(selected.tag) : null}
+          />,
+        ]
       : []
-    : flagged.map((i) => <RoundCheckSuspect key={i.tag} item={i} suspect={suspectOf(i.tag)} onDismiss={dismiss ? dismiss(i.tag) : null} />);
+    : flagged.map((i) => (
+        <RoundCheckSuspect
+          key={i.tag}
+          item={i}
+          suspect={suspectOf(i.tag)}
+          onDismiss={dismiss ? dismiss(i.tag) : null}
+        />
+      ));
 
   const notRead = review.assembled.notRead;
   const byRoute = new Map<string, string[]>();
-  for (const n of notRead) byRoute.set(n.routeName ?? 'no route', [...(byRoute.get(n.routeName ?? 'no route') ?? []), n.tag]);
+  for (const n of notRead)
+    byRoute.set(n.routeName ?? 'no route', [...(byRoute.get(n.routeName ?? 'no route') ?? []), n.tag]);
 
   const detail = (
     <View style={styles.stack}>
@@ -138,31 +210,56 @@ export function RoundCheckScreen({ roundId }: { roundId: string }) {
       ) : null}
       <Card testID="review-balances">
         <ThemedText variant="title">Balances</ThemedText>
-        {review.balances.map((l) => <RoundCheckBalanceLine key={l.equipmentId} line={l} />)}
-        {review.notes.map((n, i) => <ThemedText key={i} variant="label" tone="warning" testID={`review-note-${i}`}>{n}</ThemedText>)}
+        {review.balances.map((l) => (
+          <RoundCheckBalanceLine key={l.equipmentId} line={l} />
+        ))}
+        {review.notes.map((n, i) => (
+          <ThemedText key={i} variant="label" tone="warning" testID={`review-note-${i}`}>
+            {n}
+          </ThemedText>
+        ))}
       </Card>
       {notRead.length ? (
         <Card testID="review-missing">
           <ThemedText variant="title">Not read</ThemedText>
           {[...byRoute].map(([route, tags]) => (
             <ThemedText key={route} variant="label" testID={`review-missing-${route}`}>
-              {route === load.routeName ? 'This route, not read yet' : `${route}, no reading in the last ${review.assembled.windowHours} h`}: {tags.join(', ')}
+              {route === load.routeName
+                ? 'This route, not read yet'
+                : `${route}, no reading in the last ${review.assembled.windowHours} h`}
+              : {tags.join(', ')}
             </ThemedText>
           ))}
         </Card>
       ) : null}
       <ThemedText variant="caption" muted testID="review-about">
-        Checked on this device in <ThemedText variant="caption" muted testID="review-ms">{ms === null ? '…' : ms.toFixed(0)}</ThemedText> ms with cycle model{' '}
-        <ThemedText variant="caption" muted testID="review-model">{review.modelVersion}</ThemedText>
-        {review.modelVersion === load.unitModelVersion ? ' (the one the server published)' : ` (the server published ${load.unitModelVersion}: sync to update)`} · result{' '}
-        <ThemedText variant="caption" muted testID="review-fingerprint">{review.fingerprint}</ThemedText>
+        Checked on this device in{' '}
+        <ThemedText variant="caption" muted testID="review-ms">
+          {ms === null ? '…' : ms.toFixed(0)}
+        </ThemedText>{' '}
+        ms with cycle model{' '}
+        <ThemedText variant="caption" muted testID="review-model">
+          {review.modelVersion}
+        </ThemedText>
+        {review.modelVersion === load.unitModelVersion
+          ? ' (the one the server published)'
+          : ` (the server published ${load.unitModelVersion}: sync to update)`}{' '}
+        · result{' '}
+        <ThemedText variant="caption" muted testID="review-fingerprint">
+          {review.fingerprint}
+        </ThemedText>
       </ThemedText>
     </View>
   );
 
   const nav = (
     <View style={styles.nav}>
-      <Button testID="review-back" label="Back to the stops" kind="plain" onPress={() => router.push(`/tech/round/${roundId}`)} />
+      <Button
+        testID="review-back"
+        label="Back to the stops"
+        kind="plain"
+        onPress={() => router.push(`/tech/round/${roundId}`)}
+      />
       {inProgress && actions ? (
         <Button
           testID="review-finish"
@@ -180,7 +277,9 @@ export function RoundCheckScreen({ roundId }: { roundId: string }) {
           }}
         />
       ) : (
-        <ThemedText variant="caption" muted testID="review-finished">This round is finished.</ThemedText>
+        <ThemedText variant="caption" muted testID="review-finished">
+          This round is finished.
+        </ThemedText>
       )}
     </View>
   );

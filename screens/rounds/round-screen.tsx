@@ -33,7 +33,10 @@ export function RoundScreen({ roundId, initialStop = 0 }: { roundId: string; ini
   const [stopIndex, setStopIndex] = useState(initialStop);
   const [finishing, setFinishing] = useState(false);
   const [problem, setProblem] = useState<string | null>(null);
-  const { data, error: readError } = useStoreQuery((s) => loadRound(s, roundId, membership?.siteId ?? null), `${roundId}|${membership?.siteId ?? ''}`);
+  const { data, error: readError } = useStoreQuery(
+    (s) => loadRound(s, roundId, membership?.siteId ?? null),
+    `${roundId}|${membership?.siteId ?? ''}`,
+  );
   // the round check's engine gets compiled while the technician walks (a worker on the web)
   useEffect(() => warmUpRoundCheck(), []);
 
@@ -82,8 +85,18 @@ export function RoundScreen({ roundId, initialStop = 0 }: { roundId: string; ini
     [actions, roundId],
   );
 
-  if (state === 'locked' || state === 'error') return <ThemedText tone="danger" testID="store-error">{error?.message}</ThemedText>;
-  if (readError) return <ThemedText tone="danger" testID="round-error">{readError.message}</ThemedText>;
+  if (state === 'locked' || state === 'error')
+    return (
+      <ThemedText tone="danger" testID="store-error">
+        {error?.message}
+      </ThemedText>
+    );
+  if (readError)
+    return (
+      <ThemedText tone="danger" testID="round-error">
+        {readError.message}
+      </ThemedText>
+    );
   if (!data || !store || !actions) return <ThemedText muted>Opening the round…</ThemedText>;
 
   const stop = data.template.stops[Math.min(stopIndex, data.template.stops.length - 1)];
@@ -103,8 +116,12 @@ export function RoundScreen({ roundId, initialStop = 0 }: { roundId: string; ini
   const stopBody = (
     <View style={styles.stop} testID="stop-body">
       <View style={styles.stopHead}>
-        <ThemedText variant="caption" muted>Stop {stopIndex + 1} of {data.template.stops.length} · {stop.area}</ThemedText>
-        <ThemedText variant="title" testID="stop-name">{stop.name}</ThemedText>
+        <ThemedText variant="caption" muted>
+          Stop {stopIndex + 1} of {data.template.stops.length} · {stop.area}
+        </ThemedText>
+        <ThemedText variant="title" testID="stop-name">
+          {stop.name}
+        </ThemedText>
       </View>
       {stop.caution ? <Caution testID="stop-caution">{stop.caution}</Caution> : null}
       {stop.readings.map((spec) => {
@@ -117,7 +134,10 @@ export function RoundScreen({ roundId, initialStop = 0 }: { roundId: string; ini
           <View key={spec.tag} style={styles.gapSm}>
             <ReadingField
               tag={spec.tag}
-              description={data.model?.instruments.find((i) => i.tag === spec.tag)?.label ?? (inst ? undefined : "Not in this unit's instrument list")}
+              description={
+                data.model?.instruments.find((i) => i.tag === spec.tag)?.label ??
+                (inst ? undefined : "Not in this unit's instrument list")
+              }
               unitLabel={unitLabel(spec.unit as Unit, spec.reference)}
               bandText={bandText(spec)}
               saved={cur?.valueTyped !== null && cur?.valueTyped !== undefined ? String(cur.valueTyped) : undefined}
@@ -126,7 +146,15 @@ export function RoundScreen({ roundId, initialStop = 0 }: { roundId: string; ini
               flags={flags}
               onSave={(text) => saveReading(data, spec, text)}
               onSkip={(reason) =>
-                void actions.recordReading({ roundId, instrumentTag: spec.tag, valueTyped: null, unit: spec.unit, reference: spec.reference ?? null, skipReason: reason, supersedes: cur?.id ?? null })
+                void actions.recordReading({
+                  roundId,
+                  instrumentTag: spec.tag,
+                  valueTyped: null,
+                  unit: spec.unit,
+                  reference: spec.reference ?? null,
+                  skipReason: reason,
+                  supersedes: cur?.id ?? null,
+                })
               }
               onConfirm={() =>
                 cur &&
@@ -145,7 +173,16 @@ export function RoundScreen({ roundId, initialStop = 0 }: { roundId: string; ini
             />
             {photos.length ? (
               <View style={styles.thumbs}>
-                {photos.map((p) => <PhotoThumb key={p.id} store={store} id={p.id} mime={p.mime} state={p.uploadState} testID={`photo-${spec.tag}`} />)}
+                {photos.map((p) => (
+                  <PhotoThumb
+                    key={p.id}
+                    store={store}
+                    id={p.id}
+                    mime={p.mime}
+                    state={p.uploadState}
+                    testID={`photo-${spec.tag}`}
+                  />
+                ))}
               </View>
             ) : null}
           </View>
@@ -165,16 +202,40 @@ export function RoundScreen({ roundId, initialStop = 0 }: { roundId: string; ini
             />
             {photos.length ? (
               <View style={styles.thumbs}>
-                {photos.map((p) => <PhotoThumb key={p.id} store={store} id={p.id} mime={p.mime} state={p.uploadState} testID={`photo-check-${c.id}`} />)}
+                {photos.map((p) => (
+                  <PhotoThumb
+                    key={p.id}
+                    store={store}
+                    id={p.id}
+                    mime={p.mime}
+                    state={p.uploadState}
+                    testID={`photo-check-${c.id}`}
+                  />
+                ))}
               </View>
             ) : null}
           </View>
         );
       })}
-      {problem ? <ThemedText tone="danger" testID="photo-problem">{problem}</ThemedText> : null}
+      {problem ? (
+        <ThemedText tone="danger" testID="photo-problem">
+          {problem}
+        </ThemedText>
+      ) : null}
       <View style={styles.nav}>
-        <Button testID="stop-prev" label="Previous stop" kind="plain" disabled={stopIndex === 0} onPress={() => setStopIndex((i) => Math.max(0, i - 1))} />
-        <Button testID="round-check" label="Check the round" kind="plain" onPress={() => router.push(`/tech/round/${roundId}/review`)} />
+        <Button
+          testID="stop-prev"
+          label="Previous stop"
+          kind="plain"
+          disabled={stopIndex === 0}
+          onPress={() => setStopIndex((i) => Math.max(0, i - 1))}
+        />
+        <Button
+          testID="round-check"
+          label="Check the round"
+          kind="plain"
+          onPress={() => router.push(`/tech/round/${roundId}/review`)}
+        />
         {stopIndex < data.template.stops.length - 1 ? (
           <Button testID="stop-next" label="Next stop" onPress={() => setStopIndex((i) => i + 1)} />
         ) : (
@@ -191,8 +252,16 @@ export function RoundScreen({ roundId, initialStop = 0 }: { roundId: string; ini
         <ThemedText testID="finish-complete">Every reading and check is done.</ThemedText>
       ) : (
         <View style={styles.gapSm} testID="finish-missing">
-          {missing.readings.map((m) => <ThemedText key={m.tag} testID={`missing-${m.tag}`}>Not read: {m.tag} ({m.stop})</ThemedText>)}
-          {missing.checks.map((m) => <ThemedText key={m.id} testID={`missing-check-${m.id}`}>Not answered: {m.prompt} ({m.stop})</ThemedText>)}
+          {missing.readings.map((m) => (
+            <ThemedText key={m.tag} testID={`missing-${m.tag}`}>
+              Not read: {m.tag} ({m.stop})
+            </ThemedText>
+          ))}
+          {missing.checks.map((m) => (
+            <ThemedText key={m.id} testID={`missing-check-${m.id}`}>
+              Not answered: {m.prompt} ({m.stop})
+            </ThemedText>
+          ))}
         </View>
       )}
       <RoundCheckSummary roundId={roundId} onOpen={() => router.push(`/tech/round/${roundId}/review`)} />
@@ -213,11 +282,26 @@ export function RoundScreen({ roundId, initialStop = 0 }: { roundId: string; ini
 
   return (
     <View style={styles.gapLg} testID="round-screen">
-      <ThemedText variant="title" testID="round-route">{data.routeName}</ThemedText>
-      {finished ? <ThemedText testID="round-finished" tone="ok">This round is finished. Its readings stay on the device until the server has them.</ThemedText> : null}
+      <ThemedText variant="title" testID="round-route">
+        {data.routeName}
+      </ThemedText>
+      {finished ? (
+        <ThemedText testID="round-finished" tone="ok">
+          This round is finished. Its readings stay on the device until the server has them.
+        </ThemedText>
+      ) : null}
       {wide ? (
         <View style={styles.wideRow}>
-          <View style={styles.side}><StopList stops={stops} current={stopIndex} onPick={(i) => { setStopIndex(i); setFinishing(false); }} /></View>
+          <View style={styles.side}>
+            <StopList
+              stops={stops}
+              current={stopIndex}
+              onPick={(i) => {
+                setStopIndex(i);
+                setFinishing(false);
+              }}
+            />
+          </View>
           <View style={styles.main}>{finishing ? finishPanel : stopBody}</View>
         </View>
       ) : finishing ? (

@@ -73,36 +73,63 @@ export function TodayScreen() {
   }, [store, site.data]);
 
   if (state === 'locked' || state === 'error') {
-    return <ThemedText tone="danger" testID="store-error">{error?.message}</ThemedText>;
+    return (
+      <ThemedText tone="danger" testID="store-error">
+        {error?.message}
+      </ThemedText>
+    );
   }
 
   return (
     <View style={styles.stack}>
       <View style={styles.who} testID="today-who">
-        <ThemedText variant="label" bold testID="home-name">{me.data?.name ?? user?.name}</ThemedText>
-        <ThemedText variant="label" muted>·</ThemedText>
-        <ThemedText variant="label" testID="home-role">{roleNames[me.data?.memberships.find((m) => m.siteId === siteId)?.role ?? 'technician']}</ThemedText>
-        <ThemedText variant="label" muted>·</ThemedText>
-        <ThemedText variant="label" testID="home-site">{site.data?.name ?? membership?.siteName}</ThemedText>
+        <ThemedText variant="label" bold testID="home-name">
+          {me.data?.name ?? user?.name}
+        </ThemedText>
+        <ThemedText variant="label" muted>
+          ·
+        </ThemedText>
+        <ThemedText variant="label" testID="home-role">
+          {roleNames[me.data?.memberships.find((m) => m.siteId === siteId)?.role ?? 'technician']}
+        </ThemedText>
+        <ThemedText variant="label" muted>
+          ·
+        </ThemedText>
+        <ThemedText variant="label" testID="home-site">
+          {site.data?.name ?? membership?.siteName}
+        </ThemedText>
       </View>
       <Card testID="sync-card">
         <ThemedText variant="label" testID="sync-summary">
-          {status ? `${status.waiting} waiting to send · ${status.photosWaiting} photos waiting · last sync ${time(status.lastSyncAt)}` : 'Opening the device store…'}
+          {status
+            ? `${status.waiting} waiting to send · ${status.photosWaiting} photos waiting · last sync ${time(status.lastSyncAt)}`
+            : 'Opening the device store…'}
         </ThemedText>
-        {status && status.refused > 0 ? <ThemedText tone="danger" testID="sync-refused">{status.refused} refused by the server — see the outbox.</ThemedText> : null}
+        {status && status.refused > 0 ? (
+          <ThemedText tone="danger" testID="sync-refused">
+            {status.refused} refused by the server — see the outbox.
+          </ThemedText>
+        ) : null}
         <OthersWaitingNote status={status} />
         <Link href="/tech/outbox" testID="open-outbox">
-          <ThemedText variant="label" bold tone="accent">Open the outbox</ThemedText>
+          <ThemedText variant="label" bold tone="accent">
+            Open the outbox
+          </ThemedText>
         </Link>
       </Card>
       <ThemedText variant="title">Routes</ThemedText>
       {data && data.routes.length === 0 ? (
-        <ThemedText muted testID="no-routes">No routes on this device yet. Connect once to load the site&apos;s routes; after that the rounds work without a network.</ThemedText>
+        <ThemedText muted testID="no-routes">
+          No routes on this device yet. Connect once to load the site&apos;s routes; after that the rounds work without
+          a network.
+        </ThemedText>
       ) : null}
       {data?.routes.map(({ route, stops, readings, openRoundId }) => (
         <Card key={route.id} testID={`route-${route.version.template.id}`}>
           <ThemedText variant="title">{route.name}</ThemedText>
-          <ThemedText variant="caption" muted>{stops} stops · {readings} readings · version {route.version.number}</ThemedText>
+          <ThemedText variant="caption" muted>
+            {stops} stops · {readings} readings · version {route.version.number}
+          </ThemedText>
           <Button
             testID={`route-${route.version.template.id}-${openRoundId ? 'resume' : 'begin'}`}
             label={openRoundId ? 'Carry on with this round' : 'Begin a round'}
@@ -126,7 +153,9 @@ export function TodayScreen() {
         <>
           <ThemedText variant="title">Finished on this device</ThemedText>
           {data.finished.map((f) => (
-            <ThemedText key={f.id} testID={`finished-${f.id}`}>{f.routeName} — {time(f.finishedAt)}</ThemedText>
+            <ThemedText key={f.id} testID={`finished-${f.id}`}>
+              {f.routeName} — {time(f.finishedAt)}
+            </ThemedText>
           ))}
         </>
       ) : null}

@@ -16,8 +16,12 @@ import { kindWords, statusWords } from './work-orders-screen';
 function Fact({ label, value, testID }: { label: string; value: string; testID?: string }) {
   return (
     <View style={styles.fact}>
-      <ThemedText variant="caption" muted>{label}</ThemedText>
-      <ThemedText variant="label" bold testID={testID}>{value}</ThemedText>
+      <ThemedText variant="caption" muted>
+        {label}
+      </ThemedText>
+      <ThemedText variant="label" bold testID={testID}>
+        {value}
+      </ThemedText>
     </View>
   );
 }
@@ -25,12 +29,19 @@ function Fact({ label, value, testID }: { label: string; value: string; testID?:
 function History({ wo }: { wo: WorkOrderDetail }) {
   return (
     <Card testID="wo-history">
-      <ThemedText variant="label" bold>History</ThemedText>
+      <ThemedText variant="label" bold>
+        History
+      </ThemedText>
       {[...wo.events].reverse().map((e) => (
         <View key={e.id} style={styles.event}>
-          <ThemedText variant="caption" muted>{`${new Date(e.at).toLocaleString()} · ${e.actor?.name ?? 'Trueround'}`}</ThemedText>
+          <ThemedText
+            variant="caption"
+            muted
+          >{`${new Date(e.at).toLocaleString()} · ${e.actor?.name ?? 'Trueround'}`}</ThemedText>
           <ThemedText variant="label">
-            {e.fromStatus && e.toStatus && e.fromStatus !== e.toStatus ? `${e.type}: ${statusWords[e.fromStatus]} → ${statusWords[e.toStatus]}` : e.type}
+            {e.fromStatus && e.toStatus && e.fromStatus !== e.toStatus
+              ? `${e.type}: ${statusWords[e.fromStatus]} → ${statusWords[e.toStatus]}`
+              : e.type}
             {e.comment ? ` — “${e.comment}”` : ''}
           </ThemedText>
         </View>
@@ -47,7 +58,12 @@ function History({ wo }: { wo: WorkOrderDetail }) {
 export function WorkOrderScreen({ id, cycleHref }: { id: string; cycleHref: (roundId: string) => Href }) {
   const q = useWorkOrder(id);
   const wide = useWide();
-  if (q.error) return <ThemedText tone="danger" testID="wo-error">{q.error.message}</ThemedText>;
+  if (q.error)
+    return (
+      <ThemedText tone="danger" testID="wo-error">
+        {q.error.message}
+      </ThemedText>
+    );
   if (!q.data) return <ThemedText muted>Loading…</ThemedText>;
   const wo = q.data;
   const closed = wo.status === 'done' || wo.status === 'cancelled';
@@ -55,12 +71,18 @@ export function WorkOrderScreen({ id, cycleHref }: { id: string; cycleHref: (rou
     <Card testID="wo-facts">
       <View style={styles.titleRow}>
         <SeverityMark severity={wo.priority as 1 | 2 | 3} testID="wo-priority" />
-        <ThemedText variant="label" bold testID="wo-status">{statusWords[wo.status]}</ThemedText>
+        <ThemedText variant="label" bold testID="wo-status">
+          {statusWords[wo.status]}
+        </ThemedText>
       </View>
       <ThemedText variant="title" testID="wo-title">{`${wo.number} · ${wo.title}`}</ThemedText>
       <View style={styles.facts}>
         <Fact label="Kind" value={kindWords[wo.kind]} />
-        <Fact label={wo.instrumentTag ? 'Instrument' : 'Equipment'} value={wo.instrumentTag ?? wo.equipmentRef ?? '—'} testID="wo-instrument" />
+        <Fact
+          label={wo.instrumentTag ? 'Instrument' : 'Equipment'}
+          value={wo.instrumentTag ?? wo.equipmentRef ?? '—'}
+          testID="wo-instrument"
+        />
         <Fact label="Assigned to" value={wo.assignee?.name ?? 'Nobody yet'} testID="wo-assignee" />
         <Fact label="Due" value={wo.dueDate ?? '—'} testID="wo-due" />
         <Fact label="Scheduled" value={wo.scheduledFor ?? '—'} />
@@ -81,7 +103,9 @@ export function WorkOrderScreen({ id, cycleHref }: { id: string; cycleHref: (rou
     <View style={styles.stack} testID="wo-detail">
       {!closed ? (
         <Caution testID="wo-caution">
-          {'The work is on live plant: steam and hot surfaces. Follow the site’s permit-to-work and lockout/tagout before anyone opens, isolates or removes an instrument.'}
+          {
+            'The work is on live plant: steam and hot surfaces. Follow the site’s permit-to-work and lockout/tagout before anyone opens, isolates or removes an instrument.'
+          }
         </Caution>
       ) : null}
       {facts}

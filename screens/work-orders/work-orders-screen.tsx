@@ -15,7 +15,14 @@ import { space } from '@/constants/theme';
 import { useSession } from '@/hooks/session';
 import { useWide } from '@/hooks/use-wide';
 import { useWorkOrders, type WorkOrderFilters } from '@/hooks/queries/work-orders';
-import { WORK_ORDER_KINDS, WORK_ORDER_SORTS, type WorkOrderKind, type WorkOrderSort, type WorkOrderStatus, type WorkOrderSummary } from '@/shared/api/work-orders';
+import {
+  WORK_ORDER_KINDS,
+  WORK_ORDER_SORTS,
+  type WorkOrderKind,
+  type WorkOrderSort,
+  type WorkOrderStatus,
+  type WorkOrderSummary,
+} from '@/shared/api/work-orders';
 
 export const statusWords: Record<WorkOrderStatus, string> = {
   open: 'New',
@@ -25,20 +32,39 @@ export const statusWords: Record<WorkOrderStatus, string> = {
   done: 'Done',
   cancelled: 'Cancelled',
 };
-export const kindWords: Record<WorkOrderKind, string> = { calibrate: 'Calibrate', repair: 'Repair', inspect: 'Inspect', clean: 'Clean', 'check-group': 'Check together' };
+export const kindWords: Record<WorkOrderKind, string> = {
+  calibrate: 'Calibrate',
+  repair: 'Repair',
+  inspect: 'Inspect',
+  clean: 'Clean',
+  'check-group': 'Check together',
+};
 
 const PAGE = 20;
 const isSort = (s: string): s is WorkOrderSort => (WORK_ORDER_SORTS as readonly string[]).includes(s);
 
 const columns: Column<WorkOrderSummary>[] = [
   { key: 'number', label: 'No.', flex: 0.8, sortKey: 'number', render: (w) => w.number, wideOnly: true },
-  { key: 'priority', label: 'Priority', flex: 1, sortKey: 'priority', render: (w) => <SeverityMark severity={w.priority as 1 | 2 | 3} /> },
+  {
+    key: 'priority',
+    label: 'Priority',
+    flex: 1,
+    sortKey: 'priority',
+    render: (w) => <SeverityMark severity={w.priority as 1 | 2 | 3} />,
+  },
   { key: 'title', label: 'What', flex: 3.2, render: (w) => w.title, wideOnly: true },
   { key: 'kind', label: 'Kind', flex: 0.9, render: (w) => kindWords[w.kind] },
   { key: 'status', label: 'Status', flex: 1, render: (w) => statusWords[w.status] },
   { key: 'assignee', label: 'Assigned to', flex: 1.3, render: (w) => w.assignee?.name ?? '—' },
   { key: 'due', label: 'Due', flex: 1, sortKey: 'dueDate', numeric: true, render: (w) => w.dueDate ?? '—' },
-  { key: 'opened', label: 'Opened', flex: 1, sortKey: 'openedAt', numeric: true, render: (w) => w.openedAt.slice(0, 10) },
+  {
+    key: 'opened',
+    label: 'Opened',
+    flex: 1,
+    sortKey: 'openedAt',
+    numeric: true,
+    render: (w) => w.openedAt.slice(0, 10),
+  },
 ];
 
 export function WorkOrdersScreen() {
@@ -53,62 +79,133 @@ export function WorkOrdersScreen() {
   const [offset, setOffset] = useState(0);
   const wide = useWide();
   const [showFilters, setShowFilters] = useState(false);
-  const chosenCount = priority.length + kind.length + (tag.trim() ? 1 : 0) + (status.length === 1 && status[0] === 'active' ? 0 : status.length);
+  const chosenCount =
+    priority.length +
+    kind.length +
+    (tag.trim() ? 1 : 0) +
+    (status.length === 1 && status[0] === 'active' ? 0 : status.length);
   const filters: WorkOrderFilters = { status, priority, kind, tag, q, sort, limit: PAGE, offset };
   const list = useWorkOrders(filters);
-  const reset = <T,>(set: (v: T) => void) => (v: T) => {
-    set(v);
-    setOffset(0);
-  };
+  const reset =
+    <T,>(set: (v: T) => void) =>
+    (v: T) => {
+      set(v);
+      setOffset(0);
+    };
 
   const groups = [
     {
       key: 'status',
       label: 'Status',
-      options: [{ value: 'active', label: 'Not closed' }, ...(['open', 'triaged', 'scheduled', 'in-progress', 'done', 'cancelled'] as const).map((s) => ({ value: s, label: statusWords[s] }))],
+      options: [
+        { value: 'active', label: 'Not closed' },
+        ...(['open', 'triaged', 'scheduled', 'in-progress', 'done', 'cancelled'] as const).map((s) => ({
+          value: s,
+          label: statusWords[s],
+        })),
+      ],
       chosen: status,
       onChange: reset(setStatus),
     } as FilterGroup<WorkOrderStatus | 'active'>,
-    { key: 'priority', label: 'Priority', options: [1, 2, 3].map((p) => ({ value: p, label: `${p} · ${['Urgent', 'Soon', 'Note'][p - 1]}` })), chosen: priority, onChange: reset(setPriority) } as FilterGroup<1 | 2 | 3>,
-    { key: 'kind', label: 'Kind', options: WORK_ORDER_KINDS.map((k) => ({ value: k, label: kindWords[k] })), chosen: kind, onChange: reset(setKind) } as FilterGroup<WorkOrderKind>,
+    {
+      key: 'priority',
+      label: 'Priority',
+      options: [1, 2, 3].map((p) => ({ value: p, label: `${p} · ${['Urgent', 'Soon', 'Note'][p - 1]}` })),
+      chosen: priority,
+      onChange: reset(setPriority),
+    } as FilterGroup<1 | 2 | 3>,
+    {
+      key: 'kind',
+      label: 'Kind',
+      options: WORK_ORDER_KINDS.map((k) => ({ value: k, label: kindWords[k] })),
+      chosen: kind,
+      onChange: reset(setKind),
+    } as FilterGroup<WorkOrderKind>,
   ] as unknown as FilterGroup<string | number>[];
 
   return (
     <View style={styles.stack}>
       <View style={styles.head}>
-        {!wide ? <Button label={showFilters ? 'Hide filters' : `Filters${chosenCount ? ` (${chosenCount})` : ''}`} kind="plain" selected={showFilters} testID="wo-filters-toggle" onPress={() => setShowFilters((v) => !v)} /> : null}
-        {membership ? <ExportButton path={`/api/sites/${membership.siteId}/exports/work-orders.csv`} filename="work-orders.csv" label="Export CSV" testID="wo-export" /> : null}
+        {!wide ? (
+          <Button
+            label={showFilters ? 'Hide filters' : `Filters${chosenCount ? ` (${chosenCount})` : ''}`}
+            kind="plain"
+            selected={showFilters}
+            testID="wo-filters-toggle"
+            onPress={() => setShowFilters((v) => !v)}
+          />
+        ) : null}
+        {membership ? (
+          <ExportButton
+            path={`/api/sites/${membership.siteId}/exports/work-orders.csv`}
+            filename="work-orders.csv"
+            label="Export CSV"
+            testID="wo-export"
+          />
+        ) : null}
       </View>
       {wide || showFilters ? (
-      <FilterBar groups={groups} testID="wo-filter">
-        <View style={styles.searches}>
-          <View style={styles.grow}>
-            <Field label="Search number, title or tag" value={q} onChangeText={reset(setQ)} autoCapitalize="characters" testID="wo-search" />
+        <FilterBar groups={groups} testID="wo-filter">
+          <View style={styles.searches}>
+            <View style={styles.grow}>
+              <Field
+                label="Search number, title or tag"
+                value={q}
+                onChangeText={reset(setQ)}
+                autoCapitalize="characters"
+                testID="wo-search"
+              />
+            </View>
+            <View style={styles.grow}>
+              <Field
+                label="Instrument tag"
+                value={tag}
+                onChangeText={reset(setTag)}
+                autoCapitalize="characters"
+                placeholder="e.g. TI-301"
+                testID="wo-filter-tag"
+              />
+            </View>
           </View>
-          <View style={styles.grow}>
-            <Field label="Instrument tag" value={tag} onChangeText={reset(setTag)} autoCapitalize="characters" placeholder="e.g. TI-301" testID="wo-filter-tag" />
-          </View>
-        </View>
-      </FilterBar>
+        </FilterBar>
       ) : null}
       {wide || showFilters ? (
-      <View style={styles.sortRow}>
-        <ThemedText variant="caption" muted>Sort</ThemedText>
-        {(
-          [
-            ['priority', 'Most urgent'],
-            ['dueDate', 'Due first'],
-            ['-openedAt', 'Newest'],
-            ['number', 'Number'],
-          ] as const
-        ).map(([k, label]) => (
-          <Button key={k} label={label} kind={sort === k ? 'primary' : 'plain'} selected={sort === k} testID={`wo-sort-${k}`} onPress={() => setSort(k)} />
-        ))}
-      </View>
+        <View style={styles.sortRow}>
+          <ThemedText variant="caption" muted>
+            Sort
+          </ThemedText>
+          {(
+            [
+              ['priority', 'Most urgent'],
+              ['dueDate', 'Due first'],
+              ['-openedAt', 'Newest'],
+              ['number', 'Number'],
+            ] as const
+          ).map(([k, label]) => (
+            <Button
+              key={k}
+              label={label}
+              kind={sort === k ? 'primary' : 'plain'}
+              selected={sort === k}
+              testID={`wo-sort-${k}`}
+              onPress={() => setSort(k)}
+            />
+          ))}
+        </View>
       ) : (
-        <Field label="Search number, title or tag" value={q} onChangeText={reset(setQ)} autoCapitalize="characters" testID="wo-search" />
+        <Field
+          label="Search number, title or tag"
+          value={q}
+          onChangeText={reset(setQ)}
+          autoCapitalize="characters"
+          testID="wo-search"
+        />
       )}
-      {list.error ? <ThemedText tone="danger" testID="wo-list-error">{list.error.message}</ThemedText> : null}
+      {list.error ? (
+        <ThemedText tone="danger" testID="wo-list-error">
+          {list.error.message}
+        </ThemedText>
+      ) : null}
       {list.isPending ? <ThemedText muted>Loading…</ThemedText> : null}
       {list.data ? (
         <>
@@ -118,9 +215,7 @@ export function WorkOrdersScreen() {
             rowKey={(w) => w.id}
             testID="wo-table"
             rowTestID={(w) => `wo-row-${w.number}`}
-            cardTitle={(w) => (
-              <ThemedText variant="label" bold>{`${w.number} · ${w.title}`}</ThemedText>
-            )}
+            cardTitle={(w) => <ThemedText variant="label" bold>{`${w.number} · ${w.title}`}</ThemedText>}
             sort={sort}
             onSort={(s) => isSort(s) && setSort(s)}
             onPressRow={(w) => router.push(`/plan/work-orders/${w.id}`)}

@@ -7,7 +7,12 @@
  * The wire schemas are in shared/api/admin.ts.
  */
 import { Router } from 'express';
-import { InvitationRequest, PublishVersionRequest, type InvitationResult, type PublishVersionResponse } from '../../shared/api/admin';
+import {
+  InvitationRequest,
+  PublishVersionRequest,
+  type InvitationResult,
+  type PublishVersionResponse,
+} from '../../shared/api/admin';
 import { authOf, requireAuth, requireSiteRole, siteOf } from '../auth/middleware';
 import { deps } from '../context';
 import { AppError, validationError } from '../errors';
@@ -31,7 +36,13 @@ export function adminRouter(): Router {
     if (!UUID.test(routeId)) throw new AppError(404, 'not_found', 'Route not found on this site');
     const body = PublishVersionRequest.safeParse(req.body);
     if (!body.success) throw validationError(body.error, 'route version');
-    const out: PublishVersionResponse = await publishVersion(deps(req).dataSource, siteOf(req).siteId, routeId, body.data.template, authOf(req).userId);
+    const out: PublishVersionResponse = await publishVersion(
+      deps(req).dataSource,
+      siteOf(req).siteId,
+      routeId,
+      body.data.template,
+      authOf(req).userId,
+    );
     res.status(201).json(out);
   });
 

@@ -14,7 +14,17 @@
  * instruments a decision names.
  */
 import type { EntityManager } from 'typeorm';
-import { CUSUM_H, CUSUM_K, cusumOver, decideEvidence, GROSS_Z, ATTEND, type EvidenceDecision, type InstrumentEvidence, type RoundAnalysis } from '../../shared/cycle';
+import {
+  CUSUM_H,
+  CUSUM_K,
+  cusumOver,
+  decideEvidence,
+  GROSS_Z,
+  ATTEND,
+  type EvidenceDecision,
+  type InstrumentEvidence,
+  type RoundAnalysis,
+} from '../../shared/cycle';
 import { messages } from '../../shared/cycle/messages';
 import type { ServerFinding } from './plant-checks';
 
@@ -40,7 +50,9 @@ export async function instrumentEvidence(
   /** this round's own readings: instrument id → reading time */
   own: ReadonlyMap<string, Date>,
 ): Promise<EvidenceOutcome> {
-  const tested = analysis.instruments.filter((i) => i.u !== null && i.redundant && idByTag.has(i.tag) && own.has(idByTag.get(i.tag)!));
+  const tested = analysis.instruments.filter(
+    (i) => i.u !== null && i.redundant && idByTag.has(i.tag) && own.has(idByTag.get(i.tag)!),
+  );
   const ids = tested.map((i) => idByTag.get(i.tag)!);
   const rows = ids.length
     ? ((await em.query(

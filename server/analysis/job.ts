@@ -25,12 +25,23 @@
 import { createHash } from 'node:crypto';
 import type { DataSource } from 'typeorm';
 import type { RouteTemplate } from '../../shared/route/template';
-import { analyseRound, canonicalJson, type CycleModel, type RoundAnalysis, type RoundReading } from '../../shared/cycle';
+import {
+  analyseRound,
+  canonicalJson,
+  type CycleModel,
+  type RoundAnalysis,
+  type RoundReading,
+} from '../../shared/cycle';
 import { assembleRoundCheck, roundsFromRows, type ReadingRow } from '../../shared/round-check';
 import { barometricFromElevation } from '../../shared/units';
 import type { Logger } from '../logger';
 import { notifySafely, type Notifier } from '../notify';
-import { workOrdersFromFindings, type StoredFinding, type UnitInstrument, type WorkOrderChanges } from '../work-orders/from-findings';
+import {
+  workOrdersFromFindings,
+  type StoredFinding,
+  type UnitInstrument,
+  type WorkOrderChanges,
+} from '../work-orders/from-findings';
 import { instrumentEvidence } from './evidence';
 import { serverFindings } from './plant-checks';
 
@@ -60,11 +71,9 @@ interface RoundRow {
   elevation_m: number;
 }
 
-
 interface InstrumentRow extends UnitInstrument {
   isBarometer: boolean;
 }
-
 
 const sha256 = (text: string) => createHash('sha256').update(text).digest('hex');
 
@@ -91,7 +100,9 @@ export async function runAnalysisJob(deps: AnalysisDeps, roundId: string): Promi
     if (!round) return { status: 'skipped', roundId, reason: 'the round does not exist (any more)' };
     if (round.status !== 'finished') return { status: 'skipped', roundId, reason: 'the round is still in progress' };
 
-    const [unit] = (await em.query(`SELECT "id", "model", "model_version" FROM "units" WHERE "id" = $1`, [round.unit_id])) as {
+    const [unit] = (await em.query(`SELECT "id", "model", "model_version" FROM "units" WHERE "id" = $1`, [
+      round.unit_id,
+    ])) as {
       id: string;
       model: CycleModel;
       model_version: string;
@@ -107,7 +118,10 @@ export async function runAnalysisJob(deps: AnalysisDeps, roundId: string): Promi
     // this round's current readings, and for instruments its route does not read the latest
     // readings of the unit's other rounds within ROUND_CHECK_WINDOW_HOURS; earlier rounds of the same
     // route feed the stuck-value check. Same code, same rows → the same answer on both sides.
-    const [{ started }] = (await em.query(`SELECT "started_at_device" AS "started", "finished_at_device" AS "finished" FROM "rounds" WHERE "id" = $1`, [round.id])) as {
+    const [{ started }] = (await em.query(
+      `SELECT "started_at_device" AS "started", "finished_at_device" AS "finished" FROM "rounds" WHERE "id" = $1`,
+      [round.id],
+    )) as {
       started: Date;
       finished: Date | null;
     }[];
@@ -121,7 +135,15 @@ export async function runAnalysisJob(deps: AnalysisDeps, roundId: string): Promi
         ORDER BY r."started_at_device" DESC, r."id"
         LIMIT 200`,
       [unit.id, started],
-    )) as { id: string; routeId: string; routeName: string; template: RouteTemplate; startedAt: Date; finishedAt: Date | null; status: 'in-progress' | 'finished' }[];
+    )) as {
+      id: string;
+      routeId: string;
+      routeName: string;
+      template: RouteTemplate;
+      startedAt: Date;
+      finishedAt: Date | null;
+      status: 'in-progress' | 'finished';
+    }[];
     if (!nearby.some((r) => r.id === round.id)) {
       const [me] = (await em.query(
         `SELECT r."id", v."route_id" AS "routeId", rt."name" AS "routeName", v."template", r."started_at_device" AS "startedAt",
@@ -139,10 +161,15 @@ export async function runAnalysisJob(deps: AnalysisDeps, roundId: string): Promi
         ORDER BY r."round_id", r."device_time", r."id"`,
       [nearby.map((r) => r.id)],
     )) as (ReadingRow & { deviceTime: Date | string; instrumentId: string })[];
-    const iso = (d: Date | string | null) => (d === null ? null : d instanceof Date ? d.toISOString() : new Date(d).toISOString());
+    const iso = (d: Date | string | null) =>
+      d === null ? null : d instanceof Date ? d.toISOString() : new Date(d).toISOString();
     const checkRounds = roundsFromRows(
       nearby.map((r) => ({ ...r, startedAt: iso(r.startedAt)!, finishedAt: iso(r.finishedAt) })),
-      readingRows.map((r) => ({ ...r, valueSi: r.valueSi === null ? null : Number(r.valueSi), deviceTime: iso(r.deviceTime)! })),
+      readingRows.map((r) => ({
+        ...r,
+        valueSi: r.valueSi === null ? null : Number(r.valueSi),
+        deviceTime: iso(r.deviceTime)!,
+      })),
       round.elevation_m,
     );
     const me = checkRounds.find((r) => r.id === round.id)!;
@@ -154,22 +181,36 @@ export async function runAnalysisJob(deps: AnalysisDeps, roundId: string): Promi
     });
     const readings: RoundReading[] = assembled.readings;
     const barometricPa = assembled.context.barometricPa ?? me.barometricPa;
-    const barometricSource: 'reading' | 'elevation' = me.barometricPa === barometricFromElevation(round.elevation_m) ? 'elevation' : 'reading';
+    const barometricSource: 'reading' | 'elevation' =
+      me.barometricPa === barometricFromElevation(round.elevation_m) ? 'elevation' : 'reading';
     // this round's own current readings (the per-instrument rows below are kept for these only)
-    const ownIds = new Set(Object.values(assembled.sources).filter((x) => x.own).map((x) => x.readingId));
+    const ownIds = new Set(
+      Object.values(assembled.sources)
+        .filter((x) => x.own)
+        .map((x) => x.readingId),
+    );
     const mine = readingRows
       .filter((r) => ownIds.has(r.id))
-      .map((r) => ({ id: r.id, round_id: round.id, instrument_id: r.instrumentId, value_si: r.valueSi, device_time: new Date(iso(r.deviceTime)!) }));
+      .map((r) => ({
+        id: r.id,
+        round_id: round.id,
+        instrument_id: r.instrumentId,
+        value_si: r.valueSi,
+        device_time: new Date(iso(r.deviceTime)!),
+      }));
     const inputHash = sha256(canonicalJson({ modelVersion: unit.model_version, context: assembled.context, readings }));
 
-    const [existing] = (await em.query(`SELECT "id", "is_current" FROM "analyses" WHERE "round_id" = $1 AND "input_hash" = $2`, [
-      round.id,
-      inputHash,
-    ])) as { id: string; is_current: boolean }[];
+    const [existing] = (await em.query(
+      `SELECT "id", "is_current" FROM "analyses" WHERE "round_id" = $1 AND "input_hash" = $2`,
+      [round.id, inputHash],
+    )) as { id: string; is_current: boolean }[];
     if (existing) {
       if (!existing.is_current) {
         await em.query(`UPDATE "analyses" SET "is_current" = false WHERE "round_id" = $1 AND "is_current"`, [round.id]);
-        await em.query(`UPDATE "analysis_instruments" SET "is_current" = false WHERE "round_id" = $1 AND "is_current"`, [round.id]);
+        await em.query(
+          `UPDATE "analysis_instruments" SET "is_current" = false WHERE "round_id" = $1 AND "is_current"`,
+          [round.id],
+        );
         await em.query(`UPDATE "analyses" SET "is_current" = true WHERE "id" = $1`, [existing.id]);
         await em.query(`UPDATE "analysis_instruments" SET "is_current" = true WHERE "analysis_id" = $1`, [existing.id]);
       }
@@ -180,13 +221,25 @@ export async function runAnalysisJob(deps: AnalysisDeps, roundId: string): Promi
 
     const analysis = analyseRound(unit.model, readings, assembled.context);
     const routeTags = new Set(round.template.stops.flatMap((s) => s.readings.map((r) => r.tag)));
-    const modelVersionMismatch = round.device_model_version !== null && round.device_model_version !== unit.model_version;
+    const modelVersionMismatch =
+      round.device_model_version !== null && round.device_model_version !== unit.model_version;
 
     await em.query(`UPDATE "analyses" SET "is_current" = false WHERE "round_id" = $1 AND "is_current"`, [round.id]);
-    await em.query(`UPDATE "analysis_instruments" SET "is_current" = false WHERE "round_id" = $1 AND "is_current"`, [round.id]);
+    await em.query(`UPDATE "analysis_instruments" SET "is_current" = false WHERE "round_id" = $1 AND "is_current"`, [
+      round.id,
+    ]);
     // sequential evidence over each instrument's own rounds (./evidence.ts): who may get a work order
-    const evidence = await instrumentEvidence(em, round.id, analysis, idByTag, new Map(mine.map((r) => [r.instrument_id, r.device_time])));
-    const findings = [...serverFindings(unit.model, analysis.findings, analysis.performance, routeTags), ...evidence.findings];
+    const evidence = await instrumentEvidence(
+      em,
+      round.id,
+      analysis,
+      idByTag,
+      new Map(mine.map((r) => [r.instrument_id, r.device_time])),
+    );
+    const findings = [
+      ...serverFindings(unit.model, analysis.findings, analysis.performance, routeTags),
+      ...evidence.findings,
+    ];
     const [{ id: analysisId }] = (await em.query(
       `INSERT INTO "analyses" ("round_id", "site_id", "unit_id", "input_hash", "model_version", "device_model_version", "model_version_mismatch",
                                "barometric_pa", "barometric_source", "state_points", "balances", "performance", "instruments", "reconciliation", "finding_count")
@@ -307,7 +360,11 @@ export async function runAnalysisJob(deps: AnalysisDeps, roundId: string): Promi
         instruments: byId,
         suspects,
         named: evidence.named,
-        z: new Map(analysis.instruments.filter((ir) => ir.z !== null && Number.isFinite(ir.z)).map((ir) => [ir.tag, ir.z as number])),
+        z: new Map(
+          analysis.instruments
+            .filter((ir) => ir.z !== null && Number.isFinite(ir.z))
+            .map((ir) => [ir.tag, ir.z as number]),
+        ),
       },
       stored,
     );
@@ -324,7 +381,13 @@ export async function runAnalysisJob(deps: AnalysisDeps, roundId: string): Promi
       }
     }
     logger.info(
-      { roundId, analysisId: result.analysisId, findings: result.findings, opened: result.workOrders.opened.length, attached: result.workOrders.attached.length },
+      {
+        roundId,
+        analysisId: result.analysisId,
+        findings: result.findings,
+        opened: result.workOrders.opened.length,
+        attached: result.workOrders.attached.length,
+      },
       'round analysed',
     );
   }

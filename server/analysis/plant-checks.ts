@@ -41,7 +41,8 @@ function designTtd(model: CycleModel, condenserId: string): number | null {
 export function condenserChecks(model: CycleModel, performance: readonly PerformanceFigure[]): ServerFinding[] {
   const out: ServerFinding[] = [];
   for (const f of performance) {
-    if (f.kind !== 'condenser-ttd' || !f.equipmentId || typeof f.value !== 'number' || !Number.isFinite(f.value)) continue;
+    if (f.kind !== 'condenser-ttd' || !f.equipmentId || typeof f.value !== 'number' || !Number.isFinite(f.value))
+      continue;
     // a TTD the instruments cannot determine says nothing about the tubes
     if (f.uncertainty && !f.uncertainty.determinable) continue;
     const design = designTtd(model, f.equipmentId);
@@ -56,14 +57,28 @@ export function condenserChecks(model: CycleModel, performance: readonly Perform
       instrumentIds: [],
       equipmentId: f.equipmentId,
       message: `${label}: terminal temperature difference ${f.value.toFixed(1)} K${f.uncertainty ? ` ± ${f.uncertainty.U.toFixed(1)} K (95 %)` : ''} against ${design.toFixed(1)} K at design, more than the ${CONDENSER_TTD_MARGIN_K} K allowed over design: the tubes may be fouled (or air is leaking in).`,
-      evidence: { ttd: f.value, ttdU95: f.uncertainty?.U ?? null, measuredTtd: f.measured, designTtd: design, limit, marginK: CONDENSER_TTD_MARGIN_K },
+      evidence: {
+        ttd: f.value,
+        ttdU95: f.uncertainty?.U ?? null,
+        measuredTtd: f.measured,
+        designTtd: design,
+        limit,
+        marginK: CONDENSER_TTD_MARGIN_K,
+      },
     });
   }
   return out;
 }
 
 /** The round's findings as stored: route-aware missing readings, plus the server's plant checks. */
-export function serverFindings(model: CycleModel, findings: readonly Finding[], performance: readonly PerformanceFigure[], routeTags: ReadonlySet<string>): ServerFinding[] {
-  const kept: ServerFinding[] = findings.filter((f) => f.kind !== 'missing-reading' || f.instrumentTags.some((t) => routeTags.has(t)));
+export function serverFindings(
+  model: CycleModel,
+  findings: readonly Finding[],
+  performance: readonly PerformanceFigure[],
+  routeTags: ReadonlySet<string>,
+): ServerFinding[] {
+  const kept: ServerFinding[] = findings.filter(
+    (f) => f.kind !== 'missing-reading' || f.instrumentTags.some((t) => routeTags.has(t)),
+  );
   return [...kept, ...condenserChecks(model, performance)];
 }

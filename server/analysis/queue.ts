@@ -115,9 +115,10 @@ export async function startAnalysisRuntime(o: AnalysisRuntimeOptions): Promise<A
   };
   const enqueue = async (roundIds: string[]): Promise<string[]> => {
     if (roundIds.length === 0) return [];
-    const rows = (await dataSource.query(`SELECT "id" AS "roundId", "site_id" AS "siteId" FROM "rounds" WHERE "id" = ANY($1::uuid[]) ORDER BY "server_seq"`, [
-      roundIds,
-    ])) as AnalysisJobData[];
+    const rows = (await dataSource.query(
+      `SELECT "id" AS "roundId", "site_id" AS "siteId" FROM "rounds" WHERE "id" = ANY($1::uuid[]) ORDER BY "server_seq"`,
+      [roundIds],
+    )) as AnalysisJobData[];
     return enqueueData(rows);
   };
   const sweep = async (): Promise<number> => {
@@ -138,7 +139,10 @@ export async function startAnalysisRuntime(o: AnalysisRuntimeOptions): Promise<A
           ? async (roundId) => {
               await o.beforeCommit?.(roundId);
               if (faultMs > 0) {
-                logger.warn({ roundId, pid: process.pid, ms: faultMs }, 'analysis paused before commit (fault injection)');
+                logger.warn(
+                  { roundId, pid: process.pid, ms: faultMs },
+                  'analysis paused before commit (fault injection)',
+                );
                 await sleep(faultMs);
               }
             }
@@ -154,7 +158,11 @@ export async function startAnalysisRuntime(o: AnalysisRuntimeOptions): Promise<A
         if (out.status === 'unchanged') return { status: out.status, analysisId: out.analysisId };
         return { status: out.status, reason: out.reason };
       };
-      me.id = await boss.work<AnalysisJobData>(ANALYSIS_QUEUE, { batchSize: 1, pollingIntervalSeconds: config.ANALYSIS_POLL_MS / 1000 }, handle);
+      me.id = await boss.work<AnalysisJobData>(
+        ANALYSIS_QUEUE,
+        { batchSize: 1, pollingIntervalSeconds: config.ANALYSIS_POLL_MS / 1000 },
+        handle,
+      );
       workerIds.push(me.id);
     }
     if (config.ANALYSIS_SWEEP_INTERVAL_S > 0) {

@@ -53,11 +53,23 @@ export async function readingOrigins(
     const base = { tag: i.tag, pointId: i.pointId ?? null, equipmentId: i.equipmentId ?? null };
     if (own.has(i.tag)) {
       const t = own.get(i.tag);
-      return { ...base, own: true, roundId: a.roundId, routeName: null, measuredAt: t ? new Date(t).toISOString() : null };
+      return {
+        ...base,
+        own: true,
+        roundId: a.roundId,
+        routeName: null,
+        measuredAt: t ? new Date(t).toISOString() : null,
+      };
     }
     const f = found.get(i.tag);
     if (f && same(Number(f.value_si), i.reading!)) {
-      return { ...base, own: false, roundId: f.round_id, routeName: f.route_name, measuredAt: new Date(f.device_time).toISOString() };
+      return {
+        ...base,
+        own: false,
+        roundId: f.round_id,
+        routeName: f.route_name,
+        measuredAt: new Date(f.device_time).toISOString(),
+      };
     }
     return { ...base, own: false, roundId: null, routeName: null, measuredAt: null };
   });

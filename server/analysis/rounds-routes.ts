@@ -14,8 +14,16 @@ import { validationError } from '../errors';
 /** Who may list analysed rounds. */
 export const ROUND_LIST_ROLES = ['planner', 'engineer'] as const;
 
-export async function analysedRounds(ds: DataSource, siteId: string, page: number, limit: number): Promise<AnalysedRoundsResponse> {
-  const [{ total }] = (await ds.query(`SELECT count(*)::int AS "total" FROM "analyses" a WHERE a."site_id" = $1 AND a."is_current"`, [siteId])) as {
+export async function analysedRounds(
+  ds: DataSource,
+  siteId: string,
+  page: number,
+  limit: number,
+): Promise<AnalysedRoundsResponse> {
+  const [{ total }] = (await ds.query(
+    `SELECT count(*)::int AS "total" FROM "analyses" a WHERE a."site_id" = $1 AND a."is_current"`,
+    [siteId],
+  )) as {
     total: number;
   }[];
   const rows = (await ds.query(

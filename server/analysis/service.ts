@@ -19,7 +19,10 @@ const clockSkewS = (serverMinusDeviceMs: string | number): number => -Number(ser
 
 export async function roundAnalysis(ds: DataSource, siteId: string, roundId: string): Promise<RoundAnalysisResponse> {
   if (!UUID_RE.test(roundId)) throw new AppError(404, 'not_found', 'Round not found on this site');
-  const [round] = (await ds.query(`SELECT "id", "status", "client_clock_skew_ms" FROM "rounds" WHERE "id" = $1 AND "site_id" = $2`, [roundId, siteId])) as {
+  const [round] = (await ds.query(
+    `SELECT "id", "status", "client_clock_skew_ms" FROM "rounds" WHERE "id" = $1 AND "site_id" = $2`,
+    [roundId, siteId],
+  )) as {
     id: string;
     status: string;
     client_clock_skew_ms: string;
@@ -48,10 +51,15 @@ export async function roundAnalysis(ds: DataSource, siteId: string, roundId: str
     instruments: RoundAnalysisResponse['instruments'];
   }[];
   if (!a) {
-    throw new AppError(404, 'not_found', `Round ${roundId} has no analysis yet${round.status === 'finished' ? ' (it is queued)' : ' (it is still in progress)'}`, {
-      analysed: false,
-      roundStatus: round.status,
-    });
+    throw new AppError(
+      404,
+      'not_found',
+      `Round ${roundId} has no analysis yet${round.status === 'finished' ? ' (it is queued)' : ' (it is still in progress)'}`,
+      {
+        analysed: false,
+        roundStatus: round.status,
+      },
+    );
   }
   const findings = (await ds.query(
     `SELECT f."id", f."kind", f."severity", f."instrument_tags", f."instrument_ids", f."equipment_ref", f."point_ref", f."message", f."evidence",
@@ -75,7 +83,12 @@ export async function roundAnalysis(ds: DataSource, siteId: string, roundId: str
     evidence: Record<string, unknown>;
     work_orders: { id: string; number: string }[];
   }[];
-  const origins = await readingOrigins(ds, { id: a.id, roundId: a.round_id, unitId: a.unit_id, instruments: a.instruments });
+  const origins = await readingOrigins(ds, {
+    id: a.id,
+    roundId: a.round_id,
+    unitId: a.unit_id,
+    instruments: a.instruments,
+  });
   return {
     id: a.id,
     roundId: a.round_id,
@@ -93,20 +106,18 @@ export async function roundAnalysis(ds: DataSource, siteId: string, roundId: str
     balances: a.balances,
     performance: a.performance,
     instruments: a.instruments,
-    findings: findings.map(
-      (f): FindingView => ({
-        id: f.id,
-        kind: f.kind,
-        severity: f.severity,
-        instrumentTags: f.instrument_tags,
-        instrumentIds: f.instrument_ids,
-        equipmentRef: f.equipment_ref,
-        pointRef: f.point_ref,
-        message: f.message,
-        evidence: f.evidence,
-        workOrders: f.work_orders,
-      }),
-    ),
+    findings: findings.map((f): FindingView => ({
+      id: f.id,
+      kind: f.kind,
+      severity: f.severity,
+      instrumentTags: f.instrument_tags,
+      instrumentIds: f.instrument_ids,
+      equipmentRef: f.equipment_ref,
+      pointRef: f.point_ref,
+      message: f.message,
+      evidence: f.evidence,
+      workOrders: f.work_orders,
+    })),
     readingOrigins: origins,
   };
 }
@@ -124,7 +135,12 @@ interface JobRow {
   output: { message?: unknown; value?: { message?: unknown } } | null;
 }
 
-export async function analysisJobs(ds: DataSource, siteId: string, states: string[], limit: number): Promise<AnalysisJobsResponse> {
+export async function analysisJobs(
+  ds: DataSource,
+  siteId: string,
+  states: string[],
+  limit: number,
+): Promise<AnalysisJobsResponse> {
   const [{ job, archive }] = (await ds.query(`SELECT to_regclass($1) AS "job", to_regclass($2) AS "archive"`, [
     `${PGBOSS_SCHEMA}.job`,
     `${PGBOSS_SCHEMA}.archive`,

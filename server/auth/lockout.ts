@@ -55,13 +55,21 @@ export async function recordFailedSignIn(ds: DataSource, userId: string, now = n
       await queueMail(em, [lockedNotice(u, until)]);
       return until;
     }
-    await users.update({ id: userId }, { failedSignIns: count, failedSignInsSince: fresh ? now : u.failedSignInsSince });
+    await users.update(
+      { id: userId },
+      { failedSignIns: count, failedSignInsSince: fresh ? now : u.failedSignInsSince },
+    );
     return null;
   });
 }
 
 /** A successful sign-in forgets earlier failures (and an expired lock). */
-export async function resetFailedSignIns(db: DataSource | EntityManager, user: Pick<User, 'id' | 'failedSignIns' | 'failedSignInsSince' | 'lockedUntil'>): Promise<void> {
+export async function resetFailedSignIns(
+  db: DataSource | EntityManager,
+  user: Pick<User, 'id' | 'failedSignIns' | 'failedSignInsSince' | 'lockedUntil'>,
+): Promise<void> {
   if (user.failedSignIns === 0 && !user.failedSignInsSince && !user.lockedUntil) return;
-  await db.getRepository(UserEntity).update({ id: user.id }, { failedSignIns: 0, failedSignInsSince: null, lockedUntil: null });
+  await db
+    .getRepository(UserEntity)
+    .update({ id: user.id }, { failedSignIns: 0, failedSignInsSince: null, lockedUntil: null });
 }

@@ -63,7 +63,11 @@ export function requireSiteRole(...roles: Role[]): RequestHandler {
       .findOne({ where: { userId, siteId: siteId.data } });
     if (!membership) throw siteNotFound();
     if (roles.length > 0 && !roles.includes(membership.role)) {
-      throw new AppError(403, 'forbidden', `This needs the role ${roles.join(' or ')} on this site; you are ${membership.role}`);
+      throw new AppError(
+        403,
+        'forbidden',
+        `This needs the role ${roles.join(' or ')} on this site; you are ${membership.role}`,
+      );
     }
     req.site = { siteId: siteId.data, role: membership.role };
     next();

@@ -116,9 +116,18 @@ export function passwordProblem(password: string, email: string, name = ''): str
   }
   if (COMMON_PASSWORDS.has(p)) return 'Is one of the most commonly used passwords; choose another';
   if (p.startsWith('trueround')) return 'Must not be built on the name of the service';
-  if (new Set(p).size === 1 || isSequence(p)) return 'Must not be one character repeated or a plain run like 123456789012';
+  if (new Set(p).size === 1 || isSequence(p))
+    return 'Must not be one character repeated or a plain run like 123456789012';
   const domain = e.split('@')[1] ?? '';
-  const words = [e, local, squashed, ...local.split(/[._+-]+/), domain.split('.')[0] ?? '', ...name.toLowerCase().split(/\s+/), 'trueround'].filter((w) => w.length >= 3);
+  const words = [
+    e,
+    local,
+    squashed,
+    ...local.split(/[._+-]+/),
+    domain.split('.')[0] ?? '',
+    ...name.toLowerCase().split(/\s+/),
+    'trueround',
+  ].filter((w) => w.length >= 3);
   const r = estimate(password, [...new Set(words)]);
   if (r.score < MIN_SCORE) {
     const why = r.feedback.warning ? ` (${r.feedback.warning.replace(/\.$/, '')})` : '';

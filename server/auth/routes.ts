@@ -34,7 +34,8 @@ export const ChangePasswordRequest = z.object({
 /** RFC 9110 §10.2.3 Retry-After on a 429 whose details say how long to wait. */
 function withRetryAfter(res: Response, err: unknown): never {
   const d = err instanceof AppError ? (err.details as { retryAfterS?: unknown } | null) : null;
-  if (err instanceof AppError && err.status === 429 && typeof d?.retryAfterS === 'number') res.setHeader('Retry-After', String(d.retryAfterS));
+  if (err instanceof AppError && err.status === 429 && typeof d?.retryAfterS === 'number')
+    res.setHeader('Retry-After', String(d.retryAfterS));
   throw err;
 }
 
@@ -78,7 +79,11 @@ export function authRouter(config: Config): Router {
   r.post('/password', requireAuth, async (req, res) => {
     const input = parseBody(ChangePasswordRequest, req);
     const { config, dataSource } = deps(req);
-    res.json(await changePassword(dataSource, config, authOf(req).userId, input).catch((err: unknown) => withRetryAfter(res, err)));
+    res.json(
+      await changePassword(dataSource, config, authOf(req).userId, input).catch((err: unknown) =>
+        withRetryAfter(res, err),
+      ),
+    );
   });
 
   return r;

@@ -116,9 +116,7 @@ export async function refreshTokens(ds: DataSource, config: TokenConfig, present
 }
 
 export async function revokeFamily(db: DataSource | EntityManager, familyId: string): Promise<void> {
-  await db
-    .getRepository(RefreshTokenEntity)
-    .update({ familyId, revokedAt: IsNull() }, { revokedAt: new Date() });
+  await db.getRepository(RefreshTokenEntity).update({ familyId, revokedAt: IsNull() }, { revokedAt: new Date() });
 }
 
 /**
@@ -146,7 +144,8 @@ export async function changePassword(
 ): Promise<TokenPair> {
   const user = await ds.getRepository(UserEntity).findOne({ where: { id: userId } });
   if (!user || user.disabled) throw new AppError(401, 'unauthorized', 'This account no longer exists or is disabled');
-  const wrongCurrent = () => new AppError(403, 'forbidden', 'The current password is wrong', [{ path: 'currentPassword', message: 'Is wrong' }]);
+  const wrongCurrent = () =>
+    new AppError(403, 'forbidden', 'The current password is wrong', [{ path: 'currentPassword', message: 'Is wrong' }]);
   // as at sign-in: a locked account's password is not looked at, and the answer is the wrong-password one
   if (isLocked(user)) {
     await burnPasswordCheck(input.currentPassword);
@@ -164,7 +163,9 @@ export async function changePassword(
   }
   const hash = await hashPassword(input.newPassword);
   return ds.transaction(async (em) => {
-    await em.getRepository(UserEntity).update({ id: userId }, { passwordHash: hash, failedSignIns: 0, failedSignInsSince: null, lockedUntil: null });
+    await em
+      .getRepository(UserEntity)
+      .update({ id: userId }, { passwordHash: hash, failedSignIns: 0, failedSignInsSince: null, lockedUntil: null });
     await em.getRepository(RefreshTokenEntity).update({ userId, revokedAt: IsNull() }, { revokedAt: new Date() });
     const { accessToken, refreshToken } = await issuePair(em, config, userId, randomUUID());
     return { accessToken, refreshToken };

@@ -12,7 +12,11 @@ async function main(): Promise<void> {
   try {
     if (await ds.showMigrations()) throw new Error('migrations are pending: run `npx tsx server/cli/migrate.ts` first');
     const r = await seedDemo(ds);
-    console.log(r.seeded ? `[seed] demo loaded: ${r.sites} sites, ${r.users} users` : '[seed] a site exists already; demo not loaded');
+    console.log(
+      r.seeded
+        ? `[seed] demo loaded: ${r.sites} sites, ${r.users} users`
+        : '[seed] a site exists already; demo not loaded',
+    );
     const h = r.history;
     if (h) {
       console.log(

@@ -33,7 +33,12 @@ export function devRouter(mailboxEnabled: boolean): Router {
   r.get(
     '/mailbox',
     (req, _res, next) => {
-      if (!mailboxEnabled) throw new AppError(404, 'not_found', `Nothing at ${req.method} ${req.baseUrl}${req.path}: no mail fake runs on this server`);
+      if (!mailboxEnabled)
+        throw new AppError(
+          404,
+          'not_found',
+          `Nothing at ${req.method} ${req.baseUrl}${req.path}: no mail fake runs on this server`,
+        );
       next();
     },
     requireAuth,
@@ -41,16 +46,28 @@ export function devRouter(mailboxEnabled: boolean): Router {
       const { dataSource } = deps(req);
       const q = Query.safeParse(req.query);
       if (!q.success) throw validationError(q.error, 'query');
-      const [m] = (await dataSource.query(`SELECT "role" FROM "memberships" WHERE "user_id" = $1 AND "site_id" = $2`, [authOf(req).userId, q.data.siteId])) as {
+      const [m] = (await dataSource.query(`SELECT "role" FROM "memberships" WHERE "user_id" = $1 AND "site_id" = $2`, [
+        authOf(req).userId,
+        q.data.siteId,
+      ])) as {
         role: string;
       }[];
       if (!m) throw new AppError(404, 'not_found', 'Site not found');
-      if (m.role !== 'admin') throw new AppError(403, 'forbidden', `The dev mailbox is for the site's admins; you are ${m.role}`);
+      if (m.role !== 'admin')
+        throw new AppError(403, 'forbidden', `The dev mailbox is for the site's admins; you are ${m.role}`);
       const rows = (await dataSource.query(
         `SELECT "id", "received_at", "from_address", "to_addresses", "subject", "text", "raw_size"
            FROM "mail_messages" WHERE "site_id" = $1 ORDER BY "received_at" DESC, "id" DESC LIMIT $2`,
         [q.data.siteId, q.data.limit],
-      )) as { id: string; received_at: Date; from_address: string; to_addresses: string[]; subject: string; text: string; raw_size: number }[];
+      )) as {
+        id: string;
+        received_at: Date;
+        from_address: string;
+        to_addresses: string[];
+        subject: string;
+        text: string;
+        raw_size: number;
+      }[];
       const body: MailboxResponse = {
         messages: rows.map((m) => ({
           id: m.id,

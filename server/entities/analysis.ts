@@ -64,9 +64,24 @@ export const AnalysisEntity = new EntitySchema<Analysis>({
     findingCount: { name: 'finding_count', type: 'int' },
   },
   relations: {
-    round: { type: 'many-to-one', target: 'Round', onDelete: 'CASCADE', joinColumn: { name: 'round_id', foreignKeyConstraintName: 'fk_analyses_round' } },
-    site: { type: 'many-to-one', target: 'Site', onDelete: 'CASCADE', joinColumn: { name: 'site_id', foreignKeyConstraintName: 'fk_analyses_site' } },
-    unit: { type: 'many-to-one', target: 'PlantUnit', onDelete: 'CASCADE', joinColumn: { name: 'unit_id', foreignKeyConstraintName: 'fk_analyses_unit' } },
+    round: {
+      type: 'many-to-one',
+      target: 'Round',
+      onDelete: 'CASCADE',
+      joinColumn: { name: 'round_id', foreignKeyConstraintName: 'fk_analyses_round' },
+    },
+    site: {
+      type: 'many-to-one',
+      target: 'Site',
+      onDelete: 'CASCADE',
+      joinColumn: { name: 'site_id', foreignKeyConstraintName: 'fk_analyses_site' },
+    },
+    unit: {
+      type: 'many-to-one',
+      target: 'PlantUnit',
+      onDelete: 'CASCADE',
+      joinColumn: { name: 'unit_id', foreignKeyConstraintName: 'fk_analyses_unit' },
+    },
   },
   uniques: [{ name: 'uq_analyses_round_input', columns: ['roundId', 'inputHash'] }],
   indices: [
@@ -128,7 +143,12 @@ export const FindingEntity = new EntitySchema<FindingRow>({
       onDelete: 'CASCADE',
       joinColumn: { name: 'analysis_id', foreignKeyConstraintName: 'fk_findings_analysis' },
     },
-    site: { type: 'many-to-one', target: 'Site', onDelete: 'CASCADE', joinColumn: { name: 'site_id', foreignKeyConstraintName: 'fk_findings_site' } },
+    site: {
+      type: 'many-to-one',
+      target: 'Site',
+      onDelete: 'CASCADE',
+      joinColumn: { name: 'site_id', foreignKeyConstraintName: 'fk_findings_site' },
+    },
   },
   indices: [
     { name: 'ix_findings_analysis', columns: ['analysisId'] },
@@ -176,8 +196,18 @@ export const AnalysisInstrumentEntity = new EntitySchema<AnalysisInstrument>({
   name: 'AnalysisInstrument',
   tableName: 'analysis_instruments',
   columns: {
-    analysisId: { name: 'analysis_id', type: 'uuid', primary: true, primaryKeyConstraintName: 'pk_analysis_instruments' },
-    instrumentId: { name: 'instrument_id', type: 'uuid', primary: true, primaryKeyConstraintName: 'pk_analysis_instruments' },
+    analysisId: {
+      name: 'analysis_id',
+      type: 'uuid',
+      primary: true,
+      primaryKeyConstraintName: 'pk_analysis_instruments',
+    },
+    instrumentId: {
+      name: 'instrument_id',
+      type: 'uuid',
+      primary: true,
+      primaryKeyConstraintName: 'pk_analysis_instruments',
+    },
     roundId: { name: 'round_id', type: 'uuid' },
     siteId: { name: 'site_id', type: 'uuid' },
     readingId: { name: 'reading_id', type: 'uuid', nullable: true },

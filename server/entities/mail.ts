@@ -35,7 +35,13 @@ export const MailMessageEntity = new EntitySchema<MailMessage>({
     siteId: { name: 'site_id', type: 'uuid', nullable: true },
   },
   relations: {
-    site: { type: 'many-to-one', target: 'Site', nullable: true, onDelete: 'SET NULL', joinColumn: { name: 'site_id', foreignKeyConstraintName: 'fk_mail_messages_site' } },
+    site: {
+      type: 'many-to-one',
+      target: 'Site',
+      nullable: true,
+      onDelete: 'SET NULL',
+      joinColumn: { name: 'site_id', foreignKeyConstraintName: 'fk_mail_messages_site' },
+    },
   },
   indices: [
     { name: 'ix_mail_messages_received', columns: ['receivedAt'] },
@@ -82,7 +88,13 @@ export const MailOutboxEntity = new EntitySchema<MailOutbox>({
     siteId: { name: 'site_id', type: 'uuid', nullable: true },
   },
   relations: {
-    site: { type: 'many-to-one', target: 'Site', nullable: true, onDelete: 'SET NULL', joinColumn: { name: 'site_id', foreignKeyConstraintName: 'fk_mail_outbox_site' } },
+    site: {
+      type: 'many-to-one',
+      target: 'Site',
+      nullable: true,
+      onDelete: 'SET NULL',
+      joinColumn: { name: 'site_id', foreignKeyConstraintName: 'fk_mail_outbox_site' },
+    },
   },
   uniques: [{ name: 'uq_mail_outbox_dedupe', columns: ['dedupeKey'] }],
   indices: [{ name: 'ix_mail_outbox_due', columns: ['nextAttemptAt'], where: '"sent_at" IS NULL' }],

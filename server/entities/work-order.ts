@@ -1,6 +1,11 @@
 import { EntitySchema } from 'typeorm';
 import { PRESSURE_REFERENCES, type PressureRef } from '../../shared/units';
-import { WORK_ORDER_KINDS, WORK_ORDER_STATUSES, type WorkOrderKind, type WorkOrderStatus } from '../../shared/api/work-orders';
+import {
+  WORK_ORDER_KINDS,
+  WORK_ORDER_STATUSES,
+  type WorkOrderKind,
+  type WorkOrderStatus,
+} from '../../shared/api/work-orders';
 import type { FindingRow } from './analysis';
 import type { Instrument } from './instrument';
 import type { Site } from './site';
@@ -81,8 +86,18 @@ export const WorkOrderEntity = new EntitySchema<WorkOrder>({
     closedAt: { name: 'closed_at', type: 'timestamptz', nullable: true },
   },
   relations: {
-    site: { type: 'many-to-one', target: 'Site', onDelete: 'CASCADE', joinColumn: { name: 'site_id', foreignKeyConstraintName: 'fk_work_orders_site' } },
-    unit: { type: 'many-to-one', target: 'PlantUnit', onDelete: 'CASCADE', joinColumn: { name: 'unit_id', foreignKeyConstraintName: 'fk_work_orders_unit' } },
+    site: {
+      type: 'many-to-one',
+      target: 'Site',
+      onDelete: 'CASCADE',
+      joinColumn: { name: 'site_id', foreignKeyConstraintName: 'fk_work_orders_site' },
+    },
+    unit: {
+      type: 'many-to-one',
+      target: 'PlantUnit',
+      onDelete: 'CASCADE',
+      joinColumn: { name: 'unit_id', foreignKeyConstraintName: 'fk_work_orders_unit' },
+    },
     instrument: {
       type: 'many-to-one',
       target: 'Instrument',
@@ -149,7 +164,12 @@ export const WorkOrderCounterEntity = new EntitySchema<WorkOrderCounter>({
     lastNumber: { name: 'last_number', type: 'int', default: 0 },
   },
   relations: {
-    site: { type: 'many-to-one', target: 'Site', onDelete: 'CASCADE', joinColumn: { name: 'site_id', foreignKeyConstraintName: 'fk_work_order_counters_site' } },
+    site: {
+      type: 'many-to-one',
+      target: 'Site',
+      onDelete: 'CASCADE',
+      joinColumn: { name: 'site_id', foreignKeyConstraintName: 'fk_work_order_counters_site' },
+    },
   },
 });
 
@@ -166,7 +186,12 @@ export const WorkOrderFindingEntity = new EntitySchema<WorkOrderFinding>({
   name: 'WorkOrderFinding',
   tableName: 'work_order_findings',
   columns: {
-    workOrderId: { name: 'work_order_id', type: 'uuid', primary: true, primaryKeyConstraintName: 'pk_work_order_findings' },
+    workOrderId: {
+      name: 'work_order_id',
+      type: 'uuid',
+      primary: true,
+      primaryKeyConstraintName: 'pk_work_order_findings',
+    },
     findingId: { name: 'finding_id', type: 'uuid', primary: true, primaryKeyConstraintName: 'pk_work_order_findings' },
     attachedAt: { name: 'attached_at', type: 'timestamptz', default: () => 'now()' },
   },

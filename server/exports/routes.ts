@@ -17,14 +17,47 @@ import { toCsv, type Cell } from './csv';
 export const EXPORT_PAGE = 5000;
 
 const READING_HEADER = [
-  'reading_id', 'round_id', 'route', 'technician', 'device_time', 'received_at', 'instrument_tag', 'quantity', 'value_typed', 'unit',
-  'reference', 'value_si', 'si_unit', 'skip_reason', 'note', 'supersedes', 'superseded', 'reconciled_si', 'reconciled_sigma_si', 'z', 'suspect',
+  'reading_id',
+  'round_id',
+  'route',
+  'technician',
+  'device_time',
+  'received_at',
+  'instrument_tag',
+  'quantity',
+  'value_typed',
+  'unit',
+  'reference',
+  'value_si',
+  'si_unit',
+  'skip_reason',
+  'note',
+  'supersedes',
+  'superseded',
+  'reconciled_si',
+  'reconciled_sigma_si',
+  'z',
+  'suspect',
 ];
 const SI: Record<string, string> = { pressure: 'Pa', temperature: 'K', massFlow: 'kg/s', power: 'W', level: '1' };
 
 const WORK_ORDER_HEADER = [
-  'number', 'kind', 'status', 'priority', 'title', 'instrument_tag', 'equipment', 'assignee', 'due_date', 'scheduled_for', 'opened_at',
-  'closed_at', 'findings', 'reopen_count', 'cancel_reason', 'merged_into',
+  'number',
+  'kind',
+  'status',
+  'priority',
+  'title',
+  'instrument_tag',
+  'equipment',
+  'assignee',
+  'due_date',
+  'scheduled_for',
+  'opened_at',
+  'closed_at',
+  'findings',
+  'reopen_count',
+  'cancel_reason',
+  'merged_into',
 ];
 
 function startCsv(res: Response, filename: string): void {
@@ -43,9 +76,12 @@ export function exportsRouter(): Router {
     const to = bound(q.to, true) ?? new Date();
     const from = bound(q.from, false) ?? new Date(to.getTime() - 30 * 86_400_000);
     if (!(from.getTime() < to.getTime())) {
-      throw new AppError(400, 'validation', `Invalid query: from (${from.toISOString()}) must lie before to (${to.toISOString()})`, [
-        { path: 'from', message: 'Must lie before to' },
-      ]);
+      throw new AppError(
+        400,
+        'validation',
+        `Invalid query: from (${from.toISOString()}) must lie before to (${to.toISOString()})`,
+        [{ path: 'from', message: 'Must lie before to' }],
+      );
     }
     const { dataSource } = deps(req);
     const siteId = siteOf(req).siteId;
@@ -55,7 +91,9 @@ export function exportsRouter(): Router {
     let after: { t: string; id: string } | null = null;
     for (;;) {
       const params: unknown[] = [siteId, from, to, EXPORT_PAGE];
-      const keyset = after ? `AND (r."device_time", r."id") > ($${params.push(after.t)}::timestamptz, $${params.push(after.id)}::uuid)` : '';
+      const keyset = after
+        ? `AND (r."device_time", r."id") > ($${params.push(after.t)}::timestamptz, $${params.push(after.id)}::uuid)`
+        : '';
       const rows = (await dataSource.query(
         `SELECT r."id", r."device_time"::text AS "time_key", r."round_id", rt."key" AS "route", COALESCE(tm."display_name", u."name") AS "technician", r."device_time", r."received_at", i."tag", i."quantity",
                 r."value_typed", r."unit", r."reference", r."value_si", r."skip_reason", r."note", r."supersedes",

@@ -57,5 +57,12 @@ export function refuseUnstorableText(req: Request, _res: Response, next: NextFun
   const where = inBody.length ? 'request body' : 'query';
   const details = inBody.length ? inBody : inQuery;
   if (details.length === 0) return next();
-  next(new AppError(400, 'validation', `Invalid ${where}: ${details.map((d) => `${d.path}: ${d.message}`).join('; ')}`, details));
+  next(
+    new AppError(
+      400,
+      'validation',
+      `Invalid ${where}: ${details.map((d) => `${d.path}: ${d.message}`).join('; ')}`,
+      details,
+    ),
+  );
 }

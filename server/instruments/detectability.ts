@@ -27,7 +27,11 @@ function cached(key: string, make: () => DetectabilityMap): DetectabilityMap {
   return made;
 }
 
-export async function siteDetectability(ds: DataSource, siteId: string, unitId?: string): Promise<DetectabilityResponse> {
+export async function siteDetectability(
+  ds: DataSource,
+  siteId: string,
+  unitId?: string,
+): Promise<DetectabilityResponse> {
   const params: unknown[] = [siteId];
   let filter = '';
   if (unitId) filter = ` AND u."id" = $${params.push(unitId)}`;
@@ -39,9 +43,21 @@ export async function siteDetectability(ds: DataSource, siteId: string, unitId?:
       WHERE u."site_id" = $1${filter}
       ORDER BY u."id", a."analysed_at" DESC, a."id" DESC`,
     params,
-  )) as { unit_id: string; unit_name: string; model: CycleModel; model_version: string; analysis_id: string; round_id: string; analysed_at: Date; instruments: InstrumentResult[] }[];
+  )) as {
+    unit_id: string;
+    unit_name: string;
+    model: CycleModel;
+    model_version: string;
+    analysis_id: string;
+    round_id: string;
+    analysed_at: Date;
+    instruments: InstrumentResult[];
+  }[];
   if (unitId && rows.length === 0) {
-    const [u] = (await ds.query(`SELECT 1 FROM "units" WHERE "id" = $1 AND "site_id" = $2`, [unitId, siteId])) as unknown[];
+    const [u] = (await ds.query(`SELECT 1 FROM "units" WHERE "id" = $1 AND "site_id" = $2`, [
+      unitId,
+      siteId,
+    ])) as unknown[];
     if (!u) throw new AppError(404, 'not_found', `No unit ${unitId} on this site`);
   }
   const units: UnitDetectability[] = rows.map((r) => {

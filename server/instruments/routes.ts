@@ -43,7 +43,17 @@ export function instrumentsRouter(): Router {
     const { siteId } = siteOf(req);
     const out = await updateInstrument(dataSource, siteId, String(req.params.instrumentId), body);
     if (Object.keys(out.changes).length) {
-      logger.info({ audit: 'instrument.update', siteId, instrumentId: out.instrument.id, tag: out.instrument.tag, by: authOf(req).userId, changes: out.changes }, `instrument ${out.instrument.tag} changed`);
+      logger.info(
+        {
+          audit: 'instrument.update',
+          siteId,
+          instrumentId: out.instrument.id,
+          tag: out.instrument.tag,
+          by: authOf(req).userId,
+          changes: out.changes,
+        },
+        `instrument ${out.instrument.tag} changed`,
+      );
     }
     res.json(out);
   });

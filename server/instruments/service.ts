@@ -21,7 +21,11 @@ import type {
   InstrumentListResponse,
 } from '../../shared/api/analysis';
 import type { InstrumentStatus } from '../../shared/api/sync';
-import { ACCURACY_CLASSES, type InstrumentUpdateRequest as UpdateSchema, type InstrumentUpdateResponse } from '../../shared/api/instruments';
+import {
+  ACCURACY_CLASSES,
+  type InstrumentUpdateRequest as UpdateSchema,
+  type InstrumentUpdateResponse,
+} from '../../shared/api/instruments';
 import type { z } from 'zod';
 import { accuracySpecSchema, type AccuracySpec } from '../../shared/uncertainty';
 import { ELEVATION_MIN_M, SI_UNIT, barometricFromElevation, type Quantity } from '../../shared/units';
@@ -41,7 +45,12 @@ const siUnitOf = (q: Quantity) => (q === 'level' ? '1' : SI_UNIT[q]);
 
 type ListQuery = Pick<InstrumentListQuery, 'unitId' | 'status' | 'q'>;
 
-export async function instrumentHealth(ds: DataSource, siteId: string, q: ListQuery, now = new Date()): Promise<InstrumentListResponse> {
+export async function instrumentHealth(
+  ds: DataSource,
+  siteId: string,
+  q: ListQuery,
+  now = new Date(),
+): Promise<InstrumentListResponse> {
   const since = new Date(now.getTime() - HEALTH_WINDOW_DAYS * 86_400_000);
   const params: unknown[] = [siteId, since, [...FLAG_KINDS]];
   const where = ['u."site_id" = $1'];
@@ -119,7 +128,9 @@ export async function instrumentHealth(ds: DataSource, siteId: string, q: ListQu
     calibrationIntervalDays: r.calibration_interval_days,
     calibrationDue: r.due,
     calibrationOverdue: r.overdue,
-    openWorkOrders: open.filter((w) => w.instrument_id === r.id).map((w) => ({ id: w.id, number: w.code, kind: w.kind, status: w.status })),
+    openWorkOrders: open
+      .filter((w) => w.instrument_id === r.id)
+      .map((w) => ({ id: w.id, number: w.code, kind: w.kind, status: w.status })),
   }));
   return { instruments, asOf: now.toISOString() };
 }
@@ -142,20 +153,33 @@ export async function instrumentHistory(
   let sql = `SELECT i."id", i."unit_id", i."tag", i."quantity", i."status" FROM "instruments" i JOIN "units" u ON u."id" = i."unit_id"
               WHERE u."site_id" = $1 AND upper(i."tag") = upper($2)`;
   if (q.unitId) sql += ` AND i."unit_id" = $${params.push(q.unitId)}`;
-  const found = (await ds.query(sql, params)) as { id: string; unit_id: string; tag: string; quantity: Quantity; status: InstrumentStatus }[];
-  if (found.length === 0) throw new AppError(404, 'not_found', `No instrument with this tag on this site${q.unitId ? ' in that unit' : ''}`);
+  const found = (await ds.query(sql, params)) as {
+    id: string;
+    unit_id: string;
+    tag: string;
+    quantity: Quantity;
+    status: InstrumentStatus;
+  }[];
+  if (found.length === 0)
+    throw new AppError(404, 'not_found', `No instrument with this tag on this site${q.unitId ? ' in that unit' : ''}`);
   if (found.length > 1) {
-    throw new AppError(400, 'validation', `Invalid query: unitId: ${tag} exists in ${found.length} units of this site; say which with unitId`, [
-      { path: 'unitId', message: `Required: one of ${found.map((f) => f.unit_id).join(', ')}` },
-    ]);
+    throw new AppError(
+      400,
+      'validation',
+      `Invalid query: unitId: ${tag} exists in ${found.length} units of this site; say which with unitId`,
+      [{ path: 'unitId', message: `Required: one of ${found.map((f) => f.unit_id).join(', ')}` }],
+    );
   }
   const inst = found[0];
   const to = bound(q.to, true) ?? now;
   const from = bound(q.from, false) ?? new Date(to.getTime() - HISTORY_DEFAULT_DAYS * 86_400_000);
   if (!(from.getTime() < to.getTime())) {
-    throw new AppError(400, 'validation', `Invalid query: from (${from.toISOString()}) must lie before to (${to.toISOString()})`, [
-      { path: 'from', message: 'Must lie before to' },
-    ]);
+    throw new AppError(
+      400,
+      'validation',
+      `Invalid query: from (${from.toISOString()}) must lie before to (${to.toISOString()})`,
+      [{ path: 'from', message: 'Must lie before to' }],
+    );
   }
   // one row type for the history: the entity's (server/entities/analysis.ts AnalysisInstrument)
   const rows = await ds.getRepository(AnalysisInstrumentEntity).find({
@@ -187,7 +211,14 @@ export async function instrumentHistory(
     findings: flagged.filter((f) => f.analysis_id === p.analysisId).map((f) => f.kind),
   }));
   return {
-    instrument: { id: inst.id, unitId: inst.unit_id, tag: inst.tag, quantity: inst.quantity, siUnit: siUnitOf(inst.quantity), status: inst.status },
+    instrument: {
+      id: inst.id,
+      unitId: inst.unit_id,
+      tag: inst.tag,
+      quantity: inst.quantity,
+      siUnit: siUnitOf(inst.quantity),
+      status: inst.status,
+    },
     from: from.toISOString(),
     to: to.toISOString(),
     points,
@@ -204,8 +235,8 @@ export async function instrumentHistory(
  */
 const ATMOSPHERE_MAX_PA = barometricFromElevation(ELEVATION_MIN_M);
 
-
-const bad = (path: string, message: string) => new AppError(400, 'validation', `Invalid request body: ${path}: ${message}`, [{ path, message }]);
+const bad = (path: string, message: string) =>
+  new AppError(400, 'validation', `Invalid request body: ${path}: ${message}`, [{ path, message }]);
 
 /** Quantity-specific limits of a range (SI, in the instrument's own reference). */
 function checkRange(i: Instrument, r: { min: number; max: number }): void {
@@ -221,7 +252,13 @@ function checkRange(i: Instrument, r: { min: number; max: number }): void {
       break;
     case 'pressure':
       if (i.reference === 'absolute' || i.reference === null) atLeast('range.min', r.min, 0, 'Pa absolute');
-      else if (i.reference === 'gauge') atLeast('range.min', r.min, -Math.round(ATMOSPHERE_MAX_PA), 'Pa gauge, a full vacuum at the highest atmospheric pressure');
+      else if (i.reference === 'gauge')
+        atLeast(
+          'range.min',
+          r.min,
+          -Math.round(ATMOSPHERE_MAX_PA),
+          'Pa gauge, a full vacuum at the highest atmospheric pressure',
+        );
       else {
         atLeast('range.min', r.min, 0, 'Pa of vacuum');
         atMost('range.max', r.max, Math.round(ATMOSPHERE_MAX_PA), 'Pa of vacuum, the highest atmospheric pressure');
@@ -241,11 +278,13 @@ function checkRange(i: Instrument, r: { min: number; max: number }): void {
 
 function withClass(i: Instrument, accuracy: unknown, cls: string): AccuracySpec {
   const spec = accuracy as { kind?: string } | null;
-  if (!spec || typeof spec !== 'object' || !spec.kind) throw bad('accuracyClass', `${i.tag} has no accuracy specification to set a class on`);
+  if (!spec || typeof spec !== 'object' || !spec.kind)
+    throw bad('accuracyClass', `${i.tag} has no accuracy specification to set a class on`);
   const c = ACCURACY_CLASSES[spec.kind];
   if (!c) throw bad('accuracyClass', `${i.tag}'s accuracy is given as ${spec.kind}, which has no class`);
   const value = c.values.find((v) => String(v) === cls);
-  if (value === undefined) throw bad('accuracyClass', `Must be one of ${c.values.join(', ')} (${c.standard} ${c.field}es); got "${cls}"`);
+  if (value === undefined)
+    throw bad('accuracyClass', `Must be one of ${c.values.join(', ')} (${c.standard} ${c.field}es); got "${cls}"`);
   return { ...(spec as object), [c.field]: value } as AccuracySpec;
 }
 
@@ -266,18 +305,29 @@ export async function updateInstrument(
       .getOne();
     if (!i) throw new AppError(404, 'not_found', 'Instrument not found on this site');
     if (body.rowVersion !== undefined && body.rowVersion !== i.rowVersion) {
-      throw new AppError(409, 'conflict', `${i.tag} changed since you read it (row version ${body.rowVersion}, now ${i.rowVersion}); reload and try again`, {
-        rowVersion: i.rowVersion,
-      });
+      throw new AppError(
+        409,
+        'conflict',
+        `${i.tag} changed since you read it (row version ${body.rowVersion}, now ${i.rowVersion}); reload and try again`,
+        {
+          rowVersion: i.rowVersion,
+        },
+      );
     }
     const changes: InstrumentUpdateResponse['changes'] = {};
-    const next = { range: i.range, accuracy: i.accuracy, calibrationIntervalDays: i.calibrationIntervalDays, status: i.status };
+    const next = {
+      range: i.range,
+      accuracy: i.accuracy,
+      calibrationIntervalDays: i.calibrationIntervalDays,
+      status: i.status,
+    };
     if (body.range) {
       checkRange(i, body.range);
       next.range = { min: body.range.min, max: body.range.max };
       // EN 837-1 and ASME B40.100 give the error in % of the span: it follows the range
       const a = next.accuracy as { spanPa?: number; span?: number; kind?: string } | null;
-      if (a && (a.kind === 'en837' || a.kind === 'asmeB40')) next.accuracy = { ...a, spanPa: body.range.max - body.range.min };
+      if (a && (a.kind === 'en837' || a.kind === 'asmeB40'))
+        next.accuracy = { ...a, spanPa: body.range.max - body.range.min };
       if (a && a.kind === 'percentSpan') next.accuracy = { ...a, span: body.range.max - body.range.min };
     }
     if (body.accuracyClass !== undefined) next.accuracy = withClass(i, next.accuracy, body.accuracyClass);
@@ -285,7 +335,11 @@ export async function updateInstrument(
     if (body.status !== undefined) next.status = body.status;
     if (next.accuracy !== null && next.accuracy !== undefined) {
       const ok = accuracySpecSchema.safeParse(next.accuracy);
-      if (!ok.success) throw bad('accuracyClass', `The accuracy specification would be invalid: ${ok.error.issues.map((x) => `${x.path.join('.')}: ${x.message}`).join('; ')}`);
+      if (!ok.success)
+        throw bad(
+          'accuracyClass',
+          `The accuracy specification would be invalid: ${ok.error.issues.map((x) => `${x.path.join('.')}: ${x.message}`).join('; ')}`,
+        );
     }
     for (const k of ['range', 'accuracy', 'calibrationIntervalDays', 'status'] as const) {
       if (JSON.stringify(next[k]) !== JSON.stringify(i[k])) changes[k] = { from: i[k] ?? null, to: next[k] ?? null };
@@ -294,7 +348,13 @@ export async function updateInstrument(
       await em.query(
         `UPDATE "instruments" SET "range" = $2, "accuracy" = $3, "calibration_interval_days" = $4, "status" = $5, "updated_at" = now(), "row_version" = "row_version" + 1
           WHERE "id" = $1`,
-        [i.id, next.range === null ? null : JSON.stringify(next.range), next.accuracy === null ? null : JSON.stringify(next.accuracy), next.calibrationIntervalDays, next.status],
+        [
+          i.id,
+          next.range === null ? null : JSON.stringify(next.range),
+          next.accuracy === null ? null : JSON.stringify(next.accuracy),
+          next.calibrationIntervalDays,
+          next.status,
+        ],
       );
     }
     const u = await repo.findOneByOrFail({ id: i.id });

@@ -37,7 +37,10 @@ export interface FakeSmtp {
 }
 
 export function isLoopback(host: string): boolean {
-  const h = host.trim().toLowerCase().replace(/^\[|\]$/g, '');
+  const h = host
+    .trim()
+    .toLowerCase()
+    .replace(/^\[|\]$/g, '');
   if (h === 'localhost' || h === '::1') return true;
   if (h.startsWith('::ffff:')) return isLoopback(h.slice(7));
   return isIP(h) === 4 && h.split('.')[0] === '127';
@@ -46,9 +49,12 @@ export function isLoopback(host: string): boolean {
 export async function startFakeSmtp(options: FakeSmtpOptions): Promise<FakeSmtp> {
   const { host, port, dataSource, logger } = options;
   if (typeof host !== 'string' || !isLoopback(host)) {
-    throw new Error(`fake SMTP: host must be a loopback address (127.0.0.1, ::1 or localhost), got "${String(host)}": it accepts mail from anyone who can connect`);
+    throw new Error(
+      `fake SMTP: host must be a loopback address (127.0.0.1, ::1 or localhost), got "${String(host)}": it accepts mail from anyone who can connect`,
+    );
   }
-  if (!Number.isInteger(port) || port < 0 || port > 65535) throw new Error(`fake SMTP: port must be a whole number from 0 to 65535, got ${String(port)}`);
+  if (!Number.isInteger(port) || port < 0 || port > 65535)
+    throw new Error(`fake SMTP: port must be a whole number from 0 to 65535, got ${String(port)}`);
   const maxBytes = options.maxBytes ?? 10 * 1024 * 1024;
   let count = 0;
 
@@ -64,13 +70,19 @@ export async function startFakeSmtp(options: FakeSmtpOptions): Promise<FakeSmtp>
     closeTimeout: 2000,
     onConnect(session: SMTPServerSession, callback: (err?: Error | null) => void) {
       if (!isLoopback(session.remoteAddress)) {
-        const err = new Error('This mail fake takes connections from this machine only') as Error & { responseCode: number };
+        const err = new Error('This mail fake takes connections from this machine only') as Error & {
+          responseCode: number;
+        };
         err.responseCode = 554;
         return callback(err);
       }
       callback();
     },
-    onData(stream: SMTPServerDataStream, session: SMTPServerSession, callback: (err?: Error | null, message?: string) => void) {
+    onData(
+      stream: SMTPServerDataStream,
+      session: SMTPServerSession,
+      callback: (err?: Error | null, message?: string) => void,
+    ) {
       const chunks: Buffer[] = [];
       stream.on('data', (c: Buffer) => chunks.push(c));
       stream.on('error', (err: Error) => callback(err));
@@ -90,7 +102,14 @@ export async function startFakeSmtp(options: FakeSmtpOptions): Promise<FakeSmtp>
           const rows = (await dataSource.query(
             `INSERT INTO "mail_messages" ("from_address", "to_addresses", "subject", "text", "raw_size", "site_id")
              VALUES ($1, $2, $3, $4, $5, (SELECT "site_id" FROM "mail_outbox" WHERE "id" = $6::uuid)) RETURNING "id"`,
-            [parsed.from || envelopeFrom, to.length ? to : envelopeTo, parsed.subject, parsed.text, raw.length, outboxIdOf(parsed.messageId)],
+            [
+              parsed.from || envelopeFrom,
+              to.length ? to : envelopeTo,
+              parsed.subject,
+              parsed.text,
+              raw.length,
+              outboxIdOf(parsed.messageId),
+            ],
           )) as { id: string }[];
           count++;
           logger?.debug({ id: rows[0].id, to, subject: parsed.subject }, 'mail fake: message stored');

@@ -15,8 +15,23 @@ import { makeMailNotifier, type MailNotifier } from './notifier';
 import { startMailSender, type MailSender } from './outbox';
 
 export { startFakeSmtp, isLoopback, type FakeSmtp, type FakeSmtpOptions } from './fake-smtp';
-export { makeMailNotifier, sqlNotifierSource, HAZARD_CAUTION, workOrderPath, type MailNotifier, type NotifierSource } from './notifier';
-export { enqueueMail, deliverDue, startMailSender, backoffMs, smtpTransport, type MailSender, type OutgoingMail } from './outbox';
+export {
+  makeMailNotifier,
+  sqlNotifierSource,
+  HAZARD_CAUTION,
+  workOrderPath,
+  type MailNotifier,
+  type NotifierSource,
+} from './notifier';
+export {
+  enqueueMail,
+  deliverDue,
+  startMailSender,
+  backoffMs,
+  smtpTransport,
+  type MailSender,
+  type OutgoingMail,
+} from './outbox';
 
 /** How often the sender loop looks for a closed shift to digest, ms. */
 export const DIGEST_CHECK_MS = 60_000;
@@ -30,9 +45,19 @@ export interface MailRuntime {
   stop(): Promise<void>;
 }
 
-export async function startMail({ config, dataSource, logger }: { config: Config; dataSource: DataSource; logger: Logger }): Promise<MailRuntime> {
+export async function startMail({
+  config,
+  dataSource,
+  logger,
+}: {
+  config: Config;
+  dataSource: DataSource;
+  logger: Logger;
+}): Promise<MailRuntime> {
   const fake =
-    config.SMTP_FAKE_PORT !== undefined ? await startFakeSmtp({ host: '127.0.0.1', port: config.SMTP_FAKE_PORT, dataSource, logger }) : undefined;
+    config.SMTP_FAKE_PORT !== undefined
+      ? await startFakeSmtp({ host: '127.0.0.1', port: config.SMTP_FAKE_PORT, dataSource, logger })
+      : undefined;
   if (fake) logger.info({ url: fake.url }, 'mail fake listening (development only; see GET /api/dev/mailbox)');
   const smtpUrl = config.SMTP_URL ?? fake?.url;
   const notifier = makeMailNotifier({ dataSource, logger });

@@ -22,7 +22,8 @@ import type { Notifier } from '../notify';
 import { enqueueMail, type OutgoingMail } from './outbox';
 import { previousShift, shiftAt, shiftStartingAt, type ShiftWindow } from './shifts';
 
-export const HAZARD_CAUTION = "Work on pressurised or hot equipment only under your site's permit and isolation procedures.";
+export const HAZARD_CAUTION =
+  "Work on pressurised or hot equipment only under your site's permit and isolation procedures.";
 export const SUBJECT_PREFIX = '[Trueround]';
 /** Most findings listed in one digest; the rest are counted. */
 export const DIGEST_MAX_ITEMS = 40;
@@ -90,7 +91,11 @@ const ROUND_TIME_SQL = `(r."started_at_device" + r."client_clock_skew_ms" * inte
 
 export function sqlNotifierSource(ds: DataSource): NotifierSource {
   const recipients = async (sql: string, params: unknown[]) =>
-    ((await ds.query(sql, params)) as { user_id: string; email: string; name: string }[]).map((r) => ({ userId: r.user_id, email: r.email, name: r.name }));
+    ((await ds.query(sql, params)) as { user_id: string; email: string; name: string }[]).map((r) => ({
+      userId: r.user_id,
+      email: r.email,
+      name: r.name,
+    }));
   return {
     async workOrder(id) {
       const rows = (await ds.query(
@@ -130,12 +135,16 @@ export function sqlNotifierSource(ds: DataSource): NotifierSource {
         )
       )[0] ?? null,
     async site(siteId) {
-      const rows = (await ds.query(`SELECT "id", "name", "timezone" FROM "sites" WHERE "id" = $1`, [siteId])) as SiteFacts[];
+      const rows = (await ds.query(`SELECT "id", "name", "timezone" FROM "sites" WHERE "id" = $1`, [
+        siteId,
+      ])) as SiteFacts[];
       return rows[0] ?? null;
     },
     sites: async () => (await ds.query(`SELECT "id", "name", "timezone" FROM "sites" ORDER BY "slug"`)) as SiteFacts[],
     async round(roundId) {
-      const rows = (await ds.query(`SELECT r."site_id", ${ROUND_TIME_SQL} AS at FROM "rounds" r WHERE r."id" = $1`, [roundId])) as {
+      const rows = (await ds.query(`SELECT r."site_id", ${ROUND_TIME_SQL} AS at FROM "rounds" r WHERE r."id" = $1`, [
+        roundId,
+      ])) as {
         site_id: string;
         at: Date;
       }[];
@@ -152,7 +161,15 @@ export function sqlNotifierSource(ds: DataSource): NotifierSource {
           WHERE f."site_id" = $1 AND ${ROUND_TIME_SQL} >= $2 AND ${ROUND_TIME_SQL} < $3
           ORDER BY f."severity", at, f."ordinal"`,
         [siteId, start, end],
-      )) as { round_id: string; route_name: string | null; at: Date; kind: string; severity: number; message: string; instrument_tags: unknown }[];
+      )) as {
+        round_id: string;
+        route_name: string | null;
+        at: Date;
+        kind: string;
+        severity: number;
+        message: string;
+        instrument_tags: unknown;
+      }[];
       return rows.map((r) => ({
         roundId: r.round_id,
         routeName: r.route_name,
@@ -170,7 +187,9 @@ export function sqlNotifierSource(ds: DataSource): NotifierSource {
 // the words
 
 const PRIORITY_WORDS: Record<number, string> = { 1: '1 (urgent)', 2: '2', 3: '3' };
-const SEVERITY_WORDS: Record<number, string> = Object.fromEntries(Object.entries(LEVEL_LABELS).map(([k, v]) => [k, v.phrase]));
+const SEVERITY_WORDS: Record<number, string> = Object.fromEntries(
+  Object.entries(LEVEL_LABELS).map(([k, v]) => [k, v.phrase]),
+);
 
 function workOrderLines(w: WorkOrderFacts, linkBase: string): string[] {
   return [
@@ -184,7 +203,12 @@ function workOrderLines(w: WorkOrderFacts, linkBase: string): string[] {
   ];
 }
 
-const footer = (why: string) => ['', HAZARD_CAUTION, '', `You get this e-mail because ${why}. Trueround informs; it does not operate the plant.`];
+const footer = (why: string) => [
+  '',
+  HAZARD_CAUTION,
+  '',
+  `You get this e-mail because ${why}. Trueround informs; it does not operate the plant.`,
+];
 
 export function openedMessage(w: WorkOrderFacts, to: Recipient, linkBase = ''): OutgoingMail {
   const what = w.reopenCount > 0 ? 'reopened' : 'opened';
@@ -224,7 +248,12 @@ export function assignedMessage(w: WorkOrderFacts, to: Recipient, linkBase = '')
 const hhmm = (d: Date, timeZone: string) =>
   new Intl.DateTimeFormat('en-GB', { timeZone, hour: '2-digit', minute: '2-digit', hourCycle: 'h23' }).format(d);
 
-export function digestMessage(site: SiteFacts, shift: ShiftWindow, findings: readonly DigestFinding[], to: Recipient): OutgoingMail {
+export function digestMessage(
+  site: SiteFacts,
+  shift: ShiftWindow,
+  findings: readonly DigestFinding[],
+  to: Recipient,
+): OutgoingMail {
   // the same finding on several rounds of the shift is listed once, with its count
   const groups = new Map<string, { f: DigestFinding; rounds: Set<string> }>();
   for (const f of findings) {
@@ -240,7 +269,8 @@ export function digestMessage(site: SiteFacts, shift: ShiftWindow, findings: rea
     const where = `${f.routeName ?? 'round'}, ${hhmm(f.at, site.timezone)}${rounds.size > 1 ? `; on ${rounds.size} rounds` : ''}`;
     return `- [${SEVERITY_WORDS[f.severity] ?? f.severity}] ${f.message} (${where})`;
   });
-  if (list.length > DIGEST_MAX_ITEMS) lines.push(`- … and ${list.length - DIGEST_MAX_ITEMS} more; see the rounds in Trueround.`);
+  if (list.length > DIGEST_MAX_ITEMS)
+    lines.push(`- … and ${list.length - DIGEST_MAX_ITEMS} more; see the rounds in Trueround.`);
   const window = `${hhmm(shift.start, site.timezone)}–${hhmm(shift.end, site.timezone)} ${site.timezone}`;
   const urgent = list.filter((g) => g.f.severity <= 1).length;
   return {
@@ -296,7 +326,10 @@ export function makeMailNotifier(o: MailNotifierOptions): MailNotifier {
     const findings = await source.findings(site.id, shift.start, shift.end);
     if (findings.length === 0) return 0;
     const engineers = await source.members(site.id, 'engineer');
-    return queue(engineers.map((e) => digestMessage(site, shift, findings, e)), 'shift digest');
+    return queue(
+      engineers.map((e) => digestMessage(site, shift, findings, e)),
+      'shift digest',
+    );
   };
 
   const lastClosed = (site: SiteFacts) => previousShift(shiftAt(now(), site.timezone), site.timezone);
@@ -307,7 +340,10 @@ export function makeMailNotifier(o: MailNotifierOptions): MailNotifier {
       if (!w) throw new Error(`workOrderOpened: no work order ${workOrderId}`);
       if (w.priority !== 1) return;
       const planners = await source.members(w.siteId, 'planner');
-      await queue(planners.map((p) => openedMessage(w, p, linkBase)), 'work order opened');
+      await queue(
+        planners.map((p) => openedMessage(w, p, linkBase)),
+        'work order opened',
+      );
     },
     async assigned(workOrderId, userId) {
       const w = await source.workOrder(workOrderId);

@@ -32,7 +32,8 @@ export interface BackoffOptions {
 
 /** Delay before the next attempt after `attempts` failed ones: base·2^(attempts−1), capped. */
 export function backoffMs(attempts: number, { baseMs = 30_000, maxMs = 3_600_000 }: BackoffOptions = {}): number {
-  if (!Number.isInteger(attempts) || attempts < 1) throw new RangeError(`backoffMs: attempts must be a whole number ≥ 1, got ${String(attempts)}`);
+  if (!Number.isInteger(attempts) || attempts < 1)
+    throw new RangeError(`backoffMs: attempts must be a whole number ≥ 1, got ${String(attempts)}`);
   return Math.min(maxMs, baseMs * 2 ** Math.min(attempts - 1, 40));
 }
 
@@ -50,7 +51,8 @@ export async function enqueueMail(ds: DataSource, messages: readonly OutgoingMai
 
 function checkMessages(messages: readonly OutgoingMail[]): void {
   messages.forEach((m, i) => {
-    if (!EMAIL_RE.test(m.to)) throw new Error(`enqueueMail: messages[${i}].to must be an e-mail address, got "${m.to}"`);
+    if (!EMAIL_RE.test(m.to))
+      throw new Error(`enqueueMail: messages[${i}].to must be an e-mail address, got "${m.to}"`);
     if (!m.subject.trim()) throw new Error(`enqueueMail: messages[${i}].subject must not be empty`);
   });
 }
@@ -75,13 +77,22 @@ export const OUTBOX_ID_DOMAIN = 'outbox.trueround.invalid';
 export const outboxMessageId = (rowId: string) => `<${rowId}@${OUTBOX_ID_DOMAIN}>`;
 /** The outbox row id a Message-ID names, or null when it is not one of ours. */
 export function outboxIdOf(messageId: string | null): string | null {
-  const m = /^<?([0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12})@outbox\.trueround\.invalid>?$/i.exec((messageId ?? '').trim());
+  const m = /^<?([0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12})@outbox\.trueround\.invalid>?$/i.exec(
+    (messageId ?? '').trim(),
+  );
   return m ? m[1].toLowerCase() : null;
 }
 
 /** What the sender needs of a transport (nodemailer's Transporter has it). */
 export interface MailTransport {
-  sendMail(message: { from: string; to: string; subject: string; text: string; textEncoding: 'quoted-printable'; messageId?: string }): Promise<unknown>;
+  sendMail(message: {
+    from: string;
+    to: string;
+    subject: string;
+    text: string;
+    textEncoding: 'quoted-printable';
+    messageId?: string;
+  }): Promise<unknown>;
   close?(): void;
 }
 
@@ -129,8 +140,18 @@ export async function deliverDue(ds: DataSource, transport: MailTransport, o: De
   const out: DeliverResult = { sent: 0, failed: 0 };
   for (const r of rows) {
     try {
-      await transport.sendMail({ from: o.from, to: r.to_address, subject: r.subject, text: r.text, textEncoding: 'quoted-printable', messageId: outboxMessageId(r.id) });
-      await ds.query(`UPDATE "mail_outbox" SET "sent_at" = $2, "last_error" = NULL WHERE "id" = $1`, [r.id, (o.now ?? (() => new Date()))()]);
+      await transport.sendMail({
+        from: o.from,
+        to: r.to_address,
+        subject: r.subject,
+        text: r.text,
+        textEncoding: 'quoted-printable',
+        messageId: outboxMessageId(r.id),
+      });
+      await ds.query(`UPDATE "mail_outbox" SET "sent_at" = $2, "last_error" = NULL WHERE "id" = $1`, [
+        r.id,
+        (o.now ?? (() => new Date()))(),
+      ]);
       out.sent++;
     } catch (err) {
       const message = err instanceof Error ? err.message : String(err);
@@ -140,7 +161,10 @@ export async function deliverDue(ds: DataSource, transport: MailTransport, o: De
         message.slice(0, 2000),
         new Date(now.getTime() + delay),
       ]);
-      o.logger?.warn({ err, mailId: r.id, attempts: r.attempts, retryInMs: delay }, 'mail: send failed; kept in the outbox for a retry');
+      o.logger?.warn(
+        { err, mailId: r.id, attempts: r.attempts, retryInMs: delay },
+        'mail: send failed; kept in the outbox for a retry',
+      );
       out.failed++;
     }
   }
@@ -186,9 +210,11 @@ export function startMailSender(o: MailSenderOptions): MailSender {
     const prev = running ?? Promise.resolve({ sent: 0, failed: 0 });
     const next: Promise<DeliverResult> = prev.catch(() => undefined).then(once);
     running = next;
-    void next.finally(() => {
-      if (running === next) running = null;
-    }).catch(() => undefined);
+    void next
+      .finally(() => {
+        if (running === next) running = null;
+      })
+      .catch(() => undefined);
     return next;
   };
   const schedule = () => {

@@ -29,7 +29,8 @@ function parseHeaders(head: string): Headers {
   const lines = head.split(/\r?\n/);
   const fields: string[] = [];
   for (const line of lines) {
-    if (/^[ \t]/.test(line) && fields.length) fields[fields.length - 1] += line; // unfold: drop the CRLF only
+    if (/^[ \t]/.test(line) && fields.length)
+      fields[fields.length - 1] += line; // unfold: drop the CRLF only
     else if (line.length) fields.push(line);
   }
   for (const f of fields) {
@@ -149,7 +150,8 @@ export function parseMessage(raw: Buffer): ParsedMessage {
   // latin1 keeps one character per byte, so 8bit bodies decode by their own charset later
   const { head, body } = splitHeaderBody(raw.toString('latin1'));
   const headers = parseHeaders(head);
-  const headerText = (name: string) => decodeEncodedWords(decodeBytes(Buffer.from(first(headers, name), 'latin1'), 'utf-8'));
+  const headerText = (name: string) =>
+    decodeEncodedWords(decodeBytes(Buffer.from(first(headers, name), 'latin1'), 'utf-8'));
   const list = (name: string) => (headers.get(name) ?? []).flatMap((v) => addresses(decodeEncodedWords(v)));
   const from = list('from')[0] ?? headerText('from');
   return {

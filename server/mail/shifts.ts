@@ -46,14 +46,16 @@ function formatter(timeZone: string): Intl.DateTimeFormat {
 }
 
 function checkDate(d: Date, what: string): void {
-  if (!(d instanceof Date) || !Number.isFinite(d.getTime())) throw new RangeError(`${what} must be a valid Date, got ${String(d)}`);
+  if (!(d instanceof Date) || !Number.isFinite(d.getTime()))
+    throw new RangeError(`${what} must be a valid Date, got ${String(d)}`);
 }
 
 /** The wall-clock reading of an instant in a time zone. */
 export function localParts(at: Date, timeZone: string): LocalParts {
   checkDate(at, 'at');
   const p: Record<string, number> = {};
-  for (const part of formatter(timeZone).formatToParts(at)) if (part.type !== 'literal') p[part.type] = Number(part.value);
+  for (const part of formatter(timeZone).formatToParts(at))
+    if (part.type !== 'literal') p[part.type] = Number(part.value);
   return { year: p.year, month: p.month, day: p.day, hour: p.hour, minute: p.minute, second: p.second };
 }
 
@@ -69,9 +71,17 @@ export function zoneOffsetMs(at: Date, timeZone: string): number {
  * A time skipped by a spring-forward change maps to the instant one offset later; an ambiguous
  * autumn time to its first occurrence.
  */
-export function zonedTime(year: number, month: number, day: number, hour: number, minute: number, timeZone: string): Date {
+export function zonedTime(
+  year: number,
+  month: number,
+  day: number,
+  hour: number,
+  minute: number,
+  timeZone: string,
+): Date {
   const guess = Date.UTC(year, month - 1, day, hour, minute);
-  if (!Number.isFinite(guess)) throw new RangeError(`zonedTime: ${year}-${month}-${day} ${hour}:${minute} is not a date`);
+  if (!Number.isFinite(guess))
+    throw new RangeError(`zonedTime: ${year}-${month}-${day} ${hour}:${minute} is not a date`);
   // the zone's offsets half a day either side cover any change near this time
   const before = zoneOffsetMs(new Date(guess - 43_200_000), timeZone);
   const after = zoneOffsetMs(new Date(guess + 43_200_000), timeZone);
@@ -96,7 +106,10 @@ const pad = (n: number) => String(n).padStart(2, '0');
 
 function window(year: number, month: number, day: number, index: ShiftIndex, timeZone: string): ShiftWindow {
   const start = zonedTime(year, month, day, SHIFT_START_HOURS[index], 0, timeZone);
-  const next = index === 2 ? zonedTime(year, month, day + 1, SHIFT_START_HOURS[0], 0, timeZone) : zonedTime(year, month, day, SHIFT_START_HOURS[index + 1], 0, timeZone);
+  const next =
+    index === 2
+      ? zonedTime(year, month, day + 1, SHIFT_START_HOURS[0], 0, timeZone)
+      : zonedTime(year, month, day, SHIFT_START_HOURS[index + 1], 0, timeZone);
   const d = new Date(Date.UTC(year, month - 1, day));
   return {
     start,

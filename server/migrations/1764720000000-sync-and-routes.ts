@@ -34,7 +34,9 @@ export class SyncAndRoutes1764720000000 implements MigrationInterface {
       END
       $$`);
 
-    await q.query(`CREATE TYPE "instrument_quantity" AS ENUM ('pressure', 'temperature', 'massFlow', 'power', 'level')`);
+    await q.query(
+      `CREATE TYPE "instrument_quantity" AS ENUM ('pressure', 'temperature', 'massFlow', 'power', 'level')`,
+    );
     await q.query(`CREATE TYPE "pressure_reference" AS ENUM ('absolute', 'gauge', 'vacuum')`);
     await q.query(`CREATE TYPE "instrument_status" AS ENUM ('ok', 'suspect', 'out-of-service')`);
     await q.query(`CREATE TYPE "round_status" AS ENUM ('in-progress', 'finished')`);
@@ -120,7 +122,9 @@ export class SyncAndRoutes1764720000000 implements MigrationInterface {
         FOREIGN KEY ("current_version_id") REFERENCES "route_versions"("id") ON DELETE SET NULL`);
 
     for (const t of ['units', 'instruments', 'routes', 'route_versions']) {
-      await q.query(`CREATE TRIGGER "tg_${t}_sync_stamp" BEFORE INSERT OR UPDATE ON "${t}" FOR EACH ROW EXECUTE FUNCTION "sync_stamp"()`);
+      await q.query(
+        `CREATE TRIGGER "tg_${t}_sync_stamp" BEFORE INSERT OR UPDATE ON "${t}" FOR EACH ROW EXECUTE FUNCTION "sync_stamp"()`,
+      );
     }
 
     await q.query(`
@@ -187,7 +191,9 @@ export class SyncAndRoutes1764720000000 implements MigrationInterface {
     await q.query(`CREATE INDEX "ix_check_answers_round" ON "check_answers" ("round_id")`);
 
     for (const t of ['readings', 'check_answers']) {
-      await q.query(`CREATE TRIGGER "tg_${t}_append_only" BEFORE UPDATE ON "${t}" FOR EACH ROW EXECUTE FUNCTION "refuse_update"()`);
+      await q.query(
+        `CREATE TRIGGER "tg_${t}_append_only" BEFORE UPDATE ON "${t}" FOR EACH ROW EXECUTE FUNCTION "refuse_update"()`,
+      );
     }
 
     await q.query(`

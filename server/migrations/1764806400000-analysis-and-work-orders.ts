@@ -98,10 +98,14 @@ export class AnalysisAndWorkOrders1764806400000 implements MigrationInterface {
         CONSTRAINT "fk_analysis_instruments_instrument" FOREIGN KEY ("instrument_id") REFERENCES "instruments"("id") ON DELETE CASCADE,
         CONSTRAINT "fk_analysis_instruments_reading" FOREIGN KEY ("reading_id") REFERENCES "readings"("id") ON DELETE CASCADE
       )`);
-    await q.query(`CREATE INDEX "ix_analysis_instruments_instrument_time" ON "analysis_instruments" ("instrument_id", "measured_at")`);
+    await q.query(
+      `CREATE INDEX "ix_analysis_instruments_instrument_time" ON "analysis_instruments" ("instrument_id", "measured_at")`,
+    );
 
     await q.query(`CREATE TYPE "work_order_kind" AS ENUM ('calibrate', 'repair', 'inspect', 'clean')`);
-    await q.query(`CREATE TYPE "work_order_status" AS ENUM ('open', 'triaged', 'scheduled', 'in-progress', 'done', 'cancelled')`);
+    await q.query(
+      `CREATE TYPE "work_order_status" AS ENUM ('open', 'triaged', 'scheduled', 'in-progress', 'done', 'cancelled')`,
+    );
 
     await q.query(`
       CREATE TABLE "work_orders" (
@@ -206,7 +210,9 @@ export class AnalysisAndWorkOrders1764806400000 implements MigrationInterface {
         CONSTRAINT "fk_calibration_records_instrument" FOREIGN KEY ("instrument_id") REFERENCES "instruments"("id") ON DELETE CASCADE,
         CONSTRAINT "fk_calibration_records_calibrated_by" FOREIGN KEY ("calibrated_by") REFERENCES "users"("id")
       )`);
-    await q.query(`CREATE INDEX "ix_calibration_records_instrument" ON "calibration_records" ("instrument_id", "calibrated_on")`);
+    await q.query(
+      `CREATE INDEX "ix_calibration_records_instrument" ON "calibration_records" ("instrument_id", "calibrated_on")`,
+    );
     await q.query(`CREATE INDEX "ix_calibration_records_work_order" ON "calibration_records" ("work_order_id")`);
   }
 

@@ -17,11 +17,17 @@ export class AuthorsAndMailSites1765000000000 implements MigrationInterface {
 
   async up(q: QueryRunner): Promise<void> {
     await q.query(`ALTER TABLE "readings" ADD "recorded_by" uuid`);
-    await q.query(`ALTER TABLE "readings" ADD CONSTRAINT "fk_readings_recorded_by" FOREIGN KEY ("recorded_by") REFERENCES "users"("id")`);
+    await q.query(
+      `ALTER TABLE "readings" ADD CONSTRAINT "fk_readings_recorded_by" FOREIGN KEY ("recorded_by") REFERENCES "users"("id")`,
+    );
     await q.query(`ALTER TABLE "mail_outbox" ADD "site_id" uuid`);
-    await q.query(`ALTER TABLE "mail_outbox" ADD CONSTRAINT "fk_mail_outbox_site" FOREIGN KEY ("site_id") REFERENCES "sites"("id") ON DELETE SET NULL`);
+    await q.query(
+      `ALTER TABLE "mail_outbox" ADD CONSTRAINT "fk_mail_outbox_site" FOREIGN KEY ("site_id") REFERENCES "sites"("id") ON DELETE SET NULL`,
+    );
     await q.query(`ALTER TABLE "mail_messages" ADD "site_id" uuid`);
-    await q.query(`ALTER TABLE "mail_messages" ADD CONSTRAINT "fk_mail_messages_site" FOREIGN KEY ("site_id") REFERENCES "sites"("id") ON DELETE SET NULL`);
+    await q.query(
+      `ALTER TABLE "mail_messages" ADD CONSTRAINT "fk_mail_messages_site" FOREIGN KEY ("site_id") REFERENCES "sites"("id") ON DELETE SET NULL`,
+    );
     await q.query(`CREATE INDEX "ix_mail_messages_site_received" ON "mail_messages" ("site_id", "received_at")`);
     await q.query(`ALTER TABLE "memberships" ADD "display_name" character varying(200)`);
     await q.query(`CREATE INDEX "ix_refresh_tokens_expires" ON "refresh_tokens" ("expires_at")`);

@@ -11,4 +11,12 @@ import { AuthorsAndMailSites1765000000000 } from './1765000000000-authors-and-ma
  * bundled build all find the same set. A new migration: `<unix ms>-<what>.ts` exporting a
  * class named `<What><unix ms>`, appended here.
  */
-export const MIGRATIONS = [AuthFoundation1764633600000, SyncAndRoutes1764720000000, AnalysisAndWorkOrders1764806400000, Mail1764806500000, SignInLockout1764892800000, FindingsPolicy1764979200000, AuthorsAndMailSites1765000000000];
+export const MIGRATIONS = [
+  AuthFoundation1764633600000,
+  SyncAndRoutes1764720000000,
+  AnalysisAndWorkOrders1764806400000,
+  Mail1764806500000,
+  SignInLockout1764892800000,
+  FindingsPolicy1764979200000,
+  AuthorsAndMailSites1765000000000,
+];

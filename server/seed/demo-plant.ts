@@ -26,7 +26,12 @@ export interface DemoPlant {
 }
 
 export const demoPlants: readonly DemoPlant[] = [
-  { site: 'fernhallow', model: demoUnit, extras: [{ instrument: fernhallowBarometer, isBarometer: true }], routes: fernhallowRoutes },
+  {
+    site: 'fernhallow',
+    model: demoUnit,
+    extras: [{ instrument: fernhallowBarometer, isBarometer: true }],
+    routes: fernhallowRoutes,
+  },
   { site: 'brackenmoor', model: brackenmoorUnit, extras: [], routes: brackenmoorRoutes },
 ];
 
@@ -47,7 +52,13 @@ function isoDate(d: Date): string {
   return d.toISOString().slice(0, 10);
 }
 
-function instrumentRow(unitId: string, i: ModelInstrument, index: number, now: Date, isBarometer: boolean): Partial<Instrument> {
+function instrumentRow(
+  unitId: string,
+  i: ModelInstrument,
+  index: number,
+  now: Date,
+  isBarometer: boolean,
+): Partial<Instrument> {
   // 30…150 days back, spread by position so the list is not all one date
   const daysBack = 30 + ((index * 37) % 121);
   return {
@@ -95,7 +106,9 @@ export async function seedDemoPlant(em: EntityManager, now = new Date()): Promis
     out.units++;
     const rows = [
       ...plant.model.instruments.map((i, k) => instrumentRow(unit.id, i, k, now, false)),
-      ...plant.extras.map((x, k) => instrumentRow(unit.id, x.instrument, plant.model.instruments.length + k, now, x.isBarometer)),
+      ...plant.extras.map((x, k) =>
+        instrumentRow(unit.id, x.instrument, plant.model.instruments.length + k, now, x.isBarometer),
+      ),
     ];
     await em.getRepository(InstrumentEntity).save(rows);
     out.instruments += rows.length;
@@ -108,7 +121,13 @@ export async function seedDemoPlant(em: EntityManager, now = new Date()): Promis
       .orderBy('m.role', 'DESC')
       .getOne();
     for (const template of plant.routes) {
-      await createRoute(em, { siteId: site.id, unitId: unit.id, template, publishedBy: publisher?.userId ?? null, publishedAt: now });
+      await createRoute(em, {
+        siteId: site.id,
+        unitId: unit.id,
+        template,
+        publishedBy: publisher?.userId ?? null,
+        publishedAt: now,
+      });
       out.routes++;
     }
   }

@@ -56,9 +56,15 @@ import { specSigmaOf } from '../../shared/cycle';
 import type { Instrument } from '../../shared/cycle/model';
 import { psat, tsat } from '../../shared/steam';
 import { sigmaFor } from '../../shared/uncertainty';
-import { barometricFromElevation, fromSI, fromSIDelta, toSI, type PressureRef, type Quantity } from '../../shared/units';
+import {
+  barometricFromElevation,
+  fromSI,
+  fromSIDelta,
+  toSI,
+  type PressureRef,
+  type Quantity,
+} from '../../shared/units';
 import { SHIFT_START_HOURS, localParts, shiftOf, type ShiftIndex } from '../mail/shifts';
-
 
 export interface HistoryFaults {
   drift: { tag: string; fromDay: number; kelvinPerDay: number };
@@ -286,7 +292,8 @@ function slotsByTag(): Map<string, Slot> {
   const out = new Map<string, Slot>();
   for (const route of fernhallowRoutes) {
     route.stops.forEach((stop, stopIndex) => {
-      for (const r of stop.readings) if (!out.has(r.tag)) out.set(r.tag, { route, stopIndex, unit: r.unit, reference: r.reference });
+      for (const r of stop.readings)
+        if (!out.has(r.tag)) out.set(r.tag, { route, stopIndex, unit: r.unit, reference: r.reference });
     });
   }
   return out;
@@ -294,25 +301,39 @@ function slotsByTag(): Map<string, Slot> {
 
 const iso = (ms: number) => new Date(ms).toISOString();
 
-function healthyAnswer(c: RouteCheck): { kind: 'yes-no'; value: boolean } | { kind: 'choice'; value: string } | { kind: 'text'; value: string } {
+function healthyAnswer(
+  c: RouteCheck,
+): { kind: 'yes-no'; value: boolean } | { kind: 'choice'; value: string } | { kind: 'text'; value: string } {
   if (c.kind === 'yes-no') return { kind: 'yes-no', value: c.expected ?? true };
   if (c.kind === 'choice') return { kind: 'choice', value: c.options[0] };
   return { kind: 'text', value: 'Nothing unusual.' };
 }
 
 /** Minutes after the shift start at which each route's walk begins (walking order of a shift). */
-const ROUTE_OFFSET_MIN: Record<string, number> = { 'boiler-house': 50, 'turbine-hall': 100, 'condenser-cooling-water': 150 };
+const ROUTE_OFFSET_MIN: Record<string, number> = {
+  'boiler-house': 50,
+  'turbine-hall': 100,
+  'condenser-cooling-water': 150,
+};
 /** Minutes spent at a stop. */
 const STOP_MIN = 5;
 
-function checkOptions(o: HistoryOptions): Required<Omit<HistoryOptions, 'ids' | 'deviceId'>> & { ids?: HistoryIds; deviceId: string } {
-  if (!(o.start instanceof Date) || !Number.isFinite(o.start.getTime())) throw new RangeError(`history start must be a valid Date, got ${String(o.start)}`);
+function checkOptions(
+  o: HistoryOptions,
+): Required<Omit<HistoryOptions, 'ids' | 'deviceId'>> & { ids?: HistoryIds; deviceId: string } {
+  if (!(o.start instanceof Date) || !Number.isFinite(o.start.getTime()))
+    throw new RangeError(`history start must be a valid Date, got ${String(o.start)}`);
   const days = o.days ?? 90;
-  if (!Number.isInteger(days) || days < 1 || days > 3650) throw new RangeError(`history days must be a whole number from 1 to 3650, got ${String(days)}`);
+  if (!Number.isInteger(days) || days < 1 || days > 3650)
+    throw new RangeError(`history days must be a whole number from 1 to 3650, got ${String(days)}`);
   const rpd = o.roundsPerDay ?? 3;
-  if (rpd !== 3) throw new RangeError(`history roundsPerDay must be 3 (one per shift of the site's three shifts), got ${String(rpd)}`);
+  if (rpd !== 3)
+    throw new RangeError(
+      `history roundsPerDay must be 3 (one per shift of the site's three shifts), got ${String(rpd)}`,
+    );
   const seed = o.seed ?? 1;
-  if (!Number.isInteger(seed) || seed < 0 || seed > 0xffffffff) throw new RangeError(`history seed must be a whole number from 0 to 4294967295, got ${String(seed)}`);
+  if (!Number.isInteger(seed) || seed < 0 || seed > 0xffffffff)
+    throw new RangeError(`history seed must be a whole number from 0 to 4294967295, got ${String(seed)}`);
   return {
     start: o.start,
     days,
@@ -340,7 +361,8 @@ export function generateHistory(options: HistoryOptions): GeneratedHistory {
 
   const slots = slotsByTag();
   const instruments: Instrument[] = [...demoUnit.instruments, fernhallowBarometer];
-  for (const i of instruments) if (!slots.has(i.tag)) throw new Error(`history: instrument ${i.tag} is on no Fernhallow route`);
+  for (const i of instruments)
+    if (!slots.has(i.tag)) throw new Error(`history: instrument ${i.tag} is on no Fernhallow route`);
   const stdBaro = barometricFromElevation(o.elevationM);
   const day0 = localParts(o.start, timezone);
 
@@ -359,7 +381,9 @@ export function generateHistory(options: HistoryOptions): GeneratedHistory {
       const fouling = t > faults.fouling.fromDay ? faults.fouling.ttdKelvinPerDay * (t - faults.fouling.fromDay) : 0;
       const plant = plantAt(t, hour, fouling, n);
       const weather =
-        WEATHER_AMPLITUDE_PA * (0.6 * Math.sin((2 * Math.PI * t) / 5.3) + 0.4 * Math.sin((2 * Math.PI * t) / 11.7 + 0.7)) + 20 * n();
+        WEATHER_AMPLITUDE_PA *
+          (0.6 * Math.sin((2 * Math.PI * t) / 5.3) + 0.4 * Math.sin((2 * Math.PI * t) / 11.7 + 0.7)) +
+        20 * n();
       const baro = stdBaro + weather;
       const jitter = Math.round((uniform() - 0.5) * 20); // minutes, the whole shift's walk earlier or later
 
@@ -369,7 +393,12 @@ export function generateHistory(options: HistoryOptions): GeneratedHistory {
         const startMs = w.start.getTime() + (ROUTE_OFFSET_MIN[route.id] ?? 60) * 60_000 + jitter * 60_000;
         const finishMs = startMs + (route.stops.length * STOP_MIN + 2) * 60_000;
         rounds.set(route.id, {
-          round: { id: uuidFor(seed, `round|${index}|${route.id}`), routeKey: route.id, startedAt: iso(startMs), finishedAt: iso(finishMs) },
+          round: {
+            id: uuidFor(seed, `round|${index}|${route.id}`),
+            routeKey: route.id,
+            startedAt: iso(startMs),
+            finishedAt: iso(finishMs),
+          },
           startMs,
         });
         roundCount.set(route.id, (roundCount.get(route.id) ?? 0) + 1);
@@ -377,11 +406,15 @@ export function generateHistory(options: HistoryOptions): GeneratedHistory {
 
       // the barometer first: the server converts the boiler-house gauges with it
       const readings: HistoryReading[] = [];
-      const typedOf = new Map<string, { value: number; reference: PressureRef | undefined; fault: HistoryReading['fault'] }>();
+      const typedOf = new Map<
+        string,
+        { value: number; reference: PressureRef | undefined; fault: HistoryReading['fault'] }
+      >();
       for (const i of instruments) {
         const slot = slots.get(i.tag)!;
         const truth = truthOf(i, plant, baro);
-        const sigma = i.tag === fernhallowBarometer.tag ? sigmaFor(i.accuracy, stdBaro) : specSigmaOf(demoUnit, i, stdBaro)!;
+        const sigma =
+          i.tag === fernhallowBarometer.tag ? sigmaFor(i.accuracy, stdBaro) : specSigmaOf(demoUnit, i, stdBaro)!;
         let measured = truth + noise() * sigma;
         let fault: HistoryReading['fault'] = null;
         if (i.tag === faults.drift.tag && t > faults.drift.fromDay) {
@@ -399,10 +432,15 @@ export function generateHistory(options: HistoryOptions): GeneratedHistory {
           fault = 'stuck';
         } else {
           const prev = lastTyped.get(i.tag) ?? [];
-          if (prev.length >= 2 && prev[prev.length - 1] === typed && prev[prev.length - 2] === typed) typed = roundTo(typed + (uniform() < 0.5 ? -step : step), step);
+          if (prev.length >= 2 && prev[prev.length - 1] === typed && prev[prev.length - 2] === typed)
+            typed = roundTo(typed + (uniform() < 0.5 ? -step : step), step);
         }
         const routeRound = roundCount.get(slot.route.id)! - 1;
-        if (i.tag === faults.readAsAbsolute.tag && day >= faults.readAsAbsolute.fromDay && day < faults.readAsAbsolute.untilDay) {
+        if (
+          i.tag === faults.readAsAbsolute.tag &&
+          day >= faults.readAsAbsolute.fromDay &&
+          day < faults.readAsAbsolute.untilDay
+        ) {
           if (firstAbsRound === null) firstAbsRound = routeRound;
           if ((routeRound - firstAbsRound) % faults.readAsAbsolute.everyNthRound === 0) {
             typedRef = 'absolute';
@@ -416,7 +454,12 @@ export function generateHistory(options: HistoryOptions): GeneratedHistory {
         typedOf.set(i.tag, { value: typed, reference: typedRef, fault });
       }
       const baroTyped = typedOf.get(fernhallowBarometer.tag)!;
-      const barometerSI = toSI({ quantity: 'pressure', value: baroTyped.value, unit: slots.get(fernhallowBarometer.tag)!.unit, reference: 'absolute' });
+      const barometerSI = toSI({
+        quantity: 'pressure',
+        value: baroTyped.value,
+        unit: slots.get(fernhallowBarometer.tag)!.unit,
+        reference: 'absolute',
+      });
       const baroRoute = slots.get(fernhallowBarometer.tag)!.route.id;
 
       const payloadReadings: PushRequestV2['readings'] = [];
@@ -430,7 +473,10 @@ export function generateHistory(options: HistoryOptions): GeneratedHistory {
             const i = instruments.find((x) => x.tag === r.tag)!;
             const typed = typedOf.get(r.tag)!;
             const readingId = uuidFor(seed, `reading|${index}|${r.tag}`);
-            const valueSI = toSI({ quantity: i.quantity, value: typed.value, unit: r.unit, reference: typed.reference }, { barometricPa: b });
+            const valueSI = toSI(
+              { quantity: i.quantity, value: typed.value, unit: r.unit, reference: typed.reference },
+              { barometricPa: b },
+            );
             readings.push({
               tag: r.tag,
               routeKey: route.id,
@@ -510,9 +556,14 @@ export function generateHistory(options: HistoryOptions): GeneratedHistory {
 }
 
 /** A shift's readings as analyseRound takes them (SI as stored), with its barometric pressure. */
-export function analysisInput(shift: HistoryShift): { readings: { instrumentTag: string; valueSI: number }[]; barometricPa: number } {
+export function analysisInput(shift: HistoryShift): {
+  readings: { instrumentTag: string; valueSI: number }[];
+  barometricPa: number;
+} {
   return {
-    readings: shift.readings.filter((r) => r.tag !== fernhallowBarometer.tag).map((r) => ({ instrumentTag: r.tag, valueSI: r.valueSI })),
+    readings: shift.readings
+      .filter((r) => r.tag !== fernhallowBarometer.tag)
+      .map((r) => ({ instrumentTag: r.tag, valueSI: r.valueSI })),
     barometricPa: shift.barometerSI,
   };
 }

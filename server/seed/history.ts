@@ -48,12 +48,23 @@ export interface SeedHistoryResult {
 }
 
 export async function seedHistory(ds: DataSource, options: SeedHistoryOptions = {}): Promise<SeedHistoryResult> {
-  const none = (reason: string): SeedHistoryResult => ({ seeded: false, reason, rounds: 0, readings: 0, analysed: 0, pushMs: 0, analysisMs: 0 });
+  const none = (reason: string): SeedHistoryResult => ({
+    seeded: false,
+    reason,
+    rounds: 0,
+    readings: 0,
+    analysed: 0,
+    pushMs: 0,
+    analysisMs: 0,
+  });
   const days = options.days ?? 90;
   const now = options.now ?? new Date();
 
   const demo = demoSites.find((s) => s.slug === 'fernhallow')!;
-  const [site] = (await ds.query(`SELECT "id", "timezone", "elevation_m" FROM "sites" WHERE "slug" = $1 AND "name" = $2`, [demo.slug, demo.name])) as {
+  const [site] = (await ds.query(
+    `SELECT "id", "timezone", "elevation_m" FROM "sites" WHERE "slug" = $1 AND "name" = $2`,
+    [demo.slug, demo.name],
+  )) as {
     id: string;
     timezone: string;
     elevation_m: number;
@@ -71,7 +82,9 @@ export async function seedHistory(ds: DataSource, options: SeedHistoryOptions = 
     `SELECT i."id", i."tag" FROM "instruments" i JOIN "units" u ON u."id" = i."unit_id" WHERE u."site_id" = $1`,
     [site.id],
   )) as { id: string; tag: string }[];
-  const routes = (await ds.query(`SELECT "key", "current_version_id" FROM "routes" WHERE "site_id" = $1`, [site.id])) as {
+  const routes = (await ds.query(`SELECT "key", "current_version_id" FROM "routes" WHERE "site_id" = $1`, [
+    site.id,
+  ])) as {
     key: string;
     current_version_id: string | null;
   }[];
@@ -93,7 +106,10 @@ export async function seedHistory(ds: DataSource, options: SeedHistoryOptions = 
     timezone: site.timezone,
     elevationM: site.elevation_m,
     faults: options.faults,
-    ids: { instrumentId: (t) => need(instrumentIds, t, 'instrument'), routeVersionId: (k) => need(versionIds, k, 'route') },
+    ids: {
+      instrumentId: (t) => need(instrumentIds, t, 'instrument'),
+      routeVersionId: (k) => need(versionIds, k, 'route'),
+    },
   });
   const shifts = history.shifts.filter((s) => Date.parse(s.payload.sentAt) <= now.getTime());
   if (shifts.length === 0) return none('no shift of the history has closed yet');

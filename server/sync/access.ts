@@ -13,7 +13,11 @@ export function assertMayPush(role: Role | undefined, what: string): void {
   // push.ts looks ids up on the caller's own sites only, so a role is always there; kept as a backstop
   if (!role) throw new AppError(403, 'forbidden', `${what}: pushing rounds needs a membership of its site`);
   if (!PUSH_ROLES.includes(role)) {
-    throw new AppError(403, 'forbidden', `${what}: pushing rounds needs the role ${PUSH_ROLES.join(', ')} on its site; you are ${role}`);
+    throw new AppError(
+      403,
+      'forbidden',
+      `${what}: pushing rounds needs the role ${PUSH_ROLES.join(', ')} on its site; you are ${role}`,
+    );
   }
 }
 

@@ -44,7 +44,14 @@ export async function pullChanges(ds: DataSource, siteId: string, cursor: number
     };
     const outUnits: SyncUnit[] = units.map((u) => {
       bump(u.syncVersion);
-      return { id: u.id, siteId: u.siteId, name: u.name, model: u.model, modelVersion: u.modelVersion, syncVersion: u.syncVersion };
+      return {
+        id: u.id,
+        siteId: u.siteId,
+        name: u.name,
+        model: u.model,
+        modelVersion: u.modelVersion,
+        syncVersion: u.syncVersion,
+      };
     });
     const outInstruments: SyncInstrument[] = instruments.map((i) => {
       bump(i.syncVersion);
@@ -81,6 +88,12 @@ export async function pullChanges(ds: DataSource, siteId: string, cursor: number
         syncVersion: version,
       };
     });
-    return { cursor: next, units: outUnits, instruments: outInstruments, routes: outRoutes, serverTime: new Date().toISOString() };
+    return {
+      cursor: next,
+      units: outUnits,
+      instruments: outInstruments,
+      routes: outRoutes,
+      serverTime: new Date().toISOString(),
+    };
   });
 }

@@ -136,7 +136,11 @@ const NO_SITE = '00000000-0000-0000-0000-000000000000';
 
 /** The 403 for a stored round the caller may not write: another technician's, or another site's. */
 const roundNotYours = (roundId: string) =>
-  new AppError(403, 'forbidden', `Round ${roundId} cannot take this push: only the technician who recorded it, or an admin of its site, adds to it`);
+  new AppError(
+    403,
+    'forbidden',
+    `Round ${roundId} cannot take this push: only the technician who recorded it, or an admin of its site, adds to it`,
+  );
 
 /** Stored readings among `ids` whose rounds are on `siteIds` (readings elsewhere are left out, as if unknown). */
 async function storedReadingsOn(
@@ -156,7 +160,12 @@ async function storedReadingsOn(
 
 const zero = (): PushCounts => ({ rounds: 0, readings: 0, checkAnswers: 0, photos: 0 });
 
-export async function pushBatch(ds: DataSource, userId: string, batch: PushBatch, receivedAt = new Date()): Promise<PushOutcome> {
+export async function pushBatch(
+  ds: DataSource,
+  userId: string,
+  batch: PushBatch,
+  receivedAt = new Date(),
+): Promise<PushOutcome> {
   const skewMs = receivedAt.getTime() - Date.parse(batch.sentAt);
 
   return ds.transaction(async (em) => {
@@ -181,10 +190,12 @@ export async function pushBatch(ds: DataSource, userId: string, batch: PushBatch
 
     // Every site the caller is a member of, with the role: records elsewhere do not exist for this push.
     const roles: Map<string, Role> = new Map(
-      ((await em.query(`SELECT "site_id", "role" FROM "memberships" WHERE "user_id" = $1`, [userId])) as { site_id: string; role: Role }[]).map((m) => [
-        m.site_id,
-        m.role,
-      ]),
+      (
+        (await em.query(`SELECT "site_id", "role" FROM "memberships" WHERE "user_id" = $1`, [userId])) as {
+          site_id: string;
+          role: Role;
+        }[]
+      ).map((m) => [m.site_id, m.role]),
     );
     const batchRoundIds = new Set(batch.rounds.map((r) => r.id));
     for (const s of [...storedRounds.values()]) {
@@ -218,7 +229,10 @@ export async function pushBatch(ds: DataSource, userId: string, batch: PushBatch
     for (const { item, index } of newRounds) {
       const version = versions.get(item.routeVersionId);
       if (!version) {
-        issue(`rounds.${index}.routeVersionId`, 'this route version does not exist (pull again for the current routes)');
+        issue(
+          `rounds.${index}.routeVersionId`,
+          'this route version does not exist (pull again for the current routes)',
+        );
         continue;
       }
       rounds.set(item.id, { id: item.id, siteId: version.site_id, version, stored: false });
@@ -258,10 +272,11 @@ export async function pushBatch(ds: DataSource, userId: string, batch: PushBatch
       for (const i of rows) instruments.set(i.id, i);
     }
     const batchReadings = new Map(newReadings.map(({ item }) => [item.id, item]));
-    const pointedReadings = await storedReadingsOn(em, [...roles.keys()], [
-      ...newReadings.map(({ item }) => item.supersedes),
-      ...batch.photos.map((ph) => ph.readingId),
-    ]);
+    const pointedReadings = await storedReadingsOn(
+      em,
+      [...roles.keys()],
+      [...newReadings.map(({ item }) => item.supersedes), ...batch.photos.map((ph) => ph.readingId)],
+    );
 
     interface ReadyReading {
       item: PushReading;
@@ -287,12 +302,20 @@ export async function pushBatch(ds: DataSource, userId: string, batch: PushBatch
       if (item.supersedes) {
         const inBatch = batchReadings.get(item.supersedes);
         const stored = pointedReadings.get(item.supersedes);
-        const old = inBatch ? { roundId: inBatch.roundId, instrumentId: inBatch.instrumentId } : stored ? { roundId: stored.round_id, instrumentId: stored.instrument_id } : null;
+        const old = inBatch
+          ? { roundId: inBatch.roundId, instrumentId: inBatch.instrumentId }
+          : stored
+            ? { roundId: stored.round_id, instrumentId: stored.instrument_id }
+            : null;
         if (item.supersedes === item.id) issue(`${p}.supersedes`, 'a reading cannot supersede itself');
         else if (!old) issue(`${p}.supersedes`, 'the reading it supersedes is neither in this push nor stored');
         else if (old.roundId !== item.roundId) {
-          issue(`${p}.supersedes`, 'the reading it supersedes is of another round: a re-take replaces a reading of its own round only');
-        } else if (old.instrumentId !== inst.id) issue(`${p}.supersedes`, `the reading it supersedes is of another instrument than ${inst.tag}`);
+          issue(
+            `${p}.supersedes`,
+            'the reading it supersedes is of another round: a re-take replaces a reading of its own round only',
+          );
+        } else if (old.instrumentId !== inst.id)
+          issue(`${p}.supersedes`, `the reading it supersedes is of another instrument than ${inst.tag}`);
       }
       let unit: string;
       try {
@@ -303,7 +326,10 @@ export async function pushBatch(ds: DataSource, userId: string, batch: PushBatch
         continue;
       }
       if (inst.quantity !== 'pressure' && item.reference) {
-        issue(`${p}.reference`, `${inst.tag} measures ${inst.quantity}, which takes no pressure reference; got "${item.reference}"`);
+        issue(
+          `${p}.reference`,
+          `${inst.tag} measures ${inst.quantity}, which takes no pressure reference; got "${item.reference}"`,
+        );
         continue;
       }
       if (inst.quantity === 'pressure' && !item.reference) {
@@ -330,7 +356,9 @@ export async function pushBatch(ds: DataSource, userId: string, batch: PushBatch
         issue(`readings.${r.index}.valueTyped`, `${r.inst.tag} (barometer): ${e.message}`);
       }
     }
-    const needBaro = [...new Set(ready.filter((r) => r.inst.quantity === 'pressure' && !barometric.has(r.ctx.id)).map((r) => r.ctx))];
+    const needBaro = [
+      ...new Set(ready.filter((r) => r.inst.quantity === 'pressure' && !barometric.has(r.ctx.id)).map((r) => r.ctx)),
+    ];
     if (needBaro.some((c) => c.stored)) {
       const rows = (await em.query(
         `SELECT DISTINCT ON (r."round_id") r."round_id", r."value_si"
@@ -342,7 +370,8 @@ export async function pushBatch(ds: DataSource, userId: string, batch: PushBatch
       )) as { round_id: string; value_si: number }[];
       for (const row of rows) barometric.set(row.round_id, row.value_si);
     }
-    for (const c of needBaro) if (!barometric.has(c.id)) barometric.set(c.id, barometricFromElevation(c.version.elevation_m));
+    for (const c of needBaro)
+      if (!barometric.has(c.id)) barometric.set(c.id, barometricFromElevation(c.version.elevation_m));
 
     const readingRows: unknown[][] = [];
     for (const r of ready) {
@@ -350,7 +379,12 @@ export async function pushBatch(ds: DataSource, userId: string, batch: PushBatch
       if (r.item.valueTyped !== null) {
         try {
           si = toSI(
-            { quantity: r.inst.quantity as Quantity, value: r.item.valueTyped, unit: r.unit, reference: r.item.reference ?? undefined },
+            {
+              quantity: r.inst.quantity as Quantity,
+              value: r.item.valueTyped,
+              unit: r.unit,
+              reference: r.item.reference ?? undefined,
+            },
             { barometricPa: barometric.get(r.ctx.id) },
           );
         } catch (e) {
@@ -387,7 +421,10 @@ export async function pushBatch(ds: DataSource, userId: string, batch: PushBatch
       if (!ctx) continue;
       const check = checksById(ctx.version.template).get(item.checkId);
       if (!check) {
-        issue(`${p}.checkId`, `check "${item.checkId}" is not on route "${ctx.version.template.id}" (version ${ctx.version.id})`);
+        issue(
+          `${p}.checkId`,
+          `check "${item.checkId}" is not on route "${ctx.version.template.id}" (version ${ctx.version.id})`,
+        );
         continue;
       }
       if (check.kind !== item.answer.kind) {
@@ -395,10 +432,20 @@ export async function pushBatch(ds: DataSource, userId: string, batch: PushBatch
         continue;
       }
       if (check.kind === 'choice' && !check.options.includes(String(item.answer.value))) {
-        issue(`${p}.answer.value`, `"${String(item.answer.value)}" is not an option of check "${check.id}": ${check.options.join(', ')}`);
+        issue(
+          `${p}.answer.value`,
+          `"${String(item.answer.value)}" is not an option of check "${check.id}": ${check.options.join(', ')}`,
+        );
         continue;
       }
-      answerRows.push([item.id, item.roundId, item.checkId, JSON.stringify(item.answer), item.note ?? null, item.deviceTime]);
+      answerRows.push([
+        item.id,
+        item.roundId,
+        item.checkId,
+        JSON.stringify(item.answer),
+        item.note ?? null,
+        item.deviceTime,
+      ]);
     }
 
     // photos
@@ -409,14 +456,24 @@ export async function pushBatch(ds: DataSource, userId: string, batch: PushBatch
       const ctx = roundOf(item.roundId, `${p}.roundId`);
       if (!ctx) continue;
       if (item.readingId) {
-        const readingRound = batchReadings.get(item.readingId)?.roundId ?? pointedReadings.get(item.readingId)?.round_id;
+        const readingRound =
+          batchReadings.get(item.readingId)?.roundId ?? pointedReadings.get(item.readingId)?.round_id;
         if (!readingRound) issue(`${p}.readingId`, 'this reading is neither in this push nor stored');
-        else if (readingRound !== item.roundId) issue(`${p}.readingId`, 'this reading is of another round than the photo');
+        else if (readingRound !== item.roundId)
+          issue(`${p}.readingId`, 'this reading is of another round than the photo');
       }
       if (item.checkId && !checksById(ctx.version.template).has(item.checkId)) {
         issue(`${p}.checkId`, `check "${item.checkId}" is not on route "${ctx.version.template.id}"`);
       }
-      photoRows.push([item.id, item.roundId, item.readingId ?? null, item.checkId ?? null, item.sha256, item.mime, item.bytes]);
+      photoRows.push([
+        item.id,
+        item.roundId,
+        item.readingId ?? null,
+        item.checkId ?? null,
+        item.sha256,
+        item.mime,
+        item.bytes,
+      ]);
     }
 
     if (issues.length) {
@@ -431,7 +488,20 @@ export async function pushBatch(ds: DataSource, userId: string, batch: PushBatch
     const insertedRounds = await insertIgnoring(
       em,
       'rounds',
-      ['id', 'site_id', 'route_version_id', 'technician_id', 'started_at_device', 'finished_at_device', 'received_at', 'status', 'dismissals', 'client_clock_skew_ms', 'device_id', 'device_model_version'],
+      [
+        'id',
+        'site_id',
+        'route_version_id',
+        'technician_id',
+        'started_at_device',
+        'finished_at_device',
+        'received_at',
+        'status',
+        'dismissals',
+        'client_clock_skew_ms',
+        'device_id',
+        'device_model_version',
+      ],
       newRounds
         .filter(({ item }) => rounds.has(item.id))
         .map(({ item }) => {
@@ -480,9 +550,12 @@ export async function pushBatch(ds: DataSource, userId: string, batch: PushBatch
       if (!s) continue;
       const incoming = batch.rounds.filter((x) => x.id === r.item.id).flatMap((x) => x.dismissals ?? []);
       if (incoming.length === 0) continue;
-      const [row] = (await em.query(`SELECT "dismissals" FROM "rounds" WHERE "id" = $1 FOR UPDATE`, [s.id])) as { dismissals: unknown[] }[];
+      const [row] = (await em.query(`SELECT "dismissals" FROM "rounds" WHERE "id" = $1 FOR UPDATE`, [s.id])) as {
+        dismissals: unknown[];
+      }[];
       const held = Array.isArray(row?.dismissals) ? (row.dismissals as Record<string, unknown>[]) : [];
-      const key = (d: Record<string, unknown>) => JSON.stringify([d.readingId ?? null, d.tag ?? null, d.flag, d.deviceTime]);
+      const key = (d: Record<string, unknown>) =>
+        JSON.stringify([d.readingId ?? null, d.tag ?? null, d.flag, d.deviceTime]);
       const have = new Set(held.map(key));
       const added = incoming.filter((d) => {
         const k = key(d as Record<string, unknown>);
@@ -491,14 +564,32 @@ export async function pushBatch(ds: DataSource, userId: string, batch: PushBatch
         return true;
       });
       if (added.length === 0) continue;
-      await em.query(`UPDATE "rounds" SET "dismissals" = $2 WHERE "id" = $1`, [s.id, JSON.stringify([...held, ...added])]);
+      await em.query(`UPDATE "rounds" SET "dismissals" = $2 WHERE "id" = $1`, [
+        s.id,
+        JSON.stringify([...held, ...added]),
+      ]);
       touched.add(s.id);
     }
 
     const insertedReadings = await insertIgnoring(
       em,
       'readings',
-      ['id', 'round_id', 'instrument_id', 'value_typed', 'unit', 'reference', 'value_si', 'device_time', 'note', 'skip_reason', 'supersedes', 'confirmed_after_flag', 'flags', 'recorded_by'],
+      [
+        'id',
+        'round_id',
+        'instrument_id',
+        'value_typed',
+        'unit',
+        'reference',
+        'value_si',
+        'device_time',
+        'note',
+        'skip_reason',
+        'supersedes',
+        'confirmed_after_flag',
+        'flags',
+        'recorded_by',
+      ],
       readingRows,
       '"id", "round_id"',
     );
@@ -527,7 +618,10 @@ export async function pushBatch(ds: DataSource, userId: string, batch: PushBatch
 
     const photoIds = [...new Set(batch.photos.map((p) => p.id))];
     const wanted = photoIds.length
-      ? ((await em.query(`SELECT "id" FROM "photos" WHERE "id" = ANY($1::uuid[]) AND "status" = 'pending' ORDER BY "id"`, [photoIds])) as {
+      ? ((await em.query(
+          `SELECT "id" FROM "photos" WHERE "id" = ANY($1::uuid[]) AND "status" = 'pending' ORDER BY "id"`,
+          [photoIds],
+        )) as {
           id: string;
         }[])
       : [];

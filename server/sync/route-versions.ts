@@ -6,7 +6,14 @@
 import type { EntityManager } from 'typeorm';
 import { validateRoute, type RouteModel } from '../../checklists/validate';
 import type { RouteTemplate } from '../../shared/route/template';
-import { InstrumentEntity, RouteEntity, RouteVersionEntity, PlantUnitEntity, type Route, type RouteVersion } from '../entities';
+import {
+  InstrumentEntity,
+  RouteEntity,
+  RouteVersionEntity,
+  PlantUnitEntity,
+  type Route,
+  type RouteVersion,
+} from '../entities';
 import { AppError } from '../errors';
 
 /**
@@ -42,7 +49,10 @@ export interface CreateRouteInput {
 }
 
 /** A new route with its template published as version 1. */
-export async function createRoute(em: EntityManager, input: CreateRouteInput): Promise<{ route: Route; version: RouteVersion }> {
+export async function createRoute(
+  em: EntityManager,
+  input: CreateRouteInput,
+): Promise<{ route: Route; version: RouteVersion }> {
   const template = await checkedTemplate(em, input.unitId, input.template);
   const route = await em.getRepository(RouteEntity).save({
     siteId: input.siteId,
@@ -69,15 +79,22 @@ export async function publishRouteVersion(
   template: unknown,
   publishedBy: string | null,
 ): Promise<RouteVersion> {
-  const route = await em.getRepository(RouteEntity).findOne({ where: { id: routeId }, lock: { mode: 'pessimistic_write' } });
+  const route = await em
+    .getRepository(RouteEntity)
+    .findOne({ where: { id: routeId }, lock: { mode: 'pessimistic_write' } });
   if (!route) throw new AppError(404, 'not_found', `Route ${routeId} not found`);
   const checked = await checkedTemplate(em, route.unitId, template);
   if (checked.id !== route.key) {
-    throw new AppError(400, 'validation', `Invalid route template: id is "${checked.id}" but the route is "${route.key}"`, [
-      { path: 'template.id', message: `must be "${route.key}", the route's id` },
-    ]);
+    throw new AppError(
+      400,
+      'validation',
+      `Invalid route template: id is "${checked.id}" but the route is "${route.key}"`,
+      [{ path: 'template.id', message: `must be "${route.key}", the route's id` }],
+    );
   }
-  const last = (await em.query(`SELECT COALESCE(MAX("number"), 0) AS n FROM "route_versions" WHERE "route_id" = $1`, [routeId])) as {
+  const last = (await em.query(`SELECT COALESCE(MAX("number"), 0) AS n FROM "route_versions" WHERE "route_id" = $1`, [
+    routeId,
+  ])) as {
     n: number;
   }[];
   const version = await em.getRepository(RouteVersionEntity).save({

@@ -26,7 +26,11 @@ export function syncRouter(hooks: SyncHooks = noopSyncHooks): Router {
     // Who may push at all, before reading the batch: a push role on some site.
     const memberships = await dataSource.getRepository(MembershipEntity).find({ where: { userId } });
     if (!memberships.some((m) => PUSH_ROLES.includes(m.role))) {
-      throw new AppError(403, 'forbidden', `Pushing rounds needs the role ${PUSH_ROLES.join(', ')} on a site; you have none`);
+      throw new AppError(
+        403,
+        'forbidden',
+        `Pushing rounds needs the role ${PUSH_ROLES.join(', ')} on a site; you have none`,
+      );
     }
     const batch = parseBody(PushRequest, req);
     const { response, roundIds } = await pushBatch(dataSource, userId, batch, receivedAt);
@@ -45,7 +49,9 @@ export function syncRouter(hooks: SyncHooks = noopSyncHooks): Router {
     const q = PullQuery.safeParse(req.query);
     if (!q.success) throw validationError(q.error, 'query');
     const { dataSource } = deps(req);
-    const member = await dataSource.getRepository(MembershipEntity).findOne({ where: { userId, siteId: q.data.siteId } });
+    const member = await dataSource
+      .getRepository(MembershipEntity)
+      .findOne({ where: { userId, siteId: q.data.siteId } });
     if (!member) throw new AppError(404, 'not_found', 'Site not found');
     res.json(await pullChanges(dataSource, q.data.siteId, q.data.cursor));
   });

@@ -25,7 +25,10 @@ const PhotoId = z.uuid({ error: 'Must be a photo UUID' });
 
 function photoId(req: Request): string {
   const r = PhotoId.safeParse(req.params.id);
-  if (!r.success) throw new AppError(400, 'validation', 'Invalid photo id: must be a UUID', [{ path: 'id', message: 'Must be a photo UUID' }]);
+  if (!r.success)
+    throw new AppError(400, 'validation', 'Invalid photo id: must be a UUID', [
+      { path: 'id', message: 'Must be a photo UUID' },
+    ]);
   return r.data;
 }
 
@@ -37,7 +40,9 @@ function receiveOne(config: Config): RequestHandler {
   }).single('photo');
   return (req, res, next) => {
     if (!req.is('multipart/form-data')) {
-      return next(new AppError(415, 'unsupported_media_type', 'Send the photo as multipart/form-data in the field "photo"'));
+      return next(
+        new AppError(415, 'unsupported_media_type', 'Send the photo as multipart/form-data in the field "photo"'),
+      );
     }
     upload(req, res, (err: unknown) => {
       if (!err) return next();
@@ -49,7 +54,13 @@ function receiveOne(config: Config): RequestHandler {
             }),
           );
         }
-        return next(new AppError(400, 'bad_request', `Upload refused: ${err.message}${err.field ? ` (field "${err.field}")` : ''}; send one file in the field "photo"`));
+        return next(
+          new AppError(
+            400,
+            'bad_request',
+            `Upload refused: ${err.message}${err.field ? ` (field "${err.field}")` : ''}; send one file in the field "photo"`,
+          ),
+        );
       }
       next(err);
     });
@@ -76,22 +87,24 @@ export function photosRouter(config: Config, store: PhotoStore): Router {
     },
   );
 
-  const serve = (which: 'photo' | 'thumb'): RequestHandler => async (req, res) => {
-    const photo = await photoForReading(deps(req).dataSource, authOf(req).userId, photoId(req));
-    const key = which === 'photo' ? photo.storageKey : photo.thumbKey;
-    const obj = key ? await store.get(key) : null;
-    if (!obj) throw new AppError(404, 'not_found', 'The photo is not in the store');
-    res.setHeader('Content-Type', which === 'photo' ? photo.mime : 'image/jpeg');
-    if (obj.bytes !== undefined) res.setHeader('Content-Length', String(obj.bytes));
-    // The bytes of an id never change once stored.
-    res.setHeader('Cache-Control', 'private, max-age=31536000, immutable');
-    res.setHeader('X-Content-Type-Options', 'nosniff');
-    obj.body.on('error', (err) => {
-      req.log?.error({ err }, 'photo stream failed');
-      res.destroy(err);
-    });
-    obj.body.pipe(res);
-  };
+  const serve =
+    (which: 'photo' | 'thumb'): RequestHandler =>
+    async (req, res) => {
+      const photo = await photoForReading(deps(req).dataSource, authOf(req).userId, photoId(req));
+      const key = which === 'photo' ? photo.storageKey : photo.thumbKey;
+      const obj = key ? await store.get(key) : null;
+      if (!obj) throw new AppError(404, 'not_found', 'The photo is not in the store');
+      res.setHeader('Content-Type', which === 'photo' ? photo.mime : 'image/jpeg');
+      if (obj.bytes !== undefined) res.setHeader('Content-Length', String(obj.bytes));
+      // The bytes of an id never change once stored.
+      res.setHeader('Cache-Control', 'private, max-age=31536000, immutable');
+      res.setHeader('X-Content-Type-Options', 'nosniff');
+      obj.body.on('error', (err) => {
+        req.log?.error({ err }, 'photo stream failed');
+        res.destroy(err);
+      });
+      obj.body.pipe(res);
+    };
   r.get('/:id', serve('photo'));
   r.get('/:id/thumb', serve('thumb'));
   return r;

@@ -5,7 +5,13 @@
  * understand the SDK's newer default CRC headers.
  */
 import { Readable } from 'node:stream';
-import { GetObjectCommand, HeadObjectCommand, PutObjectCommand, S3Client, S3ServiceException } from '@aws-sdk/client-s3';
+import {
+  GetObjectCommand,
+  HeadObjectCommand,
+  PutObjectCommand,
+  S3Client,
+  S3ServiceException,
+} from '@aws-sdk/client-s3';
 import { assertSafeKey, type PhotoStore, type StoredObject } from './store';
 
 export interface S3StoreOptions {
@@ -18,7 +24,8 @@ export interface S3StoreOptions {
 }
 
 const notFound = (e: unknown) =>
-  e instanceof S3ServiceException && (e.name === 'NoSuchKey' || e.name === 'NotFound' || e.$metadata?.httpStatusCode === 404);
+  e instanceof S3ServiceException &&
+  (e.name === 'NoSuchKey' || e.name === 'NotFound' || e.$metadata?.httpStatusCode === 404);
 
 export class S3PhotoStore implements PhotoStore {
   readonly client: S3Client;
@@ -30,7 +37,10 @@ export class S3PhotoStore implements PhotoStore {
       endpoint: o.endpoint,
       region: o.region,
       forcePathStyle: o.forcePathStyle,
-      credentials: o.accessKeyId && o.secretAccessKey ? { accessKeyId: o.accessKeyId, secretAccessKey: o.secretAccessKey } : undefined,
+      credentials:
+        o.accessKeyId && o.secretAccessKey
+          ? { accessKeyId: o.accessKeyId, secretAccessKey: o.secretAccessKey }
+          : undefined,
       requestChecksumCalculation: 'WHEN_REQUIRED',
       responseChecksumValidation: 'WHEN_REQUIRED',
     });
@@ -38,7 +48,15 @@ export class S3PhotoStore implements PhotoStore {
 
   async put(key: string, bytes: Buffer, mime: string): Promise<void> {
     assertSafeKey(key);
-    await this.client.send(new PutObjectCommand({ Bucket: this.bucket, Key: key, Body: bytes, ContentType: mime, ContentLength: bytes.length }));
+    await this.client.send(
+      new PutObjectCommand({
+        Bucket: this.bucket,
+        Key: key,
+        Body: bytes,
+        ContentType: mime,
+        ContentLength: bytes.length,
+      }),
+    );
   }
 
   async get(key: string): Promise<StoredObject | null> {
@@ -46,7 +64,8 @@ export class S3PhotoStore implements PhotoStore {
     try {
       const r = await this.client.send(new GetObjectCommand({ Bucket: this.bucket, Key: key }));
       if (!r.Body) return null;
-      const body = r.Body instanceof Readable ? r.Body : Readable.from(Buffer.from(await r.Body.transformToByteArray()));
+      const body =
+        r.Body instanceof Readable ? r.Body : Readable.from(Buffer.from(await r.Body.transformToByteArray()));
       return { body, bytes: r.ContentLength, mime: r.ContentType };
     } catch (e) {
       if (notFound(e)) return null;

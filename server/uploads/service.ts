@@ -26,7 +26,12 @@ const CONFLICT: ErrorCode = 'conflict';
  */
 const photoNotFound = () => new AppError(404, 'not_found', 'Photo not found');
 /** The one 404 of a photo the caller cannot upload to: not announced, or on another site. */
-const uploadNotFound = () => new AppError(404, 'not_found', 'No photo with this id was announced on your sites: push its round with the photo first');
+const uploadNotFound = () =>
+  new AppError(
+    404,
+    'not_found',
+    'No photo with this id was announced on your sites: push its round with the photo first',
+  );
 
 async function photoWithRound(ds: DataSource, id: string) {
   const photo = await ds.getRepository(PhotoEntity).findOneBy({ id });
@@ -53,18 +58,29 @@ export async function photoForReading(ds: DataSource, userId: string, id: string
   if (!found) throw photoNotFound();
   const m = await ds.getRepository(MembershipEntity).findOneBy({ userId, siteId: found.round.siteId });
   if (!m) throw photoNotFound();
-  if (found.photo.status !== 'stored') throw new AppError(404, 'not_found', 'The photo has been announced but not uploaded yet');
+  if (found.photo.status !== 'stored')
+    throw new AppError(404, 'not_found', 'The photo has been announced but not uploaded yet');
   return found.photo;
 }
 
-export async function storePhoto(ds: DataSource, store: PhotoStore, photo: Photo, bytes: Buffer): Promise<PhotoUploadResponse> {
+export async function storePhoto(
+  ds: DataSource,
+  store: PhotoStore,
+  photo: Photo,
+  bytes: Buffer,
+): Promise<PhotoUploadResponse> {
   if (photo.status === 'stored') return uploaded(photo, false);
   const sha = createHash('sha256').update(bytes).digest('hex');
   if (sha !== photo.sha256) {
-    throw new AppError(409, CONFLICT, `The upload's SHA-256 ${sha} is not the announced ${photo.sha256}; send the photo's own bytes`, {
-      announced: photo.sha256,
-      received: sha,
-    });
+    throw new AppError(
+      409,
+      CONFLICT,
+      `The upload's SHA-256 ${sha} is not the announced ${photo.sha256}; send the photo's own bytes`,
+      {
+        announced: photo.sha256,
+        received: sha,
+      },
+    );
   }
   const img = await processPhoto(bytes);
   const key = photoKey(photo.id, img.ext);
@@ -77,7 +93,15 @@ export async function storePhoto(ds: DataSource, store: PhotoStore, photo: Photo
   }
   await ds.getRepository(PhotoEntity).update(
     { id: photo.id },
-    { status: 'stored', storageKey: key, thumbKey: tkey, mime: img.mime, width: img.width, height: img.height, storedAt: new Date() },
+    {
+      status: 'stored',
+      storageKey: key,
+      thumbKey: tkey,
+      mime: img.mime,
+      width: img.width,
+      height: img.height,
+      storedAt: new Date(),
+    },
   );
   return {
     id: photo.id,
@@ -100,13 +124,21 @@ const FULL = new Set(['ENOSPC', 'EDQUOT']);
  * and the device's photo queue uploads it again later. The cause goes to the log with the request.
  */
 export function photoStoreError(photoId: string, err: unknown): AppError {
-  const code = typeof (err as { code?: unknown })?.code === 'string' ? (err as { code: string }).code : (err as { name?: string })?.name ?? 'unknown';
+  const code =
+    typeof (err as { code?: unknown })?.code === 'string'
+      ? (err as { code: string }).code
+      : ((err as { name?: string })?.name ?? 'unknown');
   const full = FULL.has(code);
   const why = full ? 'the photo store is full' : `the photo store cannot be written (${code})`;
-  const e = new AppError(full ? 507 : 503, 'storage_unavailable', `Photo ${photoId} was not stored: ${why}; its round and readings are kept, upload the photo again later`, {
-    photoId,
-    reason: code,
-  });
+  const e = new AppError(
+    full ? 507 : 503,
+    'storage_unavailable',
+    `Photo ${photoId} was not stored: ${why}; its round and readings are kept, upload the photo again later`,
+    {
+      photoId,
+      reason: code,
+    },
+  );
   (e as { cause?: unknown }).cause = err;
   return e;
 }

@@ -26,7 +26,9 @@ const SAFE_KEY = /^(?:[a-z0-9][a-z0-9_-]{0,63}\/){0,3}[a-z0-9][a-z0-9_-]{0,63}(?
 
 export class UnsafeKeyError extends Error {
   constructor(key: string) {
-    super(`photo store key ${JSON.stringify(key)} is not a safe key (segments of a–z, 0–9, "-", "_"; no "..", no leading "/")`);
+    super(
+      `photo store key ${JSON.stringify(key)} is not a safe key (segments of a–z, 0–9, "-", "_"; no "..", no leading "/")`,
+    );
     this.name = 'UnsafeKeyError';
   }
 }

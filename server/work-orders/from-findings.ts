@@ -105,10 +105,14 @@ interface Group {
 }
 
 /** Criticality of the equipment an instrument sits on (the most critical around its point). */
-export function criticalityOfInstrument(model: CycleModel, i: { pointRef: string | null; equipmentRef: string | null }): number {
+export function criticalityOfInstrument(
+  model: CycleModel,
+  i: { pointRef: string | null; equipmentRef: string | null },
+): number {
   let c = 0;
   if (i.pointRef) {
-    for (const e of model.equipment) if (portUses(e).some((u) => u.point === i.pointRef)) c = Math.max(c, e.criticality);
+    for (const e of model.equipment)
+      if (portUses(e).some((u) => u.point === i.pointRef)) c = Math.max(c, e.criticality);
   }
   if (i.equipmentRef) c = Math.max(c, model.equipment.find((e) => e.id === i.equipmentRef)?.criticality ?? 0);
   return c || 1;
@@ -142,7 +146,7 @@ function groupsOf(ctx: FindingsContext, findings: readonly StoredFinding[]): Gro
         instrument = named.find((i) => i.tag === groupTags[0])!;
       } else instrument = named.find((i) => ctx.suspects.has(i.tag)) ?? mostCorrected(ctx, named) ?? named[0] ?? null;
     }
-    const mayOpen = !fromEvidence || !ctx.named || (f.instrumentTags.some((t) => ctx.named!.has(t)));
+    const mayOpen = !fromEvidence || !ctx.named || f.instrumentTags.some((t) => ctx.named!.has(t));
     if (!instrument) equipmentRef = f.equipmentRef;
     if (!instrument && !equipmentRef) continue;
     const crit = instrument
@@ -177,8 +181,17 @@ function foldBalancesIntoSuspects(ctx: FindingsContext, byKey: Map<string, Group
   const byTag = new Map([...ctx.instruments.values()].map((i) => [i.tag, i]));
   /** the suspect instruments a group stands for: its instrument, or the suspects among a check-group's */
   const suspectsOf = (g: Group): UnitInstrument[] =>
-    g.groupTags.length ? g.groupTags.filter((t) => ctx.suspects.has(t)).map((t) => byTag.get(t)!).filter(Boolean) : g.instrument && ctx.suspects.has(g.instrument.tag) ? [g.instrument] : [];
-  const suspectGroups = [...byKey.values()].filter((g) => suspectsOf(g).length > 0).sort((a, b) => (a.key < b.key ? -1 : a.key > b.key ? 1 : 0));
+    g.groupTags.length
+      ? g.groupTags
+          .filter((t) => ctx.suspects.has(t))
+          .map((t) => byTag.get(t)!)
+          .filter(Boolean)
+      : g.instrument && ctx.suspects.has(g.instrument.tag)
+        ? [g.instrument]
+        : [];
+  const suspectGroups = [...byKey.values()]
+    .filter((g) => suspectsOf(g).length > 0)
+    .sort((a, b) => (a.key < b.key ? -1 : a.key > b.key ? 1 : 0));
   for (const [key, g] of [...byKey]) {
     if (g.instrument || !g.equipmentRef || g.findings.some((f) => f.kind !== 'balance-not-closed')) continue;
     const into = suspectGroups.find((s) => suspectsOf(s).some((i) => onEquipment(ctx.model, i, g.equipmentRef!)));
@@ -190,7 +203,8 @@ function foldBalancesIntoSuspects(ctx: FindingsContext, byKey: Map<string, Group
 
 function titleOf(model: CycleModel, g: Group): string {
   const what = g.findings[0].kind.replace(/-/g, ' ');
-  if (g.kind === 'check-group') return `${VERB[g.kind]} ${joinNames(g.groupTags)}: the balances cannot tell which reads wrong`.slice(0, 300);
+  if (g.kind === 'check-group')
+    return `${VERB[g.kind]} ${joinNames(g.groupTags)}: the balances cannot tell which reads wrong`.slice(0, 300);
   if (g.instrument) {
     const label = model.instruments.find((i) => i.tag === g.instrument!.tag)?.label;
     return `${VERB[g.kind]} ${g.instrument.tag}${label ? ` (${label})` : ''}: ${what}`.slice(0, 300);
@@ -203,19 +217,36 @@ async function event(
   em: EntityManager,
   workOrderId: string,
   type: string,
-  e: { from?: string | null; to?: string | null; changes?: Record<string, unknown>; comment?: string | null; actorId?: string | null },
+  e: {
+    from?: string | null;
+    to?: string | null;
+    changes?: Record<string, unknown>;
+    comment?: string | null;
+    actorId?: string | null;
+  },
 ): Promise<void> {
   await em.query(
     `INSERT INTO "work_order_events" ("work_order_id", "actor_id", "type", "from_status", "to_status", "changes", "comment")
      VALUES ($1, $2, $3, $4, $5, $6, $7)`,
-    [workOrderId, e.actorId ?? null, type, e.from ?? null, e.to ?? null, JSON.stringify(e.changes ?? {}), e.comment ?? null],
+    [
+      workOrderId,
+      e.actorId ?? null,
+      type,
+      e.from ?? null,
+      e.to ?? null,
+      JSON.stringify(e.changes ?? {}),
+      e.comment ?? null,
+    ],
   );
 }
 
 async function attach(em: EntityManager, workOrderId: string, findings: StoredFinding[]): Promise<void> {
   const params: unknown[] = [workOrderId];
   const values = findings.map((f) => `($1, $${params.push(f.id)})`);
-  await em.query(`INSERT INTO "work_order_findings" ("work_order_id", "finding_id") VALUES ${values.join(', ')} ON CONFLICT DO NOTHING`, params);
+  await em.query(
+    `INSERT INTO "work_order_findings" ("work_order_id", "finding_id") VALUES ${values.join(', ')} ON CONFLICT DO NOTHING`,
+    params,
+  );
 }
 
 async function markSuspect(em: EntityManager, instrumentId: string): Promise<void> {
@@ -241,20 +272,27 @@ interface OpenRow {
 
 /** Locks the site's work-order counter row (made on first use) for the rest of the transaction. */
 export async function lockSiteCounter(em: EntityManager, siteId: string): Promise<void> {
-  await em.query(`INSERT INTO "work_order_counters" ("site_id") VALUES ($1) ON CONFLICT ("site_id") DO NOTHING`, [siteId]);
+  await em.query(`INSERT INTO "work_order_counters" ("site_id") VALUES ($1) ON CONFLICT ("site_id") DO NOTHING`, [
+    siteId,
+  ]);
   await em.query(`SELECT "last_number" FROM "work_order_counters" WHERE "site_id" = $1 FOR UPDATE`, [siteId]);
 }
 
 /** The site's next work-order number (the counter row must be locked: lockSiteCounter). */
 async function nextNumber(em: EntityManager, siteId: string): Promise<number> {
   // an UPDATE … RETURNING comes back from TypeORM as [rows, affected]
-  const [rows] = (await em.query(`UPDATE "work_order_counters" SET "last_number" = "last_number" + 1 WHERE "site_id" = $1 RETURNING "last_number"`, [
-    siteId,
-  ])) as [{ last_number: number }[], number];
+  const [rows] = (await em.query(
+    `UPDATE "work_order_counters" SET "last_number" = "last_number" + 1 WHERE "site_id" = $1 RETURNING "last_number"`,
+    [siteId],
+  )) as [{ last_number: number }[], number];
   return rows[0].last_number;
 }
 
-export async function workOrdersFromFindings(em: EntityManager, ctx: FindingsContext, findings: readonly StoredFinding[]): Promise<WorkOrderChanges> {
+export async function workOrdersFromFindings(
+  em: EntityManager,
+  ctx: FindingsContext,
+  findings: readonly StoredFinding[],
+): Promise<WorkOrderChanges> {
   const out: WorkOrderChanges = { opened: [], reopened: [], attached: [] };
   const suspect = new Set<string>();
   const groups = groupsOf(ctx, findings);
@@ -285,8 +323,14 @@ export async function workOrdersFromFindings(em: EntityManager, ctx: FindingsCon
       let priority = open.priority;
       if (open.status === 'open' && g.priority < open.priority) {
         priority = g.priority;
-        await em.query(`UPDATE "work_orders" SET "priority" = $2, "updated_at" = now() WHERE "id" = $1`, [open.id, priority]);
-        await event(em, open.id, 'priority', { changes: { priority: { from: open.priority, to: priority } }, comment: 'Raised by newer evidence' });
+        await em.query(`UPDATE "work_orders" SET "priority" = $2, "updated_at" = now() WHERE "id" = $1`, [
+          open.id,
+          priority,
+        ]);
+        await event(em, open.id, 'priority', {
+          changes: { priority: { from: open.priority, to: priority } },
+          comment: 'Raised by newer evidence',
+        });
       } else await em.query(`UPDATE "work_orders" SET "updated_at" = now() WHERE "id" = $1`, [open.id]);
       out.attached.push({ id: open.id, number: open.code, priority });
       continue;
@@ -362,7 +406,11 @@ export async function workOrdersFromFindings(em: EntityManager, ctx: FindingsCon
       ],
     )) as { id: string }[];
     await attach(em, id, g.findings);
-    await event(em, id, 'opened', { to: 'open', changes: { ...summary, kind: g.kind, priority: g.priority }, comment: note });
+    await event(em, id, 'opened', {
+      to: 'open',
+      changes: { ...summary, kind: g.kind, priority: g.priority },
+      comment: note,
+    });
     if (g.kind === 'calibrate' && g.instrument) suspect.add(g.instrument.id);
     if (g.kind === 'check-group') for (const f of g.findings) for (const i of f.instrumentIds) suspect.add(i);
     out.opened.push({ id, number: code, priority: g.priority });

@@ -46,7 +46,12 @@ export const KIND_OF_FINDING: Readonly<Record<string, WorkOrderKind>> = Object.f
 });
 
 /** Reconciliation findings that open an order only for an instrument the sequential evidence names. */
-export const EVIDENCE_KINDS: ReadonlySet<string> = new Set(['gross-error', 'gauge-read-as-absolute', 'absolute-read-as-gauge', 'sustained-bias']);
+export const EVIDENCE_KINDS: ReadonlySet<string> = new Set([
+  'gross-error',
+  'gauge-read-as-absolute',
+  'absolute-read-as-gauge',
+  'sustained-bias',
+]);
 
 /** Finding kinds that count as a flag on an instrument (instrument health): those that open work. */
 export const FLAG_KINDS: readonly string[] = Object.keys(KIND_OF_FINDING);
@@ -82,7 +87,9 @@ export const VERB: Readonly<Record<WorkOrderKind, string>> = Object.freeze({
 });
 
 /** Status moves an action makes: from which statuses, to which. */
-export const TRANSITIONS: Readonly<Partial<Record<WorkOrderAction, { from: readonly WorkOrderStatus[]; to: WorkOrderStatus | null }>>> = Object.freeze({
+export const TRANSITIONS: Readonly<
+  Partial<Record<WorkOrderAction, { from: readonly WorkOrderStatus[]; to: WorkOrderStatus | null }>>
+> = Object.freeze({
   triage: { from: ['open'], to: 'triaged' },
   schedule: { from: ['triaged', 'scheduled'], to: 'scheduled' },
   start: { from: ['scheduled'], to: 'in-progress' },
@@ -108,7 +115,8 @@ export function refusal(action: WorkOrderAction, from: WorkOrderStatus): string 
 /** Every action the flow allows from a status (comment always). */
 export function allowedActions(from: WorkOrderStatus): WorkOrderAction[] {
   const out: WorkOrderAction[] = [];
-  for (const a of ['triage', 'assign', 'schedule', 'start', 'close', 'cancel', 'merge'] as const) if (refusal(a, from) === null) out.push(a);
+  for (const a of ['triage', 'assign', 'schedule', 'start', 'close', 'cancel', 'merge'] as const)
+    if (refusal(a, from) === null) out.push(a);
   out.push('comment');
   return out;
 }

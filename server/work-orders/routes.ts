@@ -65,14 +65,24 @@ export function workOrdersRouter(): Router {
     const action = String(req.params.action) as WorkOrderAction;
     const schema = BODIES[action];
     if (!Object.hasOwn(BODIES, action) || !schema) {
-      throw new AppError(404, 'not_found', `No work-order action "${action}": use one of ${Object.keys(BODIES).join(', ')}`);
+      throw new AppError(
+        404,
+        'not_found',
+        `No work-order action "${action}": use one of ${Object.keys(BODIES).join(', ')}`,
+      );
     }
     const body = parseBody(schema, req);
     const { dataSource, logger, notify } = deps(req);
-    const out = await actOnWorkOrder({ dataSource, logger, notify }, siteOf(req).siteId, String(req.params.id), authOf(req).userId, {
-      action,
-      body,
-    } as ActionBody);
+    const out = await actOnWorkOrder(
+      { dataSource, logger, notify },
+      siteOf(req).siteId,
+      String(req.params.id),
+      authOf(req).userId,
+      {
+        action,
+        body,
+      } as ActionBody,
+    );
     res.json(out);
   });
 

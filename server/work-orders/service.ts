@@ -172,7 +172,10 @@ export async function listWorkOrders(ds: DataSource, siteId: string, q: ListQuer
   )) as (SummaryRow & { total: number })[];
   let total = rows[0]?.total ?? 0;
   if (rows.length === 0 && q.offset > 0) {
-    const [c] = (await ds.query(`SELECT count(*)::int AS "n" FROM "work_orders" w WHERE ${where.join(' AND ')}`, params.slice(0, limit - 1))) as { n: number }[];
+    const [c] = (await ds.query(
+      `SELECT count(*)::int AS "n" FROM "work_orders" w WHERE ${where.join(' AND ')}`,
+      params.slice(0, limit - 1),
+    )) as { n: number }[];
     total = c.n;
   }
   return { items: rows.map(summaryOf), total, limit: q.limit, offset: q.offset };
@@ -183,7 +186,16 @@ function reconciliationSummaryOf(r: unknown): ReconciliationSummary {
   const num = (v: unknown) => (typeof v === 'number' && Number.isFinite(v) ? v : null);
   if (x.ok !== true) {
     const e = x.error as { message?: string } | undefined;
-    return { ok: false, chiSquare: null, dof: null, critical: null, passed: null, zCritical: null, suspects: [], error: e?.message ?? 'not reconciled' };
+    return {
+      ok: false,
+      chiSquare: null,
+      dof: null,
+      critical: null,
+      passed: null,
+      zCritical: null,
+      suspects: [],
+      error: e?.message ?? 'not reconciled',
+    };
   }
   return {
     ok: true,
@@ -253,10 +265,22 @@ async function evidenceOf(ds: DataSource | EntityManager, workOrderId: string): 
         `SELECT r."id", i."tag", r."value_typed", r."unit", r."reference", r."value_si", r."device_time", r."note"
            FROM "readings" r JOIN "instruments" i ON i."id" = r."instrument_id" WHERE r."id" = ANY($1::uuid[])`,
         [readingIds],
-      )) as { id: string; tag: string; value_typed: string | null; unit: string; reference: string | null; value_si: number | null; device_time: Date; note: string | null }[])
+      )) as {
+        id: string;
+        tag: string;
+        value_typed: string | null;
+        unit: string;
+        reference: string | null;
+        value_si: number | null;
+        device_time: Date;
+        note: string | null;
+      }[])
     : [];
   const photos = readingIds.length
-    ? ((await ds.query(`SELECT "id", "reading_id", "status" FROM "photos" WHERE "reading_id" = ANY($1::uuid[]) ORDER BY "received_at", "id"`, [readingIds])) as {
+    ? ((await ds.query(
+        `SELECT "id", "reading_id", "status" FROM "photos" WHERE "reading_id" = ANY($1::uuid[]) ORDER BY "received_at", "id"`,
+        [readingIds],
+      )) as {
         id: string;
         reading_id: string;
         status: string;
@@ -276,7 +300,12 @@ async function evidenceOf(ds: DataSource | EntityManager, workOrderId: string): 
         note: r.note,
         photos: photos
           .filter((p) => p.reading_id === r.id)
-          .map((p) => ({ id: p.id, thumbUrl: `/api/photos/${p.id}/thumb`, url: `/api/photos/${p.id}`, stored: p.status === 'stored' })),
+          .map((p) => ({
+            id: p.id,
+            thumbUrl: `/api/photos/${p.id}/thumb`,
+            url: `/api/photos/${p.id}`,
+            stored: p.status === 'stored',
+          })),
       },
     ]),
   );
@@ -306,14 +335,19 @@ async function evidenceOf(ds: DataSource | EntityManager, workOrderId: string): 
         z: r.z,
         suspect: r.suspect,
       })),
-      readings: mine.map((r) => (r.reading_id ? readingById.get(r.reading_id) : undefined)).filter((x): x is NonNullable<typeof x> => !!x),
+      readings: mine
+        .map((r) => (r.reading_id ? readingById.get(r.reading_id) : undefined))
+        .filter((x): x is NonNullable<typeof x> => !!x),
     };
   });
 }
 
 export async function getWorkOrder(ds: DataSource, siteId: string, id: string): Promise<WorkOrderDetail> {
   if (!UUID_RE.test(id)) throw notFound();
-  const [row] = (await ds.query(`SELECT ${SUMMARY_COLUMNS} FROM ${SUMMARY_FROM} WHERE w."id" = $1 AND w."site_id" = $2`, [id, siteId])) as SummaryRow[];
+  const [row] = (await ds.query(
+    `SELECT ${SUMMARY_COLUMNS} FROM ${SUMMARY_FROM} WHERE w."id" = $1 AND w."site_id" = $2`,
+    [id, siteId],
+  )) as SummaryRow[];
   if (!row) throw notFound();
   const events = (await ds.query(
     `SELECT e."id", e."at", e."actor_id", COALESCE(em."display_name", u."name") AS "actor_name", e."type", e."from_status", e."to_status", e."changes", e."comment"
@@ -321,7 +355,17 @@ export async function getWorkOrder(ds: DataSource, siteId: string, id: string): 
        LEFT JOIN "memberships" em ON em."user_id" = e."actor_id" AND em."site_id" = $2
       WHERE e."work_order_id" = $1 ORDER BY e."at", e."id"`,
     [id, siteId],
-  )) as { id: string; at: Date; actor_id: string | null; actor_name: string | null; type: string; from_status: WorkOrderStatus | null; to_status: WorkOrderStatus | null; changes: Record<string, unknown>; comment: string | null }[];
+  )) as {
+    id: string;
+    at: Date;
+    actor_id: string | null;
+    actor_name: string | null;
+    type: string;
+    from_status: WorkOrderStatus | null;
+    to_status: WorkOrderStatus | null;
+    changes: Record<string, unknown>;
+    comment: string | null;
+  }[];
   const calibrations = (await ds.query(
     `SELECT c."id", c."work_order_id", c."instrument_id", c."as_found", c."as_left", c."unit", c."reference", to_char(c."calibrated_on", 'YYYY-MM-DD') AS "calibrated_on",
             c."calibrated_by", COALESCE(cm."display_name", u."name") AS "calibrated_by_name", c."note"
@@ -329,22 +373,32 @@ export async function getWorkOrder(ds: DataSource, siteId: string, id: string): 
        LEFT JOIN "memberships" cm ON cm."user_id" = c."calibrated_by" AND cm."site_id" = $2
       WHERE c."work_order_id" = $1 ORDER BY c."created_at"`,
     [id, siteId],
-  )) as { id: string; work_order_id: string; instrument_id: string; as_found: number; as_left: number; unit: string; reference: CalibrationRecordView['reference']; calibrated_on: string; calibrated_by: string; calibrated_by_name: string; note: string | null }[];
+  )) as {
+    id: string;
+    work_order_id: string;
+    instrument_id: string;
+    as_found: number;
+    as_left: number;
+    unit: string;
+    reference: CalibrationRecordView['reference'];
+    calibrated_on: string;
+    calibrated_by: string;
+    calibrated_by_name: string;
+    note: string | null;
+  }[];
   return {
     ...summaryOf(row),
     evidence: await evidenceOf(ds, id),
-    events: events.map(
-      (e): WorkOrderEventView => ({
-        id: e.id,
-        at: iso(e.at)!,
-        actor: e.actor_id ? { id: e.actor_id, name: e.actor_name ?? '' } : null,
-        type: e.type,
-        fromStatus: e.from_status,
-        toStatus: e.to_status,
-        changes: e.changes,
-        comment: e.comment,
-      }),
-    ),
+    events: events.map((e): WorkOrderEventView => ({
+      id: e.id,
+      at: iso(e.at)!,
+      actor: e.actor_id ? { id: e.actor_id, name: e.actor_name ?? '' } : null,
+      type: e.type,
+      fromStatus: e.from_status,
+      toStatus: e.to_status,
+      changes: e.changes,
+      comment: e.comment,
+    })),
     calibrations: calibrations.map((c) => ({
       id: c.id,
       workOrderId: c.work_order_id,
@@ -381,7 +435,10 @@ const LOCK_COLUMNS = `"id", "code", "site_id", "kind", "status", "priority", "in
 
 async function lockOrder(em: EntityManager, siteId: string, id: string): Promise<LockedRow> {
   if (!UUID_RE.test(id)) throw notFound();
-  const [row] = (await em.query(`SELECT ${LOCK_COLUMNS} FROM "work_orders" WHERE "id" = $1 AND "site_id" = $2 FOR UPDATE`, [id, siteId])) as LockedRow[];
+  const [row] = (await em.query(
+    `SELECT ${LOCK_COLUMNS} FROM "work_orders" WHERE "id" = $1 AND "site_id" = $2 FOR UPDATE`,
+    [id, siteId],
+  )) as LockedRow[];
   if (!row) throw notFound();
   return row;
 }
@@ -403,7 +460,12 @@ async function addEvent(
   workOrderId: string,
   actorId: string | null,
   type: string,
-  e: { from?: WorkOrderStatus | null; to?: WorkOrderStatus | null; changes?: Record<string, unknown>; comment?: string | null } = {},
+  e: {
+    from?: WorkOrderStatus | null;
+    to?: WorkOrderStatus | null;
+    changes?: Record<string, unknown>;
+    comment?: string | null;
+  } = {},
 ): Promise<void> {
   await em.query(
     `INSERT INTO "work_order_events" ("work_order_id", "actor_id", "type", "from_status", "to_status", "changes", "comment") VALUES ($1, $2, $3, $4, $5, $6, $7)`,
@@ -429,7 +491,8 @@ async function clearSuspect(em: EntityManager, instrumentId: string): Promise<vo
 }
 
 const todayUtc = () => new Date().toISOString().slice(0, 10);
-const addDays = (date: string, n: number) => new Date(Date.parse(`${date}T00:00:00Z`) + n * 86_400_000).toISOString().slice(0, 10);
+const addDays = (date: string, n: number) =>
+  new Date(Date.parse(`${date}T00:00:00Z`) + n * 86_400_000).toISOString().slice(0, 10);
 
 export type ActionBody =
   | { action: 'triage'; body: TriageRequest }
@@ -441,7 +504,13 @@ export type ActionBody =
   | { action: 'merge'; body: MergeRequest }
   | { action: 'comment'; body: CommentRequest };
 
-export async function actOnWorkOrder(deps: ActionDeps, siteId: string, id: string, actorId: string, a: ActionBody): Promise<WorkOrderDetail> {
+export async function actOnWorkOrder(
+  deps: ActionDeps,
+  siteId: string,
+  id: string,
+  actorId: string,
+  a: ActionBody,
+): Promise<WorkOrderDetail> {
   const { dataSource, logger, notify } = deps;
   const after: (() => Promise<void>)[] = [];
   await dataSource.transaction(async (em) => {
@@ -464,19 +533,30 @@ export async function actOnWorkOrder(deps: ActionDeps, siteId: string, id: strin
           changes.dueDate = { from: wo.due_date, to: a.body.dueDate };
         }
         await update(em, wo.id, set);
-        await addEvent(em, wo.id, actorId, 'triaged', { from: wo.status, to: 'triaged', changes, comment: a.body.comment });
+        await addEvent(em, wo.id, actorId, 'triaged', {
+          from: wo.status,
+          to: 'triaged',
+          changes,
+          comment: a.body.comment,
+        });
         break;
       }
       case 'assign': {
         assertMay('assign', wo);
-        const [member] = (await em.query(`SELECT "user_id" FROM "memberships" WHERE "user_id" = $1 AND "site_id" = $2`, [a.body.userId, siteId])) as unknown[];
+        const [member] = (await em.query(
+          `SELECT "user_id" FROM "memberships" WHERE "user_id" = $1 AND "site_id" = $2`,
+          [a.body.userId, siteId],
+        )) as unknown[];
         if (!member) {
           throw new AppError(400, 'validation', 'Invalid request body: userId: is not a member of this site', [
             { path: 'userId', message: 'Must be a member of the work order’s site' },
           ]);
         }
         await update(em, wo.id, { assignee_id: a.body.userId });
-        await addEvent(em, wo.id, actorId, 'assigned', { changes: { assignee: { from: wo.assignee_id, to: a.body.userId } }, comment: a.body.comment });
+        await addEvent(em, wo.id, actorId, 'assigned', {
+          changes: { assignee: { from: wo.assignee_id, to: a.body.userId } },
+          comment: a.body.comment,
+        });
         const userId = a.body.userId;
         if (notify) after.push(() => notifySafely(logger, 'assigned', () => notify.assigned(wo.id, userId)));
         break;
@@ -490,7 +570,12 @@ export async function actOnWorkOrder(deps: ActionDeps, siteId: string, id: strin
           changes.dueDate = { from: wo.due_date, to: a.body.dueDate };
         }
         await update(em, wo.id, set);
-        await addEvent(em, wo.id, actorId, 'scheduled', { from: wo.status, to: 'scheduled', changes, comment: a.body.comment });
+        await addEvent(em, wo.id, actorId, 'scheduled', {
+          from: wo.status,
+          to: 'scheduled',
+          changes,
+          comment: a.body.comment,
+        });
         break;
       }
       case 'start': {
@@ -505,18 +590,31 @@ export async function actOnWorkOrder(deps: ActionDeps, siteId: string, id: strin
         if (wo.kind === 'calibrate') {
           const c = a.body.calibration;
           if (!c) {
-            throw new AppError(400, 'validation', 'Invalid request body: calibration: Required to close a calibrate work order (as found, as left, date)', [
-              { path: 'calibration', message: 'Required to close a calibrate work order' },
-            ]);
+            throw new AppError(
+              400,
+              'validation',
+              'Invalid request body: calibration: Required to close a calibrate work order (as found, as left, date)',
+              [{ path: 'calibration', message: 'Required to close a calibrate work order' }],
+            );
           }
           if (c.calibratedOn > addDays(todayUtc(), 1)) {
-            throw new AppError(400, 'validation', `Invalid request body: calibration.calibratedOn: ${c.calibratedOn} lies in the future`, [
-              { path: 'calibration.calibratedOn', message: 'Must not lie in the future' },
-            ]);
+            throw new AppError(
+              400,
+              'validation',
+              `Invalid request body: calibration.calibratedOn: ${c.calibratedOn} lies in the future`,
+              [{ path: 'calibration.calibratedOn', message: 'Must not lie in the future' }],
+            );
           }
-          const [inst] = (await em.query(`SELECT "id", "tag", "quantity", "gauge_unit", "reference" FROM "instruments" WHERE "id" = $1 FOR UPDATE`, [
-            wo.instrument_id,
-          ])) as { id: string; tag: string; quantity: Quantity; gauge_unit: string; reference: 'absolute' | 'gauge' | 'vacuum' | null }[];
+          const [inst] = (await em.query(
+            `SELECT "id", "tag", "quantity", "gauge_unit", "reference" FROM "instruments" WHERE "id" = $1 FOR UPDATE`,
+            [wo.instrument_id],
+          )) as {
+            id: string;
+            tag: string;
+            quantity: Quantity;
+            gauge_unit: string;
+            reference: 'absolute' | 'gauge' | 'vacuum' | null;
+          }[];
           if (c.unit !== undefined) {
             let same = false;
             try {
@@ -525,37 +623,62 @@ export async function actOnWorkOrder(deps: ActionDeps, siteId: string, id: strin
               if (!(e instanceof UnitError)) throw e;
             }
             if (!same) {
-              throw new AppError(400, 'validation', `Invalid request body: calibration.unit: ${inst.tag} reads in ${inst.gauge_unit}, got "${c.unit}"`, [
-                { path: 'calibration.unit', message: `Must be the instrument's own unit, ${inst.gauge_unit}` },
-              ]);
+              throw new AppError(
+                400,
+                'validation',
+                `Invalid request body: calibration.unit: ${inst.tag} reads in ${inst.gauge_unit}, got "${c.unit}"`,
+                [{ path: 'calibration.unit', message: `Must be the instrument's own unit, ${inst.gauge_unit}` }],
+              );
             }
           }
           const [{ id: recordId }] = (await em.query(
             `INSERT INTO "calibration_records" ("work_order_id", "instrument_id", "site_id", "as_found", "as_left", "unit", "reference", "calibrated_on", "calibrated_by", "note")
              VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10) RETURNING "id"`,
-            [wo.id, inst.id, siteId, c.asFound, c.asLeft, inst.gauge_unit, inst.reference, c.calibratedOn, actorId, c.note ?? null],
+            [
+              wo.id,
+              inst.id,
+              siteId,
+              c.asFound,
+              c.asLeft,
+              inst.gauge_unit,
+              inst.reference,
+              c.calibratedOn,
+              actorId,
+              c.note ?? null,
+            ],
           )) as { id: string }[];
           await em.query(
             `UPDATE "instruments" SET "status" = 'ok', "calibration_date" = $2, "row_version" = "row_version" + 1, "updated_at" = now() WHERE "id" = $1`,
             [inst.id, c.calibratedOn],
           );
           changes.calibrationRecordId = recordId;
-          changes.calibration = { asFound: c.asFound, asLeft: c.asLeft, unit: inst.gauge_unit, calibratedOn: c.calibratedOn };
+          changes.calibration = {
+            asFound: c.asFound,
+            asLeft: c.asLeft,
+            unit: inst.gauge_unit,
+            calibratedOn: c.calibratedOn,
+          };
         } else if (a.body.calibration) {
-          throw new AppError(400, 'validation', `Invalid request body: calibration: only a calibrate work order takes a calibration record; ${wo.code} is ${wo.kind}`, [
-            { path: 'calibration', message: 'Only for calibrate work orders' },
-          ]);
+          throw new AppError(
+            400,
+            'validation',
+            `Invalid request body: calibration: only a calibrate work order takes a calibration record; ${wo.code} is ${wo.kind}`,
+            [{ path: 'calibration', message: 'Only for calibrate work orders' }],
+          );
         }
-        await em.query(`UPDATE "work_orders" SET "status" = 'done', "closed_at" = now(), "updated_at" = now() WHERE "id" = $1`, [wo.id]);
+        await em.query(
+          `UPDATE "work_orders" SET "status" = 'done', "closed_at" = now(), "updated_at" = now() WHERE "id" = $1`,
+          [wo.id],
+        );
         await addEvent(em, wo.id, actorId, 'closed', { from: wo.status, to: 'done', changes, comment: a.body.comment });
         break;
       }
       case 'cancel': {
         assertMay('cancel', wo);
-        await em.query(`UPDATE "work_orders" SET "status" = 'cancelled', "cancel_reason" = $2, "closed_at" = now(), "updated_at" = now() WHERE "id" = $1`, [
-          wo.id,
-          a.body.reason,
-        ]);
+        await em.query(
+          `UPDATE "work_orders" SET "status" = 'cancelled', "cancel_reason" = $2, "closed_at" = now(), "updated_at" = now() WHERE "id" = $1`,
+          [wo.id, a.body.reason],
+        );
         await addEvent(em, wo.id, actorId, 'cancelled', { from: wo.status, to: 'cancelled', comment: a.body.reason });
         if (wo.kind === 'calibrate' && wo.instrument_id) await clearSuspect(em, wo.instrument_id);
         break;
@@ -576,20 +699,29 @@ export async function actOnWorkOrder(deps: ActionDeps, siteId: string, id: strin
  * "merged into WO-xxxx". All must be open (not done/cancelled) and on this site. The site's counter
  * row is locked first, as the analysis does, so a merge and an analysis never deadlock.
  */
-async function merge(em: EntityManager, siteId: string, targetId: string, actorId: string, body: MergeRequest): Promise<void> {
+async function merge(
+  em: EntityManager,
+  siteId: string,
+  targetId: string,
+  actorId: string,
+  body: MergeRequest,
+): Promise<void> {
   const dupIds = [...new Set(body.duplicateIds)];
   if (dupIds.includes(targetId)) {
-    throw new AppError(400, 'validation', 'Invalid request body: duplicateIds: a work order cannot be merged into itself', [
-      { path: 'duplicateIds', message: 'Must not contain the target work order' },
-    ]);
+    throw new AppError(
+      400,
+      'validation',
+      'Invalid request body: duplicateIds: a work order cannot be merged into itself',
+      [{ path: 'duplicateIds', message: 'Must not contain the target work order' }],
+    );
   }
   if (!UUID_RE.test(targetId)) throw notFound();
   await lockSiteCounter(em, siteId);
   const ids = [targetId, ...dupIds].sort();
-  const rows = (await em.query(`SELECT ${LOCK_COLUMNS} FROM "work_orders" WHERE "id" = ANY($1::uuid[]) AND "site_id" = $2 ORDER BY "id" FOR UPDATE`, [
-    ids,
-    siteId,
-  ])) as LockedRow[];
+  const rows = (await em.query(
+    `SELECT ${LOCK_COLUMNS} FROM "work_orders" WHERE "id" = ANY($1::uuid[]) AND "site_id" = $2 ORDER BY "id" FOR UPDATE`,
+    [ids, siteId],
+  )) as LockedRow[];
   const byId = new Map(rows.map((r) => [r.id, r]));
   for (const id of ids) if (!byId.has(id)) throw notFound();
   const target = byId.get(targetId)!;
@@ -597,11 +729,16 @@ async function merge(em: EntityManager, siteId: string, targetId: string, actorI
   const dups = dupIds.map((d) => byId.get(d)!);
   for (const d of dups) {
     if (isClosed(d.status)) {
-      throw new AppError(409, 'conflict', `${d.code} cannot be merged: it is ${d.status}; only open work orders merge (flow: ${'open → triaged → scheduled → in-progress'})`, {
-        workOrder: d.code,
-        action: 'merge',
-        status: d.status,
-      });
+      throw new AppError(
+        409,
+        'conflict',
+        `${d.code} cannot be merged: it is ${d.status}; only open work orders merge (flow: ${'open → triaged → scheduled → in-progress'})`,
+        {
+          workOrder: d.code,
+          action: 'merge',
+          status: d.status,
+        },
+      );
     }
   }
   const codes = dups.map((d) => d.code);
@@ -623,16 +760,28 @@ async function merge(em: EntityManager, siteId: string, targetId: string, actorI
       `UPDATE "work_orders" SET "status" = 'cancelled', "cancel_reason" = $2, "merged_into_id" = $3, "closed_at" = now(), "updated_at" = now() WHERE "id" = $1`,
       [d.id, reason, target.id],
     );
-    await addEvent(em, d.id, actorId, 'cancelled', { from: d.status, to: 'cancelled', changes: { mergedInto: target.code }, comment: reason });
+    await addEvent(em, d.id, actorId, 'cancelled', {
+      from: d.status,
+      to: 'cancelled',
+      changes: { mergedInto: target.code },
+      comment: reason,
+    });
   }
   const priority = Math.min(target.priority, ...dups.map((d) => d.priority));
   await update(em, target.id, priority !== target.priority ? { priority } : {});
   await addEvent(em, target.id, actorId, 'merged', {
-    changes: { duplicates: codes, ...(priority !== target.priority ? { priority: { from: target.priority, to: priority } } : {}) },
+    changes: {
+      duplicates: codes,
+      ...(priority !== target.priority ? { priority: { from: target.priority, to: priority } } : {}),
+    },
     comment: body.comment ?? `Merged ${codes.join(', ')} into ${target.code}`,
   });
   for (const d of dups) {
-    if (d.kind === 'calibrate' && d.instrument_id && !(target.kind === 'calibrate' && target.instrument_id === d.instrument_id)) {
+    if (
+      d.kind === 'calibrate' &&
+      d.instrument_id &&
+      !(target.kind === 'calibrate' && target.instrument_id === d.instrument_id)
+    ) {
       await clearSuspect(em, d.instrument_id);
     }
   }

@@ -122,7 +122,9 @@ export const InstrumentListResponse = z.object({ instruments: z.array(Instrument
 export type InstrumentListResponse = z.infer<typeof InstrumentListResponse>;
 
 /** A date (YYYY-MM-DD, start of that day UTC) or an ISO date-time. */
-export const TimeBound = z.union([z.iso.datetime({ offset: true }), z.iso.date()], { error: 'Must be a date (YYYY-MM-DD) or an ISO 8601 date-time' });
+export const TimeBound = z.union([z.iso.datetime({ offset: true }), z.iso.date()], {
+  error: 'Must be a date (YYYY-MM-DD) or an ISO 8601 date-time',
+});
 
 export const InstrumentHistoryQuery = z.object({
   from: TimeBound.optional(),
@@ -152,7 +154,14 @@ export const HistoryPoint = z.object({
 export type HistoryPoint = z.infer<typeof HistoryPoint>;
 
 export const InstrumentHistoryResponse = z.object({
-  instrument: z.object({ id: z.uuid(), unitId: z.uuid(), tag: z.string(), quantity: z.enum(QUANTITIES), siUnit: z.string(), status: InstrumentStatus }),
+  instrument: z.object({
+    id: z.uuid(),
+    unitId: z.uuid(),
+    tag: z.string(),
+    quantity: z.enum(QUANTITIES),
+    siUnit: z.string(),
+    status: InstrumentStatus,
+  }),
   from: z.iso.datetime(),
   to: z.iso.datetime(),
   points: z.array(HistoryPoint),
@@ -169,8 +178,19 @@ export const AnalysisJobsQuery = z.object({
   state: z
     .string()
     .default('failed,active,retry')
-    .transform((v) => v.split(',').map((x) => x.trim()).filter(Boolean))
-    .pipe(z.array(z.enum(ANALYSIS_JOB_STATES, { error: `Must be a comma-separated list of ${ANALYSIS_JOB_STATES.join(', ')}` })).min(1)),
+    .transform((v) =>
+      v
+        .split(',')
+        .map((x) => x.trim())
+        .filter(Boolean),
+    )
+    .pipe(
+      z
+        .array(
+          z.enum(ANALYSIS_JOB_STATES, { error: `Must be a comma-separated list of ${ANALYSIS_JOB_STATES.join(', ')}` }),
+        )
+        .min(1),
+    ),
   limit: z.coerce.number().int().min(1).max(500).default(100),
 });
 

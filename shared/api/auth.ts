@@ -12,8 +12,7 @@ export const Role = z.enum(ROLES, { error: 'Must be one of technician, planner, 
 export type Role = z.infer<typeof Role>;
 
 /** A string field that says "Required" when absent, not zod's generic type message. */
-const text = () =>
-  z.string({ error: (iss) => (iss.input === undefined ? 'Required' : 'Must be a string') });
+const text = () => z.string({ error: (iss) => (iss.input === undefined ? 'Required' : 'Must be a string') });
 
 /** E-mail addresses are compared trimmed and lower-case everywhere. */
 export const Email = text()

@@ -14,7 +14,15 @@ export const DetectabilityQuery = z.object({ unitId: z.uuid({ error: 'Must be a 
 const where = { pointId: z.string().optional(), equipmentId: z.string().optional() };
 
 export const Remedy = z.discriminatedUnion('kind', [
-  z.object({ kind: z.literal('twin'), of: z.string(), quantity: z.enum(QUANTITIES), ...where, sigma: z.number(), mdb: z.number(), redundancy: z.number() }),
+  z.object({
+    kind: z.literal('twin'),
+    of: z.string(),
+    quantity: z.enum(QUANTITIES),
+    ...where,
+    sigma: z.number(),
+    mdb: z.number(),
+    redundancy: z.number(),
+  }),
   z.object({
     kind: z.literal('new-reading'),
     quantity: z.enum(['pressure', 'temperature', 'massFlow']),
@@ -25,7 +33,15 @@ export const Remedy = z.discriminatedUnion('kind', [
     mdb: z.number(),
     redundancy: z.number(),
   }),
-  z.object({ kind: z.literal('tighter'), tag: z.string(), quantity: z.enum(QUANTITIES), sigmaFrom: z.number(), sigmaTo: z.number(), mdb: z.number(), redundancy: z.number() }),
+  z.object({
+    kind: z.literal('tighter'),
+    tag: z.string(),
+    quantity: z.enum(QUANTITIES),
+    sigmaFrom: z.number(),
+    sigmaTo: z.number(),
+    mdb: z.number(),
+    redundancy: z.number(),
+  }),
 ]);
 export type Remedy = z.infer<typeof Remedy>;
 

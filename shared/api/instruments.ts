@@ -13,7 +13,9 @@ import { ASME_B40_GRADES, EN837_CLASSES } from '../uncertainty';
 import { INSTRUMENT_STATUSES, SyncInstrument } from './sync';
 
 /** The classes (grades) of each accuracy standard that has them (shared/uncertainty), by the spec's kind. */
-export const ACCURACY_CLASSES: Readonly<Record<string, { field: 'class' | 'grade'; standard: string; values: readonly (string | number)[] }>> = {
+export const ACCURACY_CLASSES: Readonly<
+  Record<string, { field: 'class' | 'grade'; standard: string; values: readonly (string | number)[] }>
+> = {
   en837: { field: 'class', standard: 'EN 837-1', values: EN837_CLASSES },
   asmeB40: { field: 'grade', standard: 'ASME B40.100', values: Object.keys(ASME_B40_GRADES) },
   iec60751: { field: 'class', standard: 'IEC 60751', values: ['AA', 'A', 'B', 'C'] },
@@ -55,9 +57,16 @@ export const InstrumentUpdateRequest = z
     rowVersion: z.number().int().min(1).optional(),
   })
   .strict()
-  .refine((b) => b.range !== undefined || b.accuracyClass !== undefined || b.calibrationIntervalDays !== undefined || b.status !== undefined, {
-    message: 'Give at least one of range, accuracyClass, calibrationIntervalDays, status',
-  });
+  .refine(
+    (b) =>
+      b.range !== undefined ||
+      b.accuracyClass !== undefined ||
+      b.calibrationIntervalDays !== undefined ||
+      b.status !== undefined,
+    {
+      message: 'Give at least one of range, accuracyClass, calibrationIntervalDays, status',
+    },
+  );
 export type InstrumentUpdateRequest = z.input<typeof InstrumentUpdateRequest>;
 
 export const InstrumentUpdateResponse = z.object({

@@ -35,11 +35,13 @@ export type PhotoMime = (typeof PHOTO_MIMES)[number];
 const req = (what: string) => (iss: { input?: unknown }) => (iss.input === undefined ? 'Required' : `Must be ${what}`);
 
 export const ClientId = z.uuid({ error: req('a UUID') });
-const str = (max: number) =>
-  z.string({ error: req('a string') }).max(max, `Must be at most ${max} characters`);
+const str = (max: number) => z.string({ error: req('a string') }).max(max, `Must be at most ${max} characters`);
 const optionalText = (max: number) => str(max).nullable().optional();
 /** ISO 8601 with an offset or Z, as the device's clock gave it. */
-export const DeviceTime = z.iso.datetime({ offset: true, error: req('an ISO 8601 date-time like 2025-11-30T07:42:10Z') });
+export const DeviceTime = z.iso.datetime({
+  offset: true,
+  error: req('an ISO 8601 date-time like 2025-11-30T07:42:10Z'),
+});
 const finite = z
   .number({ error: req('a finite number') })
   .min(-MAX_ABS_VALUE, `Must be at least ${-MAX_ABS_VALUE}`)
@@ -97,7 +99,10 @@ const readingV1 = {
   /** A correction: the id of the reading this one replaces (readings are append-only). */
   supersedes: ClientId.nullable().optional(),
 };
-const readingRules = <T extends { valueTyped: number | null; skipReason?: string | null }>(r: T, ctx: z.RefinementCtx) => {
+const readingRules = <T extends { valueTyped: number | null; skipReason?: string | null }>(
+  r: T,
+  ctx: z.RefinementCtx,
+) => {
   if (r.valueTyped === null && !r.skipReason) {
     ctx.addIssue({ code: 'custom', path: ['skipReason'], message: 'A reading without a value needs a skip reason' });
   }
@@ -155,7 +160,8 @@ export const PushPhoto = z
       .max(MAX_ANNOUNCED_PHOTO_BYTES, `Must be at most ${MAX_ANNOUNCED_PHOTO_BYTES}`),
   })
   .superRefine((p, ctx) => {
-    if (p.readingId && p.checkId) ctx.addIssue({ code: 'custom', path: ['checkId'], message: 'A photo belongs to a reading or a check, not both' });
+    if (p.readingId && p.checkId)
+      ctx.addIssue({ code: 'custom', path: ['checkId'], message: 'A photo belongs to a reading or a check, not both' });
   });
 export type PushPhoto = z.infer<typeof PushPhoto>;
 

@@ -21,11 +21,22 @@ export const WorkOrderKind = z.enum(WORK_ORDER_KINDS, { error: `Must be one of $
 export type WorkOrderKind = z.infer<typeof WorkOrderKind>;
 
 export const WORK_ORDER_STATUSES = ['open', 'triaged', 'scheduled', 'in-progress', 'done', 'cancelled'] as const;
-export const WorkOrderStatus = z.enum(WORK_ORDER_STATUSES, { error: `Must be one of ${WORK_ORDER_STATUSES.join(', ')}` });
+export const WorkOrderStatus = z.enum(WORK_ORDER_STATUSES, {
+  error: `Must be one of ${WORK_ORDER_STATUSES.join(', ')}`,
+});
 export type WorkOrderStatus = z.infer<typeof WorkOrderStatus>;
 
 /** The actions of POST …/work-orders/:id/<action>. */
-export const WORK_ORDER_ACTIONS = ['triage', 'assign', 'schedule', 'start', 'close', 'cancel', 'merge', 'comment'] as const;
+export const WORK_ORDER_ACTIONS = [
+  'triage',
+  'assign',
+  'schedule',
+  'start',
+  'close',
+  'cancel',
+  'merge',
+  'comment',
+] as const;
 export type WorkOrderAction = (typeof WORK_ORDER_ACTIONS)[number];
 
 /** 1 most urgent, 3 least. */
@@ -39,7 +50,11 @@ export type Priority = z.infer<typeof Priority>;
 /** A calendar date, YYYY-MM-DD. */
 export const DateOnly = z.iso.date({ error: 'Must be a date like 2025-12-01 (YYYY-MM-DD)' });
 
-const comment = z.string({ error: 'Must be a string' }).trim().min(1, 'Must not be empty').max(4000, 'Must be at most 4000 characters');
+const comment = z
+  .string({ error: 'Must be a string' })
+  .trim()
+  .min(1, 'Must not be empty')
+  .max(4000, 'Must be at most 4000 characters');
 
 export const UserRef = z.object({ id: z.uuid(), name: z.string() });
 export const WorkOrderRef = z.object({ id: z.uuid(), number: z.string() });
@@ -72,13 +87,29 @@ export const WorkOrderSummary = z.object({
 });
 export type WorkOrderSummary = z.infer<typeof WorkOrderSummary>;
 
-export const WORK_ORDER_SORTS = ['-openedAt', 'openedAt', 'priority', '-priority', 'dueDate', '-dueDate', 'number', '-number', '-updatedAt', 'updatedAt'] as const;
+export const WORK_ORDER_SORTS = [
+  '-openedAt',
+  'openedAt',
+  'priority',
+  '-priority',
+  'dueDate',
+  '-dueDate',
+  'number',
+  '-number',
+  '-updatedAt',
+  'updatedAt',
+] as const;
 export type WorkOrderSort = (typeof WORK_ORDER_SORTS)[number];
 
 const csv = <T extends z.ZodType<unknown, string>>(item: T, what: string) =>
   z
     .string({ error: `Must be ${what}` })
-    .transform((v) => v.split(',').map((x) => x.trim()).filter(Boolean))
+    .transform((v) =>
+      v
+        .split(',')
+        .map((x) => x.trim())
+        .filter(Boolean),
+    )
     .pipe(z.array(item).min(1, `Must name at least one: ${what}`));
 
 /** Work orders per page when a list request names no `limit`. */
@@ -86,7 +117,10 @@ export const WORK_ORDER_PAGE_SIZE = 50;
 
 export const WorkOrderListQuery = z.object({
   /** comma-separated statuses; "active" stands for every status but done and cancelled */
-  status: csv(z.enum([...WORK_ORDER_STATUSES, 'active']), `a comma-separated list of ${WORK_ORDER_STATUSES.join(', ')}, active`).optional(),
+  status: csv(
+    z.enum([...WORK_ORDER_STATUSES, 'active']),
+    `a comma-separated list of ${WORK_ORDER_STATUSES.join(', ')}, active`,
+  ).optional(),
   priority: csv(z.enum(['1', '2', '3']).transform(Number), 'a comma-separated list of 1, 2, 3').optional(),
   kind: csv(WorkOrderKind, `a comma-separated list of ${WORK_ORDER_KINDS.join(', ')}`).optional(),
   unitId: z.uuid({ error: 'Must be a unit UUID' }).optional(),
@@ -102,7 +136,12 @@ export const WorkOrderListQuery = z.object({
     .min(1, 'Must be at least 1')
     .max(200, 'Must be at most 200')
     .default(WORK_ORDER_PAGE_SIZE),
-  offset: z.coerce.number({ error: 'Must be a whole number' }).int('Must be a whole number').min(0, 'Must be at least 0').max(1_000_000).default(0),
+  offset: z.coerce
+    .number({ error: 'Must be a whole number' })
+    .int('Must be a whole number')
+    .min(0, 'Must be at least 0')
+    .max(1_000_000)
+    .default(0),
 });
 export type WorkOrderListQuery = z.input<typeof WorkOrderListQuery>;
 /** The list filters as the server reads them (after parsing); a client sets any of them. */
@@ -271,13 +310,22 @@ export const CloseRequest = z.object({
 export type CloseRequest = z.infer<typeof CloseRequest>;
 
 export const CancelRequest = z.object({
-  reason: z.string({ error: (iss) => (iss.input === undefined ? 'Required: say why the work order is cancelled' : 'Must be a string') }).trim().min(1, 'Must not be empty').max(2000),
+  reason: z
+    .string({
+      error: (iss) => (iss.input === undefined ? 'Required: say why the work order is cancelled' : 'Must be a string'),
+    })
+    .trim()
+    .min(1, 'Must not be empty')
+    .max(2000),
 });
 export type CancelRequest = z.infer<typeof CancelRequest>;
 
 export const MergeRequest = z.object({
   /** the duplicates: their findings and history move into this work order, they are cancelled */
-  duplicateIds: z.array(z.uuid({ error: 'Must be a work-order UUID' })).min(1, 'Name at least one duplicate').max(50, 'At most 50 duplicates at once'),
+  duplicateIds: z
+    .array(z.uuid({ error: 'Must be a work-order UUID' }))
+    .min(1, 'Name at least one duplicate')
+    .max(50, 'At most 50 duplicates at once'),
   comment: comment.optional(),
 });
 export type MergeRequest = z.infer<typeof MergeRequest>;

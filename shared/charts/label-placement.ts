@@ -169,7 +169,8 @@ export function placeLabels(labels: LabelRequest[], options: PlacementOptions): 
       // every spot further out costs at least its distance: stop when none can beat the best
       if (found && found.cost <= first + (ring + 1) * step) break;
     }
-    if (!found) return { id: l.id, placed: false, box: { x: l.x, y: l.y, w: 0, h: 0 }, textX: l.x, textY: l.y, leader: null };
+    if (!found)
+      return { id: l.id, placed: false, box: { x: l.x, y: l.y, w: 0, h: 0 }, textX: l.x, textY: l.y, leader: null };
     taken.push(found.box);
     const b = found.box;
     let leader: PlacedLabel['leader'] = null;

@@ -48,7 +48,8 @@ export interface Scale {
 }
 
 /** A value's pixel on a linear scale (the scale's `from` when the scale has no span). */
-export const project = (v: number, s: Scale): number => (s.max === s.min ? s.from : s.from + ((v - s.min) / (s.max - s.min)) * (s.to - s.from));
+export const project = (v: number, s: Scale): number =>
+  s.max === s.min ? s.from : s.from + ((v - s.min) / (s.max - s.min)) * (s.to - s.from);
 
 /** "Nice" tick values (1, 2, 5 × 10ⁿ steps) between min and max. */
 export function ticks(min: number, max: number, count = 6): number[] {

@@ -19,19 +19,44 @@ export function turbineSections(model: unknown): Section[] {
   const eq = (model as { equipment?: unknown[] } | null)?.equipment;
   if (!Array.isArray(eq)) return [];
   return eq.flatMap((e) => {
-    const x = e as { id?: string; kind?: string; label?: string; ports?: { inlet?: string; outlet?: string; extractions?: string[] } };
+    const x = e as {
+      id?: string;
+      kind?: string;
+      label?: string;
+      ports?: { inlet?: string; outlet?: string; extractions?: string[] };
+    };
     if (x.kind !== 'turbine-section' || !x.id || !x.ports?.inlet || !x.ports.outlet) return [];
-    return [{ id: x.id, label: x.label ?? x.id, inlet: x.ports.inlet, outlets: [...(x.ports.extractions ?? []), x.ports.outlet] }];
+    return [
+      {
+        id: x.id,
+        label: x.label ?? x.id,
+        inlet: x.ports.inlet,
+        outlets: [...(x.ports.extractions ?? []), x.ports.outlet],
+      },
+    ];
   });
 }
 
 /** The points and lines of the T–s chart: measured (m-), reconciled (r-) and isentropic ends (s-); `borrowedPoints`: state points read (in part) on other rounds. */
-export function tsFigure(statePoints: StatePointResult[], sections: Section[], borrowedPoints: ReadonlySet<string> = new Set()): { points: TsPoint[]; lines: TsLine[] } {
+export function tsFigure(
+  statePoints: StatePointResult[],
+  sections: Section[],
+  borrowedPoints: ReadonlySet<string> = new Set(),
+): { points: TsPoint[]; lines: TsLine[] } {
   const points: TsPoint[] = [];
   const cycle = statePoints.filter((p) => p.circuit === 'cycle');
   for (const p of cycle) {
-    if (p.measured.T !== null && p.measured.s !== null) points.push({ id: `m-${p.id}`, label: p.id, T: p.measured.T, s: p.measured.s, kind: 'measured', ...(borrowedPoints.has(p.id) ? { borrowed: true } : {}) });
-    if (p.reconciled.T !== null && p.reconciled.s !== null) points.push({ id: `r-${p.id}`, label: p.id, T: p.reconciled.T, s: p.reconciled.s, kind: 'reconciled' });
+    if (p.measured.T !== null && p.measured.s !== null)
+      points.push({
+        id: `m-${p.id}`,
+        label: p.id,
+        T: p.measured.T,
+        s: p.measured.s,
+        kind: 'measured',
+        ...(borrowedPoints.has(p.id) ? { borrowed: true } : {}),
+      });
+    if (p.reconciled.T !== null && p.reconciled.s !== null)
+      points.push({ id: `r-${p.id}`, label: p.id, T: p.reconciled.T, s: p.reconciled.s, kind: 'reconciled' });
   }
   const byId = Object.fromEntries(cycle.map((p) => [p.id, p]));
   const lines: TsLine[] = [];
@@ -54,4 +79,3 @@ export function tsFigure(statePoints: StatePointResult[], sections: Section[], b
   }
   return { points, lines };
 }
-

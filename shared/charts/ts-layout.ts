@@ -41,13 +41,20 @@ export function tsScales(points: Pick<TsPoint, 'T' | 's'>[], width: number, heig
 }
 
 /** The labels of the reconciled points (one per state point), placed. */
-export function tsLabels(points: TsPoint[], lines: TsLine[], dome: DomePoint[], width: number, height: number): PlacedLabel[] {
+export function tsLabels(
+  points: TsPoint[],
+  lines: TsLine[],
+  dome: DomePoint[],
+  width: number,
+  height: number,
+): PlacedLabel[] {
   const { xs, ys } = tsScales(points, width, height);
   const X = (s: number) => project(s, xs);
   const Y = (T: number) => project(T, ys);
   const marks: Mark[] = points.map((p) => ({ x: X(p.s), y: Y(p.T), r: TS_MARK_R[p.kind] }));
   const segments: Segment[] = [];
-  for (let i = 1; i < dome.length; i++) segments.push({ x1: X(dome[i - 1].s), y1: Y(dome[i - 1].T), x2: X(dome[i].s), y2: Y(dome[i].T) });
+  for (let i = 1; i < dome.length; i++)
+    segments.push({ x1: X(dome[i - 1].s), y1: Y(dome[i - 1].T), x2: X(dome[i].s), y2: Y(dome[i].T) });
   const byId = new Map(points.map((p) => [p.id, p]));
   for (const l of lines) {
     const a = byId.get(l.from);
@@ -58,9 +65,21 @@ export function tsLabels(points: TsPoint[], lines: TsLine[], dome: DomePoint[], 
   // hottest first: the top of the chart is the most crowded (main steam, reheat, HP exhaust)
   const order = [...labelled].sort((a, b) => b.T - a.T || (a.id < b.id ? -1 : a.id > b.id ? 1 : 0));
   return placeLabels(
-    order.map((p) => ({ id: p.id, x: X(p.s), y: Y(p.T), w: labelWidth(p.label, TS_LABEL_FONT), h: TS_LABEL_FONT + 3, r: TS_MARK_R[p.kind] })),
+    order.map((p) => ({
+      id: p.id,
+      x: X(p.s),
+      y: Y(p.T),
+      w: labelWidth(p.label, TS_LABEL_FONT),
+      h: TS_LABEL_FONT + 3,
+      r: TS_MARK_R[p.kind],
+    })),
     {
-      bounds: { x: TS_PAD.left + 1, y: TS_PAD.top - 12, w: width - TS_PAD.right - TS_PAD.left, h: height - TS_PAD.bottom - TS_PAD.top + 12 },
+      bounds: {
+        x: TS_PAD.left + 1,
+        y: TS_PAD.top - 12,
+        w: width - TS_PAD.right - TS_PAD.left,
+        h: height - TS_PAD.bottom - TS_PAD.top + 12,
+      },
       segments,
       marks,
     },

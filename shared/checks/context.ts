@@ -11,14 +11,22 @@ import { checkReading, type SpotContext, type SpotFlag, type SpotReading } from 
 const SATURATED = new Set(['saturated-liquid', 'saturated-vapour']);
 
 /** An instrument's scale (kept in its own reference) as SI absolute bounds. */
-export function rangeAbsolute(i: Instrument, barometricPa: number | undefined): { min: number; max: number } | undefined {
+export function rangeAbsolute(
+  i: Instrument,
+  barometricPa: number | undefined,
+): { min: number; max: number } | undefined {
   if (i.quantity !== 'pressure' || !i.pressureReference || i.pressureReference === 'absolute') return i.range;
   if (barometricPa === undefined) return undefined;
   if (i.pressureReference === 'gauge') return { min: i.range.min + barometricPa, max: i.range.max + barometricPa };
   return { min: barometricPa - i.range.max, max: barometricPa - i.range.min };
 }
 
-function spotReading(i: Instrument, valueSI: number, barometricPa: number | undefined, band?: { min: number; max: number }): SpotReading {
+function spotReading(
+  i: Instrument,
+  valueSI: number,
+  barometricPa: number | undefined,
+  band?: { min: number; max: number },
+): SpotReading {
   return {
     tag: i.tag,
     quantity: i.quantity,
@@ -53,12 +61,21 @@ function partnerFor(model: CycleModel, i: Instrument, values: Record<string, num
   // A pressure instrument: a temperature at its point, or at a point that shares its pressure.
   return (
     candidates.find((o) => o.point === i.point) ??
-    candidates.find((o) => model.points.find((p) => p.id === o.point)?.samePressureAs === i.point && SATURATED.has(model.points.find((p) => p.id === o.point)!.phase))
+    candidates.find(
+      (o) =>
+        model.points.find((p) => p.id === o.point)?.samePressureAs === i.point &&
+        SATURATED.has(model.points.find((p) => p.id === o.point)!.phase),
+    )
   );
 }
 
 /** The on-the-spot flags of one reading of `tag`, worded in the gauge's units. */
-export function checkInstrumentReading(model: CycleModel, tag: string, valueSI: number, inputs: SpotInputs): SpotFlag[] {
+export function checkInstrumentReading(
+  model: CycleModel,
+  tag: string,
+  valueSI: number,
+  inputs: SpotInputs,
+): SpotFlag[] {
   const i = model.instruments.find((x) => x.tag === tag);
   if (!i) throw new RangeError(`instrument ${tag} is not in the model ${model.id}`);
   const reading = spotReading(i, valueSI, inputs.barometricPa, inputs.band);
@@ -71,7 +88,10 @@ export function checkInstrumentReading(model: CycleModel, tag: string, valueSI: 
   if (partner) {
     const tPoint = model.points.find((p) => p.id === (i.quantity === 'temperature' ? i.point : partner.point));
     if (tPoint && SATURATED.has(tPoint.phase)) {
-      ctx.saturation = { pointLabel: tPoint.label, partner: spotReading(partner, inputs.roundValues[partner.tag], inputs.barometricPa) };
+      ctx.saturation = {
+        pointLabel: tPoint.label,
+        partner: spotReading(partner, inputs.roundValues[partner.tag], inputs.barometricPa),
+      };
     }
   }
   return checkReading(reading, ctx);

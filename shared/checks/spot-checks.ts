@@ -71,7 +71,8 @@ function show(r: Pick<SpotReading, 'quantity' | 'display'>, si: number, ctx: Spo
     });
   } catch {
     // No barometric pressure to word a gauge or vacuum value: say it as absolute instead.
-    if (r.quantity === 'pressure') return formatValue(si, 'pressure', r.display.unit, 'absolute', { digits: r.display.digits ?? 2 });
+    if (r.quantity === 'pressure')
+      return formatValue(si, 'pressure', r.display.unit, 'absolute', { digits: r.display.digits ?? 2 });
     return `${si.toPrecision(6)} (SI)`;
   }
 }
@@ -85,7 +86,8 @@ function showDelta(r: Pick<SpotReading, 'quantity' | 'display'>, si: number): st
 /** Every flag for one reading, most severe first (stable order for equal severity). */
 export function checkReading(r: SpotReading, ctx: SpotContext = {}): SpotFlag[] {
   if (!Number.isFinite(r.valueSI)) throw new RangeError(`${r.tag}: value is not a finite number`);
-  if (!(r.sigma > 0) || !Number.isFinite(r.sigma)) throw new RangeError(`${r.tag}: sigma must be a positive finite number, got ${r.sigma}`);
+  if (!(r.sigma > 0) || !Number.isFinite(r.sigma))
+    throw new RangeError(`${r.tag}: sigma must be a positive finite number, got ${r.sigma}`);
   const flags: SpotFlag[] = [];
   const v = r.valueSI;
 
@@ -147,7 +149,12 @@ export function checkReading(r: SpotReading, ctx: SpotContext = {}): SpotFlag[] 
  * The disagreement is tested against σ² = σ_T² + (dTsat/dp · σ_p)², with dTsat/dp by a central
  * difference on the IF97 saturation line.
  */
-export function saturationFlag(r: SpotReading, partner: SpotReading, pointLabel: string, ctx: SpotContext = {}): SpotFlag | null {
+export function saturationFlag(
+  r: SpotReading,
+  partner: SpotReading,
+  pointLabel: string,
+  ctx: SpotContext = {},
+): SpotFlag | null {
   const pR = r.quantity === 'pressure' ? r : partner.quantity === 'pressure' ? partner : null;
   const tR = r.quantity === 'temperature' ? r : partner.quantity === 'temperature' ? partner : null;
   if (!pR || !tR || pR === tR) return null;

@@ -23,7 +23,16 @@ import { withUncertainty } from './figure-uncertainty';
 import { performanceFigures } from './performance';
 import type { RoundAnalysis, RoundContext, RoundReading } from './types';
 import { validateModel } from './validate';
-import { checkContext, cmp, CycleError, KIND_ORDER, makeBase, sigmaReferenceValue, specSigmaOf, type PState } from './round/base';
+import {
+  checkContext,
+  cmp,
+  CycleError,
+  KIND_ORDER,
+  makeBase,
+  sigmaReferenceValue,
+  specSigmaOf,
+  type PState,
+} from './round/base';
 import { intakeStage } from './round/intake';
 import { reconciliationStage } from './round/reconciliation';
 import { outputStage } from './round/output';
@@ -38,7 +47,11 @@ export { CycleError, sigmaReferenceValue, specSigmaOf };
 export type { CycleErrorCode } from './round/base';
 
 /** Analyses one round. Throws CycleError only for a broken model or context; everything about the readings becomes a finding. */
-export function analyseRound(modelIn: unknown, readings: readonly RoundReading[], context: RoundContext): RoundAnalysis {
+export function analyseRound(
+  modelIn: unknown,
+  readings: readonly RoundReading[],
+  context: RoundContext,
+): RoundAnalysis {
   const v = validateModel(modelIn);
   if (!v.ok) {
     const first = v.errors[0];
@@ -50,7 +63,8 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
   }
   const model = v.model;
   const opt = checkContext(context);
-  if (!Array.isArray(readings)) throw new CycleError('INVALID_READINGS', 'readings must be an array of { instrumentTag, valueSI, sigma? }');
+  if (!Array.isArray(readings))
+    throw new CycleError('INVALID_READINGS', 'readings must be an array of { instrumentTag, valueSI, sigma? }');
   const base = makeBase(model, opt, context);
   const afterIntake = { ...base, ...intakeStage(base, readings) };
   const afterRec = { ...afterIntake, ...reconciliationStage(afterIntake) };
@@ -63,7 +77,10 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
     return m.m !== null ? m : { ...m, m: getRec(id).m, sm: getRec(id).sm };
   };
   const figures = performanceFigures(model, getRec, recPower, getMeasFlows, measPower);
-  const performance = res && recInput ? withUncertainty({ model, eq, reconcileInput: recInput, result: res, accepted, figures }) : figures;
+  const performance =
+    res && recInput
+      ? withUncertainty({ model, eq, reconcileInput: recInput, result: res, accepted, figures })
+      : figures;
 
   const c = { ...afterBalances, performance };
   grossErrorFindings(c);
@@ -93,4 +110,3 @@ export function analyseRound(modelIn: unknown, readings: readonly RoundReading[]
     findings,
   };
 }
-

@@ -44,9 +44,35 @@ export interface DetectabilityOptions {
 }
 
 export type Remedy =
-  | { kind: 'twin'; of: string; quantity: Quantity; pointId?: string; equipmentId?: string; sigma: number; mdb: number; redundancy: number }
-  | { kind: 'new-reading'; quantity: 'pressure' | 'temperature' | 'massFlow'; pointId: string; pointLabel: string; device: string; sigma: number; mdb: number; redundancy: number }
-  | { kind: 'tighter'; tag: string; quantity: Quantity; sigmaFrom: number; sigmaTo: number; mdb: number; redundancy: number };
+  | {
+      kind: 'twin';
+      of: string;
+      quantity: Quantity;
+      pointId?: string;
+      equipmentId?: string;
+      sigma: number;
+      mdb: number;
+      redundancy: number;
+    }
+  | {
+      kind: 'new-reading';
+      quantity: 'pressure' | 'temperature' | 'massFlow';
+      pointId: string;
+      pointLabel: string;
+      device: string;
+      sigma: number;
+      mdb: number;
+      redundancy: number;
+    }
+  | {
+      kind: 'tighter';
+      tag: string;
+      quantity: Quantity;
+      sigmaFrom: number;
+      sigmaTo: number;
+      mdb: number;
+      redundancy: number;
+    };
 
 export interface InstrumentDetectability {
   tag: string;
@@ -87,7 +113,13 @@ interface Solved {
 function solve(model: CycleModel, acc: ReadonlyMap<string, AcceptedReading>, tolerance: number): Solved | null {
   const eq = buildEquations(model, acc);
   if (eq.measured.length === 0 || eq.constraints.length === 0) return null;
-  const input: ReconcileInput = { measured: eq.measured, unmeasured: eq.unmeasured, constraints: eq.constraints, tolerance, maxIterations: 50 };
+  const input: ReconcileInput = {
+    measured: eq.measured,
+    unmeasured: eq.unmeasured,
+    constraints: eq.constraints,
+    tolerance,
+    maxIterations: 50,
+  };
   try {
     const res = reconcile(input);
     return { eq, input, res, sens: reconciledSensitivity(input, res, 'main') };
@@ -102,7 +134,12 @@ const NEW_DEVICE: Record<'pressure' | 'temperature' | 'massFlow', string> = {
   massFlow: 'flow meter, 1 % of reading',
 };
 
-function newInstrument(tag: string, quantity: 'pressure' | 'temperature' | 'massFlow', pointId: string, value: number): { inst: Instrument; sigma: number } | null {
+function newInstrument(
+  tag: string,
+  quantity: 'pressure' | 'temperature' | 'massFlow',
+  pointId: string,
+  value: number,
+): { inst: Instrument; sigma: number } | null {
   let accuracy: AccuracySpec;
   let range: { min: number; max: number };
   let unit: string;
@@ -123,7 +160,18 @@ function newInstrument(tag: string, quantity: 'pressure' | 'temperature' | 'mass
   try {
     const sigma = sigmaFor(accuracy, value);
     if (!(sigma > 0)) return null;
-    return { inst: { tag, quantity, point: pointId, ...(quantity === 'pressure' ? { pressureReference: 'absolute' as const } : {}), range, accuracy, unit }, sigma };
+    return {
+      inst: {
+        tag,
+        quantity,
+        point: pointId,
+        ...(quantity === 'pressure' ? { pressureReference: 'absolute' as const } : {}),
+        range,
+        accuracy,
+        unit,
+      },
+      sigma,
+    };
   } catch {
     return null;
   }
@@ -144,21 +192,47 @@ function twinTag(model: CycleModel, tag: string): string {
  * The detectability map at an operating point: `readings` are the unit's readings (SI absolute)
  * with the σ the analysis used (RoundAnalysis.instruments gives both).
  */
-export function detectabilityMap(model: CycleModel, readings: readonly { tag: string; value: number; sigma: number }[], options: DetectabilityOptions = {}): DetectabilityMap {
+export function detectabilityMap(
+  model: CycleModel,
+  readings: readonly { tag: string; value: number; sigma: number }[],
+  options: DetectabilityOptions = {},
+): DetectabilityMap {
   const alpha = options.alpha ?? 0.05;
   const beta = options.beta ?? 0.2;
   const tolerance = options.tolerance ?? 1e-8;
   const delta0 = nonCentrality(alpha, beta);
   const known = new Set(model.instruments.map((i) => i.tag));
   const acc = new Map<string, AcceptedReading>();
-  for (const r of readings) if (known.has(r.tag) && Number.isFinite(r.value) && r.sigma > 0) acc.set(r.tag, { tag: r.tag, value: r.value, sigma: r.sigma });
+  for (const r of readings)
+    if (known.has(r.tag) && Number.isFinite(r.value) && r.sigma > 0)
+      acc.set(r.tag, { tag: r.tag, value: r.value, sigma: r.sigma });
   const base = solve(model, acc, tolerance);
   const inBase = new Set(base?.sens.inputs ?? []);
   const rowOf = (i: Instrument): InstrumentDetectability => {
     const a = acc.get(i.tag);
     const where = { ...(i.point ? { pointId: i.point } : {}), ...(i.equipment ? { equipmentId: i.equipment } : {}) };
-    if (!a) return { tag: i.tag, quantity: i.quantity, ...where, status: 'not-read', sigma: null, redundancy: null, mdb: null, remedy: null };
-    if (!base || !inBase.has(i.tag)) return { tag: i.tag, quantity: i.quantity, ...where, status: 'unchecked', sigma: a.sigma, redundancy: 0, mdb: null, remedy: null };
+    if (!a)
+      return {
+        tag: i.tag,
+        quantity: i.quantity,
+        ...where,
+        status: 'not-read',
+        sigma: null,
+        redundancy: null,
+        mdb: null,
+        remedy: null,
+      };
+    if (!base || !inBase.has(i.tag))
+      return {
+        tag: i.tag,
+        quantity: i.quantity,
+        ...where,
+        status: 'unchecked',
+        sigma: a.sigma,
+        redundancy: 0,
+        mdb: null,
+        remedy: null,
+      };
     const r = base.sens.redundancy(i.tag);
     const mdbInternal = base.sens.minimalDetectableBias(i.tag, delta0);
     const mdb = mdbInternal === null ? null : mdbInternal * scaleOf(base.eq, i.tag);
@@ -180,7 +254,12 @@ export function detectabilityMap(model: CycleModel, readings: readonly { tag: st
     return mdb === null || r === 0 ? null : { mdb: mdb * scaleOf(base!.eq, tag), r };
   };
   if (base) {
-    const states = reconciledStates(model, base.eq, base.res.values, new Map(base.eq.notInBalance.map((t) => [t, acc.get(t)!.value])));
+    const states = reconciledStates(
+      model,
+      base.eq,
+      base.res.values,
+      new Map(base.eq.notInBalance.map((t) => [t, acc.get(t)!.value])),
+    );
     let n = 0;
     for (const pt of model.points) {
       const refs = base.eq.points[pt.id];
@@ -205,7 +284,18 @@ export function detectabilityMap(model: CycleModel, readings: readonly { tag: st
           sens: solved.sens,
           remedy: (target, s) => {
             const d = mdbOf(s, target);
-            return d ? { kind: 'new-reading', quantity: q, pointId: pt.id, pointLabel: pt.label, device: NEW_DEVICE[q], sigma: made.sigma, mdb: d.mdb, redundancy: d.r } : null;
+            return d
+              ? {
+                  kind: 'new-reading',
+                  quantity: q,
+                  pointId: pt.id,
+                  pointLabel: pt.label,
+                  device: NEW_DEVICE[q],
+                  sigma: made.sigma,
+                  mdb: d.mdb,
+                  redundancy: d.r,
+                }
+              : null;
           },
         });
       }
@@ -214,7 +304,10 @@ export function detectabilityMap(model: CycleModel, readings: readonly { tag: st
     // (linearised at the same solution: a change of weights barely moves it)
     for (const j of base.sens.inputs) {
       const sj = acc.get(j)!.sigma;
-      const input: ReconcileInput = { ...base.input, measured: base.input.measured.map((m) => (m.id === j ? { ...m, sigma: m.sigma / 2 } : m)) };
+      const input: ReconcileInput = {
+        ...base.input,
+        measured: base.input.measured.map((m) => (m.id === j ? { ...m, sigma: m.sigma / 2 } : m)),
+      };
       let sens: ReconciledSensitivity;
       try {
         sens = reconciledSensitivity(input, base.res, 'main');
@@ -226,7 +319,9 @@ export function detectabilityMap(model: CycleModel, readings: readonly { tag: st
         sens,
         remedy: (target, s) => {
           const d = mdbOf(s, target);
-          return d ? { kind: 'tighter', tag: j, quantity: qj, sigmaFrom: sj, sigmaTo: sj / 2, mdb: d.mdb, redundancy: d.r } : null;
+          return d
+            ? { kind: 'tighter', tag: j, quantity: qj, sigmaFrom: sj, sigmaTo: sj / 2, mdb: d.mdb, redundancy: d.r }
+            : null;
         },
       });
     }
@@ -251,7 +346,17 @@ export function detectabilityMap(model: CycleModel, readings: readonly { tag: st
       acc2.set(tag, { tag, value: a.value, sigma: a.sigma });
       const solved = solve(m2, acc2, tolerance);
       const d = solved ? mdbOf(solved.sens, inst.tag) : null;
-      if (d) cands.push({ kind: 'twin', of: inst.tag, quantity: inst.quantity, ...(inst.point ? { pointId: inst.point } : {}), ...(inst.equipment ? { equipmentId: inst.equipment } : {}), sigma: a.sigma, mdb: d.mdb, redundancy: d.r });
+      if (d)
+        cands.push({
+          kind: 'twin',
+          of: inst.tag,
+          quantity: inst.quantity,
+          ...(inst.point ? { pointId: inst.point } : {}),
+          ...(inst.equipment ? { equipmentId: inst.equipment } : {}),
+          sigma: a.sigma,
+          mdb: d.mdb,
+          redundancy: d.r,
+        });
     }
     // the smallest MDB wins; a better current MDB is required for a weak one
     const better = cands.filter((c) => row.mdb === null || c.mdb < row.mdb * (1 - 1e-9));

@@ -140,7 +140,8 @@ export interface EquationSystem {
 
 const REL_DP = 1e-6;
 
-export const isSatPhase = (ph: PointPhase) => ph === 'saturated-liquid' || ph === 'saturated-vapour' || ph === 'two-phase';
+export const isSatPhase = (ph: PointPhase) =>
+  ph === 'saturated-liquid' || ph === 'saturated-vapour' || ph === 'two-phase';
 
 export const valueOf = (r: Ref, v: Readonly<Record<string, number>>): number => ('var' in r ? v[r.var] : r.value);
 
@@ -154,9 +155,21 @@ export function balanceSpecs(model: CycleModel, powerTags: Readonly<Record<strin
       const sections = e.sections.map((sid) => {
         const s = byId.get(sid)!;
         const uses = portUses(s);
-        return { id: sid, ins: uses.filter((u) => u.role === 'in').map((u) => u.point), outs: uses.filter((u) => u.role === 'out').map((u) => u.point) };
+        return {
+          id: sid,
+          ins: uses.filter((u) => u.role === 'in').map((u) => u.point),
+          outs: uses.filter((u) => u.role === 'out').map((u) => u.point),
+        };
       });
-      specs.push({ id: `power:${e.id}`, kind: 'power', equipmentId: e.id, label: `${e.label}: output against turbine work`, efficiency: e.efficiency, sections, tags });
+      specs.push({
+        id: `power:${e.id}`,
+        kind: 'power',
+        equipmentId: e.id,
+        label: `${e.label}: output against turbine work`,
+        efficiency: e.efficiency,
+        sections,
+        tags,
+      });
       continue;
     }
     if (e.kind === 'drum') continue;
@@ -189,8 +202,22 @@ export function balanceSpecs(model: CycleModel, powerTags: Readonly<Record<strin
         // the two sides have their own mass balances
         specs.pop();
         const shellIn = [e.ports.steamIn, ...(e.ports.drainsIn ?? [])];
-        specs.push({ id: `mass-feed:${e.id}`, kind: 'mass', equipmentId: e.id, label: `${e.label}: feed side mass`, ins: [e.ports.feedIn], outs: [e.ports.feedOut] });
-        specs.push({ id: `mass-shell:${e.id}`, kind: 'mass', equipmentId: e.id, label: `${e.label}: shell side mass`, ins: shellIn, outs: [e.ports.drainOut] });
+        specs.push({
+          id: `mass-feed:${e.id}`,
+          kind: 'mass',
+          equipmentId: e.id,
+          label: `${e.label}: feed side mass`,
+          ins: [e.ports.feedIn],
+          outs: [e.ports.feedOut],
+        });
+        specs.push({
+          id: `mass-shell:${e.id}`,
+          kind: 'mass',
+          equipmentId: e.id,
+          label: `${e.label}: shell side mass`,
+          ins: shellIn,
+          outs: [e.ports.drainOut],
+        });
         specs.push({ id: `energy:${e.id}`, kind: 'energy', equipmentId: e.id, label: `${e.label}: energy`, ins, outs });
         break;
       }
@@ -200,11 +227,25 @@ export function balanceSpecs(model: CycleModel, powerTags: Readonly<Record<strin
         break;
       case 'splitter':
         for (const o of e.ports.outlets) {
-          specs.push({ id: `enthalpy:${e.id}:${o}`, kind: 'enthalpy', equipmentId: e.id, label: `${e.label}: enthalpy to ${o}`, from: e.ports.inlet, to: o });
+          specs.push({
+            id: `enthalpy:${e.id}:${o}`,
+            kind: 'enthalpy',
+            equipmentId: e.id,
+            label: `${e.label}: enthalpy to ${o}`,
+            from: e.ports.inlet,
+            to: o,
+          });
         }
         break;
       case 'throttle':
-        specs.push({ id: `enthalpy:${e.id}`, kind: 'enthalpy', equipmentId: e.id, label: `${e.label}: enthalpy`, from: e.ports.inlet, to: e.ports.outlet });
+        specs.push({
+          id: `enthalpy:${e.id}`,
+          kind: 'enthalpy',
+          equipmentId: e.id,
+          label: `${e.label}: enthalpy`,
+          from: e.ports.inlet,
+          to: e.ports.outlet,
+        });
         break;
       default:
         break;
@@ -230,7 +271,6 @@ function enthalpyPoints(specs: BalanceSpec[]): Set<string> {
   }
   return s;
 }
-
 
 /** Accumulating gradient builder (a variable may appear in two terms). */
 function addTo(g: Record<string, number>, k: string, d: number): void {
@@ -446,11 +486,18 @@ export function buildEquations(model: CycleModel, readings: ReadonlyMap<string, 
   for (const b of specs) if (b.kind === 'mass') for (const p of [...b.ins, ...b.outs]) inMass.add(p);
   const flowGroup = groups(
     pointIds,
-    specs.filter((b): b is Extract<BalanceSpec, { kind: 'mass' }> => b.kind === 'mass' && b.ins.length === 1 && b.outs.length === 1).map((b) => [b.ins[0], b.outs[0]]),
+    specs
+      .filter(
+        (b): b is Extract<BalanceSpec, { kind: 'mass' }> =>
+          b.kind === 'mass' && b.ins.length === 1 && b.outs.length === 1,
+      )
+      .map((b) => [b.ins[0], b.outs[0]]),
   );
   const hGroupOf = groups(
     pointIds,
-    specs.filter((b): b is Extract<BalanceSpec, { kind: 'enthalpy' }> => b.kind === 'enthalpy').map((b) => [b.from, b.to]),
+    specs
+      .filter((b): b is Extract<BalanceSpec, { kind: 'enthalpy' }> => b.kind === 'enthalpy')
+      .map((b) => [b.from, b.to]),
   );
 
   const vars: Record<string, VarInfo> = {};
@@ -460,9 +507,24 @@ export function buildEquations(model: CycleModel, readings: ReadonlyMap<string, 
     const r = readings.get(i.tag);
     if (!r) continue;
     const kind: VarKind | null =
-      i.quantity === 'pressure' ? 'p' : i.quantity === 'temperature' ? 'T' : i.quantity === 'massFlow' ? 'm' : i.quantity === 'power' ? 'power' : null;
+      i.quantity === 'pressure'
+        ? 'p'
+        : i.quantity === 'temperature'
+          ? 'T'
+          : i.quantity === 'massFlow'
+            ? 'm'
+            : i.quantity === 'power'
+              ? 'power'
+              : null;
     if (!kind) continue;
-    vars[i.tag] = { id: i.tag, kind, ...(i.point ? { pointId: i.point } : {}), ...(i.equipment ? { equipmentId: i.equipment } : {}), instrumentTag: i.tag, measured: true };
+    vars[i.tag] = {
+      id: i.tag,
+      kind,
+      ...(i.point ? { pointId: i.point } : {}),
+      ...(i.equipment ? { equipmentId: i.equipment } : {}),
+      instrumentTag: i.tag,
+      measured: true,
+    };
   }
   const unmeasured = (id: string, kind: VarKind, pointId: string, guess: number): string => {
     if (!vars[id]) {
@@ -499,7 +561,8 @@ export function buildEquations(model: CycleModel, readings: ReadonlyMap<string, 
     const own = at[pt.id];
     const pr = pressure(pt.id);
     const T: Ref | null = own.T.length > 0 ? { var: own.T[0] } : null;
-    const x = needH.has(pt.id) && pt.phase === 'two-phase' ? unmeasured(`x@${pt.id}`, 'x', pt.id, pt.nominal?.x ?? 0.9) : null;
+    const x =
+      needH.has(pt.id) && pt.phase === 'two-phase' ? unmeasured(`x@${pt.id}`, 'x', pt.id, pt.nominal?.x ?? 0.9) : null;
     let h: HExpr | null = null;
     if (isSatPhase(pt.phase)) h = pt.phase === 'two-phase' && !x ? null : hSaturated(pt.phase, pr.p, x);
     else if (T && 'var' in T) h = hSinglePhase(pt.phase, pr.p, T.var);
@@ -556,8 +619,11 @@ export function buildEquations(model: CycleModel, readings: ReadonlyMap<string, 
       const pt = pointById.get(grp.id)!;
       const pS = pGuessSI(grp.id);
       const Ts = tsatSafe(pS);
-      const Tg = pt.nominal?.T ?? (pt.phase === 'vapour' ? Ts + 20 : pt.phase === 'liquid' ? Math.max(Ts - 10, 280) : 300);
-      grp.h = hVariable(unmeasured(`h@${grp.id}`, 'h', grp.id, enthalpyOf(pt.phase, pS, Tg, pt.nominal?.x ?? 0.9) / SCALE.h));
+      const Tg =
+        pt.nominal?.T ?? (pt.phase === 'vapour' ? Ts + 20 : pt.phase === 'liquid' ? Math.max(Ts - 10, 280) : 300);
+      grp.h = hVariable(
+        unmeasured(`h@${grp.id}`, 'h', grp.id, enthalpyOf(pt.phase, pS, Tg, pt.nominal?.x ?? 0.9) / SCALE.h),
+      );
     }
   }
   const hOf = (pid: string): HExpr => hGroups[points[pid].hGroup].h;
@@ -582,14 +648,32 @@ export function buildEquations(model: CycleModel, readings: ReadonlyMap<string, 
       for (const p of b.outs) addTo(coeffs, points[p].m!, -1);
       for (const key of Object.keys(coeffs)) if (coeffs[key] === 0) delete coeffs[key];
       if (Object.keys(coeffs).length === 0) continue; // one stream: holds by construction
-      add(linear(b.id, coeffs), { kind: 'mass', label: b.label, equipmentId: b.equipmentId, deps: Object.keys(coeffs) });
+      add(linear(b.id, coeffs), {
+        kind: 'mass',
+        label: b.label,
+        equipmentId: b.equipmentId,
+        deps: Object.keys(coeffs),
+      });
     } else if (b.kind === 'energy' || b.kind === 'duty') {
-      const terms = termsOf([...b.ins, ...(b.coolingIn ? [b.coolingIn] : [])], [...b.outs, ...(b.coolingOut ? [b.coolingOut] : [])]);
-      add(bilinear(b.id, terms, 1, []), { kind: b.kind, label: b.label, equipmentId: b.equipmentId, deps: depsOf(terms) });
+      const terms = termsOf(
+        [...b.ins, ...(b.coolingIn ? [b.coolingIn] : [])],
+        [...b.outs, ...(b.coolingOut ? [b.coolingOut] : [])],
+      );
+      add(bilinear(b.id, terms, 1, []), {
+        kind: b.kind,
+        label: b.label,
+        equipmentId: b.equipmentId,
+        deps: depsOf(terms),
+      });
     } else if (b.kind === 'power') {
       if (b.tags.length === 0) continue;
       const terms = b.sections.flatMap((s) => termsOf(s.ins, s.outs));
-      add(bilinear(b.id, terms, b.efficiency, [b.tags[0]]), { kind: 'power', label: b.label, equipmentId: b.equipmentId, deps: [...depsOf(terms), b.tags[0]] });
+      add(bilinear(b.id, terms, b.efficiency, [b.tags[0]]), {
+        kind: 'power',
+        label: b.label,
+        equipmentId: b.equipmentId,
+        deps: [...depsOf(terms), b.tags[0]],
+      });
     }
   }
   // members of an enthalpy group whose own state fixes their enthalpy are held equal to the group's
@@ -611,14 +695,29 @@ export function buildEquations(model: CycleModel, readings: ReadonlyMap<string, 
     const r = points[pt.id];
     if (isSatPhase(pt.phase) && r.T && 'var' in r.T) {
       const deps = [r.T.var, ...('var' in r.p ? [r.p.var] : [])];
-      add(saturationConstraint(`sat:${pt.id}`, r.p, r.T.var), { kind: 'saturation', label: `${pt.label}: saturation`, pointId: pt.id, deps });
+      add(saturationConstraint(`sat:${pt.id}`, r.p, r.T.var), {
+        kind: 'saturation',
+        label: `${pt.label}: saturation`,
+        pointId: pt.id,
+        deps,
+      });
     }
   }
   // two readings of one quantity at one place, or two flow readings on one stream
-  const equal = (tags: string[], where: { pointId?: string; equipmentId?: string }, what: string, kind: 'twin' | 'stream' = 'twin') => {
+  const equal = (
+    tags: string[],
+    where: { pointId?: string; equipmentId?: string },
+    what: string,
+    kind: 'twin' | 'stream' = 'twin',
+  ) => {
     for (let k = 1; k < tags.length; k++) {
       const id = `${kind}:${tags[0]}:${tags[k]}`;
-      add(linear(id, { [tags[0]]: 1, [tags[k]]: -1 }), { kind, label: `${tags[0]} and ${tags[k]}: same ${what}`, ...where, deps: [tags[0], tags[k]] });
+      add(linear(id, { [tags[0]]: 1, [tags[k]]: -1 }), {
+        kind,
+        label: `${tags[0]} and ${tags[k]}: same ${what}`,
+        ...where,
+        deps: [tags[0], tags[k]],
+      });
     }
   };
   for (const pt of model.points) {
@@ -650,5 +749,16 @@ export function buildEquations(model: CycleModel, readings: ReadonlyMap<string, 
     .filter((id) => used.has(id))
     .map((id) => ({ id, guess: guesses[id] }));
   for (const id of Object.keys(vars)) if (!vars[id].measured && !used.has(id)) delete vars[id];
-  return { measured, unmeasured: unmeasuredVars, constraints, info, vars, points, hGroups, balances: specs, notInBalance, guesses };
+  return {
+    measured,
+    unmeasured: unmeasuredVars,
+    constraints,
+    info,
+    vars,
+    points,
+    hGroups,
+    balances: specs,
+    notInBalance,
+    guesses,
+  };
 }

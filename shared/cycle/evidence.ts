@@ -96,7 +96,10 @@ export interface EvidenceDecision {
 }
 
 /** The instruments the evidence names after one round; `pairs`: the round's correlated corrections. */
-export function decideEvidence(evidence: readonly InstrumentEvidence[], pairs: readonly CorrelatedPair[]): EvidenceDecision[] {
+export function decideEvidence(
+  evidence: readonly InstrumentEvidence[],
+  pairs: readonly CorrelatedPair[],
+): EvidenceDecision[] {
   const byPair = new Map<string, number>();
   for (const p of pairs) byPair.set(p.a < p.b ? `${p.a}|${p.b}` : `${p.b}|${p.a}`, Math.abs(p.rho));
   const rho = (a: string, b: string) => byPair.get(a < b ? `${a}|${b}` : `${b}|${a}`) ?? 0;
@@ -125,7 +128,8 @@ export function decideEvidence(evidence: readonly InstrumentEvidence[], pairs: r
       used.add(y.e.tag);
     }
     // a near-inseparable partner not (yet) in alarm is named too: the balances cannot tell which
-    for (const e of evidence) if (!group.includes(e.tag) && !used.has(e.tag) && rho(x.e.tag, e.tag) >= GROUP_CORRELATION) group.push(e.tag);
+    for (const e of evidence)
+      if (!group.includes(e.tag) && !used.has(e.tag) && rho(x.e.tag, e.tag) >= GROUP_CORRELATION) group.push(e.tag);
     out.push({
       tags: group,
       reason: x.gross ? 'gross' : 'sustained',

@@ -54,7 +54,12 @@ export function meaningfulSpan(f: Pick<PerformanceFigure, 'unit' | 'value'>): nu
  * The reconciled state of every point from reconciled values `fv` (internal units, as reconcile()
  * returns them) and the SI values of readings no balance reads (`loose`).
  */
-export function reconciledStates(model: CycleModel, eq: EquationSystem, fv: Readonly<Record<string, number>>, loose: ReadonlyMap<string, number>): Map<string, FigureState> {
+export function reconciledStates(
+  model: CycleModel,
+  eq: EquationSystem,
+  fv: Readonly<Record<string, number>>,
+  loose: ReadonlyMap<string, number>,
+): Map<string, FigureState> {
   const scaleOf = (id: string) => SCALE[eq.vars[id]?.kind ?? 'T'];
   const recV = (id: string): number | null => {
     if (id in fv) return fv[id] * scaleOf(id);
@@ -86,7 +91,15 @@ export function reconciledStates(model: CycleModel, eq: EquationSystem, fv: Read
     if (x === null) x = pt.phase === 'saturated-liquid' ? 0 : pt.phase === 'saturated-vapour' ? 1 : (st?.x ?? null);
     if (T === null && st) T = st.T;
     const m = r.m ? recV(r.m) : null;
-    out.set(pt.id, { p: orNull(p), T: orNull(T), h: orNull(h), s: orNull(st?.s), x: orNull(x), m: orNull(m), phase: st?.phase ?? null });
+    out.set(pt.id, {
+      p: orNull(p),
+      T: orNull(T),
+      h: orNull(h),
+      s: orNull(st?.s),
+      x: orNull(x),
+      m: orNull(m),
+      phase: st?.phase ?? null,
+    });
   }
   return out;
 }
@@ -117,7 +130,8 @@ export function withUncertainty(input: FigureUncertaintyInput): PerformanceFigur
     if (a) loose.set(t, a.value);
   }
   const powerTag = new Map<string, string>();
-  for (const i of model.instruments) if (i.quantity === 'power' && accepted.has(i.tag) && !powerTag.has(i.equipment!)) powerTag.set(i.equipment!, i.tag);
+  for (const i of model.instruments)
+    if (i.quantity === 'power' && accepted.has(i.tag) && !powerTag.has(i.equipment!)) powerTag.set(i.equipment!, i.tag);
   const evaluate = (vals: Readonly<Record<string, number>>, lo: ReadonlyMap<string, number>): (number | null)[] => {
     const states = reconciledStates(model, eq, vals, lo);
     const recPower = (gid: string): number | null => {
@@ -205,7 +219,16 @@ export function withUncertainty(input: FigureUncertaintyInput): PerformanceFigur
       const rest = u2 - dom;
       reduceBy = target > rest && dom > 0 ? 1 / Math.sqrt((target - rest) / dom) : null;
     }
-    const unc: FigureUncertainty = { method: 'gum-lpu', u, k: K95, U, determinable, span: span ?? Math.abs(fig.value), budget, reduceBy };
+    const unc: FigureUncertainty = {
+      method: 'gum-lpu',
+      u,
+      k: K95,
+      U,
+      determinable,
+      span: span ?? Math.abs(fig.value),
+      budget,
+      reduceBy,
+    };
     return { ...fig, uncertainty: unc };
   });
 }

@@ -63,7 +63,11 @@ export const equipmentSchema = z.discriminatedUnion('kind', [
     kind: z.literal('boiler'),
     ports: z.strictObject({ feedIn: pointRef, steamOut: pointRef, blowdownOut: pointRef.optional() }),
   }),
-  z.strictObject({ ...base, kind: z.literal('superheater'), ports: z.strictObject({ inlet: pointRef, outlet: pointRef }) }),
+  z.strictObject({
+    ...base,
+    kind: z.literal('superheater'),
+    ports: z.strictObject({ inlet: pointRef, outlet: pointRef }),
+  }),
   z.strictObject({
     ...base,
     kind: z.literal('turbine-section'),
@@ -84,17 +88,36 @@ export const equipmentSchema = z.discriminatedUnion('kind', [
   z.strictObject({
     ...base,
     kind: z.literal('closed-heater'),
-    ports: z.strictObject({ feedIn: pointRef, feedOut: pointRef, steamIn: pointRef, drainOut: pointRef, drainsIn: many.optional() }),
+    ports: z.strictObject({
+      feedIn: pointRef,
+      feedOut: pointRef,
+      steamIn: pointRef,
+      drainOut: pointRef,
+      drainsIn: many.optional(),
+    }),
   }),
   z.strictObject({
     ...base,
     kind: z.literal('deaerator'),
-    ports: z.strictObject({ steamIn: pointRef, inlets: many.optional(), outlet: pointRef, ventOut: pointRef.optional() }),
+    ports: z.strictObject({
+      steamIn: pointRef,
+      inlets: many.optional(),
+      outlet: pointRef,
+      ventOut: pointRef.optional(),
+    }),
   }),
-  z.strictObject({ ...base, kind: z.literal('drum'), ports: z.strictObject({ steam: pointRef, water: pointRef.optional() }) }),
+  z.strictObject({
+    ...base,
+    kind: z.literal('drum'),
+    ports: z.strictObject({ steam: pointRef, water: pointRef.optional() }),
+  }),
   z.strictObject({ ...base, kind: z.literal('mixer'), ports: z.strictObject({ inlets: many, outlet: pointRef }) }),
   z.strictObject({ ...base, kind: z.literal('splitter'), ports: z.strictObject({ inlet: pointRef, outlets: many }) }),
-  z.strictObject({ ...base, kind: z.literal('throttle'), ports: z.strictObject({ inlet: pointRef, outlet: pointRef }) }),
+  z.strictObject({
+    ...base,
+    kind: z.literal('throttle'),
+    ports: z.strictObject({ inlet: pointRef, outlet: pointRef }),
+  }),
   z.strictObject({
     ...base,
     kind: z.literal('generator'),
@@ -155,7 +178,8 @@ export function portUses(e: Equipment): PortUse[] {
     const v = ports[port];
     if (v === undefined) continue;
     const cooling = e.kind === 'condenser' && (port === 'coolingIn' || port === 'coolingOut');
-    for (const point of Array.isArray(v) ? v : [v]) out.push({ port, point, role: roles[port], ...(cooling ? { cooling } : {}) });
+    for (const point of Array.isArray(v) ? v : [v])
+      out.push({ port, point, role: roles[port], ...(cooling ? { cooling } : {}) });
   }
   return out;
 }

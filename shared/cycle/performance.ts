@@ -88,7 +88,11 @@ function figureDefs(model: CycleModel): Raw[] {
             equipmentId: e.id,
             label: `${e.label}: isentropic efficiency ${whole ? 'inlet to exhaust' : `${a} to ${b}`}`,
             unit: '1',
-            ...(wet ? { note: 'wet exhaust: its enthalpy (quality) comes from the balances, so only the reconciled figure exists' } : {}),
+            ...(wet
+              ? {
+                  note: 'wet exhaust: its enthalpy (quality) comes from the balances, so only the reconciled figure exists',
+                }
+              : {}),
             f: (get) => {
               const i = get(a);
               const o = get(b);
@@ -149,8 +153,22 @@ function figureDefs(model: CycleModel): Raw[] {
           return fin(p) ? tsatSafe(p) : null;
         };
         const diff = (a: number | null, b: number | null) => (fin(a) && fin(b) ? a - b : null);
-        defs.push({ id: `ttd:${e.id}`, kind: 'condenser-ttd', equipmentId: e.id, label: `${e.label}: terminal temperature difference`, unit: 'K', f: (g) => diff(ts(g), g(coolingOut).T) });
-        defs.push({ id: `itd:${e.id}`, kind: 'condenser-itd', equipmentId: e.id, label: `${e.label}: initial temperature difference`, unit: 'K', f: (g) => diff(ts(g), g(coolingIn).T) });
+        defs.push({
+          id: `ttd:${e.id}`,
+          kind: 'condenser-ttd',
+          equipmentId: e.id,
+          label: `${e.label}: terminal temperature difference`,
+          unit: 'K',
+          f: (g) => diff(ts(g), g(coolingOut).T),
+        });
+        defs.push({
+          id: `itd:${e.id}`,
+          kind: 'condenser-itd',
+          equipmentId: e.id,
+          label: `${e.label}: initial temperature difference`,
+          unit: 'K',
+          f: (g) => diff(ts(g), g(coolingIn).T),
+        });
         defs.push({
           id: `duty:${e.id}`,
           kind: 'condenser-duty',
@@ -164,8 +182,22 @@ function figureDefs(model: CycleModel): Raw[] {
             return fin(m) && fin(i.h) && fin(o.h) ? m * (o.h - i.h) : null;
           },
         });
-        defs.push({ id: `cw-rise:${e.id}`, kind: 'cooling-water-rise', equipmentId: e.id, label: `${e.label}: cooling-water temperature rise`, unit: 'K', f: (g) => diff(g(coolingOut).T, g(coolingIn).T) });
-        defs.push({ id: `subcooling:${e.id}`, kind: 'condensate-subcooling', equipmentId: e.id, label: `${e.label}: condensate subcooling`, unit: 'K', f: (g) => diff(ts(g), g(condensateOut).T) });
+        defs.push({
+          id: `cw-rise:${e.id}`,
+          kind: 'cooling-water-rise',
+          equipmentId: e.id,
+          label: `${e.label}: cooling-water temperature rise`,
+          unit: 'K',
+          f: (g) => diff(g(coolingOut).T, g(coolingIn).T),
+        });
+        defs.push({
+          id: `subcooling:${e.id}`,
+          kind: 'condensate-subcooling',
+          equipmentId: e.id,
+          label: `${e.label}: condensate subcooling`,
+          unit: 'K',
+          f: (g) => diff(ts(g), g(condensateOut).T),
+        });
         break;
       }
       case 'closed-heater': {
@@ -182,7 +214,14 @@ function figureDefs(model: CycleModel): Raw[] {
             return diff(fin(p) ? tsatSafe(p) : null, g(feedOut).T);
           },
         });
-        defs.push({ id: `dca:${e.id}`, kind: 'heater-dca', equipmentId: e.id, label: `${e.label}: drain cooler approach`, unit: 'K', f: (g) => diff(g(drainOut).T, g(feedIn).T) });
+        defs.push({
+          id: `dca:${e.id}`,
+          kind: 'heater-dca',
+          equipmentId: e.id,
+          label: `${e.label}: drain cooler approach`,
+          unit: 'K',
+          f: (g) => diff(g(drainOut).T, g(feedIn).T),
+        });
         defs.push({
           id: `duty:${e.id}`,
           kind: 'heater-duty',
@@ -196,7 +235,14 @@ function figureDefs(model: CycleModel): Raw[] {
             return fin(m) && fin(i.h) && fin(o.h) ? m * (o.h - i.h) : null;
           },
         });
-        defs.push({ id: `rise:${e.id}`, kind: 'heater-rise', equipmentId: e.id, label: `${e.label}: feed temperature rise`, unit: 'K', f: (g) => diff(g(feedOut).T, g(feedIn).T) });
+        defs.push({
+          id: `rise:${e.id}`,
+          kind: 'heater-rise',
+          equipmentId: e.id,
+          label: `${e.label}: feed temperature rise`,
+          unit: 'K',
+          f: (g) => diff(g(feedOut).T, g(feedIn).T),
+        });
         break;
       }
       case 'boiler':
@@ -220,7 +266,14 @@ function figureDefs(model: CycleModel): Raw[] {
       case 'generator': {
         generators.push(e.id);
         const gid = e.id;
-        defs.push({ id: `output:${gid}`, kind: 'electrical-output', equipmentId: gid, label: `${e.label}: electrical output`, unit: 'W', f: (_g, power) => power(gid) });
+        defs.push({
+          id: `output:${gid}`,
+          kind: 'electrical-output',
+          equipmentId: gid,
+          label: `${e.label}: electrical output`,
+          unit: 'W',
+          f: (_g, power) => power(gid),
+        });
         const sections = e.sections;
         defs.push({
           id: `shaft:${gid}`,
@@ -247,7 +300,8 @@ function figureDefs(model: CycleModel): Raw[] {
   }
   // cycle figures
   const byId = new Map(defs.map((d) => [d.id, d]));
-  const boilerHeat = (g: StateOf, pw: (id: string) => number | null) => sum(heatAbsorbed.map((id) => byId.get(`heat:${id}`)!.f(g, pw)));
+  const boilerHeat = (g: StateOf, pw: (id: string) => number | null) =>
+    sum(heatAbsorbed.map((id) => byId.get(`heat:${id}`)!.f(g, pw)));
   const electrical = (pw: (id: string) => number | null) => (generators.length ? sum(generators.map(pw)) : null);
   const producers = new Set<string>();
   const consumers = new Set<string>();
@@ -267,14 +321,26 @@ function figureDefs(model: CycleModel): Raw[] {
     return fin(a) && fin(b) ? a - b : null;
   };
   if (heatAbsorbed.length > 0) {
-    defs.push({ id: 'cycle:boiler-heat', kind: 'boiler-heat', label: 'Heat absorbed in boiler and superheater', unit: 'W', f: boilerHeat });
+    defs.push({
+      id: 'cycle:boiler-heat',
+      kind: 'boiler-heat',
+      label: 'Heat absorbed in boiler and superheater',
+      unit: 'W',
+      f: boilerHeat,
+    });
     if (generators.length > 0) {
       const eta = (g: StateOf, pw: (id: string) => number | null) => {
         const q = boilerHeat(g, pw);
         const p = electrical(pw);
         return fin(q) && fin(p) && q > 0 ? p / q : null;
       };
-      defs.push({ id: 'cycle:efficiency', kind: 'thermal-efficiency', label: 'Cycle thermal efficiency (electrical, on heat absorbed)', unit: '1', f: eta });
+      defs.push({
+        id: 'cycle:efficiency',
+        kind: 'thermal-efficiency',
+        label: 'Cycle thermal efficiency (electrical, on heat absorbed)',
+        unit: '1',
+        f: eta,
+      });
       defs.push({
         id: 'cycle:heat-rate',
         kind: 'heat-rate',
@@ -286,7 +352,13 @@ function figureDefs(model: CycleModel): Raw[] {
         },
       });
       if (sinks.length + sources.length > 0) {
-        defs.push({ id: 'cycle:process-heat', kind: 'process-heat', label: 'Heat to process (steam out less water back)', unit: 'W', f: (g) => processHeat(g) });
+        defs.push({
+          id: 'cycle:process-heat',
+          kind: 'process-heat',
+          label: 'Heat to process (steam out less water back)',
+          unit: 'W',
+          f: (g) => processHeat(g),
+        });
         defs.push({
           id: 'cycle:utilisation',
           kind: 'fuel-utilisation',
@@ -340,7 +412,11 @@ export function performanceFigures(
 }
 
 /** The value of every figure (in the order performanceFigures gives them) from one state; null where it cannot be formed. */
-export function figureValues(model: CycleModel, get: StateOf, power: (genId: string) => number | null): (number | null)[] {
+export function figureValues(
+  model: CycleModel,
+  get: StateOf,
+  power: (genId: string) => number | null,
+): (number | null)[] {
   return figureDefs(model).map((d) => {
     try {
       return out(d.f(get, power));

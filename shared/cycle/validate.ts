@@ -92,12 +92,14 @@ export function validateModel(input: unknown): ValidationResult {
       }
       tied.add(u.point);
       const before = seenHere.get(u.point);
-      if (before !== undefined) err(path, `${e.kind} ${e.id}: point ${u.point} is on two of its ports (${before} and ${u.port})`);
+      if (before !== undefined)
+        err(path, `${e.kind} ${e.id}: point ${u.point} is on two of its ports (${before} and ${u.port})`);
       seenHere.set(u.point, u.port);
       const list = u.role === 'out' ? producers : u.role === 'in' ? consumers : null;
       if (list) list.set(u.point, [...(list.get(u.point) ?? []), `${e.id}.${u.port}`]);
     }
-    if (e.kind === 'mixer' && e.ports.inlets.length < 2) err(`equipment[${e.id}].ports.inlets`, `mixer ${e.id} needs at least two inlets`);
+    if (e.kind === 'mixer' && e.ports.inlets.length < 2)
+      err(`equipment[${e.id}].ports.inlets`, `mixer ${e.id} needs at least two inlets`);
     if (e.kind === 'splitter' && e.ports.outlets.length < 2) {
       err(`equipment[${e.id}].ports.outlets`, `splitter ${e.id} needs at least two outlets`);
     }
@@ -105,29 +107,43 @@ export function validateModel(input: unknown): ValidationResult {
       for (const port of ['coolingIn', 'coolingOut'] as const) {
         const p = points.get(e.ports[port]);
         if (p && p.phase !== 'liquid') {
-          err(`equipment[${e.id}].ports.${port}`, `condenser ${e.id}: cooling-water point ${p.id} must be declared liquid, not ${p.phase}`);
+          err(
+            `equipment[${e.id}].ports.${port}`,
+            `condenser ${e.id}: cooling-water point ${p.id} must be declared liquid, not ${p.phase}`,
+          );
         }
         if (p && p.circuit !== 'cooling') {
-          err(`points[${p.id}].circuit`, `point ${p.id} is on the cooling side of condenser ${e.id}: set circuit "cooling"`);
+          err(
+            `points[${p.id}].circuit`,
+            `point ${p.id} is on the cooling side of condenser ${e.id}: set circuit "cooling"`,
+          );
         }
       }
     }
     if (e.kind === 'drum') {
       const s = points.get(e.ports.steam);
       if (s && s.phase !== 'saturated-vapour') {
-        err(`equipment[${e.id}].ports.steam`, `drum ${e.id}: steam point ${s.id} must be declared saturated-vapour, not ${s.phase}`);
+        err(
+          `equipment[${e.id}].ports.steam`,
+          `drum ${e.id}: steam point ${s.id} must be declared saturated-vapour, not ${s.phase}`,
+        );
       }
       const w = e.ports.water ? points.get(e.ports.water) : undefined;
       if (w && w.phase !== 'saturated-liquid') {
-        err(`equipment[${e.id}].ports.water`, `drum ${e.id}: water point ${w.id} must be declared saturated-liquid, not ${w.phase}`);
+        err(
+          `equipment[${e.id}].ports.water`,
+          `drum ${e.id}: water point ${w.id} must be declared saturated-liquid, not ${w.phase}`,
+        );
       }
     }
   }
   for (const [pt, by] of producers) {
-    if (by.length > 1) err(`points[${pt}]`, `point ${pt} has two producers (${by.join(', ')}): a point leaves one equipment only`);
+    if (by.length > 1)
+      err(`points[${pt}]`, `point ${pt} has two producers (${by.join(', ')}): a point leaves one equipment only`);
   }
   for (const [pt, by] of consumers) {
-    if (by.length > 1) err(`points[${pt}]`, `point ${pt} has two consumers (${by.join(', ')}): split it with a splitter`);
+    if (by.length > 1)
+      err(`points[${pt}]`, `point ${pt} has two consumers (${by.join(', ')}): split it with a splitter`);
   }
   for (const p of m.points) if (!tied.has(p.id)) err(`points[${p.id}]`, `point ${p.id} is tied to no equipment port`);
 
@@ -136,7 +152,8 @@ export function validateModel(input: unknown): ValidationResult {
     if (p.samePressureAs === undefined) continue;
     const path = `points[${p.id}].samePressureAs`;
     if (p.samePressureAs === p.id) err(path, `point ${p.id} says it has the pressure of itself`);
-    else if (!points.has(p.samePressureAs)) err(path, `point ${p.id}: samePressureAs names unknown point "${p.samePressureAs}"`);
+    else if (!points.has(p.samePressureAs))
+      err(path, `point ${p.id}: samePressureAs names unknown point "${p.samePressureAs}"`);
     else {
       const chain = [p.id];
       let q = points.get(p.samePressureAs);
@@ -144,7 +161,8 @@ export function validateModel(input: unknown): ValidationResult {
         chain.push(q.id);
         q = points.get(q.samePressureAs);
       }
-      if (q && chain.includes(q.id)) err(path, `samePressureAs goes round in a circle: ${[...chain, q.id].join(' → ')}`);
+      if (q && chain.includes(q.id))
+        err(path, `samePressureAs goes round in a circle: ${[...chain, q.id].join(' → ')}`);
     }
   }
 
@@ -153,13 +171,16 @@ export function validateModel(input: unknown): ValidationResult {
   for (const e of m.equipment) {
     if (e.kind !== 'generator') continue;
     const path = `equipment[${e.id}]`;
-    if (!(e.efficiency > 0 && e.efficiency <= 1)) err(`${path}.efficiency`, `generator ${e.id}: efficiency ${e.efficiency} must lie in (0, 1]`);
+    if (!(e.efficiency > 0 && e.efficiency <= 1))
+      err(`${path}.efficiency`, `generator ${e.id}: efficiency ${e.efficiency} must lie in (0, 1]`);
     if (e.sections.length === 0) err(`${path}.sections`, `generator ${e.id} drives no turbine section`);
     for (const s of e.sections) {
       const t = equipment.get(s);
       if (!t) err(`${path}.sections`, `generator ${e.id}: section "${s}" is not an equipment of the model`);
-      else if (t.kind !== 'turbine-section') err(`${path}.sections`, `generator ${e.id}: "${s}" is a ${t.kind}, not a turbine-section`);
-      else if (onShaft.has(s)) err(`${path}.sections`, `turbine section ${s} is on two generators (${onShaft.get(s)} and ${e.id})`);
+      else if (t.kind !== 'turbine-section')
+        err(`${path}.sections`, `generator ${e.id}: "${s}" is a ${t.kind}, not a turbine-section`);
+      else if (onShaft.has(s))
+        err(`${path}.sections`, `turbine section ${s} is on two generators (${onShaft.get(s)} and ${e.id})`);
       onShaft.set(s, e.id);
     }
   }
@@ -171,23 +192,33 @@ export function validateModel(input: unknown): ValidationResult {
   for (const i of m.instruments) {
     const path = `instruments[${i.tag}]`;
     const onPoint = i.quantity === 'pressure' || i.quantity === 'temperature' || i.quantity === 'massFlow';
-    if (i.point !== undefined && i.equipment !== undefined) err(path, `${i.tag} names both a point and an equipment; give one`);
+    if (i.point !== undefined && i.equipment !== undefined)
+      err(path, `${i.tag} names both a point and an equipment; give one`);
     if (onPoint) {
-      if (i.point === undefined) err(`${path}.point`, `${i.tag} measures ${i.quantity} and must name the point it measures`);
+      if (i.point === undefined)
+        err(`${path}.point`, `${i.tag} measures ${i.quantity} and must name the point it measures`);
       else if (!points.has(i.point)) err(`${path}.point`, `${i.tag} is on unknown point "${i.point}"`);
       else if (i.quantity === 'pressure') measuresP.add(i.point);
       else if (i.quantity === 'temperature') measuresT.add(i.point);
     } else {
       const e = i.equipment === undefined ? undefined : equipment.get(i.equipment);
-      if (i.equipment === undefined) err(`${path}.equipment`, `${i.tag} measures ${i.quantity} and must name the equipment it is on`);
+      if (i.equipment === undefined)
+        err(`${path}.equipment`, `${i.tag} measures ${i.quantity} and must name the equipment it is on`);
       else if (!e) err(`${path}.equipment`, `${i.tag} is on unknown equipment "${i.equipment}"`);
-      else if (i.quantity === 'power' && e.kind !== 'generator') err(`${path}.equipment`, `${i.tag} measures power on ${e.id}, a ${e.kind}: power is read on a generator`);
+      else if (i.quantity === 'power' && e.kind !== 'generator')
+        err(`${path}.equipment`, `${i.tag} measures power on ${e.id}, a ${e.kind}: power is read on a generator`);
       else if (i.quantity === 'level' && !LEVEL_HOSTS.has(e.kind)) {
-        err(`${path}.equipment`, `${i.tag} measures a level on ${e.id}, a ${e.kind}: a level is read on a drum, deaerator, condenser or heater`);
+        err(
+          `${path}.equipment`,
+          `${i.tag} measures a level on ${e.id}, a ${e.kind}: a level is read on a drum, deaerator, condenser or heater`,
+        );
       }
     }
     if (i.quantity === 'pressure' && i.pressureReference === undefined) {
-      err(`${path}.pressureReference`, `${i.tag} is a pressure instrument without a reference: say absolute, gauge or vacuum`);
+      err(
+        `${path}.pressureReference`,
+        `${i.tag} is a pressure instrument without a reference: say absolute, gauge or vacuum`,
+      );
     }
     if (i.quantity !== 'pressure' && i.pressureReference !== undefined) {
       err(`${path}.pressureReference`, `${i.tag} measures ${i.quantity}: a pressure reference makes no sense for it`);
@@ -197,17 +228,26 @@ export function validateModel(input: unknown): ValidationResult {
     }
     const u = unitInfo(i.unit);
     if (!u) err(`${path}.unit`, `${i.tag}: unit "${i.unit}" is not a known unit`);
-    else if (u.quantity !== i.quantity) err(`${path}.unit`, `${i.tag}: unit ${i.unit} is a ${u.quantity} unit, but the instrument measures ${i.quantity}`);
+    else if (u.quantity !== i.quantity)
+      err(
+        `${path}.unit`,
+        `${i.tag}: unit ${i.unit} is a ${u.quantity} unit, but the instrument measures ${i.quantity}`,
+      );
     if (i.twin !== undefined) {
       const t = instruments.get(i.twin);
       if (i.twin === i.tag) err(`${path}.twin`, `${i.tag} names itself as its twin`);
       else if (!t) err(`${path}.twin`, `${i.tag}: twin ${i.twin} is not an instrument of the model`);
       else {
-        if (t.quantity !== i.quantity) err(`${path}.twin`, `${i.tag} measures ${i.quantity} but its twin ${t.tag} measures ${t.quantity}`);
+        if (t.quantity !== i.quantity)
+          err(`${path}.twin`, `${i.tag} measures ${i.quantity} but its twin ${t.tag} measures ${t.quantity}`);
         if (t.point !== i.point || t.equipment !== i.equipment) {
-          err(`${path}.twin`, `${i.tag} is on ${i.point ?? i.equipment} but its twin ${t.tag} is on ${t.point ?? t.equipment}`);
+          err(
+            `${path}.twin`,
+            `${i.tag} is on ${i.point ?? i.equipment} but its twin ${t.tag} is on ${t.point ?? t.equipment}`,
+          );
         }
-        if (t.twin !== undefined && t.twin !== i.tag) err(`${path}.twin`, `${i.tag} names ${t.tag} as twin, but ${t.tag} names ${t.twin}`);
+        if (t.twin !== undefined && t.twin !== i.tag)
+          err(`${path}.twin`, `${i.tag} names ${t.tag} as twin, but ${t.tag} names ${t.twin}`);
       }
     }
   }
@@ -224,7 +264,10 @@ export function validateModel(input: unknown): ValidationResult {
 
   const version = modelVersion(m);
   if (m.version !== undefined && m.version !== version) {
-    err('version', `version "${m.version}" does not match the model's content hash ${version}; leave it out to have it computed`);
+    err(
+      'version',
+      `version "${m.version}" does not match the model's content hash ${version}; leave it out to have it computed`,
+    );
   }
   if (errors.length > 0) return { ok: false, errors };
   return { ok: true, model: { ...m, version } };

@@ -203,15 +203,22 @@ export function linear(id: string, coeffs: Record<string, number>, rhs = 0): Con
   }
   for (const [k, c] of entries) {
     if (!Number.isFinite(c)) {
-      throw new ReconcileError('INVALID_CONSTRAINT', `linear constraint "${id}": coefficient of "${k}" is ${c}, must be finite`, {
-        constraint: id,
-        variable: k,
-        value: c,
-      });
+      throw new ReconcileError(
+        'INVALID_CONSTRAINT',
+        `linear constraint "${id}": coefficient of "${k}" is ${c}, must be finite`,
+        {
+          constraint: id,
+          variable: k,
+          value: c,
+        },
+      );
     }
   }
   if (!Number.isFinite(rhs)) {
-    throw new ReconcileError('INVALID_CONSTRAINT', `linear constraint "${id}": rhs is ${rhs}, must be finite`, { constraint: id, value: rhs });
+    throw new ReconcileError('INVALID_CONSTRAINT', `linear constraint "${id}": rhs is ${rhs}, must be finite`, {
+      constraint: id,
+      value: rhs,
+    });
   }
   const frozen = Object.freeze(Object.fromEntries(entries));
   return {
@@ -261,9 +268,13 @@ interface Problem {
 
 function checkId(id: unknown, what: string): asserts id is string {
   if (typeof id !== 'string' || id.length === 0 || id === '__proto__') {
-    throw new ReconcileError('INVALID_ID', `${what} id must be a non-empty string (not "__proto__"), got ${JSON.stringify(id)}`, {
-      id,
-    });
+    throw new ReconcileError(
+      'INVALID_ID',
+      `${what} id must be a non-empty string (not "__proto__"), got ${JSON.stringify(id)}`,
+      {
+        id,
+      },
+    );
   }
 }
 
@@ -278,7 +289,8 @@ interface Validated {
 }
 
 function validate(input: ReconcileInput): Validated {
-  if (!input || typeof input !== 'object') throw new ReconcileError('INVALID_OPTION', 'reconcile() needs an input object');
+  if (!input || typeof input !== 'object')
+    throw new ReconcileError('INVALID_OPTION', 'reconcile() needs an input object');
   const measured = input.measured ?? [];
   const unmeasuredIn = input.unmeasured ?? [];
   const constraints = input.constraints ?? [];
@@ -289,11 +301,15 @@ function validate(input: ReconcileInput): Validated {
   if (!Array.isArray(correlations)) throw new ReconcileError('INVALID_OPTION', 'correlations must be an array');
   const confidence = input.confidence ?? 0.95;
   if (!Number.isFinite(confidence) || confidence <= 0 || confidence >= 1) {
-    throw new ReconcileError('INVALID_CONFIDENCE', `confidence is ${confidence}, must lie in (0, 1)`, { value: confidence });
+    throw new ReconcileError('INVALID_CONFIDENCE', `confidence is ${confidence}, must lie in (0, 1)`, {
+      value: confidence,
+    });
   }
   const maxIter = input.maxIterations ?? 50;
   if (!Number.isInteger(maxIter) || maxIter < 1) {
-    throw new ReconcileError('INVALID_OPTION', `maxIterations is ${maxIter}, must be an integer ≥ 1`, { value: maxIter });
+    throw new ReconcileError('INVALID_OPTION', `maxIterations is ${maxIter}, must be an integer ≥ 1`, {
+      value: maxIter,
+    });
   }
   const tol = input.tolerance ?? 1e-10;
   if (!Number.isFinite(tol) || tol <= 0) {
@@ -308,10 +324,16 @@ function validate(input: ReconcileInput): Validated {
     checkId(m?.id, 'measured');
     claim(m.id, 'measured');
     if (typeof m.value !== 'number' || !Number.isFinite(m.value)) {
-      throw new ReconcileError('INVALID_VALUE', `measured "${m.id}": value is ${m.value}, must be a finite number`, { id: m.id, value: m.value });
+      throw new ReconcileError('INVALID_VALUE', `measured "${m.id}": value is ${m.value}, must be a finite number`, {
+        id: m.id,
+        value: m.value,
+      });
     }
     if (typeof m.sigma !== 'number' || !Number.isFinite(m.sigma) || m.sigma <= 0) {
-      throw new ReconcileError('INVALID_SIGMA', `measured "${m.id}": sigma is ${m.sigma}, must be finite and > 0`, { id: m.id, value: m.sigma });
+      throw new ReconcileError('INVALID_SIGMA', `measured "${m.id}": sigma is ${m.sigma}, must be finite and > 0`, {
+        id: m.id,
+        value: m.sigma,
+      });
     }
   }
   const unmeasured = unmeasuredIn.map((u) => {
@@ -319,19 +341,28 @@ function validate(input: ReconcileInput): Validated {
     claim(u.id, 'unmeasured');
     const guess = u.guess ?? 1;
     if (typeof guess !== 'number' || !Number.isFinite(guess)) {
-      throw new ReconcileError('INVALID_VALUE', `unmeasured "${u.id}": guess is ${u.guess}, must be a finite number`, { id: u.id, value: u.guess });
+      throw new ReconcileError('INVALID_VALUE', `unmeasured "${u.id}": guess is ${u.guess}, must be a finite number`, {
+        id: u.id,
+        value: u.guess,
+      });
     }
     return { id: u.id, guess };
   });
-  if (constraints.length === 0) throw new ReconcileError('NO_CONSTRAINTS', 'no constraints given: nothing to reconcile');
+  if (constraints.length === 0)
+    throw new ReconcileError('NO_CONSTRAINTS', 'no constraints given: nothing to reconcile');
   const cIds = new Set<string>();
   for (const c of constraints) {
     checkId(c?.id, 'constraint');
     if (cIds.has(c.id)) throw new ReconcileError('DUPLICATE_ID', `duplicate constraint id "${c.id}"`, { id: c.id });
     cIds.add(c.id);
-    if (typeof c.f !== 'function') throw new ReconcileError('INVALID_CONSTRAINT', `constraint "${c.id}": f must be a function`, { constraint: c.id });
+    if (typeof c.f !== 'function')
+      throw new ReconcileError('INVALID_CONSTRAINT', `constraint "${c.id}": f must be a function`, {
+        constraint: c.id,
+      });
     if (c.grad !== undefined && typeof c.grad !== 'function') {
-      throw new ReconcileError('INVALID_CONSTRAINT', `constraint "${c.id}": grad must be a function when given`, { constraint: c.id });
+      throw new ReconcileError('INVALID_CONSTRAINT', `constraint "${c.id}": grad must be a function when given`, {
+        constraint: c.id,
+      });
     }
   }
   const mSet = new Set(measured.map((m) => m.id));
@@ -340,15 +371,24 @@ function validate(input: ReconcileInput): Validated {
     const { a, b, rho } = r ?? ({} as Correlation);
     for (const id of [a, b]) {
       if (!mSet.has(id)) {
-        throw new ReconcileError('INVALID_CORRELATION', `correlation ${a}–${b}: "${id}" is not a measured variable`, { a, b, rho });
+        throw new ReconcileError('INVALID_CORRELATION', `correlation ${a}–${b}: "${id}" is not a measured variable`, {
+          a,
+          b,
+          rho,
+        });
       }
     }
     if (a === b) throw new ReconcileError('INVALID_CORRELATION', `correlation of "${a}" with itself`, { a, b, rho });
     if (typeof rho !== 'number' || !Number.isFinite(rho) || rho <= -1 || rho >= 1) {
-      throw new ReconcileError('INVALID_CORRELATION', `correlation ${a}–${b}: rho is ${rho}, must lie in (-1, 1)`, { a, b, rho });
+      throw new ReconcileError('INVALID_CORRELATION', `correlation ${a}–${b}: rho is ${rho}, must lie in (-1, 1)`, {
+        a,
+        b,
+        rho,
+      });
     }
     const key = a < b ? `${a}\u0000${b}` : `${b}\u0000${a}`;
-    if (pairs.has(key)) throw new ReconcileError('INVALID_CORRELATION', `correlation ${a}–${b} given twice`, { a, b, rho });
+    if (pairs.has(key))
+      throw new ReconcileError('INVALID_CORRELATION', `correlation ${a}–${b} given twice`, { a, b, rho });
     pairs.add(key);
   }
   return { measured, unmeasured, constraints, correlations, confidence, maxIter, tol };
@@ -360,7 +400,10 @@ function buildProblem(v: Validated, asUnmeasured: Map<string, number>): Problem 
   const n = mIds.length;
   const xm = Float64Array.from(active.map((m) => m.value));
   const sig = Float64Array.from(active.map((m) => m.sigma));
-  const uList = [...v.unmeasured, ...v.measured.filter((m) => asUnmeasured.has(m.id)).map((m) => ({ id: m.id, guess: asUnmeasured.get(m.id)! }))];
+  const uList = [
+    ...v.unmeasured,
+    ...v.measured.filter((m) => asUnmeasured.has(m.id)).map((m) => ({ id: m.id, guess: asUnmeasured.get(m.id)! })),
+  ];
   const uIds = uList.map((u) => u.id);
   const guess = Float64Array.from(uList.map((u) => u.guess));
   const index = new Map<string, VarRef>();
@@ -380,12 +423,28 @@ function buildProblem(v: Validated, asUnmeasured: Map<string, number>): Problem 
     }
     corrChol = new CholeskyDecomposition(Matrix.from1DArray(n, n, corr));
     if (!corrChol.isPositiveDefinite()) {
-      throw new ReconcileError('COVARIANCE_NOT_PD', 'the correlations given do not form a positive-definite covariance matrix', {
-        correlations: activeCorr,
-      });
+      throw new ReconcileError(
+        'COVARIANCE_NOT_PD',
+        'the correlations given do not form a positive-definite covariance matrix',
+        {
+          correlations: activeCorr,
+        },
+      );
     }
   }
-  return { mIds, xm, sig, corr, corrChol, uIds, guess, constraints: v.constraints, index, tol: v.tol, maxIter: v.maxIter };
+  return {
+    mIds,
+    xm,
+    sig,
+    corr,
+    corrChol,
+    uIds,
+    guess,
+    constraints: v.constraints,
+    index,
+    tol: v.tol,
+    maxIter: v.maxIter,
+  };
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -405,7 +464,10 @@ interface System {
 
 function finiteOrThrow(val: unknown, c: Constraint, what: string, v: Record<string, number>): number {
   if (typeof val !== 'number' || !Number.isFinite(val)) {
-    throw new ReconcileError('NOT_FINITE', `constraint "${c.id}" gave ${String(val)} ${what}`, { constraint: c.id, values: { ...v } });
+    throw new ReconcileError('NOT_FINITE', `constraint "${c.id}" gave ${String(val)} ${what}`, {
+      constraint: c.id,
+      values: { ...v },
+    });
   }
   return val;
 }
@@ -415,7 +477,11 @@ function callF(c: Constraint, arg: Values): unknown {
     return c.f(arg);
   } catch (e) {
     if (e instanceof ReconcileError) throw e;
-    throw new ReconcileError('CONSTRAINT_FAILED', `constraint "${c.id}" threw: ${e instanceof Error ? e.message : String(e)}`, { constraint: c.id });
+    throw new ReconcileError(
+      'CONSTRAINT_FAILED',
+      `constraint "${c.id}" threw: ${e instanceof Error ? e.message : String(e)}`,
+      { constraint: c.id },
+    );
   }
 }
 
@@ -427,7 +493,9 @@ function evaluate(p: Problem, x: Float64Array, u: Float64Array): System {
   for (let i = 0; i < n; i++) v[p.mIds[i]] = x[i];
   for (let j = 0; j < q; j++) v[p.uIds[j]] = u[j];
   const scale = (ref: VarRef): number =>
-    ref.kind === 'm' ? Math.max(Math.abs(x[ref.i]), p.sig[ref.i]) : Math.max(Math.abs(u[ref.i]), Math.abs(p.guess[ref.i]), 1);
+    ref.kind === 'm'
+      ? Math.max(Math.abs(x[ref.i]), p.sig[ref.i])
+      : Math.max(Math.abs(u[ref.i]), Math.abs(p.guess[ref.i]), 1);
   const f = new Float64Array(m);
   const a = new Float64Array(m * n);
   const b = new Float64Array(m * q);
@@ -439,10 +507,14 @@ function evaluate(p: Problem, x: Float64Array, u: Float64Array): System {
     get(target, key) {
       if (typeof key !== 'string') return undefined;
       if (!p.index.has(key)) {
-        throw new ReconcileError('UNKNOWN_VARIABLE', `constraint "${current.id}" reads "${key}", which is neither measured nor unmeasured`, {
-          constraint: current.id,
-          variable: key,
-        });
+        throw new ReconcileError(
+          'UNKNOWN_VARIABLE',
+          `constraint "${current.id}" reads "${key}", which is neither measured nor unmeasured`,
+          {
+            constraint: current.id,
+            variable: key,
+          },
+        );
       }
       deps.add(key);
       return target[key];
@@ -451,7 +523,9 @@ function evaluate(p: Problem, x: Float64Array, u: Float64Array): System {
       return typeof key === 'string' && p.index.has(key);
     },
     set() {
-      throw new ReconcileError('INVALID_CONSTRAINT', `constraint "${current.id}" tried to write to its input values`, { constraint: current.id });
+      throw new ReconcileError('INVALID_CONSTRAINT', `constraint "${current.id}" tried to write to its input values`, {
+        constraint: current.id,
+      });
     },
   });
   for (let k = 0; k < m; k++) {
@@ -464,13 +538,20 @@ function evaluate(p: Problem, x: Float64Array, u: Float64Array): System {
     const put = (key: string, d: number) => {
       const ref = p.index.get(key);
       if (!ref) {
-        throw new ReconcileError('UNKNOWN_VARIABLE', `constraint "${c.id}": gradient names "${key}", which is neither measured nor unmeasured`, {
+        throw new ReconcileError(
+          'UNKNOWN_VARIABLE',
+          `constraint "${c.id}": gradient names "${key}", which is neither measured nor unmeasured`,
+          {
+            constraint: c.id,
+            variable: key,
+          },
+        );
+      }
+      if (!Number.isFinite(d)) {
+        throw new ReconcileError('NOT_FINITE', `constraint "${c.id}": derivative with respect to "${key}" is ${d}`, {
           constraint: c.id,
           variable: key,
         });
-      }
-      if (!Number.isFinite(d)) {
-        throw new ReconcileError('NOT_FINITE', `constraint "${c.id}": derivative with respect to "${key}" is ${d}`, { constraint: c.id, variable: key });
       }
       if (ref.kind === 'm') a[k * n + ref.i] = d;
       else {
@@ -484,9 +565,13 @@ function evaluate(p: Problem, x: Float64Array, u: Float64Array): System {
       try {
         g = c.grad(v);
       } catch (e) {
-        throw new ReconcileError('CONSTRAINT_FAILED', `gradient of constraint "${c.id}" threw: ${e instanceof Error ? e.message : String(e)}`, {
-          constraint: c.id,
-        });
+        throw new ReconcileError(
+          'CONSTRAINT_FAILED',
+          `gradient of constraint "${c.id}" threw: ${e instanceof Error ? e.message : String(e)}`,
+          {
+            constraint: c.id,
+          },
+        );
       }
       for (const key of Object.keys(g)) put(key, g[key]);
     } else {
@@ -707,10 +792,12 @@ function linearise(p: Problem, x: Float64Array, u: Float64Array): Linearisation 
     redundantX[i] = Math.sqrt(s) > RANK_TOL;
   }
   for (let i = 0; i < n; i++) {
-    if (!Number.isFinite(dxi[i])) throw new ReconcileError('NOT_FINITE', `step for "${p.mIds[i]}" is not finite`, { id: p.mIds[i] });
+    if (!Number.isFinite(dxi[i]))
+      throw new ReconcileError('NOT_FINITE', `step for "${p.mIds[i]}" is not finite`, { id: p.mIds[i] });
   }
   for (let j = 0; j < q; j++) {
-    if (!Number.isFinite(du[j])) throw new ReconcileError('NOT_FINITE', `step for "${p.uIds[j]}" is not finite`, { id: p.uIds[j] });
+    if (!Number.isFinite(du[j]))
+      throw new ReconcileError('NOT_FINITE', `step for "${p.uIds[j]}" is not finite`, { id: p.uIds[j] });
   }
   return { dxi, du, resOk, maxRes, cn, qrB, t1, g, nr, gr, k: kMat, cholM, dof, observableU, redundantX };
 }
@@ -827,10 +914,14 @@ function solveCore(p: Problem, confidence: number): Core {
   const redundant = p.mIds.filter((_, i) => lin!.redundantX[i]);
   const dof = lin.dof;
   if (dof === 0) {
-    throw new ReconcileError('NOT_REDUNDANT', 'the measurements are not redundant (dof 0): no correction or test is possible', {
-      observable,
-      unobservable,
-    });
+    throw new ReconcileError(
+      'NOT_REDUNDANT',
+      'the measurements are not redundant (dof 0): no correction or test is possible',
+      {
+        observable,
+        unobservable,
+      },
+    );
   }
   // covariance: V_e = K·M⁻¹·Kᵀ, cov(ξ̂) = C − V_e (scaled)
   // with M = L·Lᵀ: V_e,ii = ‖L⁻¹·K_iᵀ‖²
@@ -886,7 +977,8 @@ function solveCore(p: Problem, confidence: number): Core {
   // joint covariance: measured P = C − V_e (σ units); observable unmeasured u_j = u_j0 + J_r·Δξ,
   // J_r = −(R11⁻¹·T1)_r / cn_j, so cov(u, ξ̂) = J·P and cov(u, u) = J·P·Jᵀ
   const pSc = new Float64Array(n * n);
-  for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) pSc[i * n + j] = (p.corr ? p.corr[i * n + j] : i === j ? 1 : 0) - veFull[i * n + j];
+  for (let i = 0; i < n; i++)
+    for (let j = 0; j < n; j++) pSc[i * n + j] = (p.corr ? p.corr[i * n + j] : i === j ? 1 : 0) - veFull[i * n + j];
   const covIds = [...p.mIds];
   const jRows: Float64Array[] = [];
   if (rB > 0 && observable.length > 0) {
@@ -1069,7 +1161,8 @@ export function reconcile(input: ReconcileInput): ReconcileResult {
   }
   const nMain = main.p.mIds.length;
   const veSi = new Array<number>(nMain * nMain);
-  for (let i = 0; i < nMain; i++) for (let j = 0; j < nMain; j++) veSi[i * nMain + j] = main.p.sig[i] * main.p.sig[j] * main.veFull[i * nMain + j];
+  for (let i = 0; i < nMain; i++)
+    for (let j = 0; j < nMain; j++) veSi[i * nMain + j] = main.p.sig[i] * main.p.sig[j] * main.veFull[i * nMain + j];
   const result: ReconcileResult = {
     values: main.values,
     sigmas: main.sigmas,

@@ -69,14 +69,21 @@ function gradientOf(c: Constraint, at: Record<string, number>, ids: string[]): R
 }
 
 /** The linearised reconciliation at reconcile()'s solution: gain, covariance and redundancy. */
-export function reconciledSensitivity(input: ReconcileInput, result: ReconcileResult, pass: 'main' | 'final' = 'final'): ReconciledSensitivity {
+export function reconciledSensitivity(
+  input: ReconcileInput,
+  result: ReconcileResult,
+  pass: 'main' | 'final' = 'final',
+): ReconciledSensitivity {
   const removed = new Set(pass === 'final' ? result.suspects : []);
   const values = pass === 'final' ? result.final.values : result.values;
   const active = input.measured.filter((m) => !removed.has(m.id));
   const inputs = active.map((m) => m.id);
   const n = inputs.length;
   const sig = Float64Array.from(active.map((m) => m.sigma));
-  const unmeasured = [...(input.unmeasured ?? []).map((u) => ({ id: u.id, guess: u.guess ?? 1 })), ...input.measured.filter((m) => removed.has(m.id)).map((m) => ({ id: m.id, guess: m.value }))];
+  const unmeasured = [
+    ...(input.unmeasured ?? []).map((u) => ({ id: u.id, guess: u.guess ?? 1 })),
+    ...input.measured.filter((m) => removed.has(m.id)).map((m) => ({ id: m.id, guess: m.value })),
+  ];
   const q = unmeasured.length;
   const at: Record<string, number> = {};
   inputs.forEach((id) => (at[id] = values[id]));
@@ -151,7 +158,8 @@ export function reconciledSensitivity(input: ReconcileInput, result: ReconcileRe
     const cg = corr ? corr.mmul(gSel.transpose()) : gSel.transpose();
     const mMat = gSel.mmul(cg);
     const chol = new CholeskyDecomposition(mMat.add(mMat.transpose()).mul(0.5));
-    if (!chol.isPositiveDefinite()) throw new RangeError('the reduced constraint matrix G·C·Gᵀ is numerically singular');
+    if (!chol.isPositiveDefinite())
+      throw new RangeError('the reduced constraint matrix G·C·Gᵀ is numerically singular');
     sXi = Matrix.eye(n).sub(cg.mmul(chol.solve(gSel)));
   }
   // outputs: measured (original units), then observable unmeasured (basic variables of the QR whose
@@ -179,7 +187,8 @@ export function reconciledSensitivity(input: ReconcileInput, result: ReconcileRe
   const covariance = (a: string, b: string): number => {
     const ka = outIdx.get(a);
     const kb = outIdx.get(b);
-    if (ka === undefined || kb === undefined) throw new RangeError(`"${ka === undefined ? a : b}" is not a reconciled value of this pass`);
+    if (ka === undefined || kb === undefined)
+      throw new RangeError(`"${ka === undefined ? a : b}" is not a reconciled value of this pass`);
     let s = 0;
     for (let i = 0; i < n; i++) {
       const gi = gain[ka * n + i] * sig[i];
@@ -207,5 +216,14 @@ export function reconciledSensitivity(input: ReconcileInput, result: ReconcileRe
     }
     return rc > 0 ? (delta0 * sig[i] * Math.sqrt(rc)) / r : null;
   };
-  return { inputs, inputSigmas: sig, inputCorrelation: corrData, outputs, gain, covariance, redundancy, minimalDetectableBias };
+  return {
+    inputs,
+    inputSigmas: sig,
+    inputCorrelation: corrData,
+    outputs,
+    gain,
+    covariance,
+    redundancy,
+    minimalDetectableBias,
+  };
 }

@@ -135,7 +135,9 @@ export class RoundCheckInputError extends Error {
     readonly value: unknown,
     message: string,
   ) {
-    super(`${field}: ${message} (got ${typeof value === 'number' || typeof value === 'string' ? JSON.stringify(value) : typeof value})`);
+    super(
+      `${field}: ${message} (got ${typeof value === 'number' || typeof value === 'string' ? JSON.stringify(value) : typeof value})`,
+    );
     this.name = 'RoundCheckInputError';
   }
 }
@@ -143,21 +145,34 @@ export class RoundCheckInputError extends Error {
 const fin = (x: unknown): x is number => typeof x === 'number' && Number.isFinite(x);
 
 /** later first: time, then order, then id (code-unit order) */
-const newer = (a: RoundCheckReading, b: RoundCheckReading) => (a.time !== b.time ? a.time > b.time : a.order !== b.order ? a.order > b.order : a.id > b.id);
+const newer = (a: RoundCheckReading, b: RoundCheckReading) =>
+  a.time !== b.time ? a.time > b.time : a.order !== b.order ? a.order > b.order : a.id > b.id;
 
 function modelTags(model: unknown): string[] {
   const list = (model as { instruments?: { tag?: unknown }[] } | null)?.instruments;
-  if (!Array.isArray(list)) throw new RoundCheckInputError('model.instruments', list, 'the cycle model has no instrument list');
+  if (!Array.isArray(list))
+    throw new RoundCheckInputError('model.instruments', list, 'the cycle model has no instrument list');
   return list.map((i) => i?.tag).filter((t): t is string => typeof t === 'string');
 }
 
 function assertRoundShape(r: CheckedRound, field: string) {
   if (!r || typeof r !== 'object') throw new RoundCheckInputError(field, r, 'must be a round');
-  if (!fin(r.startedAt)) throw new RoundCheckInputError(`${field}.startedAt`, r.startedAt, 'must be a time in ms since the epoch');
+  if (!fin(r.startedAt))
+    throw new RoundCheckInputError(`${field}.startedAt`, r.startedAt, 'must be a time in ms since the epoch');
   if (!Array.isArray(r.readings)) throw new RoundCheckInputError(`${field}.readings`, r.readings, 'must be an array');
   for (const [i, x] of r.readings.entries()) {
-    if (x.valueSI !== null && !fin(x.valueSI)) throw new RoundCheckInputError(`${field}.readings.${i}.valueSI`, x.valueSI, `${x.tag}: must be a finite SI value or null`);
-    if (!fin(x.time)) throw new RoundCheckInputError(`${field}.readings.${i}.time`, x.time, `${x.tag}: must be a time in ms since the epoch`);
+    if (x.valueSI !== null && !fin(x.valueSI))
+      throw new RoundCheckInputError(
+        `${field}.readings.${i}.valueSI`,
+        x.valueSI,
+        `${x.tag}: must be a finite SI value or null`,
+      );
+    if (!fin(x.time))
+      throw new RoundCheckInputError(
+        `${field}.readings.${i}.time`,
+        x.time,
+        `${x.tag}: must be a time in ms since the epoch`,
+      );
   }
 }
 
@@ -166,9 +181,11 @@ export function assembleRoundCheck(input: RoundCheckInput): AssembledRoundCheck 
   const { round } = input;
   assertRoundShape(round, 'round');
   if (!fin(input.at)) throw new RoundCheckInputError('at', input.at, 'must be a time in ms since the epoch');
-  if (!fin(round.barometricPa)) throw new RoundCheckInputError('round.barometricPa', round.barometricPa, 'must be a barometric pressure in Pa');
+  if (!fin(round.barometricPa))
+    throw new RoundCheckInputError('round.barometricPa', round.barometricPa, 'must be a barometric pressure in Pa');
   const windowHours = input.windowHours ?? ROUND_CHECK_WINDOW_HOURS;
-  if (!fin(windowHours) || windowHours <= 0) throw new RoundCheckInputError('windowHours', windowHours, 'must be a positive number of hours');
+  if (!fin(windowHours) || windowHours <= 0)
+    throw new RoundCheckInputError('windowHours', windowHours, 'must be a positive number of hours');
   const tags = modelTags(input.model);
   const others = (input.others ?? []).filter((o) => o.id !== round.id);
   others.forEach((o, i) => assertRoundShape(o, `others.${i}`));
@@ -216,7 +233,12 @@ export function assembleRoundCheck(input: RoundCheckInput): AssembledRoundCheck 
     if (b) {
       readings.push({ instrumentTag: tag, valueSI: b.r.valueSI! });
       sources[tag] = { roundId: b.round.id, readingId: b.r.id, own: false };
-      const br = byRound.get(b.round.id) ?? { roundId: b.round.id, routeName: b.round.routeName, startedAt: b.round.startedAt, tags: [] };
+      const br = byRound.get(b.round.id) ?? {
+        roundId: b.round.id,
+        routeName: b.round.routeName,
+        startedAt: b.round.startedAt,
+        tags: [],
+      };
       br.tags.push(tag);
       byRound.set(b.round.id, br);
       continue;
@@ -242,7 +264,11 @@ export function assembleRoundCheck(input: RoundCheckInput): AssembledRoundCheck 
     sources,
     borrowed,
     notRead,
-    context: { barometricPa: round.barometricPa, previousRounds: history, ...(input.options ? { options: input.options } : {}) },
+    context: {
+      barometricPa: round.barometricPa,
+      previousRounds: history,
+      ...(input.options ? { options: input.options } : {}),
+    },
     walk,
     windowHours,
   };

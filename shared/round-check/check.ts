@@ -102,7 +102,11 @@ const fin = (x: unknown): x is number => typeof x === 'number' && Number.isFinit
 const num = (x: unknown): number | null => (fin(x) ? x : null);
 
 function shownOf(i: Instrument): Shown {
-  return { quantity: i.quantity, unit: i.unit as Unit, ...(i.pressureReference ? { reference: i.pressureReference as PressureRef } : {}) };
+  return {
+    quantity: i.quantity,
+    unit: i.unit as Unit,
+    ...(i.pressureReference ? { reference: i.pressureReference as PressureRef } : {}),
+  };
 }
 
 function joinNames(names: string[]): string {
@@ -190,8 +194,13 @@ function showSIShort(x: number, unit: 'kg/s' | 'W' | 'J/kg'): string {
   return `${x.toFixed(2)} kg/s`;
 }
 
-function balanceLines(analysis: RoundAnalysis, model: { instruments: Instrument[]; equipment: { id: string; kind: string; sections?: string[] }[] }): BalanceLine[] {
-  const missingTags = new Set(analysis.instruments.filter((i) => i.status === 'missing' || i.status === 'excluded').map((i) => i.tag));
+function balanceLines(
+  analysis: RoundAnalysis,
+  model: { instruments: Instrument[]; equipment: { id: string; kind: string; sections?: string[] }[] },
+): BalanceLine[] {
+  const missingTags = new Set(
+    analysis.instruments.filter((i) => i.status === 'missing' || i.status === 'excluded').map((i) => i.tag),
+  );
   const eqById = new Map(model.equipment.map((e) => [e.id, e]));
   const lines: BalanceLine[] = [];
   for (const eb of analysis.balances) {
@@ -205,7 +214,12 @@ function balanceLines(analysis: RoundAnalysis, model: { instruments: Instrument[
       const hosts = e?.kind === 'generator' ? (e.sections ?? []).map((id) => eqById.get(id)).filter(Boolean) : [e];
       for (const h of hosts) for (const u of portUses(h as Parameters<typeof portUses>[0])) pts.add(u.point);
       const missing = model.instruments
-        .filter((i) => ((i.point && pts.has(i.point)) || i.equipment === eb.equipmentId) && i.quantity !== 'level' && missingTags.has(i.tag))
+        .filter(
+          (i) =>
+            ((i.point && pts.has(i.point)) || i.equipment === eb.equipmentId) &&
+            i.quantity !== 'level' &&
+            missingTags.has(i.tag),
+        )
         .map((i) => i.tag);
       const kinds = [...new Set(incomplete.map((r) => KIND_WORDS[r.kind] ?? r.kind))];
       const what = `${joinNames(kinds)} balance${kinds.length > 1 ? 's' : ''}`;
@@ -222,13 +236,21 @@ function balanceLines(analysis: RoundAnalysis, model: { instruments: Instrument[
     }
     const open = analysis.findings.filter((f) => f.kind === 'balance-not-closed' && f.equipmentId === eb.equipmentId);
     if (open.length) {
-      lines.push({ equipmentId: eb.equipmentId, label, status: 'open', missing: [], text: open.map((f) => f.message).join(' ') });
+      lines.push({
+        equipmentId: eb.equipmentId,
+        label,
+        status: 'open',
+        missing: [],
+        text: open.map((f) => f.message).join(' '),
+      });
       continue;
     }
     const main = rows.find((r) => r.kind !== 'mass') ?? rows[0];
     const m = main.measured!;
     const against = main.kind === 'power' || main.kind === 'duty';
-    const figure = against ? `${showSIShort(m.in, main.unit)} against ${showSIShort(m.out, main.unit)}` : `${showSIShort(m.in, main.unit)} in, ${showSIShort(m.out, main.unit)} out`;
+    const figure = against
+      ? `${showSIShort(m.in, main.unit)} against ${showSIShort(m.out, main.unit)}`
+      : `${showSIShort(m.in, main.unit)} in, ${showSIShort(m.out, main.unit)} out`;
     const kinds = [...new Set(rows.filter((r) => r.kind === 'mass' || r.kind === 'energy').map((r) => r.kind))];
     const parts: string[] = [];
     if (kinds.length) parts.push(`${joinNames(kinds)} balance${kinds.length > 1 ? 's close' : ' closes'}`);
@@ -259,7 +281,13 @@ export function roundCheckFingerprint(a: RoundAnalysis): string {
   const rec = a.reconciliation;
   const body = {
     modelVersion: a.modelVersion,
-    findings: a.findings.map((f) => ({ kind: f.kind, severity: f.severity, tags: f.instrumentTags, message: f.message, evidence: f.evidence })),
+    findings: a.findings.map((f) => ({
+      kind: f.kind,
+      severity: f.severity,
+      tags: f.instrumentTags,
+      message: f.message,
+      evidence: f.evidence,
+    })),
     suspects: rec.ok ? rec.suspects : [],
     chiSquare: rec.ok ? [rec.chiSquare, rec.final.chiSquare] : rec.error.code,
     instruments: a.instruments.map((i) => [i.tag, i.status, i.reading, i.estimate, i.estimateSigma, i.suspect]),
@@ -272,7 +300,11 @@ export function roundCheckFingerprint(a: RoundAnalysis): string {
 export function checkRound(input: RoundCheckInput): RoundCheck {
   const assembled = assembleRoundCheck(input);
   const analysis = analyseRound(input.model, assembled.readings, assembled.context);
-  const model = input.model as { instruments: Instrument[]; equipment: { id: string; kind: string; sections?: string[] }[]; points: { id: string; label: string }[] };
+  const model = input.model as {
+    instruments: Instrument[];
+    equipment: { id: string; kind: string; sections?: string[] }[];
+    points: { id: string; label: string }[];
+  };
   const instByTag = new Map(model.instruments.map((i) => [i.tag, i]));
   const ptLabel = (id: string) => model.points.find((p) => p.id === id)?.label ?? id;
   const b = assembled.context.barometricPa;
@@ -281,14 +313,20 @@ export function checkRound(input: RoundCheckInput): RoundCheck {
   // dismissals that still apply: made on the reading that is current now
   const dismissedNote = (tag: string): string | null => {
     const src = assembled.sources[tag];
-    const list = (input.dismissals ?? []).filter((d) => d.tag === tag && (!d.readingId || (src && d.readingId === src.readingId)));
+    const list = (input.dismissals ?? []).filter(
+      (d) => d.tag === tag && (!d.readingId || (src && d.readingId === src.readingId)),
+    );
     return list.length ? list[list.length - 1].note : null;
   };
 
   // a plain check that names several instruments (twins, saturation, phase) where the
   // reconciliation has singled one out: only the suspect is to be re-taken
   const suspectSet = new Set(analysis.reconciliation.ok ? analysis.reconciliation.suspects : []);
-  const SHARED: ReadonlySet<FindingKind> = new Set<FindingKind>(['twin-disagreement', 'saturation-mismatch', 'phase-mismatch']);
+  const SHARED: ReadonlySet<FindingKind> = new Set<FindingKind>([
+    'twin-disagreement',
+    'saturation-mismatch',
+    'phase-mismatch',
+  ]);
   const items = new Map<string, RetakeItem>();
   for (const f of analysis.findings) {
     if (!RETAKE_KINDS.has(f.kind)) continue;
@@ -318,7 +356,9 @@ export function checkRound(input: RoundCheckInput): RoundCheck {
         own,
         kind: f.kind,
         text,
-        line: w ? `Stop ${w.stop + 1}, ${stopName}: ${tag} — ${text}` : `${tag} (${other ? `${other.routeName} round` : 'another round'}) — ${text}`,
+        line: w
+          ? `Stop ${w.stop + 1}, ${stopName}: ${tag} — ${text}`
+          : `${tag} (${other ? `${other.routeName} round` : 'another round'}) — ${text}`,
         messages: [f.message],
         severity: f.severity,
         dismissed: dismissedNote(tag),
@@ -348,7 +388,10 @@ export function checkRound(input: RoundCheckInput): RoundCheck {
         estimate: ir.estimate,
         estimateSigma: ir.estimateSigma,
         readingText: showValue(s, ir.reading, b, ir.sigma ?? 0),
-        estimateText: ir.estimate !== null && ir.estimateSigma !== null ? showWithSpread(s, ir.estimate, 2 * ir.estimateSigma, b) : null,
+        estimateText:
+          ir.estimate !== null && ir.estimateSigma !== null
+            ? showWithSpread(s, ir.estimate, 2 * ir.estimateSigma, b)
+            : null,
         own: tag in assembled.walk,
       });
     }

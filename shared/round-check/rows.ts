@@ -65,7 +65,8 @@ export function roundsFromRows(rounds: RoundRow[], readings: ReadingRow[], siteE
     const baro = list
       .filter((r) => r.isBarometer && r.valueSi !== null)
       .sort((a, b) => ms(b.deviceTime, 'deviceTime') - ms(a.deviceTime, 'deviceTime'))[0];
-    const b = baro && baro.valueSi! >= BAROMETER_MIN_PA && baro.valueSi! <= BAROMETER_MAX_PA ? baro.valueSi! : elevationPa;
+    const b =
+      baro && baro.valueSi! >= BAROMETER_MIN_PA && baro.valueSi! <= BAROMETER_MAX_PA ? baro.valueSi! : elevationPa;
     return {
       id: rd.id,
       routeId: rd.routeId,
@@ -75,7 +76,13 @@ export function roundsFromRows(rounds: RoundRow[], readings: ReadingRow[], siteE
       finishedAt: rd.finishedAt ? ms(rd.finishedAt, `rounds.${rd.id}.finishedAt`) : null,
       status: rd.status,
       barometricPa: b,
-      readings: list.map((r) => ({ id: r.id, tag: r.tag, valueSI: r.valueSi, time: ms(r.deviceTime, `readings.${r.id}.deviceTime`), order: r.order ?? 0 })),
+      readings: list.map((r) => ({
+        id: r.id,
+        tag: r.tag,
+        valueSI: r.valueSi,
+        time: ms(r.deviceTime, `readings.${r.id}.deviceTime`),
+        order: r.order ?? 0,
+      })),
     };
   });
 }

@@ -100,7 +100,9 @@ export const RouteStop = z.object({
   readings: z
     .array(RouteReading)
     .max(TEMPLATE_LIMITS.readingsPerStop, `A stop takes at most ${TEMPLATE_LIMITS.readingsPerStop} readings`),
-  checks: z.array(RouteCheck).max(TEMPLATE_LIMITS.checksPerStop, `A stop takes at most ${TEMPLATE_LIMITS.checksPerStop} checks`),
+  checks: z
+    .array(RouteCheck)
+    .max(TEMPLATE_LIMITS.checksPerStop, `A stop takes at most ${TEMPLATE_LIMITS.checksPerStop} checks`),
 });
 export type RouteStop = z.infer<typeof RouteStop>;
 

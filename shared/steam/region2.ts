@@ -9,7 +9,16 @@ import * as sums from './sums.generated';
 
 const { REGION2_P_STAR, REGION2_T_STAR } = constants;
 const { F, FX, FXX, FY, FYY, derivVector } = powerSum;
-const { region2IdealSum, region2ResidualSum, region2aTPhSum, region2bTPhSum, region2cTPhSum, region2aTPsSum, region2bTPsSum, region2cTPsSum } = sums;
+const {
+  region2IdealSum,
+  region2ResidualSum,
+  region2aTPhSum,
+  region2bTPhSum,
+  region2cTPhSum,
+  region2aTPsSum,
+  region2bTPsSum,
+  region2cTPsSum,
+} = sums;
 const [B2BC_1, B2BC_2, B2BC_3, B2BC_4, B2BC_5] = sums.B2BC_N;
 
 const ideal = derivVector();

@@ -13,7 +13,19 @@ const { F, FX, FXX } = powerSum;
 const N1 = sums.REGION3_N1;
 const [H3AB_1, H3AB_2, H3AB_3, H3AB_4] = sums.H3AB_N;
 
-const { region3HelmholtzSum, region3aTPhSum, region3bTPhSum, region3aVPhSum, region3bVPhSum, region3aTPsSum, region3bTPsSum, region3aVPsSum, region3bVPsSum, region3PsatHSum, region3PsatSSum } = sums;
+const {
+  region3HelmholtzSum,
+  region3aTPhSum,
+  region3bTPhSum,
+  region3aVPhSum,
+  region3bVPhSum,
+  region3aTPsSum,
+  region3bTPsSum,
+  region3aVPsSum,
+  region3bVPsSum,
+  region3PsatHSum,
+  region3PsatSSum,
+} = sums;
 
 /**
  * IF97 Eq. (28): φ(δ, τ) = n1 ln δ + Σ nᵢ δ^Iᵢ τ^Jᵢ with δ = ρ/322 kg/m³, τ = 647.096 K/T. Fills f

@@ -404,7 +404,14 @@ function checkQuality(x: number): void {
 function checkSatPressure(p: number): void {
   requireFinite('p', p);
   if (p < P_SAT_MIN) {
-    throw rangeError('p', p, P_SAT_MIN, 'below', 'the IF97 saturation-line limit', '(p_sat at 273.15 K, just below the triple point)');
+    throw rangeError(
+      'p',
+      p,
+      P_SAT_MIN,
+      'below',
+      'the IF97 saturation-line limit',
+      '(p_sat at 273.15 K, just below the triple point)',
+    );
   }
   if (p > P_CRIT) throw rangeError('p', p, P_CRIT, 'above', 'the critical pressure');
 }
@@ -476,7 +483,9 @@ const T_HIGH: Readonly<Record<GibbsRegion, number>> = { 1: 700, 2: 1150, 5: 2400
 
 /** Gibbs-region state of given p and h or s: Newton steps in T from T0. */
 function solveGibbs(region: GibbsRegion, p: number, y: number, kind: HOrS, T0: number): SteamState {
-  let T = Number.isFinite(T0) ? Math.min(Math.max(T0, T_LOW[region]), T_HIGH[region]) : 0.5 * (T_LOW[region] + T_HIGH[region]);
+  let T = Number.isFinite(T0)
+    ? Math.min(Math.max(T0, T_LOW[region]), T_HIGH[region])
+    : 0.5 * (T_LOW[region] + T_HIGH[region]);
   let last = Infinity;
   for (let it = 0; it < 100; it++) {
     gibbs(region, p, T);

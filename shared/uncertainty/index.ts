@@ -187,22 +187,41 @@ export interface UncertaintyBudget {
   components: UncertaintyComponent[];
 }
 
-const rect = (source: string, a: number): UncertaintyComponent => ({ source, distribution: 'rectangular', halfWidth: a, sigma: a / RECTANGULAR_DIVISOR });
-const normal95 = (source: string, u: number): UncertaintyComponent => ({ source, distribution: 'normal', halfWidth: u, sigma: u / COVERAGE_95 });
+const rect = (source: string, a: number): UncertaintyComponent => ({
+  source,
+  distribution: 'rectangular',
+  halfWidth: a,
+  sigma: a / RECTANGULAR_DIVISOR,
+});
+const normal95 = (source: string, u: number): UncertaintyComponent => ({
+  source,
+  distribution: 'normal',
+  halfWidth: u,
+  sigma: u / COVERAGE_95,
+});
 const byBasis = (source: string, a: number, b: Basis) => (b === 'tolerance' ? rect(source, a) : normal95(source, a));
 
 function celsius(valueK: number, what: string): number {
-  if (!(valueK > 0)) throw new UncertaintyError('INVALID_VALUE', `${what}: temperature ${valueK} K must be > 0 K (give the reading in kelvin)`, { value: valueK });
+  if (!(valueK > 0))
+    throw new UncertaintyError(
+      'INVALID_VALUE',
+      `${what}: temperature ${valueK} K must be > 0 K (give the reading in kelvin)`,
+      { value: valueK },
+    );
   return valueK - 273.15;
 }
 
 function checkRange(t: number, minC: number, maxC: number, what: string): void {
   if (t < minC || t > maxC) {
-    throw new UncertaintyError('OUT_OF_RANGE', `${what} is specified from ${minC} °C to ${maxC} °C; the reading is ${t.toFixed(2)} °C`, {
-      valueC: t,
-      minC,
-      maxC,
-    });
+    throw new UncertaintyError(
+      'OUT_OF_RANGE',
+      `${what} is specified from ${minC} °C to ${maxC} °C; the reading is ${t.toFixed(2)} °C`,
+      {
+        valueC: t,
+        minC,
+        maxC,
+      },
+    );
   }
 }
 
@@ -211,7 +230,10 @@ export function parseAccuracySpec(spec: unknown): AccuracySpec {
   const r = accuracySpecSchema.safeParse(spec);
   if (!r.success) {
     const issues = r.error.issues.map((i) => `${i.path.join('.') || '(spec)'}: ${i.message}`).join('; ');
-    throw new UncertaintyError('INVALID_SPEC', `invalid accuracy spec ${JSON.stringify(spec)}: ${issues}`, { spec, issues: r.error.issues });
+    throw new UncertaintyError('INVALID_SPEC', `invalid accuracy spec ${JSON.stringify(spec)}: ${issues}`, {
+      spec,
+      issues: r.error.issues,
+    });
   }
   return r.data as AccuracySpec;
 }
@@ -220,7 +242,9 @@ export function parseAccuracySpec(spec: unknown): AccuracySpec {
 export function uncertaintyBudget(specIn: AccuracySpec, valueSI: number): UncertaintyBudget {
   const spec = parseAccuracySpec(specIn);
   if (typeof valueSI !== 'number' || !Number.isFinite(valueSI)) {
-    throw new UncertaintyError('INVALID_VALUE', `reading is ${valueSI}, must be a finite number in SI units`, { value: valueSI });
+    throw new UncertaintyError('INVALID_VALUE', `reading is ${valueSI}, must be a finite number in SI units`, {
+      value: valueSI,
+    });
   }
   const comps: UncertaintyComponent[] = [];
   switch (spec.kind) {
@@ -236,9 +260,13 @@ export function uncertaintyBudget(specIn: AccuracySpec, valueSI: number): Uncert
         else {
           const pos = (valueSI - spec.rangeStartPa) / spec.spanPa;
           if (pos < 0 || pos > 1) {
-            throw new UncertaintyError('OUT_OF_RANGE', `reading ${valueSI} Pa is outside the gauge scale ${spec.rangeStartPa}…${spec.rangeStartPa + spec.spanPa} Pa`, {
-              value: valueSI,
-            });
+            throw new UncertaintyError(
+              'OUT_OF_RANGE',
+              `reading ${valueSI} Pa is outside the gauge scale ${spec.rangeStartPa}…${spec.rangeStartPa + spec.spanPa} Pa`,
+              {
+                value: valueSI,
+              },
+            );
           }
           pct = pos >= 0.25 && pos <= 0.75 ? 1 : ASME_GRADE_A_ENDS;
         }
@@ -255,16 +283,22 @@ export function uncertaintyBudget(specIn: AccuracySpec, valueSI: number): Uncert
     }
     case 'iec60584': {
       const c = IEC60584_CLASSES[spec.type][spec.class];
-      if (!c) throw new UncertaintyError('INVALID_SPEC', `IEC 60584-1 defines no class ${spec.class} for type ${spec.type}`, { spec });
+      if (!c)
+        throw new UncertaintyError('INVALID_SPEC', `IEC 60584-1 defines no class ${spec.class} for type ${spec.type}`, {
+          spec,
+        });
       const t = celsius(valueSI, `IEC 60584-1 type ${spec.type} class ${spec.class}`);
       checkRange(t, c.minC, c.maxC, `IEC 60584-1 type ${spec.type} class ${spec.class}`);
-      comps.push(rect(`IEC 60584-1 type ${spec.type} class ${spec.class}`, Math.max(c.fixed, c.proportional * Math.abs(t))));
+      comps.push(
+        rect(`IEC 60584-1 type ${spec.type} class ${spec.class}`, Math.max(c.fixed, c.proportional * Math.abs(t))),
+      );
       break;
     }
     case 'orifice': {
       const cd = orificeCdUncertaintyPercent(spec.beta);
       comps.push(normal95(`ISO 5167-2 discharge coefficient (β = ${spec.beta})`, (cd / 100) * Math.abs(valueSI)));
-      if (spec.otherPercent) comps.push(normal95('other flow-meter terms', (spec.otherPercent / 100) * Math.abs(valueSI)));
+      if (spec.otherPercent)
+        comps.push(normal95('other flow-meter terms', (spec.otherPercent / 100) * Math.abs(valueSI)));
       break;
     }
     case 'percentReading':
@@ -281,14 +315,23 @@ export function uncertaintyBudget(specIn: AccuracySpec, valueSI: number): Uncert
       break;
   }
   if (spec.resolution !== undefined) {
-    comps.push({ source: 'reading resolution', distribution: 'rectangular', halfWidth: spec.resolution / 2, sigma: spec.resolution / Math.sqrt(12) });
+    comps.push({
+      source: 'reading resolution',
+      distribution: 'rectangular',
+      halfWidth: spec.resolution / 2,
+      sigma: spec.resolution / Math.sqrt(12),
+    });
   }
   const sigma = Math.sqrt(comps.reduce((s, c) => s + c.sigma * c.sigma, 0));
   if (!(sigma > 0) || !Number.isFinite(sigma)) {
-    throw new UncertaintyError('ZERO_SIGMA', `accuracy spec ${spec.kind} gives σ = ${sigma} at reading ${valueSI}; add a resolution or a span term`, {
-      spec,
-      value: valueSI,
-    });
+    throw new UncertaintyError(
+      'ZERO_SIGMA',
+      `accuracy spec ${spec.kind} gives σ = ${sigma} at reading ${valueSI}; add a resolution or a span term`,
+      {
+        spec,
+        value: valueSI,
+      },
+    );
   }
   return { sigma, components: comps };
 }

@@ -168,11 +168,14 @@ function finiteResult(result: number, input: string, quantity: Quantity, unit: s
 function checkReference(quantity: Quantity, reference: unknown, input: string): PressureRef | undefined {
   if (quantity !== 'pressure') {
     if (reference !== undefined) {
-      throw new UnitError(`${QUANTITY_NAMES[quantity]} ${input} takes no pressure reference, got ${quote(String(reference))}`, {
-        code: 'badReference',
-        input: String(reference),
-        quantity,
-      });
+      throw new UnitError(
+        `${QUANTITY_NAMES[quantity]} ${input} takes no pressure reference, got ${quote(String(reference))}`,
+        {
+          code: 'badReference',
+          input: String(reference),
+          quantity,
+        },
+      );
     }
     return undefined;
   }
@@ -205,7 +208,8 @@ function needBarometric(ctx: SiteContext | undefined, reference: PressureRef, in
 }
 
 function describe(value: number | string, unit: string, reference?: PressureRef): string {
-  const ref = reference === 'gauge' ? ' gauge' : reference === 'vacuum' ? ' vacuum' : reference === 'absolute' ? ' absolute' : '';
+  const ref =
+    reference === 'gauge' ? ' gauge' : reference === 'vacuum' ? ' vacuum' : reference === 'absolute' ? ' absolute' : '';
   return `${value} ${unit}${ref}`;
 }
 
@@ -285,7 +289,12 @@ export function fromSI(
     const b = needBarometric(ctx, ref!, `${fmt(si)} Pa shown as ${u.unit} ${ref}`);
     own = ref === 'gauge' ? si - b : b - si;
   }
-  return finiteResult(own / u.factor - u.shift, `${fmt(si)} ${SI_SYMBOL[quantity]} shown in ${u.unit}`, quantity, u.unit);
+  return finiteResult(
+    own / u.factor - u.shift,
+    `${fmt(si)} ${SI_SYMBOL[quantity]} shown in ${u.unit}`,
+    quantity,
+    u.unit,
+  );
 }
 
 /**
@@ -296,26 +305,31 @@ export function fromSI(
 export function toSIDelta(delta: { quantity: Quantity; value: number; unit: Unit | string }): number {
   const u = resolveUnit(delta.quantity, delta.unit);
   checkValue(delta.value, `${QUANTITY_NAMES[delta.quantity]} difference`, delta.quantity, u.unit);
-  return finiteResult(delta.value * u.factor, `${QUANTITY_NAMES[delta.quantity]} difference ${delta.value} ${u.unit}`, delta.quantity, u.unit);
+  return finiteResult(
+    delta.value * u.factor,
+    `${QUANTITY_NAMES[delta.quantity]} difference ${delta.value} ${u.unit}`,
+    delta.quantity,
+    u.unit,
+  );
 }
 
 /** An SI difference (Pa, K…) in `unit`; see toSIDelta. */
 export function fromSIDelta(quantity: Quantity, si: number, unit: Unit | string): number {
   const u = resolveUnit(quantity, unit);
   checkValue(si, `SI ${QUANTITY_NAMES[quantity]} difference`, quantity, u.unit);
-  return finiteResult(si / u.factor, `${QUANTITY_NAMES[quantity]} difference ${fmt(si)} ${SI_SYMBOL[quantity]} shown in ${u.unit}`, quantity, u.unit);
+  return finiteResult(
+    si / u.factor,
+    `${QUANTITY_NAMES[quantity]} difference ${fmt(si)} ${SI_SYMBOL[quantity]} shown in ${u.unit}`,
+    quantity,
+    u.unit,
+  );
 }
 
 /**
  * A measure in another unit (and, for pressure, another reference) of the same quantity. Level
  * in % and level in mm are refused: turning one into the other needs the instrument's span.
  */
-export function convert(
-  measure: Measure,
-  toUnit: Unit | string,
-  toReference?: PressureRef,
-  ctx?: SiteContext,
-): number {
+export function convert(measure: Measure, toUnit: Unit | string, toReference?: PressureRef, ctx?: SiteContext): number {
   const from = resolveUnit(measure.quantity, measure.unit);
   const to = resolveUnit(measure.quantity, toUnit);
   if (from.dimension !== to.dimension) {

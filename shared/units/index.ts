@@ -55,5 +55,12 @@ export {
   type Measure,
   type SiteContext,
 } from './convert';
-export { parseLeadingNumber, parseQuantity, parseUnit, splitReference, type ParsedQuantity, type ParsedUnit } from './parse';
+export {
+  parseLeadingNumber,
+  parseQuantity,
+  parseUnit,
+  splitReference,
+  type ParsedQuantity,
+  type ParsedUnit,
+} from './parse';
 export { formatValue, unitLabel, type FormatOptions } from './format';

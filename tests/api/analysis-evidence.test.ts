@@ -32,14 +32,18 @@ async function biasedRound() {
   const r = await pushRound(w, { bias: { 'TI-203': 2 }, deviceTime: new Date(clock).toISOString() });
   const out = await runAnalysisJob(deps, r.roundId);
   expect(out.status).toBe('stored');
-  const findings = (await w.db.dataSource.query(`SELECT "kind", "instrument_tags" AS "tags", "evidence" FROM "findings" WHERE "round_id" = $1`, [r.roundId])) as {
+  const findings = (await w.db.dataSource.query(
+    `SELECT "kind", "instrument_tags" AS "tags", "evidence" FROM "findings" WHERE "round_id" = $1`,
+    [r.roundId],
+  )) as {
     kind: string;
     tags: string[];
     evidence: Record<string, unknown>;
   }[];
   return { ...r, out, findings };
 }
-const orders = async () => ((await api(w, 'planner').get(`${base()}/work-orders?status=active`)).body as WorkOrderListResponse).items;
+const orders = async () =>
+  ((await api(w, 'planner').get(`${base()}/work-orders?status=active`)).body as WorkOrderListResponse).items;
 
 test('a 2σ bias opens no order on its first 6 rounds and one calibrate order on its 7th, by the accumulated evidence', async () => {
   for (let k = 1; k <= 6; k++) {
@@ -61,10 +65,15 @@ test('the calibration record closes the loop: the evidence starts again from zer
   const [wo] = await orders();
   const p = api(w, 'planner');
   expect((await p.post(`${base()}/work-orders/${wo.id}/triage`, {})).status).toBe(200);
-  expect((await p.post(`${base()}/work-orders/${wo.id}/schedule`, { scheduledFor: new Date().toISOString().slice(0, 10) })).status).toBe(200);
+  expect(
+    (await p.post(`${base()}/work-orders/${wo.id}/schedule`, { scheduledFor: new Date().toISOString().slice(0, 10) }))
+      .status,
+  ).toBe(200);
   expect((await p.post(`${base()}/work-orders/${wo.id}/start`, {})).status).toBe(200);
   const today = new Date().toISOString().slice(0, 10);
-  const closed = await p.post(`${base()}/work-orders/${wo.id}/close`, { calibration: { asFound: 1, asLeft: 0, calibratedOn: today } });
+  const closed = await p.post(`${base()}/work-orders/${wo.id}/close`, {
+    calibration: { asFound: 1, asLeft: 0, calibratedOn: today },
+  });
   expect(closed.status).toBe(200);
   // the bias is still there (the test did not move the reading back): 6 more rounds are not evidence enough again
   for (let k = 1; k <= 6; k++) {

@@ -52,7 +52,9 @@ export interface World {
 /** Fernhallow's barometric pressure by its elevation, 112 m (ICAO standard atmosphere). */
 export const FERN_BARO = barometricFromElevation(112);
 
-export async function makeWorld(options: { hooks?: (ids: string[]) => void | Promise<void>; env?: Record<string, string> } = {}): Promise<World> {
+export async function makeWorld(
+  options: { hooks?: (ids: string[]) => void | Promise<void>; env?: Record<string, string> } = {},
+): Promise<World> {
   const db = await createTestDatabase();
   const pushed: string[][] = [];
   const calls: NotifierCalls = { opened: [], assigned: [], findings: [] };
@@ -86,7 +88,9 @@ export async function makeWorld(options: { hooks?: (ids: string[]) => void | Pro
     tokens[k] = s.accessToken;
     userIds[k] = s.user.id;
   }
-  const [brack] = (await db.dataSource.query(`SELECT "id" FROM "sites" WHERE "slug" = 'brackenmoor'`)) as { id: string }[];
+  const [brack] = (await db.dataSource.query(`SELECT "id" FROM "sites" WHERE "slug" = 'brackenmoor'`)) as {
+    id: string;
+  }[];
   const { fernId, version, inst, sigma } = await roundMaker(db.dataSource);
   return { db, app, tokens, userIds, fernId, brackId: brack.id, version, inst, pushed, calls, notifier, sigma };
 }
@@ -95,7 +99,10 @@ export async function makeWorld(options: { hooks?: (ids: string[]) => void | Pro
 export async function roundMaker(ds: DataSource): Promise<Pick<World, 'inst' | 'version' | 'sigma' | 'fernId'>> {
   const [fern] = (await ds.query(`SELECT "id" FROM "sites" WHERE "slug" = 'fernhallow'`)) as { id: string }[];
   const version: Record<string, string> = {};
-  for (const r of (await ds.query(`SELECT "key", "current_version_id" FROM "routes"`)) as { key: string; current_version_id: string }[]) {
+  for (const r of (await ds.query(`SELECT "key", "current_version_id" FROM "routes"`)) as {
+    key: string;
+    current_version_id: string;
+  }[]) {
     version[r.key] = r.current_version_id;
   }
   const inst: Record<string, string> = {};
@@ -199,7 +206,15 @@ export function designRound(w: World, o: RoundOptions = {}): BuiltRound {
   const photoIds: Record<string, string> = {};
   const photos: PushRequestV2['photos'] = (o.photos ?? []).map((tag) => {
     photoIds[tag] = randomUUID();
-    return { id: photoIds[tag], roundId, readingId: readingIds[tag], checkId: null, sha256: 'a'.repeat(64), mime: 'image/jpeg', bytes: 1234 };
+    return {
+      id: photoIds[tag],
+      roundId,
+      readingId: readingIds[tag],
+      checkId: null,
+      sha256: 'a'.repeat(64),
+      mime: 'image/jpeg',
+      bytes: 1234,
+    };
   });
   const status = o.status ?? 'finished';
   const body: PushRequestV2 = {
@@ -274,7 +289,12 @@ export function parseCsv(text: string): string[][] {
   return rows;
 }
 
-export async function until<T>(what: string, f: () => Promise<T | null | undefined | false>, timeoutMs = 15_000, everyMs = 100): Promise<T> {
+export async function until<T>(
+  what: string,
+  f: () => Promise<T | null | undefined | false>,
+  timeoutMs = 15_000,
+  everyMs = 100,
+): Promise<T> {
   const end = Date.now() + timeoutMs;
   for (;;) {
     const v = await f();

@@ -15,7 +15,12 @@ import { join } from 'node:path';
 import { randomUUID } from 'node:crypto';
 import type { RoundAnalysisResponse, AnalysisJobsResponse } from '../../shared/api/analysis';
 import { runAnalysisJob, type AnalysisDeps } from '../../server/analysis/job';
-import { ANALYSIS_QUEUE, roundsNeedingAnalysis, startAnalysisRuntime, type AnalysisRuntime } from '../../server/analysis/queue';
+import {
+  ANALYSIS_QUEUE,
+  roundsNeedingAnalysis,
+  startAnalysisRuntime,
+  type AnalysisRuntime,
+} from '../../server/analysis/queue';
 import { demoUnit } from '../../demo/unit';
 import { memoryLogger, TEST_SECRET, testConfig } from './helpers/app';
 import { api, designRound, makeWorld, push, pushRound, until, type World } from './analysis-helpers';
@@ -47,7 +52,11 @@ afterAll(async () => {
   await w?.db.drop();
 });
 
-async function runtime(o: { work: boolean; env?: Record<string, string>; beforeCommit?: (roundId: string) => void }): Promise<AnalysisRuntime> {
+async function runtime(o: {
+  work: boolean;
+  env?: Record<string, string>;
+  beforeCommit?: (roundId: string) => void;
+}): Promise<AnalysisRuntime> {
   const r = await startAnalysisRuntime({
     config: testConfig(w.db.url, { ...QUEUE_ENV, ...o.env }),
     dataSource: w.db.dataSource,
@@ -61,17 +70,26 @@ async function runtime(o: { work: boolean; env?: Record<string, string>; beforeC
   return r;
 }
 
-const count = async (sql: string, params: unknown[]) => ((await w.db.dataSource.query(sql, params)) as { n: number }[])[0].n;
+const count = async (sql: string, params: unknown[]) =>
+  ((await w.db.dataSource.query(sql, params)) as { n: number }[])[0].n;
 const analyses = (roundId: string) => count(`SELECT count(*)::int AS n FROM analyses WHERE round_id = $1`, [roundId]);
 const openOrders = (tag: string) =>
-  count(`SELECT count(*)::int AS n FROM work_orders WHERE instrument_id = $1 AND status NOT IN ('done', 'cancelled')`, [w.inst[tag]]);
+  count(`SELECT count(*)::int AS n FROM work_orders WHERE instrument_id = $1 AND status NOT IN ('done', 'cancelled')`, [
+    w.inst[tag],
+  ]);
 const jobOf = async (roundId: string) =>
-  ((await w.db.dataSource.query(
-    `SELECT id, state::text AS state, retry_count, started_on FROM pgboss.job WHERE name = $1 AND data->>'roundId' = $2 ORDER BY created_on DESC LIMIT 1`,
-    [ANALYSIS_QUEUE, roundId],
-  )) as { id: string; state: string; retry_count: number; started_on: Date | null }[])[0];
+  (
+    (await w.db.dataSource.query(
+      `SELECT id, state::text AS state, retry_count, started_on FROM pgboss.job WHERE name = $1 AND data->>'roundId' = $2 ORDER BY created_on DESC LIMIT 1`,
+      [ANALYSIS_QUEUE, roundId],
+    )) as { id: string; state: string; retry_count: number; started_on: Date | null }[]
+  )[0];
 const isAnalysed = async (roundId: string) =>
-  ((await w.db.dataSource.query(`SELECT analysed_at FROM rounds WHERE id = $1`, [roundId])) as { analysed_at: Date | null }[])[0].analysed_at !== null;
+  (
+    (await w.db.dataSource.query(`SELECT analysed_at FROM rounds WHERE id = $1`, [roundId])) as {
+      analysed_at: Date | null;
+    }[]
+  )[0].analysed_at !== null;
 
 describe('runAnalysisJob', () => {
   let deps: AnalysisDeps;
@@ -87,20 +105,33 @@ describe('runAnalysisJob', () => {
   test('an in-progress round waits; the push that finishes it gets it analysed, with the round’s barometer', async () => {
     const r = designRound(w, { status: 'in-progress', barometerMbar: 1005 });
     await push(w, r.body);
-    expect(await runAnalysisJob(deps, r.roundId)).toMatchObject({ status: 'skipped', reason: 'the round is still in progress' });
+    expect(await runAnalysisJob(deps, r.roundId)).toMatchObject({
+      status: 'skipped',
+      reason: 'the round is still in progress',
+    });
     const waiting = await api(w, 'engineer').get(`${base()}/rounds/${r.roundId}/analysis`);
     expect(waiting.status).toBe(404);
     expect(waiting.body.error.message).toMatch(/no analysis yet \(it is still in progress\)/);
     expect(await isAnalysed(r.roundId)).toBe(false);
 
-    const finish = { ...r.body, rounds: [{ ...r.body.rounds[0], status: 'finished' as const, finishedAt: new Date().toISOString() }], readings: [] };
+    const finish = {
+      ...r.body,
+      rounds: [{ ...r.body.rounds[0], status: 'finished' as const, finishedAt: new Date().toISOString() }],
+      readings: [],
+    };
     await push(w, finish);
     expect(w.pushed.at(-1)).toEqual([r.roundId]);
     const out = await runAnalysisJob(deps, r.roundId);
     expect(out.status).toBe('stored');
     expect(await isAnalysed(r.roundId)).toBe(true);
     const a = (await api(w, 'engineer').get(`${base()}/rounds/${r.roundId}/analysis`)).body as RoundAnalysisResponse;
-    expect(a).toMatchObject({ barometricSource: 'reading', barometricPa: 100500, modelVersion: demoUnit.version, modelVersionMismatch: false, deviceModelVersion: null });
+    expect(a).toMatchObject({
+      barometricSource: 'reading',
+      barometricPa: 100500,
+      modelVersion: demoUnit.version,
+      modelVersionMismatch: false,
+      deviceModelVersion: null,
+    });
     expect(a.statePoints.length).toBe(demoUnit.points.length);
     expect(a.instruments.length).toBe(demoUnit.instruments.length);
     expect(a.performance.some((f) => f.kind === 'condenser-ttd')).toBe(true);
@@ -109,10 +140,16 @@ describe('runAnalysisJob', () => {
 
   test('a device that held another model version: the analysis says so', async () => {
     const r = await pushRound(w);
-    await w.db.dataSource.query(`UPDATE rounds SET device_model_version = 'fnv1a64:0123456789abcdef' WHERE id = $1`, [r.roundId]);
+    await w.db.dataSource.query(`UPDATE rounds SET device_model_version = 'fnv1a64:0123456789abcdef' WHERE id = $1`, [
+      r.roundId,
+    ]);
     await runAnalysisJob(deps, r.roundId);
     const a = (await api(w, 'planner').get(`${base()}/rounds/${r.roundId}/analysis`)).body as RoundAnalysisResponse;
-    expect(a).toMatchObject({ deviceModelVersion: 'fnv1a64:0123456789abcdef', modelVersionMismatch: true, modelVersion: demoUnit.version });
+    expect(a).toMatchObject({
+      deviceModelVersion: 'fnv1a64:0123456789abcdef',
+      modelVersionMismatch: true,
+      modelVersion: demoUnit.version,
+    });
   });
 
   test('a re-take changes the input: a newer analysis becomes current, the older one stays stored; the same input again stores nothing', async () => {
@@ -135,8 +172,15 @@ describe('runAnalysisJob', () => {
     expect(a2.findings.filter((f) => f.kind === 'gross-error')).toEqual([]);
     expect(a2.reconciliation.passed).toBe(true);
     expect(await analyses(r.roundId)).toBe(2);
-    expect(await count(`SELECT count(*)::int AS n FROM analyses WHERE round_id = $1 AND is_current`, [r.roundId])).toBe(1);
-    expect(await count(`SELECT count(*)::int AS n FROM analysis_instruments WHERE round_id = $1 AND is_current AND analysis_id <> $2`, [r.roundId, a2.id])).toBe(0);
+    expect(await count(`SELECT count(*)::int AS n FROM analyses WHERE round_id = $1 AND is_current`, [r.roundId])).toBe(
+      1,
+    );
+    expect(
+      await count(
+        `SELECT count(*)::int AS n FROM analysis_instruments WHERE round_id = $1 AND is_current AND analysis_id <> $2`,
+        [r.roundId, a2.id],
+      ),
+    ).toBe(0);
     expect(await runAnalysisJob(deps, r.roundId)).toMatchObject({ status: 'unchanged', analysisId: a2.id });
     // the work order the first reading opened keeps its evidence (a planner cancels it)
     expect(await openOrders('TI-403B')).toBe(1);
@@ -144,7 +188,11 @@ describe('runAnalysisJob', () => {
 
   test('a failing notifier never fails the analysis: it is logged after the commit', async () => {
     const lines = memoryLogger('error');
-    const bad = { ...deps, logger: lines.logger, notify: { ...w.notifier, findingsStored: () => Promise.reject(new Error('smtp down')) } };
+    const bad = {
+      ...deps,
+      logger: lines.logger,
+      notify: { ...w.notifier, findingsStored: () => Promise.reject(new Error('smtp down')) },
+    };
     const r = await pushRound(w);
     expect((await runAnalysisJob(bad, r.roundId)).status).toBe('stored');
     expect(lines.lines.join('')).toMatch(/notification failed.*|smtp down/);
@@ -177,7 +225,9 @@ describe('on pg-boss', () => {
     expect(await analyses(r.roundId)).toBe(0);
     expect(await openOrders('TI-203')).toBe(0);
     await until('the analysis', () => isAnalysed(r.roundId));
-    const done = await until('the job to complete', async () => ((await jobOf(r.roundId))?.state === 'completed' ? jobOf(r.roundId) : null));
+    const done = await until('the job to complete', async () =>
+      (await jobOf(r.roundId))?.state === 'completed' ? jobOf(r.roundId) : null,
+    );
     expect(done.retry_count).toBe(1);
     expect(await analyses(r.roundId)).toBe(1);
     expect(await openOrders('TI-203')).toBe(1);
@@ -201,7 +251,9 @@ describe('on pg-boss', () => {
     const res = await api(w, 'engineer').get(`${base()}/analysis-jobs`);
     expect(res.status).toBe(200);
     const jobs = (res.body as AnalysisJobsResponse).jobs.filter((j) => j.roundId === r.roundId);
-    expect(jobs).toMatchObject([{ state: 'failed', retryCount: 0, retryLimit: 0, error: 'the unit model is being edited' }]);
+    expect(jobs).toMatchObject([
+      { state: 'failed', retryCount: 0, retryLimit: 0, error: 'the unit model is being edited' },
+    ]);
     expect((await api(w, 'admin').get(`${base()}/analysis-jobs?state=failed`)).status).toBe(200);
     expect((await api(w, 'planner').get(`${base()}/analysis-jobs`)).status).toBe(403);
     expect((await api(w, 'tech').get(`${base()}/analysis-jobs`)).status).toBe(403);
@@ -209,7 +261,9 @@ describe('on pg-boss', () => {
     expect((await api(w, 'engineer').get(`${base()}/analysis-jobs?state=lost`)).status).toBe(400);
     // not analysed: the round counts as analysed only once its analysis is stored
     expect(await isAnalysed(r.roundId)).toBe(false);
-    expect((await api(w, 'engineer').get(`${base()}/rounds/${r.roundId}/analysis`)).body.error.message).toMatch(/no analysis yet \(it is queued\)/);
+    expect((await api(w, 'engineer').get(`${base()}/rounds/${r.roundId}/analysis`)).body.error.message).toMatch(
+      /no analysis yet \(it is queued\)/,
+    );
   });
 
   test('a worker process killed with SIGKILL mid-job: the job runs again and the analysis is stored once, with one work order', async () => {
@@ -232,11 +286,17 @@ describe('on pg-boss', () => {
     });
     child.stdout!.on('data', (b: Buffer) => out.push(String(b)));
     child.stderr!.on('data', (b: Buffer) => out.push(String(b)));
-    const exited = new Promise<NodeJS.Signals | null>((resolve) => child!.once('exit', (_code, signal) => resolve(signal)));
+    const exited = new Promise<NodeJS.Signals | null>((resolve) =>
+      child!.once('exit', (_code, signal) => resolve(signal)),
+    );
     await until('the worker process to start', async () => out.join('').includes('analysis worker running'), 30_000);
 
     const r = await pushRound(w, { bias: { 'TI-301': 10 } });
-    await until('the worker to be inside the analysis transaction', async () => out.join('').includes('analysis paused before commit'), 20_000);
+    await until(
+      'the worker to be inside the analysis transaction',
+      async () => out.join('').includes('analysis paused before commit'),
+      20_000,
+    );
     expect(out.join('')).toContain(r.roundId);
     child.kill('SIGKILL');
     expect(await exited).toBe('SIGKILL');

@@ -31,7 +31,9 @@ describe('sign-in', () => {
     expect(res.status).toBe(200);
     const body = SignInResponse.parse(res.body);
     expect(body.user).toMatchObject({ name: 'Robin Aske', email: 'tech@fernhallow.example' });
-    expect(body.user.memberships).toEqual([{ siteId: expect.any(String), siteName: 'Fernhallow Works', role: 'technician' }]);
+    expect(body.user.memberships).toEqual([
+      { siteId: expect.any(String), siteName: 'Fernhallow Works', role: 'technician' },
+    ]);
     // RFC 7519 §4.1: registered claims iss, aud, sub, exp; RFC 7515 header alg HS256.
     const decoded = jwt.decode(body.accessToken, { complete: true })!;
     expect(decoded.header.alg).toBe('HS256');
@@ -58,11 +60,19 @@ describe('sign-in', () => {
   test('OWASP Authentication Cheat Sheet: wrong password and unknown e-mail get the same 401 and no token', async () => {
     const tokens = db.dataSource.getRepository(RefreshTokenEntity);
     const before = await tokens.count();
-    const wrong = await request(app).post('/api/auth/sign-in').send({ email: tech.email, password: 'not-the-password' });
-    const unknown = await request(app).post('/api/auth/sign-in').send({ email: 'nobody@fernhallow.example', password: 'trueround-demo' });
+    const wrong = await request(app)
+      .post('/api/auth/sign-in')
+      .send({ email: tech.email, password: 'not-the-password' });
+    const unknown = await request(app)
+      .post('/api/auth/sign-in')
+      .send({ email: 'nobody@fernhallow.example', password: 'trueround-demo' });
     for (const res of [wrong, unknown]) {
       expect(res.status).toBe(401);
-      expect(ApiError.parse(res.body).error).toEqual({ code: 'bad_credentials', message: 'E-mail or password is wrong', details: null });
+      expect(ApiError.parse(res.body).error).toEqual({
+        code: 'bad_credentials',
+        message: 'E-mail or password is wrong',
+        details: null,
+      });
       expect(res.body.accessToken).toBeUndefined();
       expect(res.body.refreshToken).toBeUndefined();
     }
@@ -86,10 +96,14 @@ describe('sign-in', () => {
     const s = await signIn(app, demoUser('engineer').email);
     await db.dataSource.getRepository(UserEntity).update({ email: demoUser('engineer').email }, { disabled: true });
     try {
-      const right = await request(app).post('/api/auth/sign-in').send({ email: demoUser('engineer').email, password: 'trueround-demo' });
+      const right = await request(app)
+        .post('/api/auth/sign-in')
+        .send({ email: demoUser('engineer').email, password: 'trueround-demo' });
       expect(right.status).toBe(403);
       expect(right.body.error.code).toBe('account_disabled');
-      const wrong = await request(app).post('/api/auth/sign-in').send({ email: demoUser('engineer').email, password: 'nope' });
+      const wrong = await request(app)
+        .post('/api/auth/sign-in')
+        .send({ email: demoUser('engineer').email, password: 'nope' });
       expect(wrong.body.error.code).toBe('bad_credentials');
       const refresh = await request(app).post('/api/auth/refresh').send({ refreshToken: s.refreshToken });
       expect(refresh.status).toBe(401);
@@ -124,14 +138,20 @@ describe('access token (requireAuth)', () => {
   test('RFC 7519 §4.1.4: a token past its exp → 401', async () => {
     const sub = await userId(tech.email);
     const now = Math.floor(Date.now() / 1000);
-    const expired = jwt.sign({ sub, iss: 'trueround', aud: 'trueround-api', iat: now - 1000, exp: now - 60 }, TEST_SECRET, { algorithm: 'HS256' });
+    const expired = jwt.sign(
+      { sub, iss: 'trueround', aud: 'trueround-api', iat: now - 1000, exp: now - 60 },
+      TEST_SECRET,
+      { algorithm: 'HS256' },
+    );
     const res = await request(app).get('/api/me').set(bearer(expired));
     expect(res.status).toBe(401);
     expect(res.body.error.code).toBe('unauthorized');
     // RFC 6750 §3.1: invalid_token in WWW-Authenticate.
     expect(res.headers['www-authenticate']).toBe('Bearer error="invalid_token"');
     // The same claims with a future exp are accepted: the expiry is what failed.
-    const fresh = jwt.sign({ sub, iss: 'trueround', aud: 'trueround-api', iat: now, exp: now + 60 }, TEST_SECRET, { algorithm: 'HS256' });
+    const fresh = jwt.sign({ sub, iss: 'trueround', aud: 'trueround-api', iat: now, exp: now + 60 }, TEST_SECRET, {
+      algorithm: 'HS256',
+    });
     expect((await request(app).get('/api/me').set(bearer(fresh))).status).toBe(200);
   });
 
@@ -158,7 +178,13 @@ describe('access token (requireAuth)', () => {
 
   test('RFC 7519 §4.1.1, §4.1.3, RFC 8725 §3.1: wrong secret, issuer, audience or algorithm (HS512) → 401', async () => {
     const sub = await userId(tech.email);
-    const ok = { subject: sub, issuer: 'trueround', audience: 'trueround-api', expiresIn: 60, algorithm: 'HS256' as const };
+    const ok = {
+      subject: sub,
+      issuer: 'trueround',
+      audience: 'trueround-api',
+      expiresIn: 60,
+      algorithm: 'HS256' as const,
+    };
     const tokens = [
       jwt.sign({}, 'another-secret-another-secret-another-secret', ok),
       jwt.sign({}, TEST_SECRET, { ...ok, issuer: 'someone-else' }),
@@ -166,7 +192,13 @@ describe('access token (requireAuth)', () => {
       jwt.sign({}, TEST_SECRET, { ...ok, algorithm: 'HS512' }),
     ];
     for (const t of tokens) expect((await request(app).get('/api/me').set(bearer(t))).status).toBe(401);
-    expect((await request(app).get('/api/me').set(bearer(jwt.sign({}, TEST_SECRET, ok)))).status).toBe(200);
+    expect(
+      (
+        await request(app)
+          .get('/api/me')
+          .set(bearer(jwt.sign({}, TEST_SECRET, ok)))
+      ).status,
+    ).toBe(200);
   });
 });
 
@@ -216,10 +248,14 @@ describe('refresh tokens (RFC 9700 §4.14.2: rotation and reuse detection)', () 
   });
 
   test('an unknown or expired refresh token → 401; a missing one → 400 naming refreshToken', async () => {
-    const unknown = await request(app).post('/api/auth/refresh').send({ refreshToken: 'A'.repeat(43) });
+    const unknown = await request(app)
+      .post('/api/auth/refresh')
+      .send({ refreshToken: 'A'.repeat(43) });
     expect(unknown.status).toBe(401);
     const s = await signIn(app, tech.email);
-    await db.dataSource.getRepository(RefreshTokenEntity).update({ userId: s.user.id, revokedAt: IsNull() }, { expiresAt: new Date(Date.now() - 1000) });
+    await db.dataSource
+      .getRepository(RefreshTokenEntity)
+      .update({ userId: s.user.id, revokedAt: IsNull() }, { expiresAt: new Date(Date.now() - 1000) });
     const expired = await request(app).post('/api/auth/refresh').send({ refreshToken: s.refreshToken });
     expect(expired.status).toBe(401);
     expect(expired.body.error.message).toContain('expired');
@@ -232,18 +268,31 @@ describe('refresh tokens (RFC 9700 §4.14.2: rotation and reuse detection)', () 
     const s = await signIn(app, tech.email);
     const noAuth = await request(app).post('/api/auth/sign-out').send({ refreshToken: s.refreshToken });
     expect(noAuth.status).toBe(401);
-    const out = await request(app).post('/api/auth/sign-out').set(bearer(s.accessToken)).send({ refreshToken: s.refreshToken });
+    const out = await request(app)
+      .post('/api/auth/sign-out')
+      .set(bearer(s.accessToken))
+      .send({ refreshToken: s.refreshToken });
     expect(out.status).toBe(204);
     const refresh = await request(app).post('/api/auth/refresh').send({ refreshToken: s.refreshToken });
     expect(refresh.status).toBe(401);
     // Idempotent.
-    expect((await request(app).post('/api/auth/sign-out').set(bearer(s.accessToken)).send({ refreshToken: s.refreshToken })).status).toBe(204);
+    expect(
+      (await request(app).post('/api/auth/sign-out').set(bearer(s.accessToken)).send({ refreshToken: s.refreshToken }))
+        .status,
+    ).toBe(204);
   });
 
   test("one user cannot sign out another user's session", async () => {
     const victim = await signIn(app, demoUser('admin').email);
     const other = await signIn(app, tech.email);
-    expect((await request(app).post('/api/auth/sign-out').set(bearer(other.accessToken)).send({ refreshToken: victim.refreshToken })).status).toBe(204);
+    expect(
+      (
+        await request(app)
+          .post('/api/auth/sign-out')
+          .set(bearer(other.accessToken))
+          .send({ refreshToken: victim.refreshToken })
+      ).status,
+    ).toBe(204);
     expect((await request(app).post('/api/auth/refresh').send({ refreshToken: victim.refreshToken })).status).toBe(200);
   });
 });
@@ -252,21 +301,35 @@ describe('sign-in rate limit (RFC 6585 §4: 429 Too Many Requests)', () => {
   test('after SIGN_IN_RATE_LIMIT failed attempts from one address → 429 rate_limited, even with the right password', async () => {
     const limited = testApp(db.dataSource, db.url, { SIGN_IN_RATE_LIMIT: '3' });
     for (let i = 0; i < 3; i++) {
-      const res = await request(limited).post('/api/auth/sign-in').send({ email: tech.email, password: `wrong-${i}` });
+      const res = await request(limited)
+        .post('/api/auth/sign-in')
+        .send({ email: tech.email, password: `wrong-${i}` });
       expect(res.status).toBe(401);
     }
-    const res = await request(limited).post('/api/auth/sign-in').send({ email: tech.email, password: 'trueround-demo' });
+    const res = await request(limited)
+      .post('/api/auth/sign-in')
+      .send({ email: tech.email, password: 'trueround-demo' });
     expect(res.status).toBe(429);
     expect(ApiError.parse(res.body).error.code).toBe('rate_limited');
     expect(res.body.accessToken).toBeUndefined();
     // IETF draft-ietf-httpapi-ratelimit-headers-08 fields.
     expect(res.headers['ratelimit-policy']).toMatch(/q=3; w=900/);
     // Other routes are not limited.
-    expect((await request(limited).post('/api/auth/refresh').send({ refreshToken: 'A'.repeat(43) })).status).toBe(401);
+    expect(
+      (
+        await request(limited)
+          .post('/api/auth/refresh')
+          .send({ refreshToken: 'A'.repeat(43) })
+      ).status,
+    ).toBe(401);
   });
 
   test('successful sign-ins are not counted (a shift signing in behind one NAT address)', async () => {
     const limited = testApp(db.dataSource, db.url, { SIGN_IN_RATE_LIMIT: '2' });
-    for (let i = 0; i < 4; i++) expect((await request(limited).post('/api/auth/sign-in').send({ email: tech.email, password: 'trueround-demo' })).status).toBe(200);
+    for (let i = 0; i < 4; i++)
+      expect(
+        (await request(limited).post('/api/auth/sign-in').send({ email: tech.email, password: 'trueround-demo' }))
+          .status,
+      ).toBe(200);
   });
 });

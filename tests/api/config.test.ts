@@ -59,7 +59,9 @@ test('a missing DATABASE_URL is refused with a message naming it (an empty one c
   expect(() => loadConfig({ JWT_SECRET: good.JWT_SECRET })).toThrow('Config: DATABASE_URL is required');
   expect(() => loadConfig({ ...good, DATABASE_URL: '' })).toThrow('Config: DATABASE_URL is required');
   expect(() => loadDatabaseUrl({})).toThrow('Config: DATABASE_URL is required');
-  expect(() => loadConfig({ ...good, DATABASE_URL: 'mysql://x' })).toThrow('Config: DATABASE_URL must be a postgres:// URL');
+  expect(() => loadConfig({ ...good, DATABASE_URL: 'mysql://x' })).toThrow(
+    'Config: DATABASE_URL must be a postgres:// URL',
+  );
 });
 
 test('every bad setting is named at once, with its value and limit', () => {
@@ -77,7 +79,9 @@ test('every bad setting is named at once, with its value and limit', () => {
 });
 
 test('CORS_ORIGINS and TRUST_PROXY refuse what they cannot mean', () => {
-  expect(() => loadConfig({ ...good, CORS_ORIGINS: 'localhost:8081' })).toThrow(/CORS_ORIGINS must be a comma-separated list of origins/);
+  expect(() => loadConfig({ ...good, CORS_ORIGINS: 'localhost:8081' })).toThrow(
+    /CORS_ORIGINS must be a comma-separated list of origins/,
+  );
   expect(() => loadConfig({ ...good, CORS_ORIGINS: 'http://localhost:8081/path' })).toThrow(/CORS_ORIGINS/);
   expect(() => loadConfig({ ...good, TRUST_PROXY: 'yes' })).toThrow(/TRUST_PROXY must be true, false or a hop count/);
 });

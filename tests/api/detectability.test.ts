@@ -17,7 +17,9 @@ beforeAll(async () => {
   w = await makeWorld();
   const r = await pushRound(w, { seed: 14 });
   roundId = r.roundId;
-  expect((await runAnalysisJob({ dataSource: w.db.dataSource, logger: memoryLogger('silent').logger }, r.roundId)).status).toBe('stored');
+  expect(
+    (await runAnalysisJob({ dataSource: w.db.dataSource, logger: memoryLogger('silent').logger }, r.roundId)).status,
+  ).toBe('stored');
 });
 afterAll(() => w?.db.drop());
 
@@ -30,7 +32,10 @@ test('the demo unit: what no balance checks, MDBs in SI, and the remedy of each'
   expect(u.roundId).toBe(roundId);
   expect(u.delta0).toBeCloseTo(2.8016, 4);
   expect(u.instruments.map((i) => i.tag)).toEqual(demoUnit.instruments.map((i) => i.tag));
-  const unchecked = u.instruments.filter((i) => i.status === 'unchecked').map((i) => i.tag).sort();
+  const unchecked = u.instruments
+    .filter((i) => i.status === 'unchecked')
+    .map((i) => i.tag)
+    .sort();
   expect(unchecked).toEqual(['LI-101', 'LI-201', 'LI-301', 'LI-401', 'PI-103', 'PI-203', 'TI-103', 'TI-204', 'TI-207']);
   const t103 = u.instruments.find((i) => i.tag === 'TI-103')!;
   expect(t103.remedy).toMatchObject({ kind: 'twin', of: 'TI-103' });
@@ -50,6 +55,8 @@ test('a unit id that is not a UUID names the field; another site’s unit is not
   const bad = await api(w, 'engineer').get(`/api/sites/${w.fernId}/detectability?unitId=nope`);
   expect(bad.status).toBe(400);
   expect(JSON.stringify(bad.body)).toContain('unitId');
-  const other = await api(w, 'engineer').get(`/api/sites/${w.fernId}/detectability?unitId=00000000-0000-4000-8000-000000000000`);
+  const other = await api(w, 'engineer').get(
+    `/api/sites/${w.fernId}/detectability?unitId=00000000-0000-4000-8000-000000000000`,
+  );
   expect(other.status).toBe(404);
 });

@@ -54,7 +54,10 @@ test('an unknown /api route → 404 JSON, with or without a token', async () => 
 });
 
 test('RFC 8259: a body that is not JSON → 400 bad_json', async () => {
-  const res = await request(app).post('/api/auth/sign-in').set('Content-Type', 'application/json').send('{"email": "tech@');
+  const res = await request(app)
+    .post('/api/auth/sign-in')
+    .set('Content-Type', 'application/json')
+    .send('{"email": "tech@');
   expectError(res, 400, 'bad_json');
 });
 
@@ -64,7 +67,11 @@ test('missing fields → 400 validation, naming the field (email) in message and
   expect(e.message).toContain('email');
   const both = expectError(await request(app).post('/api/auth/sign-in').send({}), 400, 'validation');
   expect((both.details as { path: string }[]).map((d) => d.path)).toEqual(['email', 'password']);
-  const bad = expectError(await request(app).post('/api/auth/sign-in').send({ email: 'not-an-address', password: 'x' }), 400, 'validation');
+  const bad = expectError(
+    await request(app).post('/api/auth/sign-in').send({ email: 'not-an-address', password: 'x' }),
+    400,
+    'validation',
+  );
   expect(bad.details).toEqual([{ path: 'email', message: 'Must be an e-mail address' }]);
   // No body at all names the fields too.
   const empty = expectError(await request(app).post('/api/auth/sign-in'), 400, 'validation');
@@ -78,11 +85,19 @@ test('a body that is not JSON at all → 415', async () => {
 
 test('RFC 9110 §15.5.14: a JSON body over 1 MB → 413 too_large', async () => {
   const big = JSON.stringify({ email: 'tech@fernhallow.example', password: 'x'.repeat(1024 * 1024) });
-  const e = expectError(await request(app).post('/api/auth/sign-in').set('Content-Type', 'application/json').send(big), 413, 'too_large');
+  const e = expectError(
+    await request(app).post('/api/auth/sign-in').set('Content-Type', 'application/json').send(big),
+    413,
+    'too_large',
+  );
   expect(e.details).toEqual({ limit: 1048576 });
   // Just under the limit is parsed (and then refused by the schema, naming the field).
   const under = JSON.stringify({ email: 'tech@fernhallow.example', password: 'x'.repeat(1024 * 1024 - 100) });
-  const v = expectError(await request(app).post('/api/auth/sign-in').set('Content-Type', 'application/json').send(under), 400, 'validation');
+  const v = expectError(
+    await request(app).post('/api/auth/sign-in').set('Content-Type', 'application/json').send(under),
+    400,
+    'validation',
+  );
   expect(v.details).toEqual([{ path: 'password', message: 'Must be at most 1024 characters' }]);
 });
 
@@ -93,7 +108,9 @@ test('a 500 says "internal error" with no stack in the body; the stack goes to t
   await dead.initialize();
   await dead.destroy();
   const { logger, lines } = memoryLogger('error');
-  const res = await request(testApp(dead, db.url, {}, logger)).get('/api/me').set(bearer(accessToken));
+  const res = await request(testApp(dead, db.url, {}, logger))
+    .get('/api/me')
+    .set(bearer(accessToken));
   const e = expectError(res, 500, 'internal');
   expect(e).toEqual({ code: 'internal', message: 'internal error', details: null });
   expect(res.text).not.toMatch(/\bat .+:\d+:\d+/); // no "at file:line:col" frames
@@ -108,12 +125,21 @@ test('request logs carry method, path and status but no Authorization header, pa
   const s = await signIn(logged, demoUser('planner').email);
   await request(logged).get('/api/me?x=1').set(bearer(s.accessToken));
   await request(logged).post('/api/auth/refresh').send({ refreshToken: s.refreshToken });
-  await request(logged).post('/api/auth/sign-in').send({ email: demoUser('planner').email, password: 'wrong-password-typed' });
+  await request(logged)
+    .post('/api/auth/sign-in')
+    .send({ email: demoUser('planner').email, password: 'wrong-password-typed' });
   const text = lines.join('');
   expect(lines.length).toBeGreaterThanOrEqual(4);
   expect(text).toContain('"path":"/api/me"');
   expect(text).toContain('"statusCode":401');
-  for (const secret of ['trueround-demo', 'wrong-password-typed', s.accessToken, s.refreshToken, 'Bearer', 'authorization']) {
+  for (const secret of [
+    'trueround-demo',
+    'wrong-password-typed',
+    s.accessToken,
+    s.refreshToken,
+    'Bearer',
+    'authorization',
+  ]) {
     expect(text).not.toContain(secret);
   }
 });

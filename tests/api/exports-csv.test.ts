@@ -35,7 +35,8 @@ function assertNeutral(rows: string[][]) {
   for (const row of rows) {
     for (const c of row) {
       if (/^[=+@\t\r]/.test(c)) throw new Error(`cell ${JSON.stringify(c)} would run as a formula`);
-      if (c.startsWith('-') && !/^-\d+(\.\d+)?(e[-+]?\d+)?$/i.test(c)) throw new Error(`cell ${JSON.stringify(c)} would run as a formula`);
+      if (c.startsWith('-') && !/^-\d+(\.\d+)?(e[-+]?\d+)?$/i.test(c))
+        throw new Error(`cell ${JSON.stringify(c)} would run as a formula`);
     }
   }
 }
@@ -44,15 +45,26 @@ test('readings.csv: every reading with its reconciled value; text cells that sta
   const res = await api(w, 'planner').get(`${base()}/exports/readings.csv`);
   expect(res.status).toBe(200);
   expect(res.headers['content-type']).toBe('text/csv; charset=utf-8');
-  expect(res.headers['content-disposition']).toMatch(/^attachment; filename="readings-\d{4}-\d{2}-\d{2}-\d{4}-\d{2}-\d{2}\.csv"$/);
+  expect(res.headers['content-disposition']).toMatch(
+    /^attachment; filename="readings-\d{4}-\d{2}-\d{2}-\d{4}-\d{2}-\d{2}\.csv"$/,
+  );
   expect(res.text).toContain('\r\n');
   const rows = parseCsv(res.text.trimEnd());
   const [header, ...body] = rows;
-  expect(header.slice(0, 7)).toEqual(['reading_id', 'round_id', 'route', 'technician', 'device_time', 'received_at', 'instrument_tag']);
+  expect(header.slice(0, 7)).toEqual([
+    'reading_id',
+    'round_id',
+    'route',
+    'technician',
+    'device_time',
+    'received_at',
+    'instrument_tag',
+  ]);
   // two rounds of every demo instrument
   expect(body.length).toBe(2 * Object.keys(w.sigma).length);
   const col = (name: string) => header.indexOf(name);
-  const noteOf = (tag: string) => body.find((r) => r[col('instrument_tag')] === tag && r[col('note')] !== '')![col('note')];
+  const noteOf = (tag: string) =>
+    body.find((r) => r[col('instrument_tag')] === tag && r[col('note')] !== '')![col('note')];
   expect(noteOf('TI-102A')).toBe(`'=HYPERLINK("http://evil.example/x","click")`);
   expect(noteOf('TI-102B')).toBe(`'+SUM(1,2)`);
   expect(noteOf('PI-102')).toBe(`'-2+3`);
@@ -78,7 +90,9 @@ test('readings.csv: from/to select by device time; bad ranges are refused', asyn
   const none = await api(w, 'engineer').get(`${base()}/exports/readings.csv?from=2000-01-01&to=2000-01-02`);
   expect(none.status).toBe(200);
   expect(parseCsv(none.text.trimEnd())).toHaveLength(1);
-  expect((await api(w, 'engineer').get(`${base()}/exports/readings.csv?from=2000-01-02&to=2000-01-01`)).status).toBe(400);
+  expect((await api(w, 'engineer').get(`${base()}/exports/readings.csv?from=2000-01-02&to=2000-01-01`)).status).toBe(
+    400,
+  );
   expect((await api(w, 'engineer').get(`${base()}/exports/readings.csv?from=soon`)).status).toBe(400);
   expect((await api(w, 'tech').get(`${base()}/exports/readings.csv`)).status).toBe(403);
   expect((await api(w, 'brackPlanner').get(`${base()}/exports/readings.csv`)).status).toBe(404);
@@ -95,8 +109,22 @@ test('work-orders.csv: one row per order; a cancel reason written as a formula c
   const rows = parseCsv(res.text.trimEnd());
   const [header, ...body] = rows;
   expect(header).toEqual([
-    'number', 'kind', 'status', 'priority', 'title', 'instrument_tag', 'equipment', 'assignee', 'due_date', 'scheduled_for', 'opened_at',
-    'closed_at', 'findings', 'reopen_count', 'cancel_reason', 'merged_into',
+    'number',
+    'kind',
+    'status',
+    'priority',
+    'title',
+    'instrument_tag',
+    'equipment',
+    'assignee',
+    'due_date',
+    'scheduled_for',
+    'opened_at',
+    'closed_at',
+    'findings',
+    'reopen_count',
+    'cancel_reason',
+    'merged_into',
   ]);
   const row = body.find((r) => r[0] === 'WO-0001')!;
   // TI-102A and its twin are one group to the balances (|ρ| ≥ 0.95): one check-group order, its target the first tag

@@ -16,7 +16,18 @@ import { backoffDelay } from '../../offline/backoff';
 import type { PushRequestV2, PushResponse } from '../../shared/api/sync';
 import { until } from './analysis-helpers';
 import { createTestDatabase, type TestDb } from './helpers/db';
-import { buildRound, freePort, http, roundMaker, signInHttp, startChildServer, stopChild, storedCounts, techEmail, type ChildServer } from './fault-helpers';
+import {
+  buildRound,
+  freePort,
+  http,
+  roundMaker,
+  signInHttp,
+  startChildServer,
+  stopChild,
+  storedCounts,
+  techEmail,
+  type ChildServer,
+} from './fault-helpers';
 
 jest.setTimeout(60_000);
 
@@ -66,7 +77,9 @@ test('SIGKILL of the server mid-push: nothing of the batch stays; the retried ba
     );
     return (r.rows[0] as { n: number }).n > 0;
   });
-  const [{ n: inFlight }] = (await locker.query(`SELECT count(*)::int AS n FROM rounds WHERE id = ANY($1::uuid[])`, [roundIds])).rows as { n: number }[];
+  const [{ n: inFlight }] = (
+    await locker.query(`SELECT count(*)::int AS n FROM rounds WHERE id = ANY($1::uuid[])`, [roundIds])
+  ).rows as { n: number }[];
   expect(inFlight).toBe(0); // the dead transaction's rounds are not visible (not committed)
 
   server.child.kill('SIGKILL');
@@ -78,7 +91,9 @@ test('SIGKILL of the server mid-push: nothing of the batch stays; the retried ba
   await locker.query('ROLLBACK');
   // the orphaned backend finds its client gone and rolls back (no COMMIT was ever sent)
   await until('the killed push’s backend to end', async () => {
-    const r = await locker!.query(`SELECT count(*)::int AS n FROM pg_stat_activity WHERE datname = current_database() AND application_name = 'trueround-server'`);
+    const r = await locker!.query(
+      `SELECT count(*)::int AS n FROM pg_stat_activity WHERE datname = current_database() AND application_name = 'trueround-server'`,
+    );
     return (r.rows[0] as { n: number }).n === 0;
   });
   const afterKill = await storedCounts(db.dataSource, roundIds);
@@ -96,7 +111,9 @@ test('SIGKILL of the server mid-push: nothing of the batch stays; the retried ba
   while (res.status !== 200) {
     expect(classifyFailure(res)).toBe('retry');
     attempts++;
-    await new Promise((r) => setTimeout(r, Math.min(backoffDelay(attempts, Math.random, { baseMs: 200, capMs: 1000 }), 1000)));
+    await new Promise((r) =>
+      setTimeout(r, Math.min(backoffDelay(attempts, Math.random, { baseMs: 200, capMs: 1000 }), 1000)),
+    );
     res = await http(`http://127.0.0.1:${port}`, '/api/sync/push', token, body);
     if (Date.now() - t > 40_000) throw new Error(`push never went through: ${JSON.stringify(res)}`);
   }
@@ -107,7 +124,12 @@ test('SIGKILL of the server mid-push: nothing of the batch stays; the retried ba
   // and once more (the device never saw the 200, say): all duplicates, nothing new
   const again = await http(server!.url, '/api/sync/push', token, body);
   expect(again.status).toBe(200);
-  expect((again.body as PushResponse).duplicates).toEqual({ rounds: 40, readings: 40 * perRound, checkAnswers: 0, photos: 0 });
+  expect((again.body as PushResponse).duplicates).toEqual({
+    rounds: 40,
+    readings: 40 * perRound,
+    checkAnswers: 0,
+    photos: 0,
+  });
   expect((again.body as PushResponse).applied.readings).toBe(0);
 
   const final = await storedCounts(db.dataSource, roundIds);

@@ -36,7 +36,11 @@ export interface ChildServer {
 }
 
 /** `server/main.ts` in a child process on `port`; resolves once it prints its banner. */
-export async function startChildServer(databaseUrl: string, port: number, env: Record<string, string> = {}): Promise<ChildServer> {
+export async function startChildServer(
+  databaseUrl: string,
+  port: number,
+  env: Record<string, string> = {},
+): Promise<ChildServer> {
   const out: string[] = [];
   const child = spawn(process.execPath, ['--import', 'tsx', join(ROOT, 'server/main.ts')], {
     cwd: ROOT,
@@ -101,11 +105,20 @@ export interface HttpResult {
 }
 
 /** A JSON request; a network failure is status 0 (as offline/sync.ts's TransportFailure says). */
-export async function http(url: string, path: string, token: string | null, body?: unknown, method = body === undefined ? 'GET' : 'POST'): Promise<HttpResult> {
+export async function http(
+  url: string,
+  path: string,
+  token: string | null,
+  body?: unknown,
+  method = body === undefined ? 'GET' : 'POST',
+): Promise<HttpResult> {
   try {
     const res = await fetch(`${url}${path}`, {
       method,
-      headers: { ...(token ? { authorization: `Bearer ${token}` } : {}), ...(body === undefined ? {} : { 'content-type': 'application/json' }) },
+      headers: {
+        ...(token ? { authorization: `Bearer ${token}` } : {}),
+        ...(body === undefined ? {} : { 'content-type': 'application/json' }),
+      },
       body: body === undefined ? undefined : JSON.stringify(body),
       signal: AbortSignal.timeout(20_000),
     });
@@ -129,10 +142,20 @@ export function buildRound(m: Pick<World, 'inst' | 'version' | 'sigma'>, o: Roun
 }
 
 /** Readings stored per round id (0 for a round that has none), and how many rows share one id. */
-export async function storedCounts(ds: DataSource, roundIds: string[]): Promise<{ rounds: Set<string>; readings: Map<string, number>; duplicateIds: number }> {
-  const rounds = new Set(((await ds.query(`SELECT id FROM rounds WHERE id = ANY($1::uuid[])`, [roundIds])) as { id: string }[]).map((r) => r.id));
+export async function storedCounts(
+  ds: DataSource,
+  roundIds: string[],
+): Promise<{ rounds: Set<string>; readings: Map<string, number>; duplicateIds: number }> {
+  const rounds = new Set(
+    ((await ds.query(`SELECT id FROM rounds WHERE id = ANY($1::uuid[])`, [roundIds])) as { id: string }[]).map(
+      (r) => r.id,
+    ),
+  );
   const readings = new Map<string, number>(roundIds.map((id) => [id, 0]));
-  for (const r of (await ds.query(`SELECT round_id, count(*)::int AS n FROM readings WHERE round_id = ANY($1::uuid[]) GROUP BY round_id`, [roundIds])) as {
+  for (const r of (await ds.query(
+    `SELECT round_id, count(*)::int AS n FROM readings WHERE round_id = ANY($1::uuid[]) GROUP BY round_id`,
+    [roundIds],
+  )) as {
     round_id: string;
     n: number;
   }[]) {

@@ -37,7 +37,9 @@ interface OutboxRow {
   last_error: string | null;
 }
 const outbox = async () =>
-  (await w.db.dataSource.query(`SELECT id, to_address, subject, attempts, sent_at, last_error FROM mail_outbox ORDER BY created_at, id`)) as OutboxRow[];
+  (await w.db.dataSource.query(
+    `SELECT id, to_address, subject, attempts, sent_at, last_error FROM mail_outbox ORDER BY created_at, id`,
+  )) as OutboxRow[];
 
 test('SMTP down: the work order opens, notices stay pending with attempts counted; once SMTP is back each is delivered once', async () => {
   const log = memoryLogger('warn');
@@ -55,7 +57,10 @@ test('SMTP down: the work order opens, notices stay pending with attempts counte
   const r = await pushRound(w, { bias: { 'TI-301': 10 } });
   const out = await runAnalysisJob({ dataSource: w.db.dataSource, logger: log.logger, notify: notifier }, r.roundId);
   expect(out.status).toBe('stored');
-  const orders = (await w.db.dataSource.query(`SELECT id, status::text AS status FROM work_orders WHERE instrument_id = $1`, [w.inst['TI-301']])) as {
+  const orders = (await w.db.dataSource.query(
+    `SELECT id, status::text AS status FROM work_orders WHERE instrument_id = $1`,
+    [w.inst['TI-301']],
+  )) as {
     id: string;
     status: string;
   }[];
@@ -74,7 +79,10 @@ test('SMTP down: the work order opens, notices stay pending with attempts counte
   expect(pending.some((m) => m.subject.includes('TI-301'))).toBe(true);
   expect(log.lines.join('')).toMatch(/kept in the outbox for a retry/);
   // the work order is untouched by the mail failure
-  expect((await w.db.dataSource.query(`SELECT status::text AS status FROM work_orders WHERE id = $1`, [orders[0].id]))[0].status).toBe(orders[0].status);
+  expect(
+    (await w.db.dataSource.query(`SELECT status::text AS status FROM work_orders WHERE id = $1`, [orders[0].id]))[0]
+      .status,
+  ).toBe(orders[0].status);
 
   // SMTP back on the same port: everything goes out, once
   fake = await startFakeSmtp({ host: '127.0.0.1', port, dataSource: w.db.dataSource });
@@ -82,10 +90,21 @@ test('SMTP down: the work order opens, notices stay pending with attempts counte
   await new Promise((t) => setTimeout(t, 1000)); // a few more sender passes: nothing is sent again
   const sent = await outbox();
   expect(sent.map((m) => m.id)).toEqual(pending.map((m) => m.id));
-  const received = (await w.db.dataSource.query(`SELECT to_addresses, subject FROM mail_messages`)) as { to_addresses: string[]; subject: string }[];
+  const received = (await w.db.dataSource.query(`SELECT to_addresses, subject FROM mail_messages`)) as {
+    to_addresses: string[];
+    subject: string;
+  }[];
   expect(received).toHaveLength(sent.length);
   expect(fake.received()).toBe(sent.length);
   const key = (to: string, subject: string) => `${to}\n${subject}`;
-  expect(received.map((m) => key(m.to_addresses.join(','), m.subject)).sort()).toEqual(sent.map((m) => key(m.to_address, m.subject)).sort());
-  expect((await w.db.dataSource.query(`SELECT count(*)::int AS n FROM work_orders WHERE instrument_id = $1`, [w.inst['TI-301']]))[0].n).toBe(1);
+  expect(received.map((m) => key(m.to_addresses.join(','), m.subject)).sort()).toEqual(
+    sent.map((m) => key(m.to_address, m.subject)).sort(),
+  );
+  expect(
+    (
+      await w.db.dataSource.query(`SELECT count(*)::int AS n FROM work_orders WHERE instrument_id = $1`, [
+        w.inst['TI-301'],
+      ])
+    )[0].n,
+  ).toBe(1);
 });

@@ -18,7 +18,19 @@ import { ApiError } from '../../shared/api/errors';
 import type { PushResponse } from '../../shared/api/sync';
 import { makeDataSource } from '../../server/db';
 import { seedDemo } from '../../server/seed/demo';
-import { buildRound, freePort, http, ROOT, roundMaker, signInHttp, startChildServer, stopChild, storedCounts, techEmail, type ChildServer } from './fault-helpers';
+import {
+  buildRound,
+  freePort,
+  http,
+  ROOT,
+  roundMaker,
+  signInHttp,
+  startChildServer,
+  stopChild,
+  storedCounts,
+  techEmail,
+  type ChildServer,
+} from './fault-helpers';
 import type { BuiltRound } from './analysis-helpers';
 
 jest.setTimeout(60_000);
@@ -34,7 +46,8 @@ const bin = () => {
 };
 const isRoot = () => process.getuid?.() === 0;
 const pgEnv = () => ({ ...process.env, TR_PG_PORT: String(pgPort), TR_PG_DIR: dir });
-const clusterStart = () => execFileSync(process.execPath, [join(ROOT, 'scripts/pg.mjs'), 'start', '--test'], { env: pgEnv(), stdio: 'pipe' });
+const clusterStart = () =>
+  execFileSync(process.execPath, [join(ROOT, 'scripts/pg.mjs'), 'start', '--test'], { env: pgEnv(), stdio: 'pipe' });
 const clusterStop = () => {
   const args = ['-D', join(dir, 'data'), '-m', 'fast', '-w', 'stop'];
   if (isRoot()) execFileSync('runuser', ['-u', 'postgres', '--', join(bin(), 'pg_ctl'), ...args], { stdio: 'pipe' });
@@ -100,7 +113,11 @@ test('PostgreSQL restarted under a push loop: 503 + Retry-After while it is down
   phaseNow = 'down';
   await new Promise((t) => setTimeout(t, 2500));
   const h = await http(server.url, '/api/health', null);
-  healthDuringOutage = { status: h.status, retryAfter: h.headers.get('retry-after'), code: ApiError.safeParse(h.body).success ? (h.body as ApiError).error.code : null };
+  healthDuringOutage = {
+    status: h.status,
+    retryAfter: h.headers.get('retry-after'),
+    code: ApiError.safeParse(h.body).success ? (h.body as ApiError).error.code : null,
+  };
   clusterStart();
   phaseNow = 'after';
   await loop;

@@ -41,7 +41,9 @@ afterAll(async () => {
 });
 
 const jpeg = (seed: number) =>
-  sharp({ create: { width: 64, height: 48, channels: 3, background: { r: seed % 255, g: 90, b: 30 } } }).jpeg().toBuffer();
+  sharp({ create: { width: 64, height: 48, channels: 3, background: { r: seed % 255, g: 90, b: 30 } } })
+    .jpeg()
+    .toBuffer();
 
 /** Pushes a 41-reading round whose first reading carries a photo of `bytes`; returns the ids. */
 async function pushWithPhoto(app: Express, bytes: Buffer) {
@@ -50,7 +52,17 @@ async function pushWithPhoto(app: Express, bytes: Buffer) {
   const first = r.body.readings[0];
   const body: PushRequestV2 = {
     ...r.body,
-    photos: [{ id: photoId, roundId: r.roundId, readingId: first.id, checkId: null, sha256: createHash('sha256').update(bytes).digest('hex'), mime: 'image/jpeg', bytes: bytes.length }],
+    photos: [
+      {
+        id: photoId,
+        roundId: r.roundId,
+        readingId: first.id,
+        checkId: null,
+        sha256: createHash('sha256').update(bytes).digest('hex'),
+        mime: 'image/jpeg',
+        bytes: bytes.length,
+      },
+    ],
   };
   const res = await request(app).post('/api/sync/push').set(bearer(token)).send(body);
   expect(res.status).toBe(200);
@@ -59,12 +71,22 @@ async function pushWithPhoto(app: Express, bytes: Buffer) {
 }
 
 const upload = (app: Express, id: string, bytes: Buffer) =>
-  request(app).post(`/api/photos/${id}`).set(bearer(token)).attach('photo', bytes, { filename: 'gauge.jpg', contentType: 'image/jpeg' });
+  request(app)
+    .post(`/api/photos/${id}`)
+    .set(bearer(token))
+    .attach('photo', bytes, { filename: 'gauge.jpg', contentType: 'image/jpeg' });
 
 async function dbState(roundId: string, photoId: string) {
-  const [round] = (await db.dataSource.query(`SELECT count(*)::int AS n FROM rounds WHERE id = $1`, [roundId])) as { n: number }[];
-  const [readings] = (await db.dataSource.query(`SELECT count(*)::int AS n FROM readings WHERE round_id = $1`, [roundId])) as { n: number }[];
-  const photos = (await db.dataSource.query(`SELECT status::text AS status, storage_key, thumb_key FROM photos WHERE id = $1`, [photoId])) as {
+  const [round] = (await db.dataSource.query(`SELECT count(*)::int AS n FROM rounds WHERE id = $1`, [roundId])) as {
+    n: number;
+  }[];
+  const [readings] = (await db.dataSource.query(`SELECT count(*)::int AS n FROM readings WHERE round_id = $1`, [
+    roundId,
+  ])) as { n: number }[];
+  const photos = (await db.dataSource.query(
+    `SELECT status::text AS status, storage_key, thumb_key FROM photos WHERE id = $1`,
+    [photoId],
+  )) as {
     status: string;
     storage_key: string | null;
     thumb_key: string | null;
@@ -84,13 +106,21 @@ test('a full photo store (ENOSPC): 507 naming the photo, round and readings kept
   let full = true;
   const store: PhotoStore = {
     put: async (key, bytes, mime) => {
-      if (full) throw Object.assign(new Error(`ENOSPC: no space left on device, write '${key}'`), { code: 'ENOSPC', errno: -28 });
+      if (full)
+        throw Object.assign(new Error(`ENOSPC: no space left on device, write '${key}'`), {
+          code: 'ENOSPC',
+          errno: -28,
+        });
       return disk.put(key, bytes, mime);
     },
     get: (key) => disk.get(key),
     has: (key) => disk.has(key),
   };
-  const app = createApp({ config: testConfig(db.url, { PHOTO_DIR: root }), dataSource: db.dataSource, photoStore: store });
+  const app = createApp({
+    config: testConfig(db.url, { PHOTO_DIR: root }),
+    dataSource: db.dataSource,
+    photoStore: store,
+  });
   token = (await signIn(app, demoUser('technician', 'fernhallow').email)).accessToken;
   const bytes = await jpeg(1);
   const p = await pushWithPhoto(app, bytes);
@@ -102,7 +132,11 @@ test('a full photo store (ENOSPC): 507 naming the photo, round and readings kept
   expect(err.message).toContain(`Photo ${p.photoId}`);
   expect(err.message).toMatch(/full/);
   expect(err.details).toEqual({ photoId: p.photoId, reason: 'ENOSPC' });
-  expect(await dbState(p.roundId, p.photoId)).toEqual({ rounds: 1, readings: p.readings, photos: [{ status: 'pending', storage_key: null, thumb_key: null }] });
+  expect(await dbState(p.roundId, p.photoId)).toEqual({
+    rounds: 1,
+    readings: p.readings,
+    photos: [{ status: 'pending', storage_key: null, thumb_key: null }],
+  });
   expect(filesOf(root, p.photoId)).toEqual([]);
 
   full = false;
@@ -134,13 +168,19 @@ test('a photo folder that cannot be written (PHOTO_DIR below a regular file, ENO
   const err = ApiError.parse(res.body).error;
   expect(err.code).toBe('storage_unavailable');
   expect(err.message).toContain(`Photo ${p.photoId} was not stored: the photo store cannot be written (ENOTDIR)`);
-  expect(await dbState(p.roundId, p.photoId)).toEqual({ rounds: 1, readings: p.readings, photos: [{ status: 'pending', storage_key: null, thumb_key: null }] });
+  expect(await dbState(p.roundId, p.photoId)).toEqual({
+    rounds: 1,
+    readings: p.readings,
+    photos: [{ status: 'pending', storage_key: null, thumb_key: null }],
+  });
 
   rmSync(parent);
   mkdirSync(parent);
   const ok = await upload(app, p.photoId, bytes);
   expect(ok.status).toBe(201);
-  expect((await dbState(p.roundId, p.photoId)).photos).toEqual([{ status: 'stored', storage_key: `photos/${p.photoId}.jpg`, thumb_key: `thumbs/${p.photoId}.jpg` }]);
+  expect((await dbState(p.roundId, p.photoId)).photos).toEqual([
+    { status: 'stored', storage_key: `photos/${p.photoId}.jpg`, thumb_key: `thumbs/${p.photoId}.jpg` },
+  ]);
   expect(filesOf(root, p.photoId)).toEqual([`photos/${p.photoId}.jpg`, `thumbs/${p.photoId}.jpg`]);
   expect(readdirSync(root, { recursive: true }).filter((f) => String(f).endsWith('.tmp'))).toEqual([]);
 });

@@ -24,7 +24,14 @@ beforeAll(async () => {
   const deps = { dataSource: w.db.dataSource, logger: memoryLogger('silent').logger };
   // oldest first: day 40 with TI-102A 10σ high (pushed and analysed now, read outside the 30-day
   // window), days 5 and 4 at design, days 3, 2, 1 with TI-102A 10σ high
-  for (const [n, biased] of [[40, true], [5, false], [4, false], [3, true], [2, true], [1, true]] as const) {
+  for (const [n, biased] of [
+    [40, true],
+    [5, false],
+    [4, false],
+    [3, true],
+    [2, true],
+    [1, true],
+  ] as const) {
     const r = await pushRound(w, { deviceTime: day(n), ...(biased ? { bias: { 'TI-102A': 10 } } : {}) });
     expect((await runAnalysisJob(deps, r.roundId)).status).toBe('stored');
   }
@@ -82,7 +89,9 @@ test('health: flags, mean |z|, signed bias in SI, calibration due, status and op
 test('health filters: status, tag text, unit', async () => {
   expect((await health('?status=suspect')).instruments.map((i) => i.tag)).toEqual(['TI-102A', 'TI-102B']);
   expect((await health('?q=102')).instruments.map((i) => i.tag)).toEqual(['FI-102', 'PI-102', 'TI-102A', 'TI-102B']);
-  const [{ id: unitId }] = (await w.db.dataSource.query(`SELECT id FROM units WHERE site_id = $1`, [w.fernId])) as { id: string }[];
+  const [{ id: unitId }] = (await w.db.dataSource.query(`SELECT id FROM units WHERE site_id = $1`, [w.fernId])) as {
+    id: string;
+  }[];
   expect((await health(`?unitId=${unitId}`)).instruments.length).toBe(demoUnit.instruments.length + 1);
   expect((await api(w, 'engineer').get(`${base()}/instruments?status=broken`)).status).toBe(400);
   expect((await api(w, 'tech').get(`${base()}/instruments`)).status).toBe(403);
@@ -118,17 +127,22 @@ test('history: readings against reconciled values and σ, in device time, within
   }
 
   const since = new Date(Date.now() - 2.5 * DAY).toISOString();
-  const recent = (await api(w, 'engineer').get(`${base()}/instruments/TI-102A/history?from=${encodeURIComponent(since)}`)).body as InstrumentHistoryResponse;
+  const recent = (
+    await api(w, 'engineer').get(`${base()}/instruments/TI-102A/history?from=${encodeURIComponent(since)}`)
+  ).body as InstrumentHistoryResponse;
   expect(recent.points).toHaveLength(2);
   const until = new Date(Date.now() - 4.5 * DAY).toISOString().slice(0, 10);
-  const early = (await api(w, 'engineer').get(`${base()}/instruments/TI-102A/history?to=${until}`)).body as InstrumentHistoryResponse;
+  const early = (await api(w, 'engineer').get(`${base()}/instruments/TI-102A/history?to=${until}`))
+    .body as InstrumentHistoryResponse;
   // `to` as a date runs to the end of that day
   expect(early.points.length).toBeGreaterThanOrEqual(1);
   expect(early.points.every((p) => p.measuredAt.slice(0, 10) <= until)).toBe(true);
 
   expect((await api(w, 'engineer').get(`${base()}/instruments/TI-999/history`)).status).toBe(404);
   expect((await api(w, 'engineer').get(`${base()}/instruments/TI-102A/history?from=yesterday`)).status).toBe(400);
-  expect((await api(w, 'engineer').get(`${base()}/instruments/TI-102A/history?from=2030-01-02&to=2030-01-01`)).status).toBe(400);
+  expect(
+    (await api(w, 'engineer').get(`${base()}/instruments/TI-102A/history?from=2030-01-02&to=2030-01-01`)).status,
+  ).toBe(400);
   expect((await api(w, 'tech').get(`${base()}/instruments/TI-102A/history`)).status).toBe(403);
   expect((await api(w, 'brackPlanner').get(`${base()}/instruments/TI-102A/history`)).status).toBe(404);
 });

@@ -23,7 +23,8 @@ let withoutFake: Express;
 const tokens: Record<string, string> = {};
 const site: Record<'fern' | 'brack', string> = { fern: '', brack: '' };
 
-const mailbox = (token: string, siteId: string, query = '') => request(withFake).get(`/api/dev/mailbox?siteId=${siteId}${query}`).set(bearer(token));
+const mailbox = (token: string, siteId: string, query = '') =>
+  request(withFake).get(`/api/dev/mailbox?siteId=${siteId}${query}`).set(bearer(token));
 const subjects = (res: request.Response) => (res.body.messages as { subject: string }[]).map((m) => m.subject);
 
 beforeAll(async () => {
@@ -48,7 +49,12 @@ beforeAll(async () => {
     await enqueueMail(db.dataSource, [{ to, subject, text: `body of ${subject}`, siteId }]);
     const transport = smtpTransport(fake.url);
     // the sender's clock a second on: the row's next_attempt_at (PostgreSQL now(), µs) may fall after a JS Date of the same millisecond
-    expect(await deliverDue(db.dataSource, transport, { from: 'trueround@localhost', now: () => new Date(Date.now() + 1000) })).toEqual({ sent: 1, failed: 0 });
+    expect(
+      await deliverDue(db.dataSource, transport, {
+        from: 'trueround@localhost',
+        now: () => new Date(Date.now() + 1000),
+      }),
+    ).toEqual({ sent: 1, failed: 0 });
     transport.close();
   };
   await send('person1@example.test', 'fern 1', site.fern);
@@ -58,7 +64,13 @@ beforeAll(async () => {
   await send('person3@example.test', 'fern 3', site.fern);
   // a message from outside the outbox, naming a Fernhallow-looking outbox id that does not exist
   const t = nodemailer.createTransport(fake.url);
-  await t.sendMail({ from: 'x@localhost', to: 'y@example.test', subject: 'not from the outbox', text: 'forged', messageId: outboxMessageId(randomUUID()) });
+  await t.sendMail({
+    from: 'x@localhost',
+    to: 'y@example.test',
+    subject: 'not from the outbox',
+    text: 'forged',
+    messageId: outboxMessageId(randomUUID()),
+  });
   t.close();
 });
 afterAll(async () => {
@@ -83,8 +95,13 @@ test("an admin gets what the fake received about their site, newest first, and n
   const none = await request(withFake).get('/api/dev/mailbox').set(bearer(tokens.admin));
   expect(none.status).toBe(400);
   expect(none.body.error.details).toEqual([{ path: 'siteId', message: 'Required' }]);
-  const stored = (await db.dataSource.query(`SELECT "subject", "site_id" FROM "mail_messages" ORDER BY "received_at"`)) as { subject: string; site_id: string | null }[];
-  expect(stored.filter((r) => r.site_id === null).map((r) => r.subject)).toEqual(['about no site', 'not from the outbox']);
+  const stored = (await db.dataSource.query(
+    `SELECT "subject", "site_id" FROM "mail_messages" ORDER BY "received_at"`,
+  )) as { subject: string; site_id: string | null }[];
+  expect(stored.filter((r) => r.site_id === null).map((r) => r.subject)).toEqual([
+    'about no site',
+    'not from the outbox',
+  ]);
 });
 
 test("another site's mailbox answers like a site that does not exist: the same 404, byte for byte", async () => {
@@ -95,7 +112,7 @@ test("another site's mailbox answers like a site that does not exist: the same 4
   expect(other.body.error.message).toBe('Site not found');
 });
 
-test("a technician or a planner of the site gets 403; no token 401", async () => {
+test('a technician or a planner of the site gets 403; no token 401', async () => {
   for (const [key, s] of [
     ['tech', site.fern],
     ['brackPlanner', site.brack],
@@ -115,17 +132,28 @@ test('without the fake in use the mailbox does not exist: 404 even for an admin'
 });
 
 test('start() with SMTP_FAKE_PORT runs the fake in-process: a queued notice reaches the mailbox through the sender loop', async () => {
-  const running = await start(testConfig(db.url, { HOST: '127.0.0.1', PORT: '0', SMTP_FAKE_PORT: '0', MAIL_SEND_INTERVAL_MS: '100' }));
+  const running = await start(
+    testConfig(db.url, { HOST: '127.0.0.1', PORT: '0', SMTP_FAKE_PORT: '0', MAIL_SEND_INTERVAL_MS: '100' }),
+  );
   try {
     expect(running.mail.fake?.host).toBe('127.0.0.1');
     expect(running.mail.smtpUrl).toBe(running.mail.fake!.url);
-    await enqueueMail(db.dataSource, [{ to: 'planner@fernhallow.example', subject: 'through the loop', text: 'queued, sent, received', siteId: site.fern }]);
+    await enqueueMail(db.dataSource, [
+      {
+        to: 'planner@fernhallow.example',
+        subject: 'through the loop',
+        text: 'queued, sent, received',
+        siteId: site.fern,
+      },
+    ]);
     let found: { subject: string; text: string } | undefined;
     for (let i = 0; i < 50 && !found; i++) {
       await new Promise((r) => setTimeout(r, 100));
       const res = await fetch(`${running.url}/api/dev/mailbox?siteId=${site.fern}`, { headers: bearer(tokens.admin) });
       expect(res.status).toBe(200);
-      found = ((await res.json()) as { messages: { subject: string; text: string }[] }).messages.find((m) => m.subject === 'through the loop');
+      found = ((await res.json()) as { messages: { subject: string; text: string }[] }).messages.find(
+        (m) => m.subject === 'through the loop',
+      );
     }
     expect(found?.text).toBe('queued, sent, received');
   } finally {

@@ -8,7 +8,13 @@ import type { DataSource } from 'typeorm';
 import { runAnalysisJob } from '../../server/analysis/job';
 import { makeLogger } from '../../server/logger';
 import { startFakeSmtp } from '../../server/mail/fake-smtp';
-import { HAZARD_CAUTION, makeMailNotifier, sqlNotifierSource, type DigestFinding, type NotifierSource } from '../../server/mail/notifier';
+import {
+  HAZARD_CAUTION,
+  makeMailNotifier,
+  sqlNotifierSource,
+  type DigestFinding,
+  type NotifierSource,
+} from '../../server/mail/notifier';
 import { deliverDue, smtpTransport } from '../../server/mail/outbox';
 import { localParts, shiftAt, zonedTime } from '../../server/mail/shifts';
 import { DEFAULT_FAULTS } from '../../server/seed/history-generator';
@@ -35,14 +41,17 @@ beforeAll(async () => {
     ['planner2@fernhallow.example', false],
     ['former.planner@fernhallow.example', true],
   ] as const) {
-    const [u] = (await ds.query(`INSERT INTO "users" ("email", "name", "password_hash", "disabled") VALUES ($1, $2, 'x', $3) RETURNING "id"`, [
-      email,
-      email.split('@')[0],
-      disabled,
-    ])) as { id: string }[];
-    await ds.query(`INSERT INTO "memberships" ("user_id", "site_id", "role") VALUES ($1, $2, 'planner')`, [u.id, fern.id]);
+    const [u] = (await ds.query(
+      `INSERT INTO "users" ("email", "name", "password_hash", "disabled") VALUES ($1, $2, 'x', $3) RETURNING "id"`,
+      [email, email.split('@')[0], disabled],
+    )) as { id: string }[];
+    await ds.query(`INSERT INTO "memberships" ("user_id", "site_id", "role") VALUES ($1, $2, 'planner')`, [
+      u.id,
+      fern.id,
+    ]);
   }
-  for (const r of (await ds.query(`SELECT "id", "email" FROM "users"`)) as { id: string; email: string }[]) userIds[r.email] = r.id;
+  for (const r of (await ds.query(`SELECT "id", "email" FROM "users"`)) as { id: string; email: string }[])
+    userIds[r.email] = r.id;
 });
 afterAll(() => db?.drop());
 beforeEach(async () => {
@@ -50,7 +59,9 @@ beforeEach(async () => {
 });
 
 const outbox = async () =>
-  (await ds.query(`SELECT "to_address", "subject", "text", "dedupe_key" FROM "mail_outbox" ORDER BY "to_address", "created_at"`)) as {
+  (await ds.query(
+    `SELECT "to_address", "subject", "text", "dedupe_key" FROM "mail_outbox" ORDER BY "to_address", "created_at"`,
+  )) as {
     to_address: string;
     subject: string;
     text: string;
@@ -59,7 +70,10 @@ const outbox = async () =>
 
 let woNumber = 100;
 /** A work order row as the work-order code writes it (one open order per instrument and kind: closed afterwards). */
-async function workOrder(priority: number, title = 'Calibrate TI-301 (Deaerator outlet temperature): saturation mismatch'): Promise<string> {
+async function workOrder(
+  priority: number,
+  title = 'Calibrate TI-301 (Deaerator outlet temperature): saturation mismatch',
+): Promise<string> {
   const n = ++woNumber;
   const [w] = (await ds.query(
     `INSERT INTO "work_orders" ("site_id", "unit_id", "number", "code", "kind", "priority", "title", "instrument_id", "instrument_tag")
@@ -69,7 +83,9 @@ async function workOrder(priority: number, title = 'Calibrate TI-301 (Deaerator 
   return w.id;
 }
 afterEach(async () => {
-  await ds.query(`UPDATE "work_orders" SET "status" = 'done', "closed_at" = now() WHERE "number" > 100 AND "status" <> 'done'`);
+  await ds.query(
+    `UPDATE "work_orders" SET "status" = 'done', "closed_at" = now() WHERE "number" > 100 AND "status" <> 'done'`,
+  );
 });
 
 describe('work orders', () => {
@@ -81,7 +97,9 @@ describe('work orders', () => {
     const mails = await outbox();
     expect(mails.map((m) => m.to_address)).toEqual(['planner2@fernhallow.example', 'planner@fernhallow.example']);
     const m = mails.find((x) => x.to_address === 'planner@fernhallow.example')!;
-    expect(m.subject).toBe(`[Trueround] Priority 1 work order WO-0${woNumber} opened: Calibrate TI-301 (Deaerator outlet temperature): saturation mismatch`);
+    expect(m.subject).toBe(
+      `[Trueround] Priority 1 work order WO-0${woNumber} opened: Calibrate TI-301 (Deaerator outlet temperature): saturation mismatch`,
+    );
     expect(m.text).toContain('Hello Morgan Tilly,');
     expect(m.text).toContain(`Work order: WO-0${woNumber}\n`);
     expect(m.text).toContain('Title: Calibrate TI-301 (Deaerator outlet temperature): saturation mismatch\n');
@@ -89,7 +107,9 @@ describe('work orders', () => {
     expect(m.text).toContain('Priority: 1 (urgent)\n');
     expect(m.text).toContain(`Open it: /plan/work-orders/${id}\n`);
     expect(m.text).toContain(HAZARD_CAUTION);
-    expect(HAZARD_CAUTION).toBe("Work on pressurised or hot equipment only under your site's permit and isolation procedures.");
+    expect(HAZARD_CAUTION).toBe(
+      "Work on pressurised or hot equipment only under your site's permit and isolation procedures.",
+    );
     expect(m.text).toContain('you are a planner on Fernhallow Works');
   });
 
@@ -113,12 +133,16 @@ describe('work orders', () => {
     const [m, ...rest] = await outbox();
     expect(rest).toEqual([]);
     expect(m.to_address).toBe('tech@fernhallow.example');
-    expect(m.subject).toBe(`[Trueround] Work order WO-0${woNumber} assigned to you: Repair PI-402 (Condenser absolute pressure): stuck value`);
+    expect(m.subject).toBe(
+      `[Trueround] Work order WO-0${woNumber} assigned to you: Repair PI-402 (Condenser absolute pressure): stuck value`,
+    );
     expect(m.text).toContain('Hello Robin Aske,');
     expect(m.text).toContain('Priority: 2\n');
     expect(m.text).toContain(`Open it: https://trueround.example/plan/work-orders/${id}\n`);
     expect(m.text).toContain(HAZARD_CAUTION);
-    await expect(notifier.assigned(id, userIds['planner@brackenmoor.example'])).rejects.toThrow(/is not an active member of site/);
+    await expect(notifier.assigned(id, userIds['planner@brackenmoor.example'])).rejects.toThrow(
+      /is not an active member of site/,
+    );
     await expect(notifier.workOrderOpened('00000000-0000-4000-8000-000000000000')).rejects.toThrow(/no work order/);
   });
 });
@@ -127,16 +151,47 @@ describe('shift digest (fixture findings)', () => {
   const tz = 'Europe/London';
   const morning = zonedTime(2026, 11, 30, 6, 0, tz);
   const findings: DigestFinding[] = [
-    { roundId: 'r1', routeName: 'Boiler house', at: zonedTime(2026, 11, 30, 7, 10, tz), kind: 'saturation-mismatch', severity: 2, message: 'At the deaerator outlet TI-301 reads 148.9 °C …', instrumentTags: ['TI-301', 'PI-301'] },
-    { roundId: 'r2', routeName: 'Condenser and cooling water', at: zonedTime(2026, 11, 30, 8, 30, tz), kind: 'gross-error', severity: 1, message: 'PI-402 reads 1.2 kPa below what the condenser balances allow.', instrumentTags: ['PI-402'] },
-    { roundId: 'r3', routeName: 'Boiler house', at: zonedTime(2026, 11, 30, 9, 5, tz), kind: 'saturation-mismatch', severity: 2, message: 'At the deaerator outlet TI-301 reads 149.0 °C …', instrumentTags: ['PI-301', 'TI-301'] },
+    {
+      roundId: 'r1',
+      routeName: 'Boiler house',
+      at: zonedTime(2026, 11, 30, 7, 10, tz),
+      kind: 'saturation-mismatch',
+      severity: 2,
+      message: 'At the deaerator outlet TI-301 reads 148.9 °C …',
+      instrumentTags: ['TI-301', 'PI-301'],
+    },
+    {
+      roundId: 'r2',
+      routeName: 'Condenser and cooling water',
+      at: zonedTime(2026, 11, 30, 8, 30, tz),
+      kind: 'gross-error',
+      severity: 1,
+      message: 'PI-402 reads 1.2 kPa below what the condenser balances allow.',
+      instrumentTags: ['PI-402'],
+    },
+    {
+      roundId: 'r3',
+      routeName: 'Boiler house',
+      at: zonedTime(2026, 11, 30, 9, 5, tz),
+      kind: 'saturation-mismatch',
+      severity: 2,
+      message: 'At the deaerator outlet TI-301 reads 149.0 °C …',
+      instrumentTags: ['PI-301', 'TI-301'],
+    },
   ];
-  const source = (): NotifierSource => ({ ...sqlNotifierSource(ds), findings: async (_s, start) => (start.getTime() === morning.getTime() ? findings : []) });
+  const source = (): NotifierSource => ({
+    ...sqlNotifierSource(ds),
+    findings: async (_s, start) => (start.getTime() === morning.getTime() ? findings : []),
+  });
 
   test("the site's engineers get one digest once the shift has closed, listing the findings most urgent first", async () => {
     const open = makeMailNotifier({ dataSource: ds, source: source(), now: () => zonedTime(2026, 11, 30, 13, 59, tz) });
     expect(await open.sendDigest(fern.id, morning)).toBe(0); // the shift is still running
-    const closed = makeMailNotifier({ dataSource: ds, source: source(), now: () => zonedTime(2026, 11, 30, 14, 0, tz) });
+    const closed = makeMailNotifier({
+      dataSource: ds,
+      source: source(),
+      now: () => zonedTime(2026, 11, 30, 14, 0, tz),
+    });
     expect(await closed.sendDigest(fern.id, morning)).toBe(1);
     expect(await closed.sendDigest(fern.id, morning)).toBe(0); // once
     expect(await closed.digestClosedShifts()).toBe(0); // the same shift, already sent
@@ -144,7 +199,9 @@ describe('shift digest (fixture findings)', () => {
     expect(rest).toEqual([]);
     expect(m.to_address).toBe('engineer@fernhallow.example');
     expect(m.subject).toBe('[Trueround] Fernhallow Works: 2 findings from the morning shift of 2026-11-30 (1 urgent)');
-    expect(m.text).toContain('The round analyses of the morning shift of 2026-11-30 (06:00–14:00 Europe/London) at Fernhallow Works found:');
+    expect(m.text).toContain(
+      'The round analyses of the morning shift of 2026-11-30 (06:00–14:00 Europe/London) at Fernhallow Works found:',
+    );
     const items = m.text.split('\n').filter((l) => l.startsWith('- '));
     expect(items).toEqual([
       '- [urgent] PI-402 reads 1.2 kPa below what the condenser balances allow. (Condenser and cooling water, 08:30)',
@@ -155,7 +212,9 @@ describe('shift digest (fixture findings)', () => {
 
   test('sendDigest needs a shift start; a shift without findings sends nothing', async () => {
     const n = makeMailNotifier({ dataSource: ds, source: source(), now: () => new Date('2026-12-31T00:00:00Z') });
-    await expect(n.sendDigest(fern.id, zonedTime(2026, 11, 30, 7, 0, tz))).rejects.toThrow(/is not the start of a shift in Europe\/London/);
+    await expect(n.sendDigest(fern.id, zonedTime(2026, 11, 30, 7, 0, tz))).rejects.toThrow(
+      /is not the start of a shift in Europe\/London/,
+    );
     expect(await n.sendDigest(fern.id, zonedTime(2026, 11, 30, 14, 0, tz))).toBe(0);
     expect(await n.sendDigest(brack.id, zonedTime(2026, 11, 30, 6, 0, tz))).toBe(0);
   });
@@ -180,7 +239,10 @@ test('end to end: analysed rounds open priority-1 work orders, planners and engi
   const logger = makeLogger({ LOG_LEVEL: 'silent' });
   for (const r of rounds) await runAnalysisJob({ dataSource: ds, logger, notify }, r.id);
 
-  const p1 = (await ds.query(`SELECT "id", "code" FROM "work_orders" WHERE "site_id" = $1 AND "priority" = 1 AND "number" < 100`, [fern.id])) as {
+  const p1 = (await ds.query(
+    `SELECT "id", "code" FROM "work_orders" WHERE "site_id" = $1 AND "priority" = 1 AND "number" < 100`,
+    [fern.id],
+  )) as {
     id: string;
     code: string;
   }[];
@@ -205,14 +267,23 @@ test('end to end: analysed rounds open priority-1 work orders, planners and engi
   const dead = smtpTransport('smtp://127.0.0.1:1');
   expect((await deliverDue(ds, dead, { from: 'trueround@localhost', batch: 100 })).sent).toBe(0);
   dead.close();
-  expect(((await ds.query(`SELECT count(*)::int AS n FROM "work_orders" WHERE "priority" = 1 AND "number" < 100`)) as { n: number }[])[0].n).toBe(p1.length);
+  expect(
+    (
+      (await ds.query(`SELECT count(*)::int AS n FROM "work_orders" WHERE "priority" = 1 AND "number" < 100`)) as {
+        n: number;
+      }[]
+    )[0].n,
+  ).toBe(p1.length);
   // the fake up, due again: all delivered
   await ds.query(`UPDATE "mail_outbox" SET "next_attempt_at" = now()`);
   const fake = await startFakeSmtp({ host: '127.0.0.1', port: 0, dataSource: ds });
   const t = smtpTransport(fake.url);
   try {
     expect((await deliverDue(ds, t, { from: 'trueround@localhost', batch: 100 })).sent).toBe(mails.length);
-    const got = (await ds.query(`SELECT "to_addresses", "subject" FROM "mail_messages"`)) as { to_addresses: string[]; subject: string }[];
+    const got = (await ds.query(`SELECT "to_addresses", "subject" FROM "mail_messages"`)) as {
+      to_addresses: string[];
+      subject: string;
+    }[];
     expect(got.map((g) => g.subject).sort()).toEqual(mails.map((m) => m.subject).sort());
   } finally {
     t.close();

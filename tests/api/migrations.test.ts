@@ -22,7 +22,9 @@ const tables = async () =>
     )) as { table_name: string }[]
   ).map((r) => r.table_name);
 const enumTypes = async () =>
-  ((await db.dataSource.query(`select typname from pg_type where typtype = 'e' order by 1`)) as { typname: string }[]).map((r) => r.typname);
+  (
+    (await db.dataSource.query(`select typname from pg_type where typtype = 'e' order by 1`)) as { typname: string }[]
+  ).map((r) => r.typname);
 
 test('migration class names end in a 13-digit timestamp, strictly increasing (TypeORM requires it)', () => {
   const stamps = MIGRATIONS.map((m) => {
@@ -36,14 +38,38 @@ test('migration class names end in a 13-digit timestamp, strictly increasing (Ty
 
 /** Every table and enum type the migrations create, sorted (a new migration adds its own here). */
 const ALL_TABLES = [
-  'analyses', 'analysis_instruments', 'calibration_records', 'check_answers', 'findings', 'instruments',
-  'mail_messages', 'mail_outbox', 'memberships', 'photos', 'readings', 'refresh_tokens', 'rounds',
-  'route_versions', 'routes', 'sites', 'units', 'users', 'work_order_counters', 'work_order_events',
-  'work_order_findings', 'work_orders',
+  'analyses',
+  'analysis_instruments',
+  'calibration_records',
+  'check_answers',
+  'findings',
+  'instruments',
+  'mail_messages',
+  'mail_outbox',
+  'memberships',
+  'photos',
+  'readings',
+  'refresh_tokens',
+  'rounds',
+  'route_versions',
+  'routes',
+  'sites',
+  'units',
+  'users',
+  'work_order_counters',
+  'work_order_events',
+  'work_order_findings',
+  'work_orders',
 ];
 const ALL_ENUMS = [
-  'instrument_quantity', 'instrument_status', 'membership_role', 'photo_status', 'pressure_reference', 'round_status',
-  'work_order_kind', 'work_order_status',
+  'instrument_quantity',
+  'instrument_status',
+  'membership_role',
+  'photo_status',
+  'pressure_reference',
+  'round_status',
+  'work_order_kind',
+  'work_order_status',
 ];
 
 test('up, the schema matches the entities, down to nothing, and up again', async () => {
@@ -60,7 +86,9 @@ test('up, the schema matches the entities, down to nothing, and up again', async
   // The comparison sees real differences (so the empty diff above means something).
   await db.dataSource.query(`alter table "sites" drop constraint "uq_sites_slug"`);
   const drift = await db.dataSource.driver.createSchemaBuilder().log();
-  expect(drift.upQueries.map((q) => q.query).join('\n')).toMatch(/ALTER TABLE "sites" ADD CONSTRAINT "\w+" UNIQUE \("slug"\)/);
+  expect(drift.upQueries.map((q) => q.query).join('\n')).toMatch(
+    /ALTER TABLE "sites" ADD CONSTRAINT "\w+" UNIQUE \("slug"\)/,
+  );
   await db.dataSource.query(`alter table "sites" add constraint "uq_sites_slug" unique ("slug")`);
 
   for (let i = 0; i < MIGRATIONS.length; i++) await db.dataSource.undoLastMigration();
@@ -73,9 +101,13 @@ test('up, the schema matches the entities, down to nothing, and up again', async
 
 test('the database keeps e-mails lower-case and unique', async () => {
   const users = db.dataSource.getRepository(UserEntity);
-  await expect(users.save({ email: 'Upper@Example.test', name: 'X', passwordHash: 'x', disabled: false })).rejects.toThrow(/ck_users_email_lower/);
+  await expect(
+    users.save({ email: 'Upper@Example.test', name: 'X', passwordHash: 'x', disabled: false }),
+  ).rejects.toThrow(/ck_users_email_lower/);
   await users.save({ email: 'one@example.test', name: 'X', passwordHash: 'x', disabled: false });
-  await expect(users.insert({ email: 'one@example.test', name: 'Y', passwordHash: 'x', disabled: false })).rejects.toThrow(/uq_users_email/);
+  await expect(
+    users.insert({ email: 'one@example.test', name: 'Y', passwordHash: 'x', disabled: false }),
+  ).rejects.toThrow(/uq_users_email/);
   await users.delete({ email: 'one@example.test' });
 });
 
@@ -89,7 +121,9 @@ test('seedDemo loads the demo once; a second run does nothing', async () => {
   const fern = await db.dataSource.getRepository(SiteEntity).findOneByOrFail({ slug: 'fernhallow' });
   expect(fern).toMatchObject({ name: 'Fernhallow Works', timezone: 'Europe/London', elevationM: 112 });
   // One membership per user and site.
-  const planner = await db.dataSource.getRepository(UserEntity).findOneByOrFail({ email: 'planner@fernhallow.example' });
+  const planner = await db.dataSource
+    .getRepository(UserEntity)
+    .findOneByOrFail({ email: 'planner@fernhallow.example' });
   await expect(
     db.dataSource.getRepository(MembershipEntity).insert({ userId: planner.id, siteId: fern.id, role: 'admin' }),
   ).rejects.toThrow(/uq_memberships_user_site/);

@@ -43,7 +43,13 @@ let app: Express;
 
 beforeAll(async () => {
   dir = mkdtempSync(path.join(tmpdir(), 'tr-s3-'));
-  fake = new S3rver({ address: '127.0.0.1', port: 0, silent: true, directory: dir, configureBuckets: [{ name: BUCKET }] });
+  fake = new S3rver({
+    address: '127.0.0.1',
+    port: 0,
+    silent: true,
+    directory: dir,
+    configureBuckets: [{ name: BUCKET }],
+  });
   const { port } = await fake.run();
   endpoint = `http://127.0.0.1:${port}`;
   store = new S3PhotoStore({
@@ -98,7 +104,9 @@ test('the S3 driver refuses unsafe keys before any request', async () => {
 test('through the app (PHOTO_STORE=s3): a pushed photo uploads into the bucket with its thumbnail and streams back', async () => {
   const tech = (await signIn(app, demoUser('technician').email)).accessToken;
   const route = await db.dataSource.getRepository(RouteEntity).findOneByOrFail({ key: 'turbine-hall' });
-  const ji601 = await db.dataSource.getRepository(InstrumentEntity).findOneByOrFail({ tag: 'JI-601', unitId: route.unitId });
+  const ji601 = await db.dataSource
+    .getRepository(InstrumentEntity)
+    .findOneByOrFail({ tag: 'JI-601', unitId: route.unitId });
   const jpeg = await sharp({ create: { width: 800, height: 600, channels: 3, background: '#223344' } })
     .withExif({ IFD0: { Artist: 'Trueround test camera' } })
     .jpeg()
@@ -114,12 +122,32 @@ test('through the app (PHOTO_STORE=s3): a pushed photo uploads into the bucket w
       payloadVersion: 2,
       deviceId: 's3-test',
       sentAt: t,
-      rounds: [{ id: roundId, routeVersionId: route.currentVersionId, startedAt: t, status: 'in-progress', dismissals: [] }],
+      rounds: [
+        { id: roundId, routeVersionId: route.currentVersionId, startedAt: t, status: 'in-progress', dismissals: [] },
+      ],
       readings: [
-        { id: readingId, roundId, instrumentId: ji601.id, valueTyped: 21.9, unit: 'MW', deviceTime: t, confirmedAfterFlag: false, flags: [] },
+        {
+          id: readingId,
+          roundId,
+          instrumentId: ji601.id,
+          valueTyped: 21.9,
+          unit: 'MW',
+          deviceTime: t,
+          confirmedAfterFlag: false,
+          flags: [],
+        },
       ],
       checkAnswers: [],
-      photos: [{ id: photoId, roundId, readingId, sha256: createHash('sha256').update(jpeg).digest('hex'), mime: 'image/jpeg', bytes: jpeg.length }],
+      photos: [
+        {
+          id: photoId,
+          roundId,
+          readingId,
+          sha256: createHash('sha256').update(jpeg).digest('hex'),
+          mime: 'image/jpeg',
+          bytes: jpeg.length,
+        },
+      ],
     });
   expect(push.status).toBe(200);
   expect(push.body.photosWanted).toEqual([photoId]);
@@ -151,11 +179,20 @@ test('through the app (PHOTO_STORE=s3): a pushed photo uploads into the bucket w
 
 test('config: PHOTO_STORE=s3 without a bucket stops the server naming PHOTO_S3_BUCKET; a bad endpoint is named too', () => {
   const base = { DATABASE_URL: db.url, JWT_SECRET: 'x'.repeat(32) };
-  expect(() => loadConfig({ ...base, PHOTO_STORE: 's3' })).toThrow(new ConfigError('Config: PHOTO_S3_BUCKET is required when PHOTO_STORE is s3'));
-  expect(() => loadConfig({ ...base, PHOTO_STORE: 's3', PHOTO_S3_BUCKET: BUCKET, PHOTO_S3_ENDPOINT: 'localhost:9000' })).toThrow(
-    'Config: PHOTO_S3_ENDPOINT must be an http:// or https:// URL',
+  expect(() => loadConfig({ ...base, PHOTO_STORE: 's3' })).toThrow(
+    new ConfigError('Config: PHOTO_S3_BUCKET is required when PHOTO_STORE is s3'),
   );
-  expect(() => loadConfig({ ...base, PHOTO_MAX_BYTES: '10' })).toThrow('Config: PHOTO_MAX_BYTES must be between 1024 and 104857600, got 10');
+  expect(() =>
+    loadConfig({ ...base, PHOTO_STORE: 's3', PHOTO_S3_BUCKET: BUCKET, PHOTO_S3_ENDPOINT: 'localhost:9000' }),
+  ).toThrow('Config: PHOTO_S3_ENDPOINT must be an http:// or https:// URL');
+  expect(() => loadConfig({ ...base, PHOTO_MAX_BYTES: '10' })).toThrow(
+    'Config: PHOTO_MAX_BYTES must be between 1024 and 104857600, got 10',
+  );
   expect(() => loadConfig({ ...base, PHOTO_STORE: 'ftp' })).toThrow('Config: PHOTO_STORE must be one of local, s3');
-  expect(loadConfig(base)).toMatchObject({ PHOTO_STORE: 'local', PHOTO_DIR: '.data/photos', PHOTO_MAX_BYTES: 10 * 1024 * 1024, PHOTO_S3_FORCE_PATH_STYLE: true });
+  expect(loadConfig(base)).toMatchObject({
+    PHOTO_STORE: 'local',
+    PHOTO_DIR: '.data/photos',
+    PHOTO_MAX_BYTES: 10 * 1024 * 1024,
+    PHOTO_S3_FORCE_PATH_STYLE: true,
+  });
 });

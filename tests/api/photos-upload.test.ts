@@ -43,7 +43,8 @@ beforeAll(async () => {
   }
   const route = await db.dataSource.getRepository(RouteEntity).findOneByOrFail({ key: 'boiler-house' });
   routeVersionId = route.currentVersionId!;
-  pi101 = (await db.dataSource.getRepository(InstrumentEntity).findOneByOrFail({ tag: 'PI-101', unitId: route.unitId })).id;
+  pi101 = (await db.dataSource.getRepository(InstrumentEntity).findOneByOrFail({ tag: 'PI-101', unitId: route.unitId }))
+    .id;
 });
 afterAll(async () => {
   await db?.drop();
@@ -59,7 +60,10 @@ function hasGpsIfd(exif: Buffer): boolean {
 const sha = (b: Buffer) => createHash('sha256').update(b).digest('hex');
 
 /** Pushes a round with one reading and announces each photo (bytes → its sha256); returns the photo ids. */
-async function announce(photos: { bytes: Buffer; mime?: PushRequestV2['photos'][number]['mime']; sha?: string }[], token = tokens.tech) {
+async function announce(
+  photos: { bytes: Buffer; mime?: PushRequestV2['photos'][number]['mime']; sha?: string }[],
+  token = tokens.tech,
+) {
   const roundId = randomUUID();
   const readingId = randomUUID();
   const t = new Date().toISOString();
@@ -70,7 +74,17 @@ async function announce(photos: { bytes: Buffer; mime?: PushRequestV2['photos'][
     sentAt: t,
     rounds: [{ id: roundId, routeVersionId, startedAt: t, status: 'in-progress', dismissals: [] }],
     readings: [
-      { id: readingId, roundId, instrumentId: pi101, valueTyped: 67, unit: 'bar', reference: 'gauge', deviceTime: t, confirmedAfterFlag: false, flags: [] },
+      {
+        id: readingId,
+        roundId,
+        instrumentId: pi101,
+        valueTyped: 67,
+        unit: 'bar',
+        reference: 'gauge',
+        deviceTime: t,
+        confirmedAfterFlag: false,
+        flags: [],
+      },
     ],
     checkAnswers: [],
     photos: photos.map((p, k) => ({
@@ -151,8 +165,17 @@ test('an upload stores the photo and a ≤ 320 px thumbnail, turned upright, wit
   expect(Math.max(t.width!, t.height!)).toBeLessThanOrEqual(320);
   expect(t.exif).toBeUndefined();
 
-  const [row] = await db.dataSource.query(`SELECT status, storage_key, thumb_key, width, height FROM photos WHERE id = $1`, [ids[0]]);
-  expect(row).toEqual({ status: 'stored', storage_key: `photos/${ids[0]}.jpg`, thumb_key: `thumbs/${ids[0]}.jpg`, width: 900, height: 1200 });
+  const [row] = await db.dataSource.query(
+    `SELECT status, storage_key, thumb_key, width, height FROM photos WHERE id = $1`,
+    [ids[0]],
+  );
+  expect(row).toEqual({
+    status: 'stored',
+    storage_key: `photos/${ids[0]}.jpg`,
+    thumb_key: `thumbs/${ids[0]}.jpg`,
+    width: 900,
+    height: 1200,
+  });
   expect(existsSync(path.join(dir, 'photos', `${ids[0]}.jpg`))).toBe(true);
 });
 
@@ -168,9 +191,18 @@ test('a second upload of a stored photo → 200 stored:true; a replayed push no 
 });
 
 test('PNG stays PNG; an AVIF (HEIF container) photo is decoded and stored as JPEG', async () => {
-  const png = await sharp({ create: { width: 400, height: 100, channels: 4, background: { r: 10, g: 200, b: 10, alpha: 0.5 } } }).png().toBuffer();
-  const avif = await sharp({ create: { width: 640, height: 480, channels: 3, background: '#884422' } }).avif().toBuffer();
-  const { ids } = await announce([{ bytes: png, mime: 'image/png' }, { bytes: avif, mime: 'image/heif' }]);
+  const png = await sharp({
+    create: { width: 400, height: 100, channels: 4, background: { r: 10, g: 200, b: 10, alpha: 0.5 } },
+  })
+    .png()
+    .toBuffer();
+  const avif = await sharp({ create: { width: 640, height: 480, channels: 3, background: '#884422' } })
+    .avif()
+    .toBuffer();
+  const { ids } = await announce([
+    { bytes: png, mime: 'image/png' },
+    { bytes: avif, mime: 'image/heif' },
+  ]);
   const a = await upload(ids[0], png, app, tokens.tech, 'g.png');
   expect(a.status).toBe(201);
   expect(a.body).toMatchObject({ mime: 'image/png', width: 400, height: 100, thumbWidth: 320, thumbHeight: 80 });
@@ -181,7 +213,9 @@ test('PNG stays PNG; an AVIF (HEIF container) photo is decoded and stored as JPE
 
 test('a non-image upload → 415 unsupported_media_type; a GIF too; nothing stored', async () => {
   const text = Buffer.from('this is a shopping list, not a gauge');
-  const gif = await sharp({ create: { width: 8, height: 8, channels: 3, background: '#ff0000' } }).gif().toBuffer();
+  const gif = await sharp({ create: { width: 8, height: 8, channels: 3, background: '#ff0000' } })
+    .gif()
+    .toBuffer();
   const { ids } = await announce([{ bytes: text }, { bytes: gif }]);
   const r1 = await upload(ids[0], text, app, tokens.tech, 'list.txt');
   expect(r1.status).toBe(415);
@@ -248,9 +282,16 @@ test('who: an unannounced id → 404; another technician’s round → 403; GET 
 test('the photo must come as multipart field "photo"', async () => {
   const jpeg = await cameraJpeg();
   const { ids } = await announce([{ bytes: jpeg }]);
-  const wrongField = await request(app).post(`/api/photos/${ids[0]}`).set(bearer(tokens.tech)).attach('image', jpeg, 'g.jpg');
+  const wrongField = await request(app)
+    .post(`/api/photos/${ids[0]}`)
+    .set(bearer(tokens.tech))
+    .attach('image', jpeg, 'g.jpg');
   expect(wrongField.status).toBe(400);
   expect(wrongField.body.error.message).toContain('"photo"');
-  const raw = await request(app).post(`/api/photos/${ids[0]}`).set(bearer(tokens.tech)).set('Content-Type', 'image/jpeg').send(jpeg);
+  const raw = await request(app)
+    .post(`/api/photos/${ids[0]}`)
+    .set(bearer(tokens.tech))
+    .set('Content-Type', 'image/jpeg')
+    .send(jpeg);
   expect(raw.status).toBe(415);
 });

@@ -62,13 +62,60 @@ function baseBatch(): Batch {
     payloadVersion: 2,
     deviceId: 'fuzz-phone',
     sentAt: now(),
-    rounds: [{ id: roundId, routeVersionId: versionId, startedAt: now(), finishedAt: null, status: 'in-progress', dismissals: [], modelVersion: 'fnv1a64:0123456789abcdef' }],
-    readings: [
-      { id: readingId, roundId, instrumentId: inst['TI-101'], valueTyped: 284, unit: '°C', reference: null, deviceTime: now(), note: null, skipReason: null, supersedes: null, confirmedAfterFlag: false, flags: [] },
-      { id: randomUUID(), roundId, instrumentId: inst['PI-101'], valueTyped: 67, unit: 'bar', reference: 'gauge', deviceTime: now(), note: 'steady', skipReason: null, supersedes: null, confirmedAfterFlag: false, flags: [] },
+    rounds: [
+      {
+        id: roundId,
+        routeVersionId: versionId,
+        startedAt: now(),
+        finishedAt: null,
+        status: 'in-progress',
+        dismissals: [],
+        modelVersion: 'fnv1a64:0123456789abcdef',
+      },
     ],
-    checkAnswers: [{ id: randomUUID(), roundId, checkId: 'drum-glass-clear', answer: { kind: 'yes-no', value: true }, note: null, deviceTime: now() }],
-    photos: [{ id: randomUUID(), roundId, readingId, checkId: null, sha256: 'a'.repeat(64), mime: 'image/jpeg', bytes: 1234 }],
+    readings: [
+      {
+        id: readingId,
+        roundId,
+        instrumentId: inst['TI-101'],
+        valueTyped: 284,
+        unit: '°C',
+        reference: null,
+        deviceTime: now(),
+        note: null,
+        skipReason: null,
+        supersedes: null,
+        confirmedAfterFlag: false,
+        flags: [],
+      },
+      {
+        id: randomUUID(),
+        roundId,
+        instrumentId: inst['PI-101'],
+        valueTyped: 67,
+        unit: 'bar',
+        reference: 'gauge',
+        deviceTime: now(),
+        note: 'steady',
+        skipReason: null,
+        supersedes: null,
+        confirmedAfterFlag: false,
+        flags: [],
+      },
+    ],
+    checkAnswers: [
+      {
+        id: randomUUID(),
+        roundId,
+        checkId: 'drum-glass-clear',
+        answer: { kind: 'yes-no', value: true },
+        note: null,
+        deviceTime: now(),
+      },
+    ],
+    photos: [
+      { id: randomUUID(), roundId, readingId, checkId: null, sha256: 'a'.repeat(64), mime: 'image/jpeg', bytes: 1234 },
+    ],
   };
 }
 
@@ -77,7 +124,10 @@ const validFlag: Json = { code: 'out-of-range', message: 'above the gauge range'
 
 // ---------------------------------------------------------------- mutations
 
-type Expect = { status: 400; code: 'validation'; path: string } | { status: 400; code: 'bad_json' } | { status: 413; code: 'too_large' };
+type Expect =
+  | { status: 400; code: 'validation'; path: string }
+  | { status: 400; code: 'bad_json' }
+  | { status: 413; code: 'too_large' };
 
 interface Mutation {
   /** what was done, for the counterexample */
@@ -111,7 +161,11 @@ function nested(depth: number, asArray: boolean): Json {
 const deep = fc.tuple(fc.integer({ min: 20, max: 3000 }), fc.boolean()).map(([d, a]) => nested(d, a));
 const jsonNumber = fc.double({ noNaN: true, noDefaultInfinity: true });
 const someString = fc.string({ maxLength: 20 });
-const someObject = fc.dictionary(fc.string({ minLength: 1, maxLength: 5 }), fc.oneof(fc.integer(), fc.string({ maxLength: 5 })), { maxKeys: 3 });
+const someObject = fc.dictionary(
+  fc.string({ minLength: 1, maxLength: 5 }),
+  fc.oneof(fc.integer(), fc.string({ maxLength: 5 })),
+  { maxKeys: 3 },
+);
 const someArray = fc.array(fc.oneof(fc.integer(), fc.string({ maxLength: 5 })), { maxLength: 3 });
 
 type JsonType = 'string' | 'number' | 'boolean' | 'object' | 'array' | 'null';
@@ -143,16 +197,35 @@ interface Field {
 }
 
 const UUID_RE = /^[0-9a-f]{8}-[0-9a-f]{4}-[1-8][0-9a-f]{3}-[89ab][0-9a-f]{3}-[0-9a-f]{12}$/i;
-const notUuid = fc.oneof(someString, fc.uuid().map((u) => u.slice(0, -1) + 'g'), fc.uuid().map((u) => u.replace(/-/g, ''))).filter((s) => !UUID_RE.test(s));
+const notUuid = fc
+  .oneof(
+    someString,
+    fc.uuid().map((u) => u.slice(0, -1) + 'g'),
+    fc.uuid().map((u) => u.replace(/-/g, '')),
+  )
+  .filter((s) => !UUID_RE.test(s));
 const notDateTime = fc.oneof(
   fc.stringMatching(/^[a-zA-Z ]{0,20}$/),
-  fc.constantFrom('2025-11-30', '2025-11-30T07:42:10', '30/11/2025 07:42', '2025-13-01T00:00:00Z', 'yesterday', '1732952530'),
+  fc.constantFrom(
+    '2025-11-30',
+    '2025-11-30T07:42:10',
+    '30/11/2025 07:42',
+    '2025-13-01T00:00:00Z',
+    'yesterday',
+    '1732952530',
+  ),
 );
-const tooLong = (max: number) => fc.integer({ min: max + 1, max: Math.max(max + 50, 200_000) }).map((n) => 'x'.repeat(n));
+const tooLong = (max: number) =>
+  fc.integer({ min: max + 1, max: Math.max(max + 50, 200_000) }).map((n) => 'x'.repeat(n));
 const notIn = (values: string[]) => someString.filter((s) => !values.includes(s));
-const copies = (item: Json, min: number, max: number) => fc.integer({ min, max }).map((n) => Array.from({ length: n }, () => item));
+const copies = (item: Json, min: number, max: number) =>
+  fc.integer({ min, max }).map((n) => Array.from({ length: n }, () => item));
 
-const str = (at: Field['at'], max: number, opts: { min1?: boolean; nullable?: boolean; required?: boolean } = {}): Field => ({
+const str = (
+  at: Field['at'],
+  max: number,
+  opts: { min1?: boolean; nullable?: boolean; required?: boolean } = {},
+): Field => ({
   at,
   types: opts.nullable ? ['string', 'null'] : ['string'],
   required: opts.required ?? true,
@@ -172,7 +245,16 @@ const dateTime = (at: Field['at'], opts: { nullable?: boolean; required?: boolea
 });
 
 const FIELDS: Field[] = [
-  { at: ['payloadVersion'], types: ['number'], required: true, bad: fc.oneof(fc.integer().filter((n) => n !== 1 && n !== 2), jsonNumber.filter((x) => x !== 1 && x !== 2), fc.constant('2')) },
+  {
+    at: ['payloadVersion'],
+    types: ['number'],
+    required: true,
+    bad: fc.oneof(
+      fc.integer().filter((n) => n !== 1 && n !== 2),
+      jsonNumber.filter((x) => x !== 1 && x !== 2),
+      fc.constant('2'),
+    ),
+  },
   str(['deviceId'], 128, { min1: true }),
   dateTime(['sentAt']),
   // rounds
@@ -194,14 +276,27 @@ const FIELDS: Field[] = [
     types: ['number', 'null'],
     required: true,
     raw: true,
-    bad: fc.oneof(fc.double({ min: 1e12, max: 1e300, minExcluded: true, noNaN: true }), fc.double({ min: -1e300, max: -1e12, maxExcluded: true, noNaN: true })),
+    bad: fc.oneof(
+      fc.double({ min: 1e12, max: 1e300, minExcluded: true, noNaN: true }),
+      fc.double({ min: -1e300, max: -1e12, maxExcluded: true, noNaN: true }),
+    ),
   },
   str(['readings', 1, 'unit'], 16, { min1: true }),
-  { at: ['readings', 1, 'reference'], types: ['string', 'null'], required: false, bad: notIn(['absolute', 'gauge', 'vacuum']) },
+  {
+    at: ['readings', 1, 'reference'],
+    types: ['string', 'null'],
+    required: false,
+    bad: notIn(['absolute', 'gauge', 'vacuum']),
+  },
   dateTime(['readings', 1, 'deviceTime']),
   str(['readings', 1, 'note'], 2000, { nullable: true, required: false }),
   // with a value, any non-empty skip reason is refused (a reading is skipped or read, not both)
-  { at: ['readings', 1, 'skipReason'], types: ['string', 'null'], required: false, bad: fc.string({ minLength: 1, maxLength: 500 }) },
+  {
+    at: ['readings', 1, 'skipReason'],
+    types: ['string', 'null'],
+    required: false,
+    bad: fc.string({ minLength: 1, maxLength: 500 }),
+  },
   uuid(['readings', 1, 'supersedes'], { nullable: true, required: false }),
   { at: ['readings', 1, 'confirmedAfterFlag'], types: ['boolean'], required: true },
   { at: ['readings', 1, 'flags'], types: ['array'], required: true, bad: copies(validFlag, 21, 40) },
@@ -230,14 +325,26 @@ const FIELDS: Field[] = [
   uuid(['photos', 0, 'roundId']),
   uuid(['photos', 0, 'readingId'], { nullable: true, required: false }),
   // the photo has a reading: a check id as well is refused
-  { at: ['photos', 0, 'checkId'], types: ['string', 'null'], required: false, bad: fc.string({ minLength: 1, maxLength: 64 }) },
+  {
+    at: ['photos', 0, 'checkId'],
+    types: ['string', 'null'],
+    required: false,
+    bad: fc.string({ minLength: 1, maxLength: 64 }),
+  },
   {
     at: ['photos', 0, 'sha256'],
     types: ['string'],
     required: true,
-    bad: fc.oneof(someString, fc.constant('A'.repeat(64)), fc.constant('a'.repeat(63)), fc.constant('a'.repeat(65))).filter((s) => !/^[0-9a-f]{64}$/.test(s)),
+    bad: fc
+      .oneof(someString, fc.constant('A'.repeat(64)), fc.constant('a'.repeat(63)), fc.constant('a'.repeat(65)))
+      .filter((s) => !/^[0-9a-f]{64}$/.test(s)),
   },
-  { at: ['photos', 0, 'mime'], types: ['string'], required: true, bad: notIn(['image/jpeg', 'image/png', 'image/webp', 'image/heic', 'image/heif']) },
+  {
+    at: ['photos', 0, 'mime'],
+    types: ['string'],
+    required: true,
+    bad: notIn(['image/jpeg', 'image/png', 'image/webp', 'image/heic', 'image/heif']),
+  },
   {
     at: ['photos', 0, 'bytes'],
     types: ['number'],
@@ -255,13 +362,27 @@ function fieldMutation(f: Field): fc.Arbitrary<Mutation> {
   const p = path(f.at);
   const expect: Expect = { status: 400, code: 'validation', path: p };
   const options: fc.Arbitrary<Mutation>[] = [
-    wrongType(f.types).map((v) => ({ what: `${p} = ${JSON.stringify(v).slice(0, 80)}`, apply: (b: Batch) => setAt(b, f.at, v), expect })),
+    wrongType(f.types).map((v) => ({
+      what: `${p} = ${JSON.stringify(v).slice(0, 80)}`,
+      apply: (b: Batch) => setAt(b, f.at, v),
+      expect,
+    })),
   ];
-  if (f.required) options.push(fc.constant({ what: `${p} missing`, apply: (b: Batch) => setAt(b, f.at, undefined), expect }));
-  if (f.bad) options.push(f.bad.map((v) => ({ what: `${p} = ${JSON.stringify(v).slice(0, 80)}`, apply: (b: Batch) => setAt(b, f.at, v), expect })));
+  if (f.required)
+    options.push(fc.constant({ what: `${p} missing`, apply: (b: Batch) => setAt(b, f.at, undefined), expect }));
+  if (f.bad)
+    options.push(
+      f.bad.map((v) => ({
+        what: `${p} = ${JSON.stringify(v).slice(0, 80)}`,
+        apply: (b: Batch) => setAt(b, f.at, v),
+        expect,
+      })),
+    );
   if (f.raw) {
     options.push(
-      fc.constantFrom('1e400', '-1e400', '1e999999').map((raw) => ({ what: `${p} = ${raw}`, apply: (b: Batch) => setAt(b, f.at, PLACEHOLDER), raw, expect })),
+      fc
+        .constantFrom('1e400', '-1e400', '1e999999')
+        .map((raw) => ({ what: `${p} = ${raw}`, apply: (b: Batch) => setAt(b, f.at, PLACEHOLDER), raw, expect })),
     );
   }
   return fc.oneof(...options);
@@ -283,11 +404,13 @@ const mutation: fc.Arbitrary<Mutation> = fc.oneof(
   // one array over the batch limit
   {
     weight: 1,
-    arbitrary: fc.tuple(fc.constantFrom(...ARRAYS), fc.integer({ min: MAX_BATCH_ITEMS + 1, max: MAX_BATCH_ITEMS + 100 })).map(([key, n]) => ({
-      what: `${key} × ${n}`,
-      apply: (b: Batch) => ({ ...b, [key]: Array.from({ length: n }, () => (b[key] as Json[])[0]) }),
-      expect: { status: 400, code: 'validation', path: key } as Expect,
-    })),
+    arbitrary: fc
+      .tuple(fc.constantFrom(...ARRAYS), fc.integer({ min: MAX_BATCH_ITEMS + 1, max: MAX_BATCH_ITEMS + 100 }))
+      .map(([key, n]) => ({
+        what: `${key} × ${n}`,
+        apply: (b: Batch) => ({ ...b, [key]: Array.from({ length: n }, () => (b[key] as Json[])[0]) }),
+        expect: { status: 400, code: 'validation', path: key } as Expect,
+      })),
   },
   // all arrays together over the limit, each under it
   {
@@ -305,17 +428,31 @@ const mutation: fc.Arbitrary<Mutation> = fc.oneof(
   // a body that is not an object
   {
     weight: 1,
-    arbitrary: fc.oneof(someArray, deep.map((d) => [d])).map((body) => ({
-      what: `body ${JSON.stringify(body).slice(0, 40)}`,
-      apply: () => body as Json,
-      expect: { status: 400, code: 'validation', path: '(body)' } as Expect,
-    })),
+    arbitrary: fc
+      .oneof(
+        someArray,
+        deep.map((d) => [d]),
+      )
+      .map((body) => ({
+        what: `body ${JSON.stringify(body).slice(0, 40)}`,
+        apply: () => body as Json,
+        expect: { status: 400, code: 'validation', path: '(body)' } as Expect,
+      })),
   },
   {
     weight: 1,
     arbitrary: fc
-      .oneof(jsonNumber.map(String), someString.map((s) => JSON.stringify(s)), fc.constantFrom('null', 'true', '{"payloadVersion": 2,', '{]', "{'a': 1}"))
-      .map((rawBody) => ({ what: `raw body ${rawBody.slice(0, 40)}`, apply: (b: Batch) => b, rawBody, expect: { status: 400, code: 'bad_json' } as Expect })),
+      .oneof(
+        jsonNumber.map(String),
+        someString.map((s) => JSON.stringify(s)),
+        fc.constantFrom('null', 'true', '{"payloadVersion": 2,', '{]', "{'a': 1}"),
+      )
+      .map((rawBody) => ({
+        what: `raw body ${rawBody.slice(0, 40)}`,
+        apply: (b: Batch) => b,
+        rawBody,
+        expect: { status: 400, code: 'bad_json' } as Expect,
+      })),
   },
   // over the 1 MB body limit
   {
@@ -344,7 +481,8 @@ function bodyOf(m: Mutation): string {
   return m.raw ? text.replace(`"${PLACEHOLDER}"`, m.raw) : text;
 }
 
-const post = (body: string) => request(app).post('/api/sync/push').set(bearer(token)).set('Content-Type', 'application/json').send(body);
+const post = (body: string) =>
+  request(app).post('/api/sync/push').set(bearer(token)).set('Content-Type', 'application/json').send(body);
 
 test('the unbroken batch is accepted (200), so each refusal below is the mutation’s doing', async () => {
   const res = await post(JSON.stringify(baseBatch()));
@@ -358,11 +496,19 @@ test('malformed pushes: 400 naming the field (413 over the body limit), nothing 
       const before = await storedCounts();
       const res = await post(bodyOf(m));
       const e = m.expect;
-      expect({ what: m.what, status: res.status, code: res.body?.error?.code }).toEqual({ what: m.what, status: e.status, code: e.code });
+      expect({ what: m.what, status: res.status, code: res.body?.error?.code }).toEqual({
+        what: m.what,
+        status: e.status,
+        code: e.code,
+      });
       if (e.code === 'validation') {
         const details = res.body.error.details as { path: string; message: string }[];
         const hit = details.find((d) => d.path === e.path || d.path.startsWith(`${e.path}.`));
-        expect({ what: m.what, hit: hit !== undefined, details: hit ? [] : details.slice(0, 3) }).toEqual({ what: m.what, hit: true, details: [] });
+        expect({ what: m.what, hit: hit !== undefined, details: hit ? [] : details.slice(0, 3) }).toEqual({
+          what: m.what,
+          hit: true,
+          details: [],
+        });
         expect(res.body.error.message).toContain(`${hit!.path}: `);
       }
       expect(await storedCounts()).toEqual(before);
@@ -376,40 +522,80 @@ test('malformed pushes: 400 naming the field (413 over the body limit), nothing 
 const anyText = (max: number) =>
   fc.oneof(
     fc.string({ unit: 'binary', maxLength: max }),
-    fc.array(fc.constantFrom('\u0000', '\u0001', '\u001f', '\u007f', '\ud800', '\udfff', '\ufeff', '\u2028', 'é', '🔥', ' ', 'a'), { maxLength: 12 }).map((a) => a.join('')),
+    fc
+      .array(
+        fc.constantFrom(
+          '\u0000',
+          '\u0001',
+          '\u001f',
+          '\u007f',
+          '\ud800',
+          '\udfff',
+          '\ufeff',
+          '\u2028',
+          'é',
+          '🔥',
+          ' ',
+          'a',
+        ),
+        { maxLength: 12 },
+      )
+      .map((a) => a.join('')),
   );
 
 /** Where each free-text field is stored: table, column, and the id of its row in the batch. */
 const STORED: Record<string, { sql: string; id: (b: Batch) => string }> = {
   deviceId: { sql: 'SELECT device_id AS v FROM rounds WHERE id = $1', id: (b) => (b.rounds as { id: string }[])[0].id },
-  'rounds.0.modelVersion': { sql: 'SELECT device_model_version AS v FROM rounds WHERE id = $1', id: (b) => (b.rounds as { id: string }[])[0].id },
-  'readings.1.note': { sql: 'SELECT note AS v FROM readings WHERE id = $1', id: (b) => (b.readings as { id: string }[])[1].id },
-  'checkAnswers.0.note': { sql: 'SELECT note AS v FROM check_answers WHERE id = $1', id: (b) => (b.checkAnswers as { id: string }[])[0].id },
+  'rounds.0.modelVersion': {
+    sql: 'SELECT device_model_version AS v FROM rounds WHERE id = $1',
+    id: (b) => (b.rounds as { id: string }[])[0].id,
+  },
+  'readings.1.note': {
+    sql: 'SELECT note AS v FROM readings WHERE id = $1',
+    id: (b) => (b.readings as { id: string }[])[1].id,
+  },
+  'checkAnswers.0.note': {
+    sql: 'SELECT note AS v FROM check_answers WHERE id = $1',
+    id: (b) => (b.checkAnswers as { id: string }[])[0].id,
+  },
 };
 /** A lone UTF-16 surrogate (in u-mode a pair is one code point and does not match). */
 const LONE_SURROGATE = /[\ud800-\udfff]/u;
 
 test('free text with arbitrary Unicode (NUL, control characters, lone surrogates): stored as sent, or 400 naming the field; never 500', async () => {
   await fc.assert(
-    fc.asyncProperty(fc.constantFrom(['deviceId'], ['readings', 1, 'note'], ['checkAnswers', 0, 'note'], ['rounds', 0, 'modelVersion']), anyText(40), async (at, text) => {
-      const value = at[0] === 'deviceId' ? `x${text}` : text;
-      const b = setAt(baseBatch(), at, value);
-      const before = await storedCounts();
-      const res = await post(JSON.stringify(b));
-      expect({ at: path(at), text, status: res.status === 200 || res.status === 400 ? 'ok' : res.status }).toEqual({ at: path(at), text, status: 'ok' });
-      if (res.status === 400) {
-        expect((res.body.error.details as { path: string }[]).map((d) => d.path)).toContain(path(at));
-        expect(await storedCounts()).toEqual(before);
-      } else {
-        // a lone surrogate has no UTF-8 form: it is refused (server/http/text-guard.ts), never
-        // stored as U+FFFD; anything accepted comes back as sent
-        expect({ at: path(at), text, lone: LONE_SURROGATE.test(value) }).toEqual({ at: path(at), text, lone: false });
-        const s = STORED[path(at)];
-        const [row] = (await db.dataSource.query(s.sql, [s.id(b)])) as { v: string }[];
-        expect({ at: path(at), stored: row.v }).toEqual({ at: path(at), stored: value });
-      }
-      expect((await request(app).get('/api/health')).status).toBe(200);
-    }),
+    fc.asyncProperty(
+      fc.constantFrom(
+        ['deviceId'],
+        ['readings', 1, 'note'],
+        ['checkAnswers', 0, 'note'],
+        ['rounds', 0, 'modelVersion'],
+      ),
+      anyText(40),
+      async (at, text) => {
+        const value = at[0] === 'deviceId' ? `x${text}` : text;
+        const b = setAt(baseBatch(), at, value);
+        const before = await storedCounts();
+        const res = await post(JSON.stringify(b));
+        expect({ at: path(at), text, status: res.status === 200 || res.status === 400 ? 'ok' : res.status }).toEqual({
+          at: path(at),
+          text,
+          status: 'ok',
+        });
+        if (res.status === 400) {
+          expect((res.body.error.details as { path: string }[]).map((d) => d.path)).toContain(path(at));
+          expect(await storedCounts()).toEqual(before);
+        } else {
+          // a lone surrogate has no UTF-8 form: it is refused (server/http/text-guard.ts), never
+          // stored as U+FFFD; anything accepted comes back as sent
+          expect({ at: path(at), text, lone: LONE_SURROGATE.test(value) }).toEqual({ at: path(at), text, lone: false });
+          const s = STORED[path(at)];
+          const [row] = (await db.dataSource.query(s.sql, [s.id(b)])) as { v: string }[];
+          expect({ at: path(at), stored: row.v }).toEqual({ at: path(at), stored: value });
+        }
+        expect((await request(app).get('/api/health')).status).toBe(200);
+      },
+    ),
     { numRuns: 60 },
   );
 });

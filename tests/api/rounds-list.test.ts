@@ -28,7 +28,11 @@ const tagsOf = (r: RouteTemplate) => new Set(r.stops.flatMap((s) => s.readings.m
 async function routeRound(route: RouteTemplate, o: RoundOptions = {}) {
   const r = designRound(w, { ...o, routeKey: route.id });
   const tags = tagsOf(route);
-  const keep = new Set(Object.entries(r.readingIds).filter(([tag]) => tags.has(tag)).map(([, id]) => id));
+  const keep = new Set(
+    Object.entries(r.readingIds)
+      .filter(([tag]) => tags.has(tag))
+      .map(([, id]) => id),
+  );
   r.body.readings = r.body.readings.filter((x) => keep.has(x.id));
   await push(w, r.body);
   const deps = { dataSource: w.db.dataSource, logger: memoryLogger('silent').logger };
@@ -64,10 +68,22 @@ const list = async (q: string, who: 'engineer' | 'planner' = 'engineer') => {
 test('analysed rounds, newest first, with route, unit, times, finding counts by severity and the model-version flag', async () => {
   const body = await list('?analysed=1');
   expect(body.total).toBe(4);
-  expect(body.rounds.map((r) => r.roundId)).toEqual([biased.roundId, turbine.roundId, condenser.roundId, boiler.roundId]);
-  expect(body.rounds.map((r) => r.routeName)).toEqual([turbineHallRoute.name, turbineHallRoute.name, condenserCoolingWaterRoute.name, boilerHouseRoute.name]);
+  expect(body.rounds.map((r) => r.roundId)).toEqual([
+    biased.roundId,
+    turbine.roundId,
+    condenser.roundId,
+    boiler.roundId,
+  ]);
+  expect(body.rounds.map((r) => r.routeName)).toEqual([
+    turbineHallRoute.name,
+    turbineHallRoute.name,
+    condenserCoolingWaterRoute.name,
+    boilerHouseRoute.name,
+  ]);
   const first = body.rounds[0];
-  const [unit] = (await w.db.dataSource.query(`SELECT "name" FROM "units" WHERE "id" = $1`, [first.unitId])) as { name: string }[];
+  const [unit] = (await w.db.dataSource.query(`SELECT "name" FROM "units" WHERE "id" = $1`, [first.unitId])) as {
+    name: string;
+  }[];
   expect(first.unitName).toBe(unit.name);
   expect(body.rounds.every((r) => r.unitId === first.unitId)).toBe(true);
   expect(first.startedAt).toBe(at(26));
@@ -75,7 +91,9 @@ test('analysed rounds, newest first, with route, unit, times, finding counts by 
   expect(first.modelVersionMismatch).toBe(false);
   // counts against the findings rows the job stored for that analysis
   for (const r of body.rounds) {
-    const rows = (await w.db.dataSource.query(`SELECT "severity" FROM "findings" WHERE "analysis_id" = $1`, [r.analysisId])) as { severity: number }[];
+    const rows = (await w.db.dataSource.query(`SELECT "severity" FROM "findings" WHERE "analysis_id" = $1`, [
+      r.analysisId,
+    ])) as { severity: number }[];
     expect(r.findings).toEqual({
       total: rows.length,
       urgent: rows.filter((x) => x.severity === 1).length,
@@ -85,7 +103,9 @@ test('analysed rounds, newest first, with route, unit, times, finding counts by 
   }
   // the biased round has findings naming TI-102A; the planner sees the same list
   expect(first.findings.total).toBeGreaterThan(0);
-  expect((await list('?analysed=1', 'planner')).rounds.map((r) => r.roundId)).toEqual(body.rounds.map((r) => r.roundId));
+  expect((await list('?analysed=1', 'planner')).rounds.map((r) => r.roundId)).toEqual(
+    body.rounds.map((r) => r.roundId),
+  );
 });
 
 test('paging: limit and page, the same order, total unchanged', async () => {
@@ -102,7 +122,10 @@ test('bad queries name the field and the limit; roles outside planner and engine
   const q = async (s: string) => api(w, 'engineer').get(`${base()}/rounds${s}`);
   const none = await q('');
   expect(none.status).toBe(400);
-  expect(none.body.error.details).toContainEqual({ path: 'analysed', message: 'Must be 1: only analysed rounds are listed' });
+  expect(none.body.error.details).toContainEqual({
+    path: 'analysed',
+    message: 'Must be 1: only analysed rounds are listed',
+  });
   const zero = await q('?analysed=1&limit=0');
   expect(zero.status).toBe(400);
   expect(zero.body.error.details).toContainEqual({ path: 'limit', message: 'Must be at least 1' });
@@ -127,11 +150,21 @@ test('the unit-level analysis of a turbine-hall round holds every state point an
   const own = tagsOf(turbineHallRoute);
   for (const tag of tagsOf(boilerHouseRoute)) {
     if (own.has(tag) || !demoUnit.instruments.some((i) => i.tag === tag)) continue;
-    expect(origins.get(tag)).toMatchObject({ own: false, roundId: boiler.roundId, routeName: boilerHouseRoute.name, measuredAt: at(0) });
+    expect(origins.get(tag)).toMatchObject({
+      own: false,
+      roundId: boiler.roundId,
+      routeName: boilerHouseRoute.name,
+      measuredAt: at(0),
+    });
   }
   for (const tag of tagsOf(condenserCoolingWaterRoute)) {
     if (own.has(tag) || !demoUnit.instruments.some((i) => i.tag === tag)) continue;
-    expect(origins.get(tag)).toMatchObject({ own: false, roundId: condenser.roundId, routeName: condenserCoolingWaterRoute.name, measuredAt: at(1) });
+    expect(origins.get(tag)).toMatchObject({
+      own: false,
+      roundId: condenser.roundId,
+      routeName: condenserCoolingWaterRoute.name,
+      measuredAt: at(1),
+    });
   }
   for (const tag of own) {
     if (!demoUnit.instruments.some((i) => i.tag === tag)) continue;

@@ -16,11 +16,22 @@ const noDb = makeDataSource(url);
 const OURS = ['http://localhost:8081', 'http://127.0.0.1:8081'];
 const app = testApp(noDb, url, { CORS_ORIGINS: OURS.join(',') });
 
-const ALLOW_HEADERS = ['access-control-allow-origin', 'access-control-allow-methods', 'access-control-allow-headers', 'access-control-allow-credentials', 'access-control-max-age', 'access-control-expose-headers'];
+const ALLOW_HEADERS = [
+  'access-control-allow-origin',
+  'access-control-allow-methods',
+  'access-control-allow-headers',
+  'access-control-allow-credentials',
+  'access-control-max-age',
+  'access-control-expose-headers',
+];
 const corsHeaders = (h: Record<string, string>) => Object.keys(h).filter((k) => ALLOW_HEADERS.includes(k));
 
 const preflight = (path: string, origin: string, method = 'POST') =>
-  request(app).options(path).set('Origin', origin).set('Access-Control-Request-Method', method).set('Access-Control-Request-Headers', 'authorization, content-type');
+  request(app)
+    .options(path)
+    .set('Origin', origin)
+    .set('Access-Control-Request-Method', method)
+    .set('Access-Control-Request-Headers', 'authorization, content-type');
 
 const STRANGERS = [
   'http://evil.example',
@@ -51,7 +62,12 @@ test('each configured origin: the preflight of sign-in and of a guarded route is
 
 test('a stranger origin: the preflight gets no allow headers whatever the path and method', async () => {
   for (const origin of STRANGERS) {
-    for (const [path, method] of [['/api/auth/sign-in', 'POST'], ['/api/me', 'GET'], ['/api/sites/x/work-orders/y/cancel', 'POST'], ['/api/photos/x', 'DELETE']]) {
+    for (const [path, method] of [
+      ['/api/auth/sign-in', 'POST'],
+      ['/api/me', 'GET'],
+      ['/api/sites/x/work-orders/y/cancel', 'POST'],
+      ['/api/photos/x', 'DELETE'],
+    ]) {
       const res = await preflight(path, origin, method);
       expect({ origin, path, cors: corsHeaders(res.headers) }).toEqual({ origin, path, cors: [] });
       expect(res.headers.vary).toMatch(/Origin/);
@@ -81,7 +97,10 @@ test('a stranger origin: actual requests (a 401, a 400, a 404) carry no CORS hea
 test('no Access-Control-Allow-Origin: * ever, and none at all without CORS_ORIGINS', async () => {
   const plain = testApp(noDb, url);
   for (const origin of [...OURS, 'http://evil.example']) {
-    const pre = await request(plain).options('/api/auth/sign-in').set('Origin', origin).set('Access-Control-Request-Method', 'POST');
+    const pre = await request(plain)
+      .options('/api/auth/sign-in')
+      .set('Origin', origin)
+      .set('Access-Control-Request-Method', 'POST');
     expect(corsHeaders(pre.headers)).toEqual([]);
     expect(corsHeaders((await request(plain).get('/api/me').set('Origin', origin)).headers)).toEqual([]);
   }

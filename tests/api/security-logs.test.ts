@@ -29,44 +29,80 @@ beforeAll(async () => {
   w = await makeWorld();
   const mem = memoryLogger('trace');
   lines = mem.lines;
-  app = createApp({ config: testConfig(w.db.url, { LOG_LEVEL: 'trace' }), dataSource: w.db.dataSource, logger: mem.logger });
+  app = createApp({
+    config: testConfig(w.db.url, { LOG_LEVEL: 'trace' }),
+    dataSource: w.db.dataSource,
+    logger: mem.logger,
+  });
   keep('JWT secret', TEST_SECRET);
   keep('demo password', DEMO_PASSWORD);
 
   // sign-in, a wrong password, refresh, sign-out
-  const tech = await request(app).post('/api/auth/sign-in').send({ email: 'tech@fernhallow.example', password: DEMO_PASSWORD });
+  const tech = await request(app)
+    .post('/api/auth/sign-in')
+    .send({ email: 'tech@fernhallow.example', password: DEMO_PASSWORD });
   expect(tech.status).toBe(200);
   keep('access token', tech.body.accessToken);
   keep('refresh token', tech.body.refreshToken);
-  expect((await request(app).post('/api/auth/sign-in').send({ email: 'tech@fernhallow.example', password: 'a-wrong-password-typed' })).status).toBe(401);
+  expect(
+    (
+      await request(app)
+        .post('/api/auth/sign-in')
+        .send({ email: 'tech@fernhallow.example', password: 'a-wrong-password-typed' })
+    ).status,
+  ).toBe(401);
   keep('wrong password', 'a-wrong-password-typed');
   const refreshed = await request(app).post('/api/auth/refresh').send({ refreshToken: tech.body.refreshToken });
   expect(refreshed.status).toBe(200);
   keep('refreshed access token', refreshed.body.accessToken);
   keep('refreshed refresh token', refreshed.body.refreshToken);
   // reuse of the old token (a 401 that revokes the family): its log line must not name it either
-  expect((await request(app).post('/api/auth/refresh').send({ refreshToken: tech.body.refreshToken })).status).toBe(401);
+  expect((await request(app).post('/api/auth/refresh').send({ refreshToken: tech.body.refreshToken })).status).toBe(
+    401,
+  );
 
   // a push with the technician's (new) token
-  const tech2 = await request(app).post('/api/auth/sign-in').send({ email: 'tech@fernhallow.example', password: DEMO_PASSWORD });
+  const tech2 = await request(app)
+    .post('/api/auth/sign-in')
+    .send({ email: 'tech@fernhallow.example', password: DEMO_PASSWORD });
   keep('access token 2', tech2.body.accessToken);
   keep('refresh token 2', tech2.body.refreshToken);
   const round = designRound(w, { photos: ['PI-101'] });
-  expect((await request(app).post('/api/sync/push').set('Authorization', `Bearer ${tech2.body.accessToken}`).send(round.body)).status).toBe(200);
-  expect((await request(app).post('/api/auth/sign-out').set('Authorization', `Bearer ${tech2.body.accessToken}`).send({ refreshToken: tech2.body.refreshToken })).status).toBe(204);
+  expect(
+    (
+      await request(app)
+        .post('/api/sync/push')
+        .set('Authorization', `Bearer ${tech2.body.accessToken}`)
+        .send(round.body)
+    ).status,
+  ).toBe(200);
+  expect(
+    (
+      await request(app)
+        .post('/api/auth/sign-out')
+        .set('Authorization', `Bearer ${tech2.body.accessToken}`)
+        .send({ refreshToken: tech2.body.refreshToken })
+    ).status,
+  ).toBe(204);
 
   // an invitation, and the invitee accepting it: the one-time password, then their own
-  const admin = await request(app).post('/api/auth/sign-in').send({ email: 'admin@fernhallow.example', password: DEMO_PASSWORD });
+  const admin = await request(app)
+    .post('/api/auth/sign-in')
+    .send({ email: 'admin@fernhallow.example', password: DEMO_PASSWORD });
   keep('admin access token', admin.body.accessToken);
   const inv = await request(app)
     .post(`/api/sites/${w.fernId}/invitations`)
     .set('Authorization', `Bearer ${admin.body.accessToken}`)
     .send({ email: 'log.check@fernhallow.example', name: 'Log Check', role: 'technician' });
   expect(inv.status).toBe(201);
-  const [mail] = (await w.db.dataSource.query(`SELECT "text" FROM "mail_outbox" WHERE "to_address" = 'log.check@fernhallow.example'`)) as { text: string }[];
+  const [mail] = (await w.db.dataSource.query(
+    `SELECT "text" FROM "mail_outbox" WHERE "to_address" = 'log.check@fernhallow.example'`,
+  )) as { text: string }[];
   const oneTime = /one-time password:\s+(\S+)/.exec(mail.text)![1];
   keep('one-time password', oneTime);
-  const invitee = await request(app).post('/api/auth/sign-in').send({ email: 'log.check@fernhallow.example', password: oneTime });
+  const invitee = await request(app)
+    .post('/api/auth/sign-in')
+    .send({ email: 'log.check@fernhallow.example', password: oneTime });
   expect(invitee.status).toBe(200);
   keep('invitee access token', invitee.body.accessToken);
   const chosen = 'my own secret passphrase 42';
@@ -80,16 +116,32 @@ beforeAll(async () => {
   keep('refresh token after password change', set.body.refreshToken);
   // a refused new password (the policy's 400) with a body that holds passwords
   expect(
-    (await request(app).post('/api/auth/password').set('Authorization', `Bearer ${set.body.accessToken}`).send({ currentPassword: chosen, newPassword: 'short-pass1' }))
-      .status,
+    (
+      await request(app)
+        .post('/api/auth/password')
+        .set('Authorization', `Bearer ${set.body.accessToken}`)
+        .send({ currentPassword: chosen, newPassword: 'short-pass1' })
+    ).status,
   ).toBe(400);
   keep('refused new password', 'short-pass1');
 
   // a token where it does not belong: in the query string of a 401, and in a malformed body
-  expect((await request(app).get(`/api/me?access_token=${tech2.body.accessToken}&refresh=${tech2.body.refreshToken}`)).status).toBe(401);
-  expect((await request(app).post('/api/auth/sign-in').set('Content-Type', 'application/json').send(`{"email":"x@y.z","password":"${chosen}"`)).status).toBe(400);
+  expect(
+    (await request(app).get(`/api/me?access_token=${tech2.body.accessToken}&refresh=${tech2.body.refreshToken}`))
+      .status,
+  ).toBe(401);
+  expect(
+    (
+      await request(app)
+        .post('/api/auth/sign-in')
+        .set('Content-Type', 'application/json')
+        .send(`{"email":"x@y.z","password":"${chosen}"`)
+    ).status,
+  ).toBe(400);
 
-  const hashes = (await w.db.dataSource.query(`SELECT "password_hash" FROM "users" WHERE "email" IN ('tech@fernhallow.example', 'log.check@fernhallow.example')`)) as { password_hash: string }[];
+  const hashes = (await w.db.dataSource.query(
+    `SELECT "password_hash" FROM "users" WHERE "email" IN ('tech@fernhallow.example', 'log.check@fernhallow.example')`,
+  )) as { password_hash: string }[];
   hashes.forEach((h, i) => keep(`password hash ${i}`, h.password_hash));
 });
 afterAll(() => w?.db.drop());
@@ -98,7 +150,8 @@ test('the session above was logged (request lines at trace level, so the search 
   const text = lines.join('');
   // one request line for each of the 14 requests above
   expect(lines.filter((l) => (JSON.parse(l) as { req?: unknown }).req).length).toBeGreaterThanOrEqual(14);
-  for (const p of ['/api/auth/sign-in', '/api/auth/refresh', '/api/auth/password', '/api/sync/push', '/api/sites/']) expect(text).toContain(p);
+  for (const p of ['/api/auth/sign-in', '/api/auth/refresh', '/api/auth/password', '/api/sync/push', '/api/sites/'])
+    expect(text).toContain(p);
 });
 
 test('no password, token, password hash or JWT secret anywhere in the log', () => {
@@ -129,7 +182,15 @@ test('redaction: secrets in hand-logged objects (top level, nested one and two d
     'something happened',
   );
   const out = mem.lines.join('');
-  for (const s of [password, 'rt-hand-logged-0123', TEST_SECRET, 'hand-logged-token', 'at-hand-logged-0123', '$argon2id$']) expect(out).not.toContain(s);
+  for (const s of [
+    password,
+    'rt-hand-logged-0123',
+    TEST_SECRET,
+    'hand-logged-token',
+    'at-hand-logged-0123',
+    '$argon2id$',
+  ])
+    expect(out).not.toContain(s);
   const line = JSON.parse(mem.lines[0]) as Record<string, Record<string, unknown>>;
   expect(line.user).toEqual({ email: 'a@b.c', passwordHash: '[redacted]', newPassword: '[redacted]' });
   expect(line.config).toEqual({ JWT_SECRET: '[redacted]', PORT: 8080 });

@@ -39,7 +39,9 @@ beforeAll(async () => {
   db = await createTestDatabase();
   // the per-address limiter far away, so only the account lockout acts; addresses from X-Forwarded-For
   app = testApp(db.dataSource, db.url, { SIGN_IN_RATE_LIMIT: '100000', TRUST_PROXY: '1' });
-  [{ id: fernId }] = (await db.dataSource.query(`SELECT "id" FROM "sites" WHERE "slug" = 'fernhallow'`)) as { id: string }[];
+  [{ id: fernId }] = (await db.dataSource.query(`SELECT "id" FROM "sites" WHERE "slug" = 'fernhallow'`)) as {
+    id: string;
+  }[];
 });
 afterAll(() => db?.drop());
 
@@ -47,7 +49,9 @@ const GOOD = 'correct horse battery staple';
 let counter = 0;
 async function newUser(password = GOOD): Promise<{ id: string; email: string }> {
   const email = `lock-${++counter}@fernhallow.example`;
-  const u = await db.dataSource.getRepository(UserEntity).save({ email, name: `Lock ${counter}`, passwordHash: await hashPassword(password), disabled: false });
+  const u = await db.dataSource
+    .getRepository(UserEntity)
+    .save({ email, name: `Lock ${counter}`, passwordHash: await hashPassword(password), disabled: false });
   return { id: u.id, email };
 }
 const attempt = (email: string, password: string, ip = '203.0.113.7') =>
@@ -62,9 +66,14 @@ describe('password policy when an invitee sets their own password (POST /api/aut
   beforeAll(async () => {
     const admin = (await signIn(app, 'admin@fernhallow.example')).accessToken;
     email = 'new.starter@fernhallow.example';
-    const inv = await request(app).post(`/api/sites/${fernId}/invitations`).set(bearer(admin)).send({ email, name: 'New Starter', role: 'technician' });
+    const inv = await request(app)
+      .post(`/api/sites/${fernId}/invitations`)
+      .set(bearer(admin))
+      .send({ email, name: 'New Starter', role: 'technician' });
     expect(inv.status).toBe(201);
-    const [mail] = (await db.dataSource.query(`SELECT "text" FROM "mail_outbox" WHERE "to_address" = $1`, [email])) as { text: string }[];
+    const [mail] = (await db.dataSource.query(`SELECT "text" FROM "mail_outbox" WHERE "to_address" = $1`, [email])) as {
+      text: string;
+    }[];
     oneTime = /one-time password:\s+(\S+)/.exec(mail.text)![1];
     session = await signIn(app, email, oneTime);
   });
@@ -76,7 +85,9 @@ describe('password policy when an invitee sets their own password (POST /api/aut
     const res = await setPassword('elevenchars');
     expect(res.status).toBe(400);
     expect(res.body.error.code).toBe('validation');
-    expect(res.body.error.details).toEqual([{ path: 'newPassword', message: 'Must be at least 12 characters (got 11)' }]);
+    expect(res.body.error.details).toEqual([
+      { path: 'newPassword', message: 'Must be at least 12 characters (got 11)' },
+    ]);
     expect(res.body.error.message).toContain('newPassword');
     // six emoji are 12 UTF-16 units but 6 characters
     const emoji = await setPassword('🔥🔥🔥🔥🔥🔥');
@@ -109,7 +120,11 @@ describe('password policy when an invitee sets their own password (POST /api/aut
     ];
     for (const [pw, why] of refused) {
       const res = await setPassword(pw);
-      expect({ pw, status: res.status, path: res.body.error?.details?.[0]?.path }).toEqual({ pw, status: 400, path: 'newPassword' });
+      expect({ pw, status: res.status, path: res.body.error?.details?.[0]?.path }).toEqual({
+        pw,
+        status: 400,
+        path: 'newPassword',
+      });
       expect(res.body.error.details[0].message).toMatch(why);
     }
   });
@@ -131,34 +146,55 @@ describe('password policy when an invitee sets their own password (POST /api/aut
     const wrong = await setPassword(GOOD, 'not the one-time password');
     expect(wrong.status).toBe(403);
     expect(wrong.body.error.details).toEqual([{ path: 'currentPassword', message: 'Is wrong' }]);
-    const missing = await request(app).post('/api/auth/password').set(bearer(session.accessToken)).send({ currentPassword: oneTime });
+    const missing = await request(app)
+      .post('/api/auth/password')
+      .set(bearer(session.accessToken))
+      .send({ currentPassword: oneTime });
     expect(missing.status).toBe(400);
     expect(missing.body.error.details).toEqual([{ path: 'newPassword', message: 'Required' }]);
     const nul = await setPassword('long enough but \u0000 a NUL');
     expect(nul.status).toBe(400);
-    expect(nul.body.error.details).toEqual([{ path: 'newPassword', message: 'must not contain a NUL character (U+0000)' }]);
-    expect((await request(app).post('/api/auth/password').send({ currentPassword: oneTime, newPassword: GOOD })).status).toBe(401);
+    expect(nul.body.error.details).toEqual([
+      { path: 'newPassword', message: 'must not contain a NUL character (U+0000)' },
+    ]);
+    expect(
+      (await request(app).post('/api/auth/password').send({ currentPassword: oneTime, newPassword: GOOD })).status,
+    ).toBe(401);
   });
 
   test('an acceptable password: 200 and a new pair; the one-time password and every earlier session stop working', async () => {
     const res = await setPassword(GOOD);
     expect(res.status).toBe(200);
     expect(res.body).toEqual({ accessToken: expect.any(String), refreshToken: expect.any(String) });
-    expect((await request(app).post('/api/auth/refresh').send({ refreshToken: session.refreshToken })).status).toBe(401);
-    expect((await request(app).post('/api/auth/refresh').send({ refreshToken: res.body.refreshToken })).status).toBe(200);
+    expect((await request(app).post('/api/auth/refresh').send({ refreshToken: session.refreshToken })).status).toBe(
+      401,
+    );
+    expect((await request(app).post('/api/auth/refresh').send({ refreshToken: res.body.refreshToken })).status).toBe(
+      200,
+    );
     expect((await attempt(email, oneTime)).status).toBe(401);
     expect((await attempt(email, GOOD)).status).toBe(200);
   });
 });
 
 /** A sign-in answer as an outsider sees it: status, the headers that could differ, and the body's bytes. */
-const seen = (res: request.Response) => ({ status: res.status, retryAfter: res.headers['retry-after'] ?? null, body: res.text });
+const seen = (res: request.Response) => ({
+  status: res.status,
+  retryAfter: res.headers['retry-after'] ?? null,
+  body: res.text,
+});
 
 describe(`lockout: ${LOCKOUT_THRESHOLD} failures in ${LOCKOUT_WINDOW_MS / 60000} min lock one account for ${LOCKOUT_MS / 60000} min`, () => {
   test('the tenth failure locks; then the wrong password, the right one and an unknown address answer byte for byte alike (401)', async () => {
     const u = await newUser();
     const wrong = seen(await attempt(u.email, 'wrong-0'));
-    expect(wrong).toEqual({ status: 401, retryAfter: null, body: JSON.stringify({ error: { code: 'bad_credentials', message: 'E-mail or password is wrong', details: null } }) });
+    expect(wrong).toEqual({
+      status: 401,
+      retryAfter: null,
+      body: JSON.stringify({
+        error: { code: 'bad_credentials', message: 'E-mail or password is wrong', details: null },
+      }),
+    });
     for (let i = 1; i < LOCKOUT_THRESHOLD - 1; i++) expect(seen(await attempt(u.email, `wrong-${i}`))).toEqual(wrong);
     expect((await row(u.id)).failedSignIns).toBe(LOCKOUT_THRESHOLD - 1);
     const tenth = await attempt(u.email, 'wrong-10');
@@ -171,7 +207,10 @@ describe(`lockout: ${LOCKOUT_THRESHOLD} failures in ${LOCKOUT_WINDOW_MS / 60000}
     // still locked: the right password did not open it, nor reset the count
     expect((await row(u.id)).lockedUntil).toEqual(lockedUntil);
     // the owner is told, by e-mail, when it opens again (the answer itself says nothing)
-    const mail = (await db.dataSource.query(`SELECT "subject", "text", "site_id" FROM "mail_outbox" WHERE "to_address" = $1`, [u.email])) as {
+    const mail = (await db.dataSource.query(
+      `SELECT "subject", "text", "site_id" FROM "mail_outbox" WHERE "to_address" = $1`,
+      [u.email],
+    )) as {
       subject: string;
       text: string;
       site_id: string | null;
@@ -193,7 +232,9 @@ describe(`lockout: ${LOCKOUT_THRESHOLD} failures in ${LOCKOUT_WINDOW_MS / 60000}
 
   test('failures racing in parallel are all counted (row lock)', async () => {
     const u = await newUser();
-    const results = await Promise.all(Array.from({ length: LOCKOUT_THRESHOLD + 2 }, (_, i) => attempt(u.email, `wrong-${i}`)));
+    const results = await Promise.all(
+      Array.from({ length: LOCKOUT_THRESHOLD + 2 }, (_, i) => attempt(u.email, `wrong-${i}`)),
+    );
     expect(results.every((r) => r.status === 401)).toBe(true);
     expect((await row(u.id)).lockedUntil).not.toBeNull();
     expect((await attempt(u.email, GOOD)).status).toBe(401);
@@ -211,7 +252,9 @@ describe(`lockout: ${LOCKOUT_THRESHOLD} failures in ${LOCKOUT_WINDOW_MS / 60000}
   test('failures older than the window do not count: 9 failures 16 min ago, one now → count 1, not locked', async () => {
     const u = await newUser();
     for (let i = 0; i < LOCKOUT_THRESHOLD - 1; i++) await attempt(u.email, 'wrong');
-    await db.dataSource.getRepository(UserEntity).update({ id: u.id }, { failedSignInsSince: new Date(Date.now() - LOCKOUT_WINDOW_MS - 60_000) });
+    await db.dataSource
+      .getRepository(UserEntity)
+      .update({ id: u.id }, { failedSignInsSince: new Date(Date.now() - LOCKOUT_WINDOW_MS - 60_000) });
     expect((await attempt(u.email, 'wrong')).status).toBe(401);
     expect((await row(u.id)).failedSignIns).toBe(1);
   });
@@ -231,18 +274,30 @@ describe(`lockout: ${LOCKOUT_THRESHOLD} failures in ${LOCKOUT_WINDOW_MS / 60000}
     const s = await signIn(app, u.email, GOOD);
     const statuses: number[] = [];
     for (let i = 0; i < LOCKOUT_THRESHOLD; i++) {
-      statuses.push((await request(app).post('/api/auth/password').set(bearer(s.accessToken)).send({ currentPassword: `guess-${i}`, newPassword: 'a brand new passphrase' })).status);
+      statuses.push(
+        (
+          await request(app)
+            .post('/api/auth/password')
+            .set(bearer(s.accessToken))
+            .send({ currentPassword: `guess-${i}`, newPassword: 'a brand new passphrase' })
+        ).status,
+      );
     }
     // the tenth locks; a locked account's current password is refused like a wrong one (403), not looked at
     expect(statuses).toEqual(Array(LOCKOUT_THRESHOLD).fill(403));
-    const right = await request(app).post('/api/auth/password').set(bearer(s.accessToken)).send({ currentPassword: GOOD, newPassword: 'a brand new passphrase' });
+    const right = await request(app)
+      .post('/api/auth/password')
+      .set(bearer(s.accessToken))
+      .send({ currentPassword: GOOD, newPassword: 'a brand new passphrase' });
     expect(right.status).toBe(403);
     expect((await row(u.id)).lockedUntil).not.toBeNull();
     expect((await attempt(u.email, GOOD)).status).toBe(401);
   });
 
   test('the demo users are not locked by this file (their failures elsewhere stay below the threshold)', async () => {
-    const rows = (await db.dataSource.query(`SELECT "email" FROM "users" WHERE "locked_until" IS NOT NULL AND "email" NOT LIKE 'lock-%'`)) as { email: string }[];
+    const rows = (await db.dataSource.query(
+      `SELECT "email" FROM "users" WHERE "locked_until" IS NOT NULL AND "email" NOT LIKE 'lock-%'`,
+    )) as { email: string }[];
     expect(rows).toEqual([]);
   });
 });

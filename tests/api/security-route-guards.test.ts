@@ -71,7 +71,16 @@ const pushBody = (f: Fixtures) => ({
   payloadVersion: 2,
   deviceId: 'guard-table',
   sentAt: '2026-12-01T06:00:00Z',
-  rounds: [{ id: PUSH_ROUND_ID, routeVersionId: f.routeVersionId, startedAt: '2026-12-01T06:00:00Z', finishedAt: null, status: 'in-progress', dismissals: [] }],
+  rounds: [
+    {
+      id: PUSH_ROUND_ID,
+      routeVersionId: f.routeVersionId,
+      startedAt: '2026-12-01T06:00:00Z',
+      finishedAt: null,
+      status: 'in-progress',
+      dismissals: [],
+    },
+  ],
   readings: [],
   checkAnswers: [],
   photos: [],
@@ -95,7 +104,10 @@ const GUARDS: Record<string, Guard> = {
   'GET /api/sites/:siteId/assignees': site(READ),
   'GET /api/sites/:siteId/work-orders': site(READ),
   'GET /api/sites/:siteId/work-orders/:id': site(READ, { params: { id: 'workOrderId' } }),
-  'POST /api/sites/:siteId/work-orders/:id/:action': site(ACT, { params: { id: 'workOrderId' }, body: () => ({ comment: 'seen on the round' }) }),
+  'POST /api/sites/:siteId/work-orders/:id/:action': site(ACT, {
+    params: { id: 'workOrderId' },
+    body: () => ({ comment: 'seen on the round' }),
+  }),
   'GET /api/sites/:siteId/instruments': site(READ),
   'GET /api/sites/:siteId/instruments/:tag/history': site(READ),
   'PATCH /api/sites/:siteId/instruments/:instrumentId': site(ADMIN, { body: () => ({ status: 'suspect' }) }),
@@ -119,7 +131,11 @@ const GUARDS: Record<string, Guard> = {
 };
 
 /** The 404 bodies' messages the guards give a caller who may not know the thing exists. */
-const GUARD_404 = new Set(['Site not found', 'Photo not found', 'No photo with this id was announced on your sites: push its round with the photo first']);
+const GUARD_404 = new Set([
+  'Site not found',
+  'Photo not found',
+  'No photo with this id was announced on your sites: push its round with the photo first',
+]);
 
 /** Default fixture of a path parameter by its name. */
 const FIXTURE_OF: Record<string, keyof Fixtures> = {
@@ -149,9 +165,11 @@ function routesOf(app: Express): string[] {
     for (const layer of stack) {
       if (layer.route) {
         const paths = Array.isArray(layer.route.path) ? layer.route.path : [layer.route.path];
-        for (const p of paths) for (const m of Object.keys(layer.route.methods)) out.push(`${m.toUpperCase()} ${norm(prefix + p)}`);
+        for (const p of paths)
+          for (const m of Object.keys(layer.route.methods)) out.push(`${m.toUpperCase()} ${norm(prefix + p)}`);
       } else if (layer.handle?.stack) {
-        if (typeof layer.rawPath !== 'string') throw new Error(`a router mounted at ${String(layer.rawPath)}: only string mount paths are understood here`);
+        if (typeof layer.rawPath !== 'string')
+          throw new Error(`a router mounted at ${String(layer.rawPath)}: only string mount paths are understood here`);
         walk(layer.handle.stack, layer.rawPath === '/' ? prefix : prefix + layer.rawPath);
       }
     }
@@ -171,12 +189,22 @@ beforeAll(async () => {
   w = await makeWorld();
   // the mail fake's mailbox on, as `npm run dev` has it
   app = createApp({ config: testConfig(w.db.url), dataSource: w.db.dataSource, devMailbox: true });
-  Object.assign(tokens, { tech: w.tokens.tech, planner: w.tokens.planner, engineer: w.tokens.engineer, admin: w.tokens.admin, brack: w.tokens.brackPlanner });
+  Object.assign(tokens, {
+    tech: w.tokens.tech,
+    planner: w.tokens.planner,
+    engineer: w.tokens.engineer,
+    admin: w.tokens.admin,
+    brack: w.tokens.brackPlanner,
+  });
   // a round with a photo announced, and a thermometer biased far enough to open a work order
   const r = await pushRound(w, { bias: { 'TI-102A': 10 }, photos: ['PI-101'] });
   await runAnalysisJob({ dataSource: w.db.dataSource, logger: memoryLogger('silent').logger }, r.roundId);
-  const [wo] = (await w.db.dataSource.query(`SELECT "id" FROM "work_orders" WHERE "site_id" = $1 LIMIT 1`, [w.fernId])) as { id: string }[];
-  const [route] = (await w.db.dataSource.query(`SELECT "id" FROM "routes" WHERE "site_id" = $1 LIMIT 1`, [w.fernId])) as { id: string }[];
+  const [wo] = (await w.db.dataSource.query(`SELECT "id" FROM "work_orders" WHERE "site_id" = $1 LIMIT 1`, [
+    w.fernId,
+  ])) as { id: string }[];
+  const [route] = (await w.db.dataSource.query(`SELECT "id" FROM "routes" WHERE "site_id" = $1 LIMIT 1`, [
+    w.fernId,
+  ])) as { id: string }[];
   expect(wo).toBeDefined();
   f = {
     siteId: w.fernId,
@@ -230,7 +258,11 @@ function call(key: string, g: Guard, token?: string, fx: Fixtures = f, withBody 
 
 function expectPastGuard(key: string, who: string, res: request.Response) {
   const why = `${key} as ${who}: ${res.status} ${JSON.stringify(res.body?.error ?? '')}`;
-  if ([401, 403].includes(res.status) || res.status >= 500 || (res.status === 404 && GUARD_404.has(res.body?.error?.message))) {
+  if (
+    [401, 403].includes(res.status) ||
+    res.status >= 500 ||
+    (res.status === 404 && GUARD_404.has(res.body?.error?.message))
+  ) {
     throw new Error(`expected to get past the guard: ${why}`);
   }
 }
@@ -239,12 +271,16 @@ test('GUARDS lists exactly the routes the app has (a new route needs its line he
   const actual = routesOf(app).sort();
   const listed = Object.keys(GUARDS).sort();
   expect(actual.length).toBeGreaterThan(20);
-  expect({ missingFromTable: actual.filter((r) => !(r in GUARDS)), goneFromApp: listed.filter((r) => !actual.includes(r)) }).toEqual({
+  expect({
+    missingFromTable: actual.filter((r) => !(r in GUARDS)),
+    goneFromApp: listed.filter((r) => !actual.includes(r)),
+  }).toEqual({
     missingFromTable: [],
     goneFromApp: [],
   });
   // every table line says who may call it
-  for (const [k, g] of Object.entries(GUARDS)) expect({ k, ok: !!g.public || (g.allow?.length ?? 0) > 0 }).toEqual({ k, ok: true });
+  for (const [k, g] of Object.entries(GUARDS))
+    expect({ k, ok: !!g.public || (g.allow?.length ?? 0) > 0 }).toEqual({ k, ok: true });
 });
 
 test('the route walker sees a route added later (so the check above can fail)', () => {
@@ -290,7 +326,11 @@ describe.each(Object.entries(GUARDS))('%s', (key, g) => {
   test('no token or a garbage one → 401 unauthorized', async () => {
     for (const t of [undefined, 'not-a-jwt']) {
       const res = await call(key, g, t);
-      expect({ key, status: res.status, code: res.body?.error?.code }).toEqual({ key, status: 401, code: 'unauthorized' });
+      expect({ key, status: res.status, code: res.body?.error?.code }).toEqual({
+        key,
+        status: 401,
+        code: 'unauthorized',
+      });
     }
   });
 
@@ -300,7 +340,11 @@ describe.each(Object.entries(GUARDS))('%s', (key, g) => {
       if (g.allow!.includes(who)) expectPastGuard(key, who, res);
       else {
         const denied = g.denied ?? 403;
-        expect({ who, status: res.status, code: res.body?.error?.code }).toEqual({ who, status: denied, code: denied === 403 ? 'forbidden' : 'not_found' });
+        expect({ who, status: res.status, code: res.body?.error?.code }).toEqual({
+          who,
+          status: denied,
+          code: denied === 403 ? 'forbidden' : 'not_found',
+        });
       }
     }
   });
@@ -325,8 +369,12 @@ test('dev-only: without the mail fake GET /api/dev/mailbox is 404 even for an ad
 });
 
 test('a Fernhallow work order asked for under the Brackenmoor site id → 404 for the Brackenmoor planner too', async () => {
-  const res = await request(app).get(`/api/sites/${w.brackId}/work-orders/${f.workOrderId}`).set('Authorization', `Bearer ${tokens.brack}`);
+  const res = await request(app)
+    .get(`/api/sites/${w.brackId}/work-orders/${f.workOrderId}`)
+    .set('Authorization', `Bearer ${tokens.brack}`);
   expect(res.status).toBe(404);
-  const round = await request(app).get(`/api/sites/${w.brackId}/rounds/${f.roundId}/analysis`).set('Authorization', `Bearer ${tokens.brack}`);
+  const round = await request(app)
+    .get(`/api/sites/${w.brackId}/rounds/${f.roundId}/analysis`)
+    .set('Authorization', `Bearer ${tokens.brack}`);
   expect(round.status).toBe(404);
 });

@@ -18,7 +18,9 @@ let db: TestDb;
 let userId: string;
 beforeAll(async () => {
   db = await createTestDatabase();
-  [{ id: userId }] = (await db.dataSource.query(`SELECT "id" FROM "users" WHERE "email" = 'tech@fernhallow.example'`)) as { id: string }[];
+  [{ id: userId }] = (await db.dataSource.query(
+    `SELECT "id" FROM "users" WHERE "email" = 'tech@fernhallow.example'`,
+  )) as { id: string }[];
 });
 afterAll(() => db?.drop());
 
@@ -47,9 +49,23 @@ test('prunes expired rows and dead families past the grace; keeps a live family 
     justExpired: await token(randomUUID(), hours(-1), null), // expired an hour ago: within the grace
   };
   const deleted = await pruneRefreshTokens(db.dataSource, NOW);
-  const left = new Set(((await db.dataSource.query(`SELECT "id" FROM "refresh_tokens" WHERE "id" = ANY($1::uuid[])`, [Object.values(rows)])) as { id: string }[]).map((r) => r.id));
+  const left = new Set(
+    (
+      (await db.dataSource.query(`SELECT "id" FROM "refresh_tokens" WHERE "id" = ANY($1::uuid[])`, [
+        Object.values(rows),
+      ])) as { id: string }[]
+    ).map((r) => r.id),
+  );
   const kept = Object.fromEntries(Object.entries(rows).map(([k, id]) => [k, left.has(id)]));
-  expect(kept).toEqual({ liveCurrent: true, liveRetired: true, liveExpired: false, deadRetired: false, deadRetired2: false, freshlyRetired: true, justExpired: true });
+  expect(kept).toEqual({
+    liveCurrent: true,
+    liveRetired: true,
+    liveExpired: false,
+    deadRetired: false,
+    deadRetired2: false,
+    freshlyRetired: true,
+    justExpired: true,
+  });
   expect(deleted).toBe(3);
   expect(PRUNE_GRACE_MS).toBe(24 * 3600_000);
 });
@@ -76,7 +92,10 @@ test('a process that runs workers puts the pruning on its pg-boss schedule (hour
     poolSize: 2,
   });
   try {
-    const schedules = (await db.dataSource.query(`SELECT "name", "cron", "timezone" FROM "pgboss"."schedule" WHERE "name" = $1`, [PRUNE_QUEUE])) as {
+    const schedules = (await db.dataSource.query(
+      `SELECT "name", "cron", "timezone" FROM "pgboss"."schedule" WHERE "name" = $1`,
+      [PRUNE_QUEUE],
+    )) as {
       name: string;
       cron: string;
       timezone: string;
@@ -87,7 +106,9 @@ test('a process that runs workers puts the pruning on its pg-boss schedule (hour
     const jobId = await runtime.boss.send(PRUNE_QUEUE, {});
     expect(jobId).toBeTruthy();
     for (let i = 0; i < 100; i++) {
-      const [row] = (await db.dataSource.query(`SELECT count(*)::int AS n FROM "refresh_tokens" WHERE "id" = $1`, [doomed])) as { n: number }[];
+      const [row] = (await db.dataSource.query(`SELECT count(*)::int AS n FROM "refresh_tokens" WHERE "id" = $1`, [
+        doomed,
+      ])) as { n: number }[];
       if (row.n === 0) break;
       await new Promise((r) => setTimeout(r, 200));
     }

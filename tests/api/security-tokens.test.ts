@@ -26,7 +26,9 @@ beforeAll(async () => {
   app = testApp(db.dataSource, db.url);
   techId = (await db.dataSource.getRepository(UserEntity).findOneByOrFail({ email: demoUser('technician').email })).id;
   adminId = (await db.dataSource.getRepository(UserEntity).findOneByOrFail({ email: demoUser('admin').email })).id;
-  [{ id: fernId }] = (await db.dataSource.query(`SELECT "id" FROM "sites" WHERE "slug" = 'fernhallow'`)) as { id: string }[];
+  [{ id: fernId }] = (await db.dataSource.query(`SELECT "id" FROM "sites" WHERE "slug" = 'fernhallow'`)) as {
+    id: string;
+  }[];
 });
 afterAll(() => db?.drop());
 
@@ -36,7 +38,11 @@ const claims = (sub: string) => ({ sub, iss: 'trueround', aud: 'trueround-api', 
 
 async function expect401(token: string, path = '/api/me') {
   const res = await request(app).get(path).set(bearer(token));
-  expect({ token: token.slice(0, 40), status: res.status, code: res.body?.error?.code }).toEqual({ token: token.slice(0, 40), status: 401, code: 'unauthorized' });
+  expect({ token: token.slice(0, 40), status: res.status, code: res.body?.error?.code }).toEqual({
+    token: token.slice(0, 40),
+    status: 401,
+    code: 'unauthorized',
+  });
   return res;
 }
 
@@ -44,7 +50,9 @@ test('a refresh token sent as the access token → 401; an access token sent to 
   const s = await signIn(app, demoUser('technician').email);
   await expect401(s.refreshToken);
   await expect401(s.refreshToken, `/api/sites/${fernId}`);
-  const res = await request(app).post('/api/auth/refresh').send({ refreshToken: s.accessToken.slice(0, 200) });
+  const res = await request(app)
+    .post('/api/auth/refresh')
+    .send({ refreshToken: s.accessToken.slice(0, 200) });
   expect(res.status).toBe(401);
   // both still work in their own place
   expect((await request(app).get('/api/me').set(bearer(s.accessToken))).status).toBe(200);
@@ -77,11 +85,18 @@ test('RFC 7519 §4.1.4/§4.1.5: a token without exp, or not valid before a futur
   const later = jwt.sign({ ...claims(techId), nbf: now() + 300 }, TEST_SECRET, { algorithm: 'HS256' });
   await expect401(later);
   // the same claims without nbf pass: the nbf is what failed
-  expect((await request(app).get('/api/me').set(bearer(jwt.sign(claims(techId), TEST_SECRET, { algorithm: 'HS256' })))).status).toBe(200);
+  expect(
+    (
+      await request(app)
+        .get('/api/me')
+        .set(bearer(jwt.sign(claims(techId), TEST_SECRET, { algorithm: 'HS256' })))
+    ).status,
+  ).toBe(200);
 });
 
 test('a correctly signed token whose sub is not a user id (an e-mail, a number, missing) → 401', async () => {
-  for (const sub of [demoUser('admin').email, '1', '']) await expect401(jwt.sign(claims(sub), TEST_SECRET, { algorithm: 'HS256' }));
+  for (const sub of [demoUser('admin').email, '1', ''])
+    await expect401(jwt.sign(claims(sub), TEST_SECRET, { algorithm: 'HS256' }));
   const { sub: _sub, ...noSub } = claims(techId);
   await expect401(jwt.sign(noSub, TEST_SECRET, { algorithm: 'HS256' }));
 });
@@ -89,14 +104,22 @@ test('a correctly signed token whose sub is not a user id (an e-mail, a number, 
 test('RFC 6750 §2.3 is not supported: an access token in the query string or a form field → 401', async () => {
   const { accessToken } = await signIn(app, demoUser('technician').email);
   expect((await request(app).get(`/api/me?access_token=${accessToken}`)).status).toBe(401);
-  expect((await request(app).post('/api/auth/sign-out').type('form').send({ access_token: accessToken, refreshToken: 'x' })).status).toBe(401);
+  expect(
+    (await request(app).post('/api/auth/sign-out').type('form').send({ access_token: accessToken, refreshToken: 'x' }))
+      .status,
+  ).toBe(401);
 });
 
 describe('requireAuth re-checks the user: a disabled or deleted account loses access at once, not at exp', () => {
   test('disabling a user: their unexpired access token → 401 on every guarded route; enabling again restores it', async () => {
     const email = 'kept-out@fernhallow.example';
-    const user = await db.dataSource.getRepository(UserEntity).save({ email, name: 'Kept Out', passwordHash: await hashPassword('a long enough password'), disabled: false });
-    await db.dataSource.query(`INSERT INTO "memberships" ("user_id", "site_id", "role") VALUES ($1, $2, 'admin')`, [user.id, fernId]);
+    const user = await db.dataSource
+      .getRepository(UserEntity)
+      .save({ email, name: 'Kept Out', passwordHash: await hashPassword('a long enough password'), disabled: false });
+    await db.dataSource.query(`INSERT INTO "memberships" ("user_id", "site_id", "role") VALUES ($1, $2, 'admin')`, [
+      user.id,
+      fernId,
+    ]);
     const s = await signIn(app, email, 'a long enough password');
     expect((await request(app).get(`/api/sites/${fernId}/members`).set(bearer(s.accessToken))).status).toBe(200);
 

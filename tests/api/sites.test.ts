@@ -28,7 +28,9 @@ afterAll(() => db?.drop());
 
 test('any member reads the site: Fernhallow Works, Europe/London, 112 m, with their own role', async () => {
   for (const role of ['technician', 'planner', 'engineer', 'admin'] as const) {
-    const res = await request(app).get(`/api/sites/${fernhallowId}`).set(bearer(tokens[`${role}@fernhallow`]));
+    const res = await request(app)
+      .get(`/api/sites/${fernhallowId}`)
+      .set(bearer(tokens[`${role}@fernhallow`]));
     expect(res.status).toBe(200);
     expect(SiteResponse.parse(res.body)).toEqual({
       id: fernhallowId,
@@ -47,7 +49,13 @@ test('the technician on the admin-only members route → 403 forbidden', async (
   expect(res.body.error.code).toBe('forbidden');
   expect(res.body.error.message).toContain('admin');
   for (const role of ['planner', 'engineer']) {
-    expect((await request(app).get(`/api/sites/${fernhallowId}/members`).set(bearer(tokens[`${role}@fernhallow`]))).status).toBe(403);
+    expect(
+      (
+        await request(app)
+          .get(`/api/sites/${fernhallowId}/members`)
+          .set(bearer(tokens[`${role}@fernhallow`]))
+      ).status,
+    ).toBe(403);
   }
 });
 
@@ -64,17 +72,21 @@ test("the Brackenmoor planner asking for Fernhallow's site → 404, the same as 
   const other = await request(app).get(`/api/sites/${fernhallowId}`).set(bearer(tokens['planner@brackenmoor']));
   expect(other.status).toBe(404);
   expect(other.body.error.code).toBe('not_found');
-  const members = await request(app).get(`/api/sites/${fernhallowId}/members`).set(bearer(tokens['planner@brackenmoor']));
+  const members = await request(app)
+    .get(`/api/sites/${fernhallowId}/members`)
+    .set(bearer(tokens['planner@brackenmoor']));
   expect(members.status).toBe(404);
-  const none = await request(app).get('/api/sites/00000000-0000-4000-8000-000000000000').set(bearer(tokens['planner@brackenmoor']));
+  const none = await request(app)
+    .get('/api/sites/00000000-0000-4000-8000-000000000000')
+    .set(bearer(tokens['planner@brackenmoor']));
   expect(none.status).toBe(404);
   expect(none.body).toEqual(other.body);
   const notUuid = await request(app).get('/api/sites/fernhallow').set(bearer(tokens['planner@brackenmoor']));
   expect(notUuid.status).toBe(404);
   // …and their own site is there.
-  expect((await request(app).get(`/api/sites/${brackenmoorId}`).set(bearer(tokens['planner@brackenmoor']))).body.name).toBe(
-    'Brackenmoor Boiler House',
-  );
+  expect(
+    (await request(app).get(`/api/sites/${brackenmoorId}`).set(bearer(tokens['planner@brackenmoor']))).body.name,
+  ).toBe('Brackenmoor Boiler House');
 });
 
 test('site routes need a token: 401 before any site lookup', async () => {
@@ -85,7 +97,9 @@ test('site routes need a token: 401 before any site lookup', async () => {
 
 test('planners and engineers list the people a work order can go to; a technician may not (403)', async () => {
   for (const role of ['planner', 'engineer', 'admin']) {
-    const res = await request(app).get(`/api/sites/${fernhallowId}/assignees`).set(bearer(tokens[`${role}@fernhallow`]));
+    const res = await request(app)
+      .get(`/api/sites/${fernhallowId}/assignees`)
+      .set(bearer(tokens[`${role}@fernhallow`]));
     expect(res.status).toBe(200);
     expect(res.body.members.map((m: { email: string }) => m.email).sort()).toEqual([
       'admin@fernhallow.example',
@@ -94,5 +108,8 @@ test('planners and engineers list the people a work order can go to; a technicia
       'tech@fernhallow.example',
     ]);
   }
-  expect((await request(app).get(`/api/sites/${fernhallowId}/assignees`).set(bearer(tokens['technician@fernhallow']))).status).toBe(403);
+  expect(
+    (await request(app).get(`/api/sites/${fernhallowId}/assignees`).set(bearer(tokens['technician@fernhallow'])))
+      .status,
+  ).toBe(403);
 });

@@ -56,12 +56,23 @@ test('cursor 0 gives the site’s unit, its 42 instruments and its three routes 
   expect(body.instruments).toHaveLength(demoUnit.instruments.length + 1);
   expect(body.instruments.filter((i) => i.isBarometer).map((i) => i.tag)).toEqual(['PI-001']);
   const pi101 = body.instruments.find((i) => i.tag === 'PI-101')!;
-  expect(pi101).toMatchObject({ quantity: 'pressure', reference: 'gauge', gaugeUnit: 'bar', pointRef: 'drum', status: 'ok', rowVersion: 1 });
+  expect(pi101).toMatchObject({
+    quantity: 'pressure',
+    reference: 'gauge',
+    gaugeUnit: 'bar',
+    pointRef: 'drum',
+    status: 'ok',
+    rowVersion: 1,
+  });
   expect(pi101.calibrationDate).toMatch(/^\d{4}-\d{2}-\d{2}$/);
   expect(body.routes.map((r) => r.name).sort()).toEqual(fernhallowRoutes.map((r) => r.name).sort());
   const bh = body.routes.find((r) => r.name === 'Boiler house')!;
   expect(bh.version).toMatchObject({ number: 1, template: boilerHouseRoute });
-  const max = Math.max(...body.units.map((u) => u.syncVersion), ...body.instruments.map((i) => i.syncVersion), ...body.routes.map((r) => r.syncVersion));
+  const max = Math.max(
+    ...body.units.map((u) => u.syncVersion),
+    ...body.instruments.map((i) => i.syncVersion),
+    ...body.routes.map((r) => r.syncVersion),
+  );
   expect(body.cursor).toBe(max);
   // an absent cursor is 0
   expect(PullResponse.parse((await pull(undefined)).body).instruments).toHaveLength(body.instruments.length);
@@ -93,7 +104,8 @@ test('after a new route version is published the next pull returns that route (v
   const template = structuredClone(boilerHouseRoute);
   template.stops[3].caution = `${template.stops[3].caution} Two people on the platform when blowing down.`;
   template.stops[3].readings[2].band = { min: 40, max: 60 };
-  const admin = (await db.dataSource.query(`SELECT id FROM users WHERE email = $1`, [demoUser('admin').email]))[0].id as string;
+  const admin = (await db.dataSource.query(`SELECT id FROM users WHERE email = $1`, [demoUser('admin').email]))[0]
+    .id as string;
   const v2 = await db.dataSource.transaction((em) => publishRouteVersion(em, route.id, template, admin));
   expect(v2.number).toBe(2);
 
@@ -114,13 +126,17 @@ test('after a new route version is published the next pull returns that route (v
       payloadVersion: 2,
       deviceId: 'test-phone-2',
       sentAt: new Date().toISOString(),
-      rounds: [{ id: roundId, routeVersionId: v1, startedAt: new Date().toISOString(), status: 'in-progress', dismissals: [] }],
+      rounds: [
+        { id: roundId, routeVersionId: v1, startedAt: new Date().toISOString(), status: 'in-progress', dismissals: [] },
+      ],
       readings: [],
       checkAnswers: [],
       photos: [],
     });
   expect(res.status).toBe(200);
-  expect((await db.dataSource.query(`SELECT route_version_id FROM rounds WHERE id = $1`, [roundId]))[0].route_version_id).toBe(v1);
+  expect(
+    (await db.dataSource.query(`SELECT route_version_id FROM rounds WHERE id = $1`, [roundId]))[0].route_version_id,
+  ).toBe(v1);
 });
 
 test('a template that does not fit the unit is not published (400 naming template.<path>)', async () => {
@@ -130,14 +146,19 @@ test('a template that does not fit the unit is not published (400 naming templat
   bad.stops[1].readings[0].tag = 'PI-999';
   await expect(db.dataSource.transaction((em) => publishRouteVersion(em, route.id, bad, null))).rejects.toMatchObject({
     status: 400,
-    details: [{ path: 'template.stops.1.readings.0.tag', message: 'PI-999 is not an instrument of unit "fernhallow-u1"' }],
+    details: [
+      { path: 'template.stops.1.readings.0.tag', message: 'PI-999 is not an instrument of unit "fernhallow-u1"' },
+    ],
   });
 });
 
 test('an instrument marked suspect comes down on the next pull with its new row version', async () => {
   const start = PullResponse.parse((await pull(0)).body);
   const repo = db.dataSource.getRepository(InstrumentEntity);
-  const row = await repo.findOneOrFail({ where: { tag: 'TI-102A', unit: { siteId: fern } }, relations: { unit: true } });
+  const row = await repo.findOneOrFail({
+    where: { tag: 'TI-102A', unit: { siteId: fern } },
+    relations: { unit: true },
+  });
   await repo.save({ ...row, status: 'suspect' });
   const next = PullResponse.parse((await pull(start.cursor)).body);
   expect(next.instruments.map((i) => [i.tag, i.status, i.rowVersion])).toEqual([['TI-102A', 'suspect', 2]]);
@@ -154,6 +175,8 @@ test('Brackenmoor’s pull is its own; a site you are not a member of is 404; a 
   expect(foreign.body.error.code).toBe('not_found');
   const bad = await pull('-1');
   expect(bad.status).toBe(400);
-  expect(bad.body.error.details).toEqual([{ path: 'cursor', message: 'Must be a whole number ≥ 0 (the cursor of the last pull)' }]);
+  expect(bad.body.error.details).toEqual([
+    { path: 'cursor', message: 'Must be a whole number ≥ 0 (the cursor of the last pull)' },
+  ]);
   expect((await request(app).get('/api/sync/pull').query({ siteId: fern })).status).toBe(401);
 });

@@ -57,7 +57,13 @@ beforeAll(async () => {
   // invented people of this file: a second Fernhallow technician, and an admin of Brackenmoor (a push role there)
   userIds.tech = (await signIn(app, demoUser('technician').email)).user.id;
   userIds.admin = (await signIn(app, demoUser('admin').email)).user.id;
-  userIds.tech2 = await addMember(db.dataSource, 'fernhallow', 'ash.renner@fernhallow.example', 'Ash Renner', 'technician');
+  userIds.tech2 = await addMember(
+    db.dataSource,
+    'fernhallow',
+    'ash.renner@fernhallow.example',
+    'Ash Renner',
+    'technician',
+  );
   tokens.tech2 = (await signIn(app, 'ash.renner@fernhallow.example')).accessToken;
   await addMember(db.dataSource, 'brackenmoor', 'admin@brackenmoor.example', 'Lee Harrow', 'admin');
   tokens.brackAdmin = (await signIn(app, 'admin@brackenmoor.example')).accessToken;
@@ -90,7 +96,16 @@ function batch(
     payloadVersion: 2,
     deviceId: 'test-phone-1',
     sentAt: now(),
-    rounds: [{ id: roundId, routeVersionId: version[routeKey], startedAt: now(), finishedAt: null, status: 'in-progress', dismissals: [] }],
+    rounds: [
+      {
+        id: roundId,
+        routeVersionId: version[routeKey],
+        startedAt: now(),
+        finishedAt: null,
+        status: 'in-progress',
+        dismissals: [],
+      },
+    ],
     readings: readings.map((r) => ({
       id: randomUUID(),
       roundId,
@@ -112,7 +127,10 @@ function batch(
 }
 
 const push = (body: unknown, token = tokens.tech, on: Express = app) =>
-  request(on).post('/api/sync/push').set(bearer(token)).send(body as object);
+  request(on)
+    .post('/api/sync/push')
+    .set(bearer(token))
+    .send(body as object);
 
 async function counts(roundId: string) {
   const [row] = (await db.dataSource.query(
@@ -133,10 +151,26 @@ test('the same push sent 3 times stores each round, reading, answer and photo on
     { tag: 'FI-101', value: null, unit: 't/h', skipReason: 'meter face fogged' },
   ]);
   b.checkAnswers = [
-    { id: randomUUID(), roundId: b.roundId, checkId: 'drum-glass-clear', answer: { kind: 'yes-no', value: true }, note: null, deviceTime: now() },
+    {
+      id: randomUUID(),
+      roundId: b.roundId,
+      checkId: 'drum-glass-clear',
+      answer: { kind: 'yes-no', value: true },
+      note: null,
+      deviceTime: now(),
+    },
   ];
   const photoId = randomUUID();
-  b.photos = [{ id: photoId, roundId: b.roundId, readingId: b.readings[0].id, sha256: 'a'.repeat(64), mime: 'image/jpeg', bytes: 1234 }];
+  b.photos = [
+    {
+      id: photoId,
+      roundId: b.roundId,
+      readingId: b.readings[0].id,
+      sha256: 'a'.repeat(64),
+      mime: 'image/jpeg',
+      bytes: 1234,
+    },
+  ];
 
   const first = await push(b);
   expect(first.status).toBe(200);
@@ -249,7 +283,10 @@ test('an implausible barometer reading (1013 kPa, meant as 1013 hPa) is refused 
   const b = batch('boiler-house', [{ tag: 'PI-001', value: 1013, unit: 'kPa', reference: 'absolute' }]);
   const res = await push(b);
   expect(res.status).toBe(400);
-  expect(res.body.error.details[0]).toMatchObject({ path: 'readings.0.valueTyped', message: expect.stringContaining('barometric pressure') });
+  expect(res.body.error.details[0]).toMatchObject({
+    path: 'readings.0.valueTyped',
+    message: expect.stringContaining('barometric pressure'),
+  });
 });
 
 test('pressure references: a gauge without one, or a temperature with one, is refused on reference', async () => {
@@ -260,17 +297,25 @@ test('pressure references: a gauge without one, or a temperature with one, is re
     ]),
   );
   expect(res.status).toBe(400);
-  expect((res.body.error.details as { path: string }[]).map((d) => d.path)).toEqual(['readings.0.reference', 'readings.1.reference']);
+  expect((res.body.error.details as { path: string }[]).map((d) => d.path)).toEqual([
+    'readings.0.reference',
+    'readings.1.reference',
+  ]);
 });
 
 test('payloadVersion 1 (the previous) and 2 (current) are accepted; 3 is refused naming payloadVersion', async () => {
   const v2 = batch('turbine-hall', [{ tag: 'JI-601', value: 21.9, unit: 'MW' }]);
   v2.readings[0].flags = [{ code: 'twin', message: 'differs from JI-602 by 0.4 MW' }];
   v2.readings[0].confirmedAfterFlag = true;
-  v2.rounds[0].dismissals = [{ readingId: v2.readings[0].id, flag: 'twin', note: 'panel meter known to read high', deviceTime: now() }];
+  v2.rounds[0].dismissals = [
+    { readingId: v2.readings[0].id, flag: 'twin', note: 'panel meter known to read high', deviceTime: now() },
+  ];
   expect((await push(v2)).status).toBe(200);
 
-  const v1 = batch('turbine-hall', [{ tag: 'JI-602', value: 21.87, unit: 'MW' }]) as unknown as Record<string, unknown> & {
+  const v1 = batch('turbine-hall', [{ tag: 'JI-602', value: 21.87, unit: 'MW' }]) as unknown as Record<
+    string,
+    unknown
+  > & {
     roundId: string;
     rounds: Record<string, unknown>[];
     readings: Record<string, unknown>[];
@@ -287,24 +332,38 @@ test('payloadVersion 1 (the previous) and 2 (current) are accepted; 3 is refused
     `SELECT r.flags, r.confirmed_after_flag, o.dismissals FROM readings r JOIN rounds o ON o.id = r.round_id WHERE r.round_id = ANY($1::uuid[]) ORDER BY o.id = $2 DESC`,
     [[v2.roundId, v1.roundId], v2.roundId],
   )) as { flags: unknown[]; confirmed_after_flag: boolean; dismissals: unknown[] }[];
-  expect(rows[0]).toMatchObject({ flags: [{ code: 'twin' }], confirmed_after_flag: true, dismissals: [{ flag: 'twin' }] });
+  expect(rows[0]).toMatchObject({
+    flags: [{ code: 'twin' }],
+    confirmed_after_flag: true,
+    dismissals: [{ flag: 'twin' }],
+  });
   expect(rows[1]).toEqual({ flags: [], confirmed_after_flag: false, dismissals: [] });
 
   const v3 = { ...batch('turbine-hall', [{ tag: 'JI-601', value: 21.9, unit: 'MW' }]), payloadVersion: 3 };
   const res3 = await push(v3);
   expect(res3.status).toBe(400);
-  expect(res3.body.error.details).toEqual([{ path: 'payloadVersion', message: 'payloadVersion must be 1 or 2 (the current 2 or the previous 1), got 3' }]);
+  expect(res3.body.error.details).toEqual([
+    { path: 'payloadVersion', message: 'payloadVersion must be 1 or 2 (the current 2 or the previous 1), got 3' },
+  ]);
   expect(await counts(v3.roundId)).toEqual({ rounds: 0, readings: 0, checkAnswers: 0, photos: 0 });
 });
 
 test("a push on another site's route answers byte for byte what an unknown route version answers; nothing stored", async () => {
   const b = batch('brackenmoor-boiler-house', [{ tag: 'PI-101', value: 9.5, unit: 'bar', reference: 'gauge' }]);
   const res = await push(b);
-  const unknown = batch('brackenmoor-boiler-house', [{ tag: 'PI-101', value: 9.5, unit: 'bar', reference: 'gauge' }], {}, b.roundId);
+  const unknown = batch(
+    'brackenmoor-boiler-house',
+    [{ tag: 'PI-101', value: 9.5, unit: 'bar', reference: 'gauge' }],
+    {},
+    b.roundId,
+  );
   unknown.rounds[0].routeVersionId = randomUUID();
   const res2 = await push(unknown);
   expect(res.status).toBe(400);
-  expect(res.body.error.details[0]).toEqual({ path: 'rounds.0.routeVersionId', message: 'this route version does not exist (pull again for the current routes)' });
+  expect(res.body.error.details[0]).toEqual({
+    path: 'rounds.0.routeVersionId',
+    message: 'this route version does not exist (pull again for the current routes)',
+  });
   expect({ status: res.status, body: res.text }).toEqual({ status: res2.status, body: res2.text });
   expect(await counts(b.roundId)).toEqual({ rounds: 0, readings: 0, checkAnswers: 0, photos: 0 });
   // mixed with a good round of the caller's own site: the whole batch is refused
@@ -330,7 +389,12 @@ test("an engineer may push rounds, but not add readings to the technician's roun
   expect((await push(mine, tokens.engineer)).status).toBe(200);
   const techRound = batch('turbine-hall', [{ tag: 'PI-201', value: 12, unit: 'bar', reference: 'gauge' }]);
   expect((await push(techRound)).status).toBe(200);
-  const intoIt = batch('turbine-hall', [{ tag: 'PI-202', value: 12, unit: 'bar', reference: 'gauge' }], {}, techRound.roundId);
+  const intoIt = batch(
+    'turbine-hall',
+    [{ tag: 'PI-202', value: 12, unit: 'bar', reference: 'gauge' }],
+    {},
+    techRound.roundId,
+  );
   intoIt.rounds = [];
   expect((await push(intoIt, tokens.engineer)).status).toBe(403);
   expect((await push(intoIt, tokens.admin)).status).toBe(200);
@@ -343,7 +407,10 @@ test('a reading for a round neither pushed nor stored, or an instrument of anoth
   b.readings.push({ ...b.readings[0], id: randomUUID(), roundId: b.roundId, instrumentId: brackInst['PI-101'] });
   const res = await push(b);
   expect(res.status).toBe(400);
-  expect((res.body.error.details as { path: string }[]).map((d) => d.path)).toEqual(['readings.0.roundId', 'readings.1.instrumentId']);
+  expect((res.body.error.details as { path: string }[]).map((d) => d.path)).toEqual([
+    'readings.0.roundId',
+    'readings.1.instrumentId',
+  ]);
 });
 
 test('check answers are checked against the round’s template: unknown check, wrong kind, not an option', async () => {
@@ -383,16 +450,19 @@ test('a correction supersedes the old reading; both stay (append-only), and the 
   wrong.readings[0].supersedes = b.readings[0].id;
   expect((await push(wrong)).body.error.details[0].path).toBe('readings.0.supersedes');
   expect((await counts(b.roundId)).readings).toBe(2);
-  await expect(db.dataSource.query(`UPDATE readings SET value_typed = 1 WHERE id = $1`, [b.readings[0].id])).rejects.toThrow(
-    /append-only/,
-  );
+  await expect(
+    db.dataSource.query(`UPDATE readings SET value_typed = 1 WHERE id = $1`, [b.readings[0].id]),
+  ).rejects.toThrow(/append-only/);
 });
 
 test('clock skew is recorded (server receive time − sentAt), and a later push finishes the round', async () => {
   const b = batch('condenser-cooling-water', [{ tag: 'TI-402', value: 24, unit: '°C' }]);
   b.sentAt = new Date(Date.now() - 90_000).toISOString(); // the phone's clock is 90 s behind
   expect((await push(b)).status).toBe(200);
-  const [r] = await db.dataSource.query(`SELECT client_clock_skew_ms, status, route_version_id FROM rounds WHERE id = $1`, [b.roundId]);
+  const [r] = await db.dataSource.query(
+    `SELECT client_clock_skew_ms, status, route_version_id FROM rounds WHERE id = $1`,
+    [b.roundId],
+  );
   expect(Number(r.client_clock_skew_ms)).toBeGreaterThanOrEqual(90_000);
   expect(Number(r.client_clock_skew_ms)).toBeLessThan(100_000);
   expect(r.status).toBe('in-progress');
@@ -401,7 +471,10 @@ test('clock skew is recorded (server receive time − sentAt), and a later push 
   done.rounds = [{ ...b.rounds[0], status: 'finished', finishedAt: now() }];
   const res = await push(done);
   expect(res.body.applied.rounds).toBe(1);
-  const [after] = await db.dataSource.query(`SELECT status, finished_at_device, client_clock_skew_ms FROM rounds WHERE id = $1`, [b.roundId]);
+  const [after] = await db.dataSource.query(
+    `SELECT status, finished_at_device, client_clock_skew_ms FROM rounds WHERE id = $1`,
+    [b.roundId],
+  );
   expect(after.status).toBe('finished');
   expect(after.finished_at_device).not.toBeNull();
   expect(Number(after.client_clock_skew_ms)).toBe(Number(r.client_clock_skew_ms)); // first receipt's skew is kept
@@ -439,7 +512,10 @@ test('more than 2000 items in one push is refused', async () => {
   b.readings = Array.from({ length: 2001 }, () => ({ ...r, id: randomUUID() }));
   const res = await push(b);
   expect(res.status).toBe(400);
-  expect(res.body.error.details[0]).toEqual({ path: 'readings', message: expect.stringContaining('At most 2000 items') });
+  expect(res.body.error.details[0]).toEqual({
+    path: 'readings',
+    message: expect.stringContaining('At most 2000 items'),
+  });
 });
 
 test('dismissals only grow: a later copy of a stored round adds its new dismissal, a replay adds nothing', async () => {
@@ -450,9 +526,15 @@ test('dismissals only grow: a later copy of a stored round adds its new dismissa
   expect((await push(again)).status).toBe(200);
   expect((await push(again)).status).toBe(200);
   const d2 = { tag: 'PI-101', flag: 'saturation', note: 'drum gauge under calibration', deviceTime: now() };
-  const finished = { ...again, rounds: [{ ...b.rounds[0], status: 'finished' as const, finishedAt: now(), dismissals: [d1, d2] }] };
+  const finished = {
+    ...again,
+    rounds: [{ ...b.rounds[0], status: 'finished' as const, finishedAt: now(), dismissals: [d1, d2] }],
+  };
   expect((await push(finished)).status).toBe(200);
-  const [row] = (await db.dataSource.query(`SELECT status, dismissals FROM rounds WHERE id = $1`, [b.roundId])) as { status: string; dismissals: { tag: string; note: string }[] }[];
+  const [row] = (await db.dataSource.query(`SELECT status, dismissals FROM rounds WHERE id = $1`, [b.roundId])) as {
+    status: string;
+    dismissals: { tag: string; note: string }[];
+  }[];
   expect(row.status).toBe('finished');
   expect(row.dismissals.map((d) => [d.tag, d.note])).toEqual([
     ['TI-101', 'gauge known faulty, work order open'],
@@ -461,11 +543,16 @@ test('dismissals only grow: a later copy of a stored round adds its new dismissa
 });
 
 test('a batch with a thousand bad readings gets a short message (10 named, the count of the rest) and the first 200 details', async () => {
-  const b = batch('boiler-house', Array.from({ length: 1000 }, () => ({ tag: 'TI-101', value: 284, unit: '°C' })));
+  const b = batch(
+    'boiler-house',
+    Array.from({ length: 1000 }, () => ({ tag: 'TI-101', value: 284, unit: '°C' })),
+  );
   for (const r of b.readings) delete (r as Partial<typeof r>).instrumentId;
   const res = await push(b);
   expect(res.status).toBe(400);
-  expect(res.body.error.message).toMatch(/^Invalid request body: readings\.0\.instrumentId: Required; .*readings\.9\.instrumentId: Required; and 990 more problems$/);
+  expect(res.body.error.message).toMatch(
+    /^Invalid request body: readings\.0\.instrumentId: Required; .*readings\.9\.instrumentId: Required; and 990 more problems$/,
+  );
   expect(res.body.error.details).toHaveLength(200);
   expect(await counts(b.roundId)).toEqual({ rounds: 0, readings: 0, checkAnswers: 0, photos: 0 });
 });
@@ -474,7 +561,9 @@ test('the model version the device held is kept on the round', async () => {
   const b = batch('boiler-house', [{ tag: 'TI-101', value: 284, unit: '°C' }]);
   b.rounds[0] = { ...b.rounds[0], modelVersion: 'fnv1a64:0123456789abcdef' };
   expect((await push(b)).status).toBe(200);
-  const [row] = (await db.dataSource.query(`SELECT device_model_version FROM rounds WHERE id = $1`, [b.roundId])) as { device_model_version: string }[];
+  const [row] = (await db.dataSource.query(`SELECT device_model_version FROM rounds WHERE id = $1`, [b.roundId])) as {
+    device_model_version: string;
+  }[];
   expect(row.device_model_version).toBe('fnv1a64:0123456789abcdef');
 });
 
@@ -488,7 +577,9 @@ async function snapshot(roundIds: string[]) {
             EXISTS (SELECT 1 FROM "readings" s WHERE s."supersedes" = x."id") AS "superseded"
        FROM "readings" x WHERE x."round_id" = ANY($1::uuid[]) ORDER BY x."id"`,
     [roundIds],
-  ) as Promise<{ id: string; round_id: string; supersedes: string | null; recorded_by: string | null; superseded: boolean }[]>;
+  ) as Promise<
+    { id: string; round_id: string; supersedes: string | null; recorded_by: string | null; superseded: boolean }[]
+  >;
 }
 
 describe("a re-take supersedes only a reading of the same round, pushed by that round's technician or a site admin", () => {
@@ -509,7 +600,10 @@ describe("a re-take supersedes only a reading of the same round, pushed by that 
     const res = await push(b, tokens.engineer);
     expect(res.status).toBe(400);
     expect(res.body.error.details).toEqual([
-      { path: 'readings.0.supersedes', message: 'the reading it supersedes is of another round: a re-take replaces a reading of its own round only' },
+      {
+        path: 'readings.0.supersedes',
+        message: 'the reading it supersedes is of another round: a re-take replaces a reading of its own round only',
+      },
     ]);
     expect(await counts(b.roundId)).toEqual({ rounds: 0, readings: 0, checkAnswers: 0, photos: 0 });
     expect(await snapshot([techRound.roundId])).toEqual(before);
@@ -524,7 +618,7 @@ describe("a re-take supersedes only a reading of the same round, pushed by that 
     expect(await counts(b.roundId)).toEqual({ rounds: 0, readings: 0, checkAnswers: 0, photos: 0 });
   });
 
-  test("the same technician, from another round of theirs → 400 (a re-take belongs to its round), nothing stored", async () => {
+  test('the same technician, from another round of theirs → 400 (a re-take belongs to its round), nothing stored', async () => {
     const b = retake(randomUUID(), techRound.readings[0].id);
     expect((await push(b)).status).toBe(400);
     expect(await counts(b.roundId)).toEqual({ rounds: 0, readings: 0, checkAnswers: 0, photos: 0 });
@@ -535,7 +629,9 @@ describe("a re-take supersedes only a reading of the same round, pushed by that 
     b.rounds = [];
     const res = await push(b, tokens.tech2);
     expect(res.status).toBe(403);
-    expect(res.body.error.message).toBe(`Round ${techRound.roundId} cannot take this push: only the technician who recorded it, or an admin of its site, adds to it`);
+    expect(res.body.error.message).toBe(
+      `Round ${techRound.roundId} cannot take this push: only the technician who recorded it, or an admin of its site, adds to it`,
+    );
     expect((await snapshot([techRound.roundId])).length).toBe(1);
   });
 
@@ -548,8 +644,16 @@ describe("a re-take supersedes only a reading of the same round, pushed by that 
     expect((await push(byAdmin, tokens.admin)).body.applied.readings).toBe(1);
     const rows = await snapshot([techRound.roundId]);
     const by = Object.fromEntries(rows.map((r) => [r.id, r]));
-    expect(by[own.readings[0].id]).toMatchObject({ supersedes: techRound.readings[0].id, recorded_by: userIds.tech, superseded: true });
-    expect(by[byAdmin.readings[0].id]).toMatchObject({ supersedes: own.readings[0].id, recorded_by: userIds.admin, superseded: false });
+    expect(by[own.readings[0].id]).toMatchObject({
+      supersedes: techRound.readings[0].id,
+      recorded_by: userIds.tech,
+      superseded: true,
+    });
+    expect(by[byAdmin.readings[0].id]).toMatchObject({
+      supersedes: own.readings[0].id,
+      recorded_by: userIds.admin,
+      superseded: false,
+    });
     expect(by[techRound.readings[0].id]).toMatchObject({ recorded_by: userIds.tech, superseded: true });
   });
 
@@ -576,7 +680,8 @@ describe("ids of another site answer exactly what unknown ids answer (Brackenmoo
     fernRound = batch('boiler-house', [{ tag: 'PI-101', value: 67, unit: 'bar', reference: 'gauge' }]);
     expect((await push(fernRound)).status).toBe(200);
   });
-  const brack = () => batch('brackenmoor-boiler-house', [{ tag: 'PI-101', value: 9.5, unit: 'bar', reference: 'gauge' }]);
+  const brack = () =>
+    batch('brackenmoor-boiler-house', [{ tag: 'PI-101', value: 9.5, unit: 'bar', reference: 'gauge' }]);
   /** Both pushes are refused; status and body must be equal byte for byte. */
   async function same(outside: object, unknown: object) {
     const a = await push(outside, tokens.brackAdmin);
@@ -590,7 +695,12 @@ describe("ids of another site answer exactly what unknown ids answer (Brackenmoo
     const [o, u] = [brack(), brack()];
     o.readings[0].roundId = fernRound.roundId;
     u.readings[0].roundId = randomUUID();
-    expect(await same(o, u)).toEqual([{ path: 'readings.0.roundId', message: 'this round is neither in this push nor stored; push the round with its readings' }]);
+    expect(await same(o, u)).toEqual([
+      {
+        path: 'readings.0.roundId',
+        message: 'this round is neither in this push nor stored; push the round with its readings',
+      },
+    ]);
   });
 
   test("a Fernhallow instrument on a Brackenmoor round vs an unknown instrument (the other site's tag is not named)", async () => {
@@ -604,15 +714,27 @@ describe("ids of another site answer exactly what unknown ids answer (Brackenmoo
     const [o, u] = [brack(), brack()];
     o.readings[0].supersedes = fernRound.readings[0].id;
     u.readings[0].supersedes = randomUUID();
-    expect(await same(o, u)).toEqual([{ path: 'readings.0.supersedes', message: 'the reading it supersedes is neither in this push nor stored' }]);
+    expect(await same(o, u)).toEqual([
+      { path: 'readings.0.supersedes', message: 'the reading it supersedes is neither in this push nor stored' },
+    ]);
     expect((await snapshot([fernRound.roundId]))[0].superseded).toBe(false);
   });
 
-  test("a photo of a Fernhallow reading vs of an unknown reading", async () => {
-    const photo = (readingId: string, roundId: string) => ({ id: randomUUID(), roundId, readingId, checkId: null, sha256: 'a'.repeat(64), mime: 'image/jpeg' as const, bytes: 10 });
+  test('a photo of a Fernhallow reading vs of an unknown reading', async () => {
+    const photo = (readingId: string, roundId: string) => ({
+      id: randomUUID(),
+      roundId,
+      readingId,
+      checkId: null,
+      sha256: 'a'.repeat(64),
+      mime: 'image/jpeg' as const,
+      bytes: 10,
+    });
     const [o, u] = [brack(), brack()];
     o.photos = [photo(fernRound.readings[0].id, o.roundId)];
     u.photos = [photo(randomUUID(), u.roundId)];
-    expect(await same(o, u)).toEqual([{ path: 'photos.0.readingId', message: 'this reading is neither in this push nor stored' }]);
+    expect(await same(o, u)).toEqual([
+      { path: 'photos.0.readingId', message: 'this reading is neither in this push nor stored' },
+    ]);
   });
 });

@@ -14,7 +14,16 @@ beforeAll(async () => {
 });
 afterAll(() => db?.drop());
 
-const SYNC_TABLES = ['check_answers', 'instruments', 'photos', 'readings', 'rounds', 'route_versions', 'routes', 'units'];
+const SYNC_TABLES = [
+  'check_answers',
+  'instruments',
+  'photos',
+  'readings',
+  'rounds',
+  'route_versions',
+  'routes',
+  'units',
+];
 
 test('the sync tables exist and the schema builder finds no difference from the entities', async () => {
   const rows = (await db.dataSource.query(
@@ -27,8 +36,12 @@ test('the sync tables exist and the schema builder finds no difference from the 
   // the comparison sees a real difference (so the empty diff above means something)
   await db.dataSource.query(`DROP INDEX "ix_readings_instrument_time"`);
   const drift = await db.dataSource.driver.createSchemaBuilder().log();
-  expect(drift.upQueries.map((q) => q.query).join('\n')).toMatch(/CREATE INDEX "ix_readings_instrument_time" ON "readings"\s+\("instrument_id", "device_time"\)/);
-  await db.dataSource.query(`CREATE INDEX "ix_readings_instrument_time" ON "readings" ("instrument_id", "device_time")`);
+  expect(drift.upQueries.map((q) => q.query).join('\n')).toMatch(
+    /CREATE INDEX "ix_readings_instrument_time" ON "readings"\s+\("instrument_id", "device_time"\)/,
+  );
+  await db.dataSource.query(
+    `CREATE INDEX "ix_readings_instrument_time" ON "readings" ("instrument_id", "device_time")`,
+  );
 });
 
 test('every insert and update of a synced row takes a new, larger sync_version', async () => {

@@ -53,10 +53,15 @@ const detail = async (id: string) => {
   return res.body as WorkOrderDetail;
 };
 const instStatus = async (tag: string) =>
-  ((await w.db.dataSource.query(`SELECT "status", to_char("calibration_date", 'YYYY-MM-DD') AS "d" FROM "instruments" WHERE "id" = $1`, [w.inst[tag]])) as {
-    status: string;
-    d: string;
-  }[])[0];
+  (
+    (await w.db.dataSource.query(
+      `SELECT "status", to_char("calibration_date", 'YYYY-MM-DD') AS "d" FROM "instruments" WHERE "id" = $1`,
+      [w.inst[tag]],
+    )) as {
+      status: string;
+      d: string;
+    }[]
+  )[0];
 
 let woId = '';
 
@@ -91,7 +96,13 @@ test('TI-403A 10σ high: a finding names it and exactly one calibrate work order
   const wo = l.items[0];
   woId = wo.id;
   // gross error on the condenser: severity 1 (criticality 3) → priority 1 (policy table)
-  expect(wo).toMatchObject({ number: 'WO-0001', kind: 'calibrate', status: 'open', priority: 1, instrumentTag: 'TI-403A' });
+  expect(wo).toMatchObject({
+    number: 'WO-0001',
+    kind: 'calibrate',
+    status: 'open',
+    priority: 1,
+    instrumentTag: 'TI-403A',
+  });
   expect(wo.title).toMatch(/^Calibrate TI-403A/);
   expect(wo.dueDate).not.toBeNull();
   expect((await instStatus('TI-403A')).status).toBe('suspect');
@@ -107,7 +118,12 @@ test('TI-403A 10σ high: a finding names it and exactly one calibrate work order
   expect(ev.reconciliation).toMatchObject({ ok: true, passed: false, suspects: ['TI-403A'] });
   expect(ev.readings.map((r) => r.instrumentTag)).toEqual(['TI-403A']);
   expect(ev.readings[0].photos).toEqual([
-    { id: photoIds['TI-403A'], thumbUrl: `/api/photos/${photoIds['TI-403A']}/thumb`, url: `/api/photos/${photoIds['TI-403A']}`, stored: false },
+    {
+      id: photoIds['TI-403A'],
+      thumbUrl: `/api/photos/${photoIds['TI-403A']}/thumb`,
+      url: `/api/photos/${photoIds['TI-403A']}`,
+      stored: false,
+    },
   ]);
   expect(ev.readings[0]).toMatchObject({ unit: '°C', reference: null });
   const i = ev.instruments[0];
@@ -137,7 +153,10 @@ test('the next rounds flagging TI-403A attach to that work order — three analy
   expect(l.items[0].findingCount).toBe(2 * 5);
   const d = await detail(woId);
   expect(d.events.map((e) => e.type)).toEqual(['opened', 'evidence', 'evidence', 'evidence', 'evidence']);
-  const [{ last }] = await w.db.dataSource.query(`SELECT last_number AS last FROM work_order_counters WHERE site_id = $1`, [w.fernId]);
+  const [{ last }] = await w.db.dataSource.query(
+    `SELECT last_number AS last FROM work_order_counters WHERE site_id = $1`,
+    [w.fernId],
+  );
   expect(last).toBe(1);
   expect(w.calls.opened).toHaveLength(1);
 });
@@ -176,12 +195,22 @@ test('illegal transitions are 409 naming the states; the flow runs triage → as
   const close = await p.post(`${base()}/work-orders/${woId}/close`, {});
   expect(close.status).toBe(409);
   expect(close.body.error.code).toBe('conflict');
-  expect(close.body.error.message).toMatch(/WO-0001 cannot close: close needs the work order to be in-progress; it is open/);
+  expect(close.body.error.message).toMatch(
+    /WO-0001 cannot close: close needs the work order to be in-progress; it is open/,
+  );
   expect(close.body.error.details).toMatchObject({ status: 'open', action: 'close', allowedFrom: ['in-progress'] });
   expect((await p.post(`${base()}/work-orders/${woId}/start`, {})).status).toBe(409);
   expect((await p.post(`${base()}/work-orders/${woId}/schedule`, { scheduledFor: '2030-01-02' })).status).toBe(409);
 
-  expect((await p.post(`${base()}/work-orders/${woId}/triage`, { priority: 2, dueDate: '2030-01-05', comment: 'TI-403A only' })).status).toBe(200);
+  expect(
+    (
+      await p.post(`${base()}/work-orders/${woId}/triage`, {
+        priority: 2,
+        dueDate: '2030-01-05',
+        comment: 'TI-403A only',
+      })
+    ).status,
+  ).toBe(200);
   expect((await p.post(`${base()}/work-orders/${woId}/triage`, {})).status).toBe(409);
   // assignee must be a member of the site
   const bad = await p.post(`${base()}/work-orders/${woId}/assign`, { userId: w.userIds.brackPlanner });
@@ -198,7 +227,9 @@ test('illegal transitions are 409 naming the states; the flow runs triage → as
   const noRecord = await p.post(`${base()}/work-orders/${woId}/close`, {});
   expect(noRecord.status).toBe(400);
   expect(noRecord.body.error.details[0].path).toBe('calibration');
-  const wrongUnit = await p.post(`${base()}/work-orders/${woId}/close`, { calibration: { asFound: 497.1, asLeft: 485.2, calibratedOn: '2025-01-01', unit: 'bar' } });
+  const wrongUnit = await p.post(`${base()}/work-orders/${woId}/close`, {
+    calibration: { asFound: 497.1, asLeft: 485.2, calibratedOn: '2025-01-01', unit: 'bar' },
+  });
   expect(wrongUnit.status).toBe(400);
   const today = new Date().toISOString().slice(0, 10);
   const done = await p.post(`${base()}/work-orders/${woId}/close`, {
@@ -209,8 +240,28 @@ test('illegal transitions are 409 naming the states; the flow runs triage → as
   const d = done.body as WorkOrderDetail;
   expect(d).toMatchObject({ status: 'done', priority: 2, dueDate: '2030-01-05', scheduledFor: '2030-01-03' });
   expect(d.closedAt).not.toBeNull();
-  expect(d.calibrations).toMatchObject([{ asFound: 497.1, asLeft: 485.2, unit: '°C', reference: null, calibratedOn: today, calibratedBy: { id: w.userIds.planner } }]);
-  expect(d.events.map((e) => e.type)).toEqual(['opened', 'evidence', 'evidence', 'evidence', 'evidence', 'triaged', 'assigned', 'scheduled', 'started', 'closed']);
+  expect(d.calibrations).toMatchObject([
+    {
+      asFound: 497.1,
+      asLeft: 485.2,
+      unit: '°C',
+      reference: null,
+      calibratedOn: today,
+      calibratedBy: { id: w.userIds.planner },
+    },
+  ]);
+  expect(d.events.map((e) => e.type)).toEqual([
+    'opened',
+    'evidence',
+    'evidence',
+    'evidence',
+    'evidence',
+    'triaged',
+    'assigned',
+    'scheduled',
+    'started',
+    'closed',
+  ]);
   expect(d.events.find((e) => e.type === 'triaged')).toMatchObject({
     fromStatus: 'open',
     toStatus: 'triaged',
@@ -223,7 +274,9 @@ test('illegal transitions are 409 naming the states; the flow runs triage → as
   expect(await instStatus('TI-403A')).toEqual({ status: 'ok', d: today });
   // nothing moves a closed order but a comment
   expect((await p.post(`${base()}/work-orders/${woId}/cancel`, { reason: 'x' })).status).toBe(409);
-  expect((await p.post(`${base()}/work-orders/${woId}/comment`, { comment: 'checked again next shift' })).status).toBe(200);
+  expect((await p.post(`${base()}/work-orders/${woId}/comment`, { comment: 'checked again next shift' })).status).toBe(
+    200,
+  );
 });
 
 test('flagged again within its next 3 rounds after the calibration: the same work order reopens with a history note', async () => {
@@ -236,7 +289,12 @@ test('flagged again within its next 3 rounds after the calibration: the same wor
   expect(l.items[0]).toMatchObject({ id: woId, status: 'open', reopenCount: 1, closedAt: null });
   const d = await detail(woId);
   const reopened = d.events.find((e) => e.type === 'reopened')!;
-  expect(reopened).toMatchObject({ fromStatus: 'done', toStatus: 'open', actor: null, changes: { roundsSinceClose: 2 } });
+  expect(reopened).toMatchObject({
+    fromStatus: 'done',
+    toStatus: 'open',
+    actor: null,
+    changes: { roundsSinceClose: 2 },
+  });
   expect(reopened.comment).toMatch(/flagged again on its round 2 of 3 after the calibration/);
   expect((await instStatus('TI-403A')).status).toBe('suspect');
 });
@@ -253,17 +311,31 @@ test('merge: the duplicate’s findings and history move into the target, the du
 
   const p = api(w, 'planner');
   expect((await p.post(`${base()}/work-orders/${woId}/merge`, { duplicateIds: [woId] })).status).toBe(400);
-  expect((await api(w, 'tech').post(`${base()}/work-orders/${woId}/merge`, { duplicateIds: [dupId] })).status).toBe(403);
-  const res = await p.post(`${base()}/work-orders/${woId}/merge`, { duplicateIds: [dupId], comment: 'same steam leak upsets both' });
+  expect((await api(w, 'tech').post(`${base()}/work-orders/${woId}/merge`, { duplicateIds: [dupId] })).status).toBe(
+    403,
+  );
+  const res = await p.post(`${base()}/work-orders/${woId}/merge`, {
+    duplicateIds: [dupId],
+    comment: 'same steam leak upsets both',
+  });
   expect(res.status).toBe(200);
   const target = res.body as WorkOrderDetail;
   expect(target.findingCount).toBe(before.findingCount + dup.findingCount);
   expect(target.evidence.some((e) => e.instrumentTags.includes('TI-301'))).toBe(true);
   const moved = target.events.filter((e) => e.changes.movedFrom === 'WO-0002');
   expect(moved.map((e) => e.type)).toEqual(['opened']);
-  expect(target.events.at(-1)).toMatchObject({ type: 'merged', changes: { duplicates: ['WO-0002'] }, comment: 'same steam leak upsets both' });
+  expect(target.events.at(-1)).toMatchObject({
+    type: 'merged',
+    changes: { duplicates: ['WO-0002'] },
+    comment: 'same steam leak upsets both',
+  });
   const after = await detail(dupId);
-  expect(after).toMatchObject({ status: 'cancelled', cancelReason: 'merged into WO-0001', mergedInto: { id: woId, number: 'WO-0001' }, findingCount: 0 });
+  expect(after).toMatchObject({
+    status: 'cancelled',
+    cancelReason: 'merged into WO-0001',
+    mergedInto: { id: woId, number: 'WO-0001' },
+    findingCount: 0,
+  });
   expect(after.events.map((e) => e.type)).toEqual(['cancelled']);
   expect((await instStatus('TI-301')).status).toBe('ok');
   // a cancelled order cannot be merged again
@@ -289,7 +361,9 @@ test('list: filters, text search, sort and paging with the total', async () => {
   expect(page).toMatchObject({ total: 2, limit: 1, offset: 1 });
   expect(page.items.map((x) => x.number)).toEqual(['WO-0002']);
   expect((await list('?sort=number&limit=1&offset=5')).total).toBe(2);
-  const units = (await w.db.dataSource.query(`SELECT id FROM units WHERE site_id = $1`, [w.fernId])) as { id: string }[];
+  const units = (await w.db.dataSource.query(`SELECT id FROM units WHERE site_id = $1`, [w.fernId])) as {
+    id: string;
+  }[];
   expect((await list(`?unitId=${units[0].id}`)).total).toBe(2);
   const bad = await api(w, 'planner').get(`${base()}/work-orders?status=closed&limit=0`);
   expect(bad.status).toBe(400);
@@ -301,7 +375,9 @@ test('cancel needs a reason and puts the calibrate order’s instrument back to 
   const none = await p.post(`${base()}/work-orders/${woId}/cancel`, {});
   expect(none.status).toBe(400);
   expect(none.body.error.details[0].path).toBe('reason');
-  const res = await p.post(`${base()}/work-orders/${woId}/cancel`, { reason: 'instrument replaced under another order' });
+  const res = await p.post(`${base()}/work-orders/${woId}/cancel`, {
+    reason: 'instrument replaced under another order',
+  });
   expect(res.status).toBe(200);
   expect(res.body).toMatchObject({ status: 'cancelled', cancelReason: 'instrument replaced under another order' });
   expect((await instStatus('TI-403A')).status).toBe('ok');
@@ -312,7 +388,17 @@ test('cancel needs a reason and puts the calibrate order’s instrument back to 
 test('condenser TTD 3 K over design is a finding that opens a "clean" order on the condenser (equipment target), priority 2', async () => {
   // design TTD of the demo condenser from its nominal points: Tsat(9 kPa) = 316.9118 K (IAPWS-IF97,
   // python-iapws IAPWS97(P=0.009, x=0).T) − cooling-water outlet 308.1 K = 8.81 K; limit 11.81 K
-  const fig = (value: number) => [{ id: 'ttd:cond', kind: 'condenser-ttd' as const, equipmentId: 'cond', label: 'ttd', unit: 'K' as const, value, measured: value }];
+  const fig = (value: number) => [
+    {
+      id: 'ttd:cond',
+      kind: 'condenser-ttd' as const,
+      equipmentId: 'cond',
+      label: 'ttd',
+      unit: 'K' as const,
+      value,
+      measured: value,
+    },
+  ];
   expect(condenserChecks(demoUnit, fig(11.7))).toEqual([]);
   const [f] = condenserChecks(demoUnit, fig(12.5));
   expect(f).toMatchObject({ kind: 'condenser-ttd-high', severity: 2, equipmentId: 'cond', instrumentTags: [] });
@@ -322,8 +408,12 @@ test('condenser TTD 3 K over design is a finding that opens a "clean" order on t
   // through the work-order rules with a stored finding (on a stored analysis), twice: one order
   const r = await analysed();
   const analysisId = r.out.status === 'stored' ? r.out.analysisId : '';
-  const [unit] = (await w.db.dataSource.query(`SELECT id FROM units WHERE site_id = $1`, [w.fernId])) as { id: string }[];
-  const [round] = (await w.db.dataSource.query(`SELECT received_at, server_seq FROM rounds WHERE id = $1`, [r.roundId])) as { received_at: Date; server_seq: string }[];
+  const [unit] = (await w.db.dataSource.query(`SELECT id FROM units WHERE site_id = $1`, [w.fernId])) as {
+    id: string;
+  }[];
+  const [round] = (await w.db.dataSource.query(`SELECT received_at, server_seq FROM rounds WHERE id = $1`, [
+    r.roundId,
+  ])) as { received_at: Date; server_seq: string }[];
   const ctx = {
     siteId: w.fernId,
     unitId: unit.id,
@@ -342,7 +432,17 @@ test('condenser TTD 3 K over design is a finding that opens a "clean" order on t
          VALUES ($1, $2, $3, $4, 100, $5, $6, 'cond', $7, $8) RETURNING id`,
         [analysisId, r.roundId, w.fernId, unit.id, f.kind, f.severity, f.message, JSON.stringify(f.evidence)],
       );
-      return workOrdersFromFindings(em, ctx, [{ id, kind: f.kind, severity: f.severity, instrumentIds: [], instrumentTags: [], equipmentRef: 'cond', message: f.message }]);
+      return workOrdersFromFindings(em, ctx, [
+        {
+          id,
+          kind: f.kind,
+          severity: f.severity,
+          instrumentIds: [],
+          instrumentTags: [],
+          equipmentRef: 'cond',
+          message: f.message,
+        },
+      ]);
     });
     opened.push(...changes.opened.map((o) => o.id), ...changes.attached.map((o) => o.id));
     if (k === 0) expect(changes.opened).toHaveLength(1);
@@ -351,7 +451,14 @@ test('condenser TTD 3 K over design is a finding that opens a "clean" order on t
   expect(new Set(opened).size).toBe(1);
   const d = await detail(opened[0]);
   // severity 2, condenser criticality 3 → priority 2 (policy table)
-  expect(d).toMatchObject({ kind: 'clean', priority: 2, equipmentRef: 'cond', instrumentId: null, findingCount: 2, title: 'Clean Condenser: condenser ttd high' });
+  expect(d).toMatchObject({
+    kind: 'clean',
+    priority: 2,
+    equipmentRef: 'cond',
+    instrumentId: null,
+    findingCount: 2,
+    title: 'Clean Condenser: condenser ttd high',
+  });
   expect(priorityOf(2, 3)).toBe(2);
 });
 
@@ -380,12 +487,18 @@ test('a balance that does not close because of a suspect instrument on it joins 
 
 test("a person invited from another site shows by the name this site gave them, in the work order and its CSV, never their account's own", async () => {
   // planner@brackenmoor.example is "Alex Pryce" on their account; Fernhallow's admin invites them as "A. Pryce"
-  const inv = await api(w, 'admin').post(`${base()}/invitations`, { email: 'planner@brackenmoor.example', name: 'A. Pryce', role: 'engineer' });
+  const inv = await api(w, 'admin').post(`${base()}/invitations`, {
+    email: 'planner@brackenmoor.example',
+    name: 'A. Pryce',
+    role: 'engineer',
+  });
   expect(inv.status).toBe(201);
   await analysed({ bias: { 'TI-102A': 10 } });
   const open = (await list()).items.find((o) => ['open', 'triaged'].includes(o.status));
   expect(open).toBeDefined();
-  const assigned = await api(w, 'planner').post(`${base()}/work-orders/${open!.id}/assign`, { userId: w.userIds.brackPlanner });
+  const assigned = await api(w, 'planner').post(`${base()}/work-orders/${open!.id}/assign`, {
+    userId: w.userIds.brackPlanner,
+  });
   expect(assigned.status).toBe(200);
   expect(assigned.body.assignee).toEqual({ id: w.userIds.brackPlanner, name: 'A. Pryce' });
   expect(JSON.stringify(await detail(open!.id))).not.toContain('Alex Pryce');

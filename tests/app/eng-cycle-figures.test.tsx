@@ -18,7 +18,9 @@ test('the cycle efficiency shows its value and its 95 % interval', () => {
   const eff = fig('cycle:efficiency');
   const lo = ((eff.value! - eff.uncertainty!.U) * 100).toFixed(1);
   const hi = ((eff.value! + eff.uncertainty!.U) * 100).toFixed(1);
-  expect(screen.getByTestId('cycle-figure-cycle:efficiency-value')).toHaveTextContent(`${(eff.value! * 100).toFixed(1)} %`);
+  expect(screen.getByTestId('cycle-figure-cycle:efficiency-value')).toHaveTextContent(
+    `${(eff.value! * 100).toFixed(1)} %`,
+  );
   expect(screen.getByTestId('cycle-figure-cycle:efficiency-interval')).toHaveTextContent(`${lo} % to ${hi} %`);
   // 26.5 % ± 0.15 points at design: the interval is narrow
   expect(Number(hi) - Number(lo)).toBeLessThan(0.5);
@@ -28,7 +30,9 @@ test('the condensate pump efficiency (a 0.1 K rise between two plant thermometer
   render(<PerformanceTable figures={a.performance} />);
   expect(screen.getByTestId('cycle-figure-eta:cep-value')).toHaveTextContent(NOT_DETERMINABLE);
   const why = screen.getByTestId('cycle-figure-eta:cep-interval');
-  expect(why).toHaveTextContent(/TI-205, TI-401 and PI-402 carry \d+ % of its variance; their σ would have to be \d+\.\d times smaller/);
+  expect(why).toHaveTextContent(
+    /TI-205, TI-401 and PI-402 carry \d+ % of its variance; their σ would have to be \d+\.\d times smaller/,
+  );
   expect(figureIntervalWords(fig('eta:cep'))).toMatch(/^±\d+\.\d %: TI-205/);
   // the as-read 70.0 % is not shown as a fact either
   const row = screen.getByTestId('cycle-figure-eta:cep');
@@ -41,7 +45,10 @@ test('a figure the model fixes (the hotwell is taken as saturated: no subcooling
 });
 
 test('an efficiency interval that reaches past 100 % is cut there and says so (a fraction lies in 0–100 %)', () => {
-  const f = { ...fig('eta:bfp'), value: 0.9, uncertainty: { ...fig('eta:bfp').uncertainty!, U: 0.2, determinable: true } };
+  const f = {
+    ...fig('eta:bfp'),
+    value: 0.9,
+    uncertainty: { ...fig('eta:bfp').uncertainty!, U: 0.2, determinable: true },
+  };
   expect(figureIntervalWords(f)).toBe('70.0 % to 100.0 % (cut at 100 %)');
 });
-

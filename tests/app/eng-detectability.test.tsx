@@ -22,7 +22,12 @@ const mockRequest = jest.fn();
 jest.mock('@/hooks/session', () => ({
   useSession: () => ({
     status: 'signed-in',
-    user: { id: '0c9b8a7d-6e5f-4a3b-8c2d-1e0f9a8b7c6d', name: 'Rowan Pell', email: 'engineer@fernhallow.example', memberships: [] },
+    user: {
+      id: '0c9b8a7d-6e5f-4a3b-8c2d-1e0f9a8b7c6d',
+      name: 'Rowan Pell',
+      email: 'engineer@fernhallow.example',
+      memberships: [],
+    },
     membership: { siteId: SITE, siteName: 'Fernhallow Works', role: 'engineer' },
     request: (path: string, init?: unknown) => mockRequest(path, init),
   }),
@@ -32,7 +37,9 @@ const B = 101325;
 const a = analyseRound(demoUnit, demoDesignReadings(B), { barometricPa: B });
 const map = detectabilityMap(
   demoUnit,
-  a.instruments.filter((i) => i.reading !== null && i.sigma !== null).map((i) => ({ tag: i.tag, value: i.reading!, sigma: i.sigma! })),
+  a.instruments
+    .filter((i) => i.reading !== null && i.sigma !== null)
+    .map((i) => ({ tag: i.tag, value: i.reading!, sigma: i.sigma! })),
 );
 const unit: UnitDetectability = {
   unitId: UNIT,
@@ -58,7 +65,12 @@ function history(tag: string, quantity: string) {
 }
 
 function renderPage(tag: string) {
-  const qc = new QueryClient({ defaultOptions: { queries: { retry: false, staleTime: Infinity, gcTime: Infinity }, mutations: { gcTime: Infinity } } });
+  const qc = new QueryClient({
+    defaultOptions: {
+      queries: { retry: false, staleTime: Infinity, gcTime: Infinity },
+      mutations: { gcTime: Infinity },
+    },
+  });
   qc.setQueryData(detectabilityKeys.site(SITE), response);
   mockRequest.mockImplementation(async (path: string) => {
     if (path.includes('/history')) return history(tag, 'temperature');
@@ -81,7 +93,9 @@ test('a checked thermometer’s page: the balances notice it from its MDB, in K'
   renderPage('TI-301');
   const t = map.instruments.find((i) => i.tag === 'TI-301')!;
   const card = await screen.findByTestId('instrument-detectability');
-  await waitFor(() => expect(card).toHaveTextContent(has(`The balances notice TI-301 from ${t.mdb!.toFixed(1)} K off`)));
+  await waitFor(() =>
+    expect(card).toHaveTextContent(has(`The balances notice TI-301 from ${t.mdb!.toFixed(1)} K off`)),
+  );
   expect(card).toHaveTextContent(has('found in 80 % of rounds by the per-reading test at 5 %'));
 });
 
@@ -90,7 +104,11 @@ test('an unchecked thermometer’s page: no balance can check it, and a twin wou
   const t = map.instruments.find((i) => i.tag === 'TI-103')!;
   const card = await screen.findByTestId('instrument-detectability');
   expect(card).toHaveTextContent(has('No balance can check TI-103'));
-  expect(card).toHaveTextContent(has(`What would check it: A second thermometer of its class beside it: the balances would notice it from ${(map.delta0 * t.sigma! * Math.SQRT2).toFixed(1)} K off.`));
+  expect(card).toHaveTextContent(
+    has(
+      `What would check it: A second thermometer of its class beside it: the balances would notice it from ${(map.delta0 * t.sigma! * Math.SQRT2).toFixed(1)} K off.`,
+    ),
+  );
 });
 
 test('the health screen’s card lists every unchecked instrument with its remedy; the column says “no balance checks it”', () => {

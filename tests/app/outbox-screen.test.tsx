@@ -46,7 +46,9 @@ test('the refused reading is listed with the server’s message, apart from what
   render(<OutboxScreen />);
   expect(screen.getByTestId('outbox-waiting')).toHaveTextContent('3');
   expect(screen.getByTestId('outbox-refused')).toHaveTextContent('1');
-  expect(screen.getByTestId('refused-17-message')).toHaveTextContent('readings.0.unit: "t/h" is a mass flow unit; PI-101 measures pressure');
+  expect(screen.getByTestId('refused-17-message')).toHaveTextContent(
+    'readings.0.unit: "t/h" is a mass flow unit; PI-101 measures pressure',
+  );
 });
 
 test('sending the refused again and syncing now reach the sync client', () => {

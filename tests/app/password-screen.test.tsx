@@ -36,7 +36,9 @@ test('a new password under 12 characters and two entries that differ are refused
 
 test('the server’s refusal shows under the field it names; a success says other devices were signed out', async () => {
   mockChange.mockRejectedValueOnce(
-    new ApiError(400, 'validation', 'Invalid request body: newPassword: Is a common password', [{ path: 'newPassword', message: 'Is one of the most common passwords' }]),
+    new ApiError(400, 'validation', 'Invalid request body: newPassword: Is a common password', [
+      { path: 'newPassword', message: 'Is one of the most common passwords' },
+    ]),
   );
   render(<PasswordScreen />);
   type('currentPassword', 'one-time-Xq7');
@@ -51,6 +53,10 @@ test('the server’s refusal shows under the field it names; a success says othe
   type('newPassword', 'kettle heron lantern quay');
   type('repeat', 'kettle heron lantern quay');
   fireEvent.press(screen.getByTestId('password-submit'));
-  await waitFor(() => expect(screen.getByTestId('password-done')).toHaveTextContent('Password changed. Any other device signed in to this account has been signed out.'));
+  await waitFor(() =>
+    expect(screen.getByTestId('password-done')).toHaveTextContent(
+      'Password changed. Any other device signed in to this account has been signed out.',
+    ),
+  );
   expect(mockChange).toHaveBeenLastCalledWith('one-time-Xq7', 'kettle heron lantern quay');
 });

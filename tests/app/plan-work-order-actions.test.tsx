@@ -54,7 +54,12 @@ const wo: WorkOrderDetail = {
 };
 
 function setup() {
-  const qc = new QueryClient({ defaultOptions: { queries: { retry: false, staleTime: Infinity, gcTime: Infinity }, mutations: { retry: false, gcTime: Infinity } } });
+  const qc = new QueryClient({
+    defaultOptions: {
+      queries: { retry: false, staleTime: Infinity, gcTime: Infinity },
+      mutations: { retry: false, gcTime: Infinity },
+    },
+  });
   qc.setQueryData(workOrderKeys.detail(SITE, wo.id), wo);
   const list: WorkOrderListResponse = { items: [wo], total: 1, limit: 25, offset: 0 };
   qc.setQueryData(workOrderKeys.list(SITE, {}), list);
@@ -82,10 +87,17 @@ test('a refused start is rolled back: the status shows "Under way" at once, then
   await waitFor(() => expect(screen.getByTestId('wo-status')).toHaveTextContent('Under way'));
   // the cached list page changed with it
   expect(qc.getQueryData<WorkOrderListResponse>(workOrderKeys.list(SITE, {}))!.items[0].status).toBe('in-progress');
-  expect(mockRequest).toHaveBeenCalledWith(`/api/sites/${SITE}/work-orders/${wo.id}/start`, { method: 'POST', json: {} });
-  await act(async () => refuse(new ApiError(409, 'conflict', 'Nobody is assigned: assign the work order before it starts')));
+  expect(mockRequest).toHaveBeenCalledWith(`/api/sites/${SITE}/work-orders/${wo.id}/start`, {
+    method: 'POST',
+    json: {},
+  });
+  await act(async () =>
+    refuse(new ApiError(409, 'conflict', 'Nobody is assigned: assign the work order before it starts')),
+  );
   await waitFor(() => expect(screen.getByTestId('wo-status')).toHaveTextContent('Scheduled'));
-  expect(screen.getByTestId('wo-action-error')).toHaveTextContent('Not saved: Nobody is assigned: assign the work order before it starts');
+  expect(screen.getByTestId('wo-action-error')).toHaveTextContent(
+    'Not saved: Nobody is assigned: assign the work order before it starts',
+  );
   expect(qc.getQueryData<WorkOrderListResponse>(workOrderKeys.list(SITE, {}))!.items[0].status).toBe('scheduled');
 });
 
@@ -104,7 +116,10 @@ test('assigning to oneself shows the name at once and keeps what the server answ
   await waitFor(() => expect(screen.getByTestId('wo-assign-user')).toBeTruthy());
   fireEvent.press(screen.getByTestId('wo-assign-me'));
   await waitFor(() => expect(screen.getByTestId('wo-assignee')).toHaveTextContent('Morgan Tilly'));
-  expect(mockRequest).toHaveBeenCalledWith(`/api/sites/${SITE}/work-orders/${wo.id}/assign`, { method: 'POST', json: { userId: ME.id } });
+  expect(mockRequest).toHaveBeenCalledWith(`/api/sites/${SITE}/work-orders/${wo.id}/assign`, {
+    method: 'POST',
+    json: { userId: ME.id },
+  });
   await act(async () => answer(assigned));
   await waitFor(() => expect(screen.getByTestId('wo-assignee')).toHaveTextContent('Morgan Tilly'));
   expect(screen.queryByTestId('wo-action-error')).toBeNull();
@@ -119,8 +134,17 @@ test('a calibration order asks for as found and as left before it closes (the se
     if (path.includes('/work-orders/')) return Promise.resolve({ ...wo, status: 'done', allowedActions: [] });
     return Promise.resolve({ items: [], total: 0, limit: 50, offset: 0 });
   });
-  const qc = new QueryClient({ defaultOptions: { queries: { retry: false, staleTime: Infinity, gcTime: Infinity }, mutations: { gcTime: Infinity } } });
-  qc.setQueryData(workOrderKeys.detail(SITE, wo.id), { ...wo, status: 'in-progress', allowedActions: ['close', 'cancel', 'comment'] });
+  const qc = new QueryClient({
+    defaultOptions: {
+      queries: { retry: false, staleTime: Infinity, gcTime: Infinity },
+      mutations: { gcTime: Infinity },
+    },
+  });
+  qc.setQueryData(workOrderKeys.detail(SITE, wo.id), {
+    ...wo,
+    status: 'in-progress',
+    allowedActions: ['close', 'cancel', 'comment'],
+  });
   render(
     <QueryClientProvider client={qc}>
       <WorkOrderScreen id={wo.id} cycleHref={(r) => `/plan/rounds/${r}`} />
@@ -139,7 +163,16 @@ test('a calibration order asks for as found and as left before it closes (the se
 });
 
 test('list filters become the query string the server reads (shared/api/work-orders WorkOrderListQuery)', () => {
-  expect(workOrderQuery({ status: ['active'], priority: [1], kind: ['calibrate', 'repair'], tag: ' TI-301 ', q: '', sort: 'priority', limit: 20, offset: 40 })).toBe(
-    'status=active&priority=1&kind=calibrate%2Crepair&tag=TI-301&sort=priority&limit=20&offset=40',
-  );
+  expect(
+    workOrderQuery({
+      status: ['active'],
+      priority: [1],
+      kind: ['calibrate', 'repair'],
+      tag: ' TI-301 ',
+      q: '',
+      sort: 'priority',
+      limit: 20,
+      offset: 40,
+    }),
+  ).toBe('status=active&priority=1&kind=calibrate%2Crepair&tag=TI-301&sort=priority&limit=20&offset=40');
 });

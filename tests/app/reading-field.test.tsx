@@ -46,7 +46,11 @@ test('a save that the caller refuses shows its message under the field', async (
   render(<ReadingField {...base} onSave={onSave} />);
   fireEvent.changeText(screen.getByTestId('reading-PI-110-input'), '4,5');
   fireEvent.press(screen.getByTestId('reading-PI-110-save'));
-  await waitFor(() => expect(screen.getByTestId('reading-PI-110-error')).toHaveTextContent('Use a decimal point, not a comma (e.g. 12.5).'));
+  await waitFor(() =>
+    expect(screen.getByTestId('reading-PI-110-error')).toHaveTextContent(
+      'Use a decimal point, not a comma (e.g. 12.5).',
+    ),
+  );
   expect(onSave).toHaveBeenCalledWith('4,5');
 });
 
@@ -58,7 +62,14 @@ test('a flagged value asks for a re-read and offers to confirm', () => {
       saved="45"
       onConfirm={onConfirm}
       onSave={() => null}
-      flags={[{ kind: 'band', severity: 2, message: 'PI-110 reads 45.00 bar(g); this round expects 38.00 bar(g) to 42.00 bar(g). Re-read the gauge.', evidence: {} }]}
+      flags={[
+        {
+          kind: 'band',
+          severity: 2,
+          message: 'PI-110 reads 45.00 bar(g); this round expects 38.00 bar(g) to 42.00 bar(g). Re-read the gauge.',
+          evidence: {},
+        },
+      ]}
     />,
   );
   expect(screen.getByTestId('reading-PI-110-reread')).toHaveTextContent(/Re-read the gauge now/);

@@ -32,7 +32,13 @@ function roundOf(key: string, start: number, change: Record<string, number> = {}
     barometricPa: B,
     readings: design
       .filter((r) => tags.includes(r.instrumentTag))
-      .map((r, i) => ({ id: `${key}-${r.instrumentTag}`, tag: r.instrumentTag, valueSI: r.valueSI + (change[r.instrumentTag] ?? 0), time: start + i * 60_000, order: i })),
+      .map((r, i) => ({
+        id: `${key}-${r.instrumentTag}`,
+        tag: r.instrumentTag,
+        valueSI: r.valueSI + (change[r.instrumentTag] ?? 0),
+        time: start + i * 60_000,
+        order: i,
+      })),
   };
 }
 
@@ -80,7 +86,9 @@ test('balance lines say their status in a word and a glyph', () => {
   );
   expect(screen.getByTestId('balance-da-status')).toHaveTextContent('✗ Does not close');
   expect(screen.getByTestId('balance-gen-status')).toHaveTextContent('✓ Closes');
-  expect(screen.getByTestId('balance-gen')).toHaveTextContent(/Generator: the turbine work matches the generator output/);
+  expect(screen.getByTestId('balance-gen')).toHaveTextContent(
+    /Generator: the turbine work matches the generator output/,
+  );
 });
 
 test('a dismissal needs a reason; a quick reason dismisses in one tap', async () => {
@@ -88,15 +96,23 @@ test('a dismissal needs a reason; a quick reason dismisses in one tap', async ()
   render(<RoundCheckSuspect item={faulty.retakes[0]} suspect={faulty.suspects[0]} onDismiss={onDismiss} />);
   expect(screen.getByTestId('suspect-TI-206-estimate')).toHaveTextContent(/^130\.\d °C ± \d\.\d K$/);
   fireEvent.press(screen.getByTestId('suspect-TI-206-dismiss'));
-  await waitFor(() => expect(screen.getByTestId('suspect-TI-206-reason-error')).toHaveTextContent('Say why the flag is dismissed.'));
+  await waitFor(() =>
+    expect(screen.getByTestId('suspect-TI-206-reason-error')).toHaveTextContent('Say why the flag is dismissed.'),
+  );
   expect(onDismiss).not.toHaveBeenCalled();
   fireEvent.press(screen.getByTestId('suspect-TI-206-reason-0'));
   await waitFor(() => expect(onDismiss).toHaveBeenCalledWith('Re-read: the gauge really shows this'));
 });
 
 test('the headline counts what is left to re-take, and says when the round holds together', () => {
-  expect(roundCheckHeadline(faulty)).toEqual({ text: 'One reading to re-take before you leave the unit: TI-206.', tone: 'danger' });
-  expect(roundCheckHeadline(check({}))).toEqual({ text: 'The round holds together: every balance closes and no reading stands out.', tone: 'ok' });
+  expect(roundCheckHeadline(faulty)).toEqual({
+    text: 'One reading to re-take before you leave the unit: TI-206.',
+    tone: 'danger',
+  });
+  expect(roundCheckHeadline(check({}))).toEqual({
+    text: 'The round holds together: every balance closes and no reading stands out.',
+    tone: 'ok',
+  });
   const dismissed = check({ 'TI-206': 6 }, [{ tag: 'TI-206', note: 'Known to read high' }]);
   expect(roundCheckHeadline(dismissed).tone).toBe('warning');
 });

@@ -25,7 +25,13 @@ test.each([
   ['nothing stored', null],
   ['torn JSON', '{"version":1,"accessTo'],
   ['an unknown version', JSON.stringify({ ...good, version: 2 })],
-  ['a role that does not exist', JSON.stringify({ ...good, user: { ...good.user, memberships: [{ ...good.user.memberships[0], role: 'operator' }] } })],
+  [
+    'a role that does not exist',
+    JSON.stringify({
+      ...good,
+      user: { ...good.user, memberships: [{ ...good.user.memberships[0], role: 'operator' }] },
+    }),
+  ],
   ['an empty token', JSON.stringify({ ...good, accessToken: '' })],
 ])('%s counts as signed out', (_label, raw) => {
   expect(parseStoredSession(raw)).toBeNull();

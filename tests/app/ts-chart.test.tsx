@@ -21,7 +21,12 @@ test('dome and every point are drawn', () => {
 
 test('the trend chart shades the ±2σ band around the reconciled line', () => {
   const day = 86_400_000;
-  const samples = Array.from({ length: 10 }, (_, i) => ({ t: i * day, measured: 120 + i * 0.3, reconciled: 120, sigma: 0.4 }));
+  const samples = Array.from({ length: 10 }, (_, i) => ({
+    t: i * day,
+    measured: 120 + i * 0.3,
+    reconciled: 120,
+    sigma: 0.4,
+  }));
   render(<TrendChart samples={samples} unit="°C" width={360} height={200} />);
   expect(screen.getByTestId('trend-chart-band')).toBeTruthy();
   expect(screen.getByTestId('trend-chart-reconciled')).toBeTruthy();

@@ -54,7 +54,11 @@ async function api<T>(path: string, token: string): Promise<T> {
 }
 
 async function token(email: string): Promise<{ token: string; siteId: string }> {
-  const r = await fetch(`${server.url}/api/auth/sign-in`, { method: 'POST', headers: { 'Content-Type': 'application/json' }, body: JSON.stringify({ email, password: DEMO_PASSWORD }) });
+  const r = await fetch(`${server.url}/api/auth/sign-in`, {
+    method: 'POST',
+    headers: { 'Content-Type': 'application/json' },
+    body: JSON.stringify({ email, password: DEMO_PASSWORD }),
+  });
   const b = (await r.json()) as { accessToken: string; user: { memberships: { siteId: string }[] } };
   return { token: b.accessToken, siteId: b.user.memberships[0].siteId };
 }
@@ -74,7 +78,10 @@ test('the planner finds the priority-1 calibration order, reads its evidence, as
   await page.waitForURL('**/plan');
   const row = await openOrder(page, server.url);
   // every row under the priority filter is priority 1
-  const marks = await page.getByTestId('wo-table').getByLabel(/^Severity: /).allTextContents();
+  const marks = await page
+    .getByTestId('wo-table')
+    .getByLabel(/^Severity: /)
+    .allTextContents();
   expect(marks.length).toBeGreaterThan(0);
   await shot(page, 'plan-work-orders-wide');
   await row.click();
@@ -83,7 +90,9 @@ test('the planner finds the priority-1 calibration order, reads its evidence, as
   await page.getByTestId('wo-caution').waitFor();
   expect(await page.getByTestId('wo-instrument').textContent()).toBe(TAG);
   const evidence = await page.getByTestId(`wo-evidence-0-${TAG}`).textContent();
-  expect(evidence).toMatch(new RegExp(`^${TAG} reads [\\d.]+ (Pa|kPa|bar) (high|low): it read .* the balances put it at .* ± .*\\(95 %\\)`));
+  expect(evidence).toMatch(
+    new RegExp(`^${TAG} reads [\\d.]+ (Pa|kPa|bar) (high|low): it read .* the balances put it at .* ± .*\\(95 %\\)`),
+  );
   expect(await page.getByTestId(`wo-reading-${TAG}`).count()).toBeGreaterThan(0);
   await shot(page, 'plan-work-order-wide');
 
@@ -152,22 +161,31 @@ test('the engineer sees the instrument back in service, its trend, and a round�
   await page.getByTestId('trend-chart').waitFor();
   expect(await page.getByTestId('trend-chart-band').count()).toBe(1);
   // the detectability map: the balances check PI-302 through the deaerator's saturation and its twin
-  await page.getByTestId('instrument-detectability').filter({ hasText: `The balances notice ${TAG} from` }).waitFor();
+  await page
+    .getByTestId('instrument-detectability')
+    .filter({ hasText: `The balances notice ${TAG} from` })
+    .waitFor();
   await shot(page, 'eng-instrument-wide');
 
   await page.getByTestId('instrument-point-0').click();
   await page.waitForURL('**/eng/rounds/**');
   const roundId = page.url().split('/').pop()!;
   await page.getByTestId('ts-dome').waitFor();
-  const a = await api<{ statePoints: { id: string; circuit: string; reconciled: { T: number | null; s: number | null }; measured: { T: number | null; s: number | null } }[] }>(
-    `/api/sites/${eng.siteId}/rounds/${roundId}/analysis`,
-    eng.token,
-  );
+  const a = await api<{
+    statePoints: {
+      id: string;
+      circuit: string;
+      reconciled: { T: number | null; s: number | null };
+      measured: { T: number | null; s: number | null };
+    }[];
+  }>(`/api/sites/${eng.siteId}/rounds/${roundId}/analysis`, eng.token);
   const cycle = a.statePoints.filter((p) => p.circuit === 'cycle');
   expect(cycle.length).toBeGreaterThan(10);
   for (const p of cycle) {
-    if (p.reconciled.T !== null && p.reconciled.s !== null) expect(await page.getByTestId(`ts-point-r-${p.id}`).count()).toBe(1);
-    if (p.measured.T !== null && p.measured.s !== null) expect(await page.getByTestId(`ts-point-m-${p.id}`).count()).toBe(1);
+    if (p.reconciled.T !== null && p.reconciled.s !== null)
+      expect(await page.getByTestId(`ts-point-r-${p.id}`).count()).toBe(1);
+    if (p.measured.T !== null && p.measured.s !== null)
+      expect(await page.getByTestId(`ts-point-m-${p.id}`).count()).toBe(1);
     expect(await page.getByTestId(`cycle-point-${p.id}`).count()).toBe(1);
   }
   // the isentropic ends of the HP and LP sections (demo unit: hp ms→hpx, lp lpi→lpe, lpx)
@@ -175,20 +193,33 @@ test('the engineer sees the instrument back in service, its trend, and a round�
   // every state point of the unit's analysis is in the table, each saying where it was read
   for (const p of a.statePoints) expect(await page.getByTestId(`cycle-point-${p.id}`).count()).toBe(1);
   // no two point labels of the chart overlap (shared/charts label placement)
-  const boxes = (await page.locator('[data-testid^="ts-label-"]').evaluateAll((els) => els.map((e) => (e as unknown as { getBBox(): { x: number; y: number; width: number; height: number } }).getBBox()))).map((b) => ({ x: b.x, y: b.y, w: b.width, h: b.height }));
+  const boxes = (
+    await page
+      .locator('[data-testid^="ts-label-"]')
+      .evaluateAll((els) =>
+        els.map((e) =>
+          (e as unknown as { getBBox(): { x: number; y: number; width: number; height: number } }).getBBox(),
+        ),
+      )
+  ).map((b) => ({ x: b.x, y: b.y, w: b.width, h: b.height }));
   expect(boxes.length).toBeGreaterThan(10);
-  const overlap = (p: (typeof boxes)[number], q: (typeof boxes)[number]) => p.x < q.x + q.w && q.x < p.x + p.w && p.y < q.y + q.h && q.y < p.y + p.h;
-  for (let i = 0; i < boxes.length; i++) for (let j = i + 1; j < boxes.length; j++) expect(overlap(boxes[i], boxes[j])).toBe(false);
+  const overlap = (p: (typeof boxes)[number], q: (typeof boxes)[number]) =>
+    p.x < q.x + q.w && q.x < p.x + p.w && p.y < q.y + q.h && q.y < p.y + p.h;
+  for (let i = 0; i < boxes.length; i++)
+    for (let j = i + 1; j < boxes.length; j++) expect(overlap(boxes[i], boxes[j])).toBe(false);
   await shot(page, 'eng-cycle-wide');
   // every balanced figure with its 95 % interval (GUM), or the words that it is not determinable
   const figs = (
-    await api<{ performance: { id: string; value: number | null; uncertainty?: { U: number; determinable: boolean } }[] }>(`/api/sites/${eng.siteId}/rounds/${roundId}/analysis`, eng.token)
+    await api<{
+      performance: { id: string; value: number | null; uncertainty?: { U: number; determinable: boolean } }[];
+    }>(`/api/sites/${eng.siteId}/rounds/${roundId}/analysis`, eng.token)
   ).performance.filter((f) => f.value !== null && f.uncertainty && f.uncertainty.U > 0);
   expect(figs.length).toBeGreaterThan(3);
   for (const f of figs) {
     const value = await page.getByTestId(`cycle-figure-${f.id}-value`).innerText();
     const interval = await page.getByTestId(`cycle-figure-${f.id}-interval`).innerText();
-    if (f.uncertainty!.determinable) expect(interval).toMatch(/^-?\d[\d.]* (%|K|MW|kJ\/kWh) to -?\d[\d.]* (%|K|MW|kJ\/kWh)( \(cut at (0|100) %\))?$/);
+    if (f.uncertainty!.determinable)
+      expect(interval).toMatch(/^-?\d[\d.]* (%|K|MW|kJ\/kWh) to -?\d[\d.]* (%|K|MW|kJ\/kWh)( \(cut at (0|100) %\))?$/);
     else {
       expect(value).toBe('not determinable from these instruments');
       expect(interval).toMatch(/carr(y|ies) \d+ % of its variance/);
@@ -234,7 +265,10 @@ test('the engineer sees the instrument back in service, its trend, and a round�
 });
 
 test('the admin invites a person, sees the site’s people, its instruments as configured, and the invitation in the dev mailbox', async () => {
-  for (const [viewport, size] of [[WIDE, 'wide'], [PHONE, 'phone']] as const) {
+  for (const [viewport, size] of [
+    [WIDE, 'wide'],
+    [PHONE, 'phone'],
+  ] as const) {
     const { context, page } = await newPage(browser, viewport);
     await signIn(page, server.url, 'admin@fernhallow.example', DEMO_PASSWORD);
     await page.waitForURL('**/admin');
@@ -247,7 +281,11 @@ test('the admin invites a person, sees the site’s people, its instruments as c
       await page.getByTestId('invite-role-engineer').click();
       await page.getByTestId('invite-submit').click();
       await page.getByTestId('invite-sent').waitFor();
-      await page.getByTestId('person-kim.ward@fernhallow.example').filter({ hasText: 'Reliability engineer' }).filter({ hasText: 'Active' }).waitFor();
+      await page
+        .getByTestId('person-kim.ward@fernhallow.example')
+        .filter({ hasText: 'Reliability engineer' })
+        .filter({ hasText: 'Active' })
+        .waitFor();
     }
     await shot(page, `admin-people-${size}`);
     await page.goto(`${server.url}/admin/instruments`);
@@ -255,7 +293,10 @@ test('the admin invites a person, sees the site’s people, its instruments as c
     await shot(page, `admin-instruments-${size}`);
     await page.goto(`${server.url}/admin/mailbox`);
     // the invitation went through the outbox to the SMTP fake
-    const invitation = page.locator('[data-testid^="mail-"]').filter({ hasText: 'Trueround: your access to Fernhallow Works' }).first();
+    const invitation = page
+      .locator('[data-testid^="mail-"]')
+      .filter({ hasText: 'Trueround: your access to Fernhallow Works' })
+      .first();
     await invitation.waitFor({ timeout: 15_000 });
     let password = '';
     if (size === 'wide') {
@@ -312,11 +353,16 @@ test('the admin publishes a route version after the validator’s refusal, and c
   await page.getByTestId('nav-admin-routes').click();
   await page.getByTestId('publish-route-turbine-hall').click();
   await page.getByTestId('publish-start-current').click();
-  const current = JSON.parse(await page.getByTestId('publish-json').inputValue()) as { stops: { readings: { tag: string }[] }[] };
+  const current = JSON.parse(await page.getByTestId('publish-json').inputValue()) as {
+    stops: { readings: { tag: string }[] }[];
+  };
   current.stops[0].readings[1].tag = 'TI-999';
   await page.getByTestId('publish-json').fill(JSON.stringify(current, null, 2));
   await page.getByTestId('publish-submit').click();
-  await page.getByTestId('publish-issue-0').filter({ hasText: 'stops.0.readings.1.tag: TI-999 is not an instrument of unit' }).waitFor();
+  await page
+    .getByTestId('publish-issue-0')
+    .filter({ hasText: 'stops.0.readings.1.tag: TI-999 is not an instrument of unit' })
+    .waitFor();
   await shot(page, 'admin-routes-refused-wide');
   current.stops[0].readings[1].tag = 'TI-102A';
   await page.getByTestId('publish-json').fill(JSON.stringify(current, null, 2));

@@ -63,11 +63,19 @@ afterAll(async () => {
 async function enter(page: Page, tag: string, value: string) {
   await page.getByTestId(`reading-${tag}-input`).fill(value);
   await page.getByTestId(`reading-${tag}-save`).click();
-  await page.getByTestId(`reading-${tag}-input`).and(page.locator(`[value="${shown(value)}"]`)).waitFor();
+  await page
+    .getByTestId(`reading-${tag}-input`)
+    .and(page.locator(`[value="${shown(value)}"]`))
+    .waitFor();
 }
 
 /** Walks a route from the today screen; returns the round id, leaves the finish panel open. */
-async function walkRoute(page: Page, t: RouteTemplate, values: (tag: string) => string, openFinish = true): Promise<string> {
+async function walkRoute(
+  page: Page,
+  t: RouteTemplate,
+  values: (tag: string) => string,
+  openFinish = true,
+): Promise<string> {
   await page.getByTestId(`route-${t.id}-begin`).click();
   await page.waitForURL('**/tech/round/**');
   const roundId = page.url().split('/').pop()!;
@@ -136,7 +144,10 @@ test('the phone checks the whole round offline, sends the technician back to TI-
   await cdp.send('Emulation.setCPUThrottlingRate', { rate: 4 });
   await watchLongTasks(page);
   await page.getByTestId('round-review').click();
-  await page.getByTestId('review-summary-text').filter({ hasText: `One reading to re-take before you leave the unit: ${FAULT}.` }).waitFor({ timeout: 30_000 });
+  await page
+    .getByTestId('review-summary-text')
+    .filter({ hasText: `One reading to re-take before you leave the unit: ${FAULT}.` })
+    .waitFor({ timeout: 30_000 });
   const summaryTasks = await longTasks(page);
   await tallShot(page, 'review-finish-panel-phone', PHONE);
 
@@ -155,8 +166,12 @@ test('the phone checks the whole round offline, sends the technician back to TI-
     'Stop 3, LP extraction and LP heater: TI-206 — reads about 6 K high against the LP feedwater heater and deaerator balances (or FI-202, TI-302 and PI-501: the balances cannot tell them apart)',
   );
   // one re-take on this route; the rest of TI-206's group (read on the other two routes) is listed apart
-  await expect(page.getByTestId('review-retakes').locator('[data-testid^="retake-"][data-testid$="-line"]').count()).resolves.toBe(1);
-  await expect(page.getByTestId('review-elsewhere').locator('[data-testid^="retake-"][data-testid$="-line"]').count()).resolves.toBe(3);
+  await expect(
+    page.getByTestId('review-retakes').locator('[data-testid^="retake-"][data-testid$="-line"]').count(),
+  ).resolves.toBe(1);
+  await expect(
+    page.getByTestId('review-elsewhere').locator('[data-testid^="retake-"][data-testid$="-line"]').count(),
+  ).resolves.toBe(3);
   await expect(page.getByTestId('review-borrowed').textContent()).resolves.toMatch(
     /^For the instruments not on this route, the check uses the boiler house round of \d\d:\d\d and the condenser and cooling water round of \d\d:\d\d \(the latest reading of each within the last 4 h on this device\)\.$/,
   );
@@ -181,8 +196,12 @@ test('the phone checks the whole round offline, sends the technician back to TI-
   await page.getByTestId('review-clean').waitFor({ timeout: 30_000 });
   const msWarm = Number(await page.getByTestId('review-ms').textContent());
   await cdp.send('Emulation.setCPUThrottlingRate', { rate: 1 });
-  await expect(page.getByTestId('review-retakes-none').textContent()).resolves.toBe('Nothing to re-take on this route.');
-  await expect(page.getByTestId('review-headline').textContent()).resolves.toBe('The round holds together: every balance closes and no reading stands out.');
+  await expect(page.getByTestId('review-retakes-none').textContent()).resolves.toBe(
+    'Nothing to re-take on this route.',
+  );
+  await expect(page.getByTestId('review-headline').textContent()).resolves.toBe(
+    'The round holds together: every balance closes and no reading stands out.',
+  );
   const cleanFingerprint = await page.getByTestId('review-fingerprint').textContent();
   await tallShot(page, 'review-clean-phone', PHONE);
   await page.setViewportSize(WIDE);
@@ -228,7 +247,10 @@ test('the phone checks the whole round offline, sends the technician back to TI-
       `select o.id, o.started_at_device, o.finished_at_device, o.status, rv.template, rt.id as route_id, rt.name as route_name, s.elevation_m
          from rounds o join route_versions rv on rv.id = o.route_version_id join routes rt on rt.id = rv.route_id join sites s on s.id = o.site_id`,
     );
-    const unit = await db.query(`select u.model, u.model_version from units u join routes rt on rt.unit_id = u.id where rt.id = $1`, [rounds.rows[0].route_id]);
+    const unit = await db.query(
+      `select u.model, u.model_version from units u join routes rt on rt.unit_id = u.id where rt.id = $1`,
+      [rounds.rows[0].route_id],
+    );
     expect(unit.rows[0].model_version).toBe(demoUnit.version);
     const roundRows: RoundRow[] = rounds.rows.map((r) => ({
       id: r.id,
@@ -253,7 +275,12 @@ test('the phone checks the whole round offline, sends the technician back to TI-
     const serverCheck = (readings: ReadingRow[]) => {
       const all = roundsFromRows(roundRows, readings, rounds.rows[0].elevation_m);
       const me = all.find((r) => r.id === roundId)!;
-      return checkRound({ model: unit.rows[0].model, round: me, others: all.filter((r) => r.id !== roundId), at: me.finishedAt! });
+      return checkRound({
+        model: unit.rows[0].model,
+        round: me,
+        others: all.filter((r) => r.id !== roundId),
+        at: me.finishedAt!,
+      });
     };
     const serverCheckAlone = (readings: ReadingRow[]) => {
       const me = roundsFromRows(roundRows, readings, rounds.rows[0].elevation_m).find((r) => r.id === roundId)!;
@@ -265,7 +292,9 @@ test('the phone checks the whole round offline, sends the technician back to TI-
     expect(now.fingerprint).toBe(cleanFingerprint);
     // and before the re-take, the server's rows give the phone's first answer
     const before = serverCheck(readingRows((r) => r.id !== retake.id));
-    expect(before.retakes.map((i) => i.line)).toEqual(['Stop 3, LP extraction and LP heater: TI-206 — reads about 6 K high against the LP feedwater heater and deaerator balances (or FI-202, TI-302 and PI-501: the balances cannot tell them apart)']);
+    expect(before.retakes.map((i) => i.line)).toEqual([
+      'Stop 3, LP extraction and LP heater: TI-206 — reads about 6 K high against the LP feedwater heater and deaerator balances (or FI-202, TI-302 and PI-501: the balances cannot tell them apart)',
+    ]);
     expect(before.fingerprint).toBe(dirtyFingerprint);
 
     // the server's own analysis (server/analysis, a pg-boss job after the push), read as the engineer
@@ -278,12 +307,16 @@ test('the phone checks the whole round offline, sends the technician back to TI-
     const { accessToken } = (await signin.json()) as { accessToken: string };
     let served: ServedAnalysis | null = null;
     for (let i = 0; i < 60 && !served; i++) {
-      const res = await fetch(`${server.url}/api/sites/${siteId}/rounds/${roundId}/analysis`, { headers: { authorization: `Bearer ${accessToken}` } });
+      const res = await fetch(`${server.url}/api/sites/${siteId}/rounds/${roundId}/analysis`, {
+        headers: { authorization: `Bearer ${accessToken}` },
+      });
       if (res.status === 200) served = (await res.json()) as ServedAnalysis;
       else await new Promise((r) => setTimeout(r, 500));
     }
     if (!served) {
-      console.log('the server stored no analysis of the round within 30 s: server-vs-phone compared on the shared code path only');
+      console.log(
+        'the server stored no analysis of the round within 30 s: server-vs-phone compared on the shared code path only',
+      );
     } else {
       // it uses the re-take, and the same model version
       expect(served.instruments.find((x) => x.tag === FAULT)!.reading).toBeCloseTo(retake.value_si, 9);
@@ -295,18 +328,24 @@ test('the phone checks the whole round offline, sends the technician back to TI-
       const serverUnitLevel = served.instruments.some((x) => otherRouteTags.includes(x.tag) && x.reading !== null);
       const mine = serverUnitLevel ? now : serverCheckAlone(readingRows(() => true));
       const phone = mine.analysis;
-      const keep = (f: { kind: string; instrumentTags: string[] }) => !(f.kind === 'missing-reading' && otherRouteTags.includes(f.instrumentTags[0]));
+      const keep = (f: { kind: string; instrumentTags: string[] }) =>
+        !(f.kind === 'missing-reading' && otherRouteTags.includes(f.instrumentTags[0]));
       const estimates = served.instruments
         .filter((x) => x.tag in now.assembled.walk)
         .map((x) => [x.tag, x.estimate, phone.instruments.find((y) => y.tag === x.tag)!.estimate] as const);
-      const apart = estimates.filter(([, a, b]) => !(a === b || (a !== null && b !== null && Math.abs(a - b) <= 1e-9 * Math.max(Math.abs(a), Math.abs(b)))));
+      const apart = estimates.filter(
+        ([, a, b]) =>
+          !(a === b || (a !== null && b !== null && Math.abs(a - b) <= 1e-9 * Math.max(Math.abs(a), Math.abs(b)))),
+      );
       console.log(
         `server analysis of the round (${serverUnitLevel ? 'unit-level readings' : "this round's readings only: compared with the shared path on this round alone"}): ` +
           `suspects [${served.reconciliation.suspects.join(', ')}] against [${phone.reconciliation.ok ? phone.reconciliation.suspects.join(', ') : '—'}]; ` +
           `${served.findings.length} findings against ${phone.findings.filter(keep).length}; estimates of this route's instruments apart by more than 1e-9: ${apart.length} of ${estimates.length}`,
       );
       expect(served.reconciliation.suspects).toEqual(phone.reconciliation.ok ? phone.reconciliation.suspects : []);
-      expect(served.findings.map((f) => [f.kind, f.instrumentTags, f.message])).toEqual(phone.findings.filter(keep).map((f) => [f.kind, f.instrumentTags, f.message]));
+      expect(served.findings.map((f) => [f.kind, f.instrumentTags, f.message])).toEqual(
+        phone.findings.filter(keep).map((f) => [f.kind, f.instrumentTags, f.message]),
+      );
       expect(apart).toEqual([]);
     }
   } finally {

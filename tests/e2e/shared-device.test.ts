@@ -35,13 +35,19 @@ beforeAll(async () => {
   await db.connect();
   // a second technician of Fernhallow (invented), with the demo password
   const [b] = (
-    await db.query(`INSERT INTO users (email, name, password_hash) VALUES ('ash.renner@fernhallow.example', 'Ash Renner', $1) RETURNING id`, [
-      await hashPassword(DEMO_PASSWORD),
-    ])
+    await db.query(
+      `INSERT INTO users (email, name, password_hash) VALUES ('ash.renner@fernhallow.example', 'Ash Renner', $1) RETURNING id`,
+      [await hashPassword(DEMO_PASSWORD)],
+    )
   ).rows as { id: string }[];
-  await db.query(`INSERT INTO memberships (user_id, site_id, role) SELECT $1, id, 'technician' FROM sites WHERE slug = 'fernhallow'`, [b.id]);
+  await db.query(
+    `INSERT INTO memberships (user_id, site_id, role) SELECT $1, id, 'technician' FROM sites WHERE slug = 'fernhallow'`,
+    [b.id],
+  );
   ids.b = b.id;
-  ids.a = ((await db.query(`SELECT id FROM users WHERE email = 'tech@fernhallow.example'`)).rows[0] as { id: string }).id;
+  ids.a = (
+    (await db.query(`SELECT id FROM users WHERE email = 'tech@fernhallow.example'`)).rows[0] as { id: string }
+  ).id;
 });
 
 afterAll(async () => {
@@ -53,7 +59,10 @@ afterAll(async () => {
 async function enter(page: Page, tag: string) {
   await page.getByTestId(`reading-${tag}-input`).fill(design[tag].toFixed(2));
   await page.getByTestId(`reading-${tag}-save`).click();
-  await page.getByTestId(`reading-${tag}-input`).and(page.locator(`[value="${Number(design[tag].toFixed(2))}"]`)).waitFor();
+  await page
+    .getByTestId(`reading-${tag}-input`)
+    .and(page.locator(`[value="${Number(design[tag].toFixed(2))}"]`))
+    .waitFor();
 }
 
 async function signOut(page: Page) {
@@ -75,8 +84,13 @@ test("A records offline and signs out; B signs in: A's readings wait for A, and 
     if (s === 0) await page.getByTestId('stop-next').click();
   }
   await page.getByTestId('nav-tech-home').first().click();
-  await page.getByTestId('sync-summary').filter({ hasText: /waiting to send/ }).waitFor();
-  expect(await page.getByTestId('sync-summary').textContent()).toMatch(new RegExp(`^${tags.length + 1} waiting to send`));
+  await page
+    .getByTestId('sync-summary')
+    .filter({ hasText: /waiting to send/ })
+    .waitFor();
+  expect(await page.getByTestId('sync-summary').textContent()).toMatch(
+    new RegExp(`^${tags.length + 1} waiting to send`),
+  );
   await signOut(page); // still offline: nothing could be sent
 
   // B on the same phone, online again
@@ -102,7 +116,10 @@ test("A records offline and signs out; B signs in: A's readings wait for A, and 
   await page.getByTestId('nav-tech-home').first().click();
   await page.getByTestId('route-boiler-house-begin').waitFor();
   // nothing of A's reached the server under B (nor at all)
-  expect((await db.query(`SELECT count(*)::int AS n FROM rounds WHERE id = $1 OR technician_id = $2`, [roundId, ids.b])).rows[0].n).toBe(0);
+  expect(
+    (await db.query(`SELECT count(*)::int AS n FROM rounds WHERE id = $1 OR technician_id = $2`, [roundId, ids.b]))
+      .rows[0].n,
+  ).toBe(0);
   expect((await db.query(`SELECT count(*)::int AS n FROM readings WHERE recorded_by = $1`, [ids.b])).rows[0].n).toBe(0);
 
   // A signs in again on the phone: A's records go, as A's
@@ -113,10 +130,16 @@ test("A records offline and signs out; B signs in: A's readings wait for A, and 
   await page.getByTestId('sync-now').click();
   await page.getByTestId('outbox-waiting').filter({ hasText: /^0$/ }).waitFor({ timeout: 30_000 });
   await page.getByTestId('others-waiting').waitFor({ state: 'detached' });
-  const round = (await db.query(`SELECT technician_id FROM rounds WHERE id = $1`, [roundId])).rows as { technician_id: string }[];
+  const round = (await db.query(`SELECT technician_id FROM rounds WHERE id = $1`, [roundId])).rows as {
+    technician_id: string;
+  }[];
   expect(round).toEqual([{ technician_id: ids.a }]);
-  const readings = (await db.query(`SELECT i.tag, r.recorded_by FROM readings r JOIN instruments i ON i.id = r.instrument_id WHERE r.round_id = $1 ORDER BY i.tag`, [roundId]))
-    .rows as { tag: string; recorded_by: string }[];
+  const readings = (
+    await db.query(
+      `SELECT i.tag, r.recorded_by FROM readings r JOIN instruments i ON i.id = r.instrument_id WHERE r.round_id = $1 ORDER BY i.tag`,
+      [roundId],
+    )
+  ).rows as { tag: string; recorded_by: string }[];
   expect(readings).toEqual([...tags].sort().map((tag) => ({ tag, recorded_by: ids.a })));
   await context.close();
 });

@@ -40,44 +40,49 @@ test('the app opens on the sign-in form', async () => {
 });
 
 const fernhallow = demoUsers.filter((u) => u.site === 'fernhallow');
-test.each(fernhallow.map((u) => [u.role, u] as const))('%s signs in and lands on their own home', async (role, user) => {
-  const { context, page } = await newPage(browser, role === 'engineer' ? WIDE : PHONE);
-  await signIn(page, server.url, user.email, DEMO_PASSWORD);
-  await page.waitForURL(`**${homePath[role]}`);
-  await expect(page.getByTestId('home-name').textContent()).resolves.toBe(user.name);
-  await expect(page.getByTestId('home-site').textContent()).resolves.toBe('Fernhallow Works');
-  await expect(page.getByTestId('home-role').textContent()).resolves.toBe(roleWords[role]);
-  await shot(page, `home-${role}-${role === 'engineer' ? 'wide' : 'phone'}`);
-  if (role === 'engineer') expect(await page.getByTestId('nav-side').isVisible()).toBe(true);
+test.each(fernhallow.map((u) => [u.role, u] as const))(
+  '%s signs in and lands on their own home',
+  async (role, user) => {
+    const { context, page } = await newPage(browser, role === 'engineer' ? WIDE : PHONE);
+    await signIn(page, server.url, user.email, DEMO_PASSWORD);
+    await page.waitForURL(`**${homePath[role]}`);
+    await expect(page.getByTestId('home-name').textContent()).resolves.toBe(user.name);
+    await expect(page.getByTestId('home-site').textContent()).resolves.toBe('Fernhallow Works');
+    await expect(page.getByTestId('home-role').textContent()).resolves.toBe(roleWords[role]);
+    await shot(page, `home-${role}-${role === 'engineer' ? 'wide' : 'phone'}`);
+    if (role === 'engineer') expect(await page.getByTestId('nav-side').isVisible()).toBe(true);
 
-  // The session survives a reload.
-  await page.reload();
-  await page.getByTestId('home-name').waitFor();
-  expect(page.url()).toContain(homePath[role]);
-  await expect(page.getByTestId('home-name').textContent()).resolves.toBe(user.name);
+    // The session survives a reload.
+    await page.reload();
+    await page.getByTestId('home-name').waitFor();
+    expect(page.url()).toContain(homePath[role]);
+    await expect(page.getByTestId('home-name').textContent()).resolves.toBe(user.name);
 
-  // The one guard (app/_layout.tsx): another role's area and the sign-in form send this user home.
-  const other = role === 'planner' ? '/eng' : '/plan';
-  await page.goto(`${server.url}${other}`);
-  await page.getByTestId('home-name').waitFor();
-  expect(new URL(page.url()).pathname).toBe(homePath[role]);
-  await page.goto(`${server.url}/sign-in`);
-  await page.getByTestId('home-name').waitFor();
-  expect(new URL(page.url()).pathname).toBe(homePath[role]);
+    // The one guard (app/_layout.tsx): another role's area and the sign-in form send this user home.
+    const other = role === 'planner' ? '/eng' : '/plan';
+    await page.goto(`${server.url}${other}`);
+    await page.getByTestId('home-name').waitFor();
+    expect(new URL(page.url()).pathname).toBe(homePath[role]);
+    await page.goto(`${server.url}/sign-in`);
+    await page.getByTestId('home-name').waitFor();
+    expect(new URL(page.url()).pathname).toBe(homePath[role]);
 
-  // Signing out ends it.
-  await page.getByTestId('sign-out').first().click();
-  await page.getByTestId('sign-in-email').waitFor();
-  await page.goto(`${server.url}${homePath[role]}`);
-  await page.getByTestId('sign-in-email').waitFor();
-  await context.close();
-});
+    // Signing out ends it.
+    await page.getByTestId('sign-out').first().click();
+    await page.getByTestId('sign-in-email').waitFor();
+    await page.goto(`${server.url}${homePath[role]}`);
+    await page.getByTestId('sign-in-email').waitFor();
+    await context.close();
+  },
+);
 
 test('a wrong password says so and opens no session', async () => {
   const { context, page } = await newPage(browser, PHONE);
   await signIn(page, server.url, 'planner@fernhallow.example', 'not-the-password');
   await page.getByTestId('sign-in-failure').waitFor();
-  expect(await page.getByTestId('sign-in-failure').textContent()).toBe('E-mail or password is wrong. Check both and try again.');
+  expect(await page.getByTestId('sign-in-failure').textContent()).toBe(
+    'E-mail or password is wrong. Check both and try again.',
+  );
   const stored = await page.evaluate("window.localStorage.getItem('trueround.session')");
   expect(stored).toBeNull();
   await page.reload();

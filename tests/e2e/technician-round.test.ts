@@ -35,7 +35,9 @@ const SKIPPED = 'FI-202';
 beforeAll(async () => {
   mkdirSync('.tmp/screens', { recursive: true });
   jpeg = join(photoDir, 'seal.jpg');
-  await sharp({ create: { width: 640, height: 480, channels: 3, background: { r: 120, g: 90, b: 60 } } }).jpeg().toFile(jpeg);
+  await sharp({ create: { width: 640, height: 480, channels: 3, background: { r: 120, g: 90, b: 60 } } })
+    .jpeg()
+    .toFile(jpeg);
   server = await startTestServer({ PHOTO_DIR: photoDir });
   browser = await launch();
 });
@@ -75,12 +77,17 @@ test('a technician walks the boiler-house round offline, reloads mid-round, fini
         await shot(page, 'round-reread-drum');
       }
       await enter(page, r.tag, typed(r.tag));
-      await page.getByTestId(`reading-${r.tag}-input`).and(page.locator(`[value="${shown(r.tag)}"]`)).waitFor();
+      await page
+        .getByTestId(`reading-${r.tag}-input`)
+        .and(page.locator(`[value="${shown(r.tag)}"]`))
+        .waitFor();
     }
     await page.getByTestId('reading-TI-101-reread').waitFor({ state: 'detached' });
     for (const c of stop.checks) {
       if (c.kind !== 'text') {
-        const button = page.getByTestId(c.kind === 'yes-no' ? `check-${c.id}-${c.expected === false ? 'no' : 'yes'}` : `check-${c.id}-opt-0`);
+        const button = page.getByTestId(
+          c.kind === 'yes-no' ? `check-${c.id}-${c.expected === false ? 'no' : 'yes'}` : `check-${c.id}-opt-0`,
+        );
         await button.click();
         // The answer shows as chosen once the device store holds it.
         await button.and(page.locator('[aria-selected="true"]')).waitFor();
@@ -96,15 +103,24 @@ test('a technician walks the boiler-house round offline, reloads mid-round, fini
       }
     }
     const total = stop.readings.length + stop.checks.length;
-    await page.getByTestId(`stop-${s}-progress`).filter({ hasText: `${total} of ${total} done` }).waitFor();
+    await page
+      .getByTestId(`stop-${s}-progress`)
+      .filter({ hasText: `${total} of ${total} done` })
+      .waitFor();
 
     if (s === 2) {
       // Mid-round, still offline: reload. The app opens from the service worker with every entry.
       await page.reload();
       await page.getByTestId('round-screen').waitFor();
-      await page.getByTestId('reading-PI-001-input').and(page.locator(`[value="${shown('PI-001')}"]`)).waitFor();
+      await page
+        .getByTestId('reading-PI-001-input')
+        .and(page.locator(`[value="${shown('PI-001')}"]`))
+        .waitFor();
       await page.getByTestId('stop-1').click();
-      await page.getByTestId('reading-PI-103-input').and(page.locator(`[value="${shown('PI-103')}"]`)).waitFor();
+      await page
+        .getByTestId('reading-PI-103-input')
+        .and(page.locator(`[value="${shown('PI-103')}"]`))
+        .waitFor();
       await page.getByTestId('photo-check-bfp-seal-leak').waitFor();
       await shot(page, 'round-after-offline-reload');
       await page.getByTestId(`stop-${s}`).click();
@@ -155,7 +171,10 @@ test('a technician walks the boiler-house round offline, reloads mid-round, fini
     const wrong = readings.rows.find((r) => r.tag === 'TI-101' && r.supersedes === null);
     expect(wrong.typed).toBeCloseTo(design['TI-101'] + 15, 2);
 
-    const photos = await db.query(`select status, storage_key, thumb_key, width, height from photos where round_id = $1`, [roundId]);
+    const photos = await db.query(
+      `select status, storage_key, thumb_key, width, height from photos where round_id = $1`,
+      [roundId],
+    );
     expect(photos.rowCount).toBe(1);
     expect(photos.rows[0]).toMatchObject({ status: 'stored', width: 640, height: 480 });
     expect(photos.rows[0].thumb_key).toBeTruthy();

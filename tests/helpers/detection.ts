@@ -9,14 +9,26 @@
  * Used by tests/unit/cycle/detection.test.ts (small N) and bench/detection.bench.ts (the table).
  * Deterministic: mulberry32 (server/seed/history-generator.ts) and Box–Muller.
  */
-import { analyseRound, cusumStep, CUSUM_START, decideEvidence, type CusumState, type InstrumentEvidence, type RoundAnalysis, type RoundReading } from '@/shared/cycle';
+import {
+  analyseRound,
+  cusumStep,
+  CUSUM_START,
+  decideEvidence,
+  type CusumState,
+  type InstrumentEvidence,
+  type RoundAnalysis,
+  type RoundReading,
+} from '@/shared/cycle';
 import { demoDesignReadings, demoUnit } from '@/demo/unit';
 import { EVIDENCE_KINDS, KIND_OF_FINDING, workOrderKindOf } from '@/server/work-orders/policy';
 import { serverFindings } from '@/server/analysis/plant-checks';
 import { mulberry32, normals } from '@/server/seed/history-generator';
 
 export const B = 101325;
-export const design: RoundReading[] = demoDesignReadings(B).map((r) => ({ instrumentTag: r.instrumentTag, valueSI: r.valueSI }));
+export const design: RoundReading[] = demoDesignReadings(B).map((r) => ({
+  instrumentTag: r.instrumentTag,
+  valueSI: r.valueSI,
+}));
 export const base: RoundAnalysis = analyseRound(demoUnit, design, { barometricPa: B });
 export const sigmaOf = new Map(base.instruments.map((i) => [i.tag, i.sigma ?? 0]));
 
@@ -103,7 +115,10 @@ export function biased(tag: string, sigmas: number, rounds: number, seed: number
     const b = blamed(a);
     if (b.tags.has(tag)) {
       named++;
-      if (a.findings.some((f) => BLAME_KINDS.has(f.kind) && f.instrumentTags.includes(tag) && f.instrumentTags.length > 1)) asGroup++;
+      if (
+        a.findings.some((f) => BLAME_KINDS.has(f.kind) && f.instrumentTags.includes(tag) && f.instrumentTags.length > 1)
+      )
+        asGroup++;
     } else if (b.tags.size) misattributed++;
   }
   return { tag, sigmas, rounds, named, asGroup, misattributed };
@@ -125,7 +140,11 @@ export function signedU(a: RoundAnalysis): Map<string, number> {
  * Rounds of one sequence (the same instruments each round): the first round (1-based) where the
  * evidence names each instrument, by shared/cycle/evidence.ts.
  */
-export function sequence(rounds: number, seed: number, bias?: { tag: string; sigmas: number }): { firstNamed: Map<string, number>; orders: { round: number; tags: string[]; reason: string }[] } {
+export function sequence(
+  rounds: number,
+  seed: number,
+  bias?: { tag: string; sigmas: number },
+): { firstNamed: Map<string, number>; orders: { round: number; tags: string[]; reason: string }[] } {
   const n = gaussian(seed);
   let states = new Map<string, CusumState>();
   const firstNamed = new Map<string, number>();
@@ -186,9 +205,16 @@ export function simulateOrders(analyses: readonly RoundAnalysis[], model = demoU
     states = next;
     const decisions = decideEvidence(ev, a.reconciliation.ok ? a.reconciliation.correlatedCorrections : []);
     const named = new Set(decisions.flatMap((d) => d.tags));
-    const findings: { kind: string; instrumentTags: string[]; equipmentId?: string; evidence: Record<string, unknown> }[] = [
+    const findings: {
+      kind: string;
+      instrumentTags: string[];
+      equipmentId?: string;
+      evidence: Record<string, unknown>;
+    }[] = [
       ...serverFindings(model, a.findings, a.performance, new Set(model.instruments.map((i) => i.tag))),
-      ...decisions.filter((d) => d.reason === 'sustained').map((d) => ({ kind: 'sustained-bias', instrumentTags: d.tags, evidence: {} })),
+      ...decisions
+        .filter((d) => d.reason === 'sustained')
+        .map((d) => ({ kind: 'sustained-bias', instrumentTags: d.tags, evidence: {} })),
     ];
     const suspects = new Set(a.reconciliation.ok ? a.reconciliation.suspects : []);
     for (const f of findings) {
@@ -196,7 +222,8 @@ export function simulateOrders(analyses: readonly RoundAnalysis[], model = demoU
       if (!kind) continue;
       const fromEvidence = EVIDENCE_KINDS.has(f.kind);
       if (fromEvidence && !f.instrumentTags.some((t) => named.has(t))) continue;
-      if (f.kind === 'balance-not-closed' && Array.isArray(f.evidence.explainedBy) && f.evidence.explainedBy.length) continue;
+      if (f.kind === 'balance-not-closed' && Array.isArray(f.evidence.explainedBy) && f.evidence.explainedBy.length)
+        continue;
       let target: string;
       if (f.instrumentTags.length) {
         if (fromEvidence && f.instrumentTags.length > 1) {

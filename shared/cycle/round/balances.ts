@@ -132,7 +132,8 @@ export function balancesStage(c: StatesCtx) {
     const r = res ? rowValues(spec, getRec) : null;
     const test = spec.id in eq.info ? testOf(spec.id) : null;
     // the row's σ in its own unit from that test value (residual / test value) where both are formed
-    const sigmaFromTest = m && test !== null && test > 1e-9 && Math.abs(m.v.residual) > 0 ? Math.abs(m.v.residual) / test : null;
+    const sigmaFromTest =
+      m && test !== null && test > 1e-9 && Math.abs(m.v.residual) > 0 ? Math.abs(m.v.residual) / test : null;
     rowsBySpec.set(spec.id, {
       id: spec.id,
       kind: spec.kind,

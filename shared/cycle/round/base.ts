@@ -2,7 +2,15 @@
 import { correlationIn, type ReconcileResult } from '../../reconcile';
 import { EXPLAINED_CORRELATION, type CorrelatedPair } from '../evidence';
 import { sigmaFor } from '../../uncertainty';
-import { BAROMETRIC_MAX_PA, BAROMETRIC_MIN_PA, fromSI, fromSIDelta, unitLabel, type PressureRef, type Unit } from '../../units';
+import {
+  BAROMETRIC_MAX_PA,
+  BAROMETRIC_MIN_PA,
+  fromSI,
+  fromSIDelta,
+  unitLabel,
+  type PressureRef,
+  type Unit,
+} from '../../units';
 import { type Shown } from '../format';
 import { portUses, type CycleModel, type Instrument } from '../model';
 import { type FigureState } from '../performance';
@@ -36,7 +44,8 @@ export interface Options {
 }
 
 export function checkContext(context: RoundContext): Options {
-  if (!context || typeof context !== 'object') throw new CycleError('INVALID_CONTEXT', 'analyseRound needs a context { barometricPa, … }');
+  if (!context || typeof context !== 'object')
+    throw new CycleError('INVALID_CONTEXT', 'analyseRound needs a context { barometricPa, … }');
   const b = context.barometricPa;
   if (!fin(b) || b < BAROMETRIC_MIN_PA || b > BAROMETRIC_MAX_PA) {
     throw new CycleError(
@@ -55,16 +64,25 @@ export function checkContext(context: RoundContext): Options {
     tolerance: o.tolerance ?? 1e-8,
   };
   const bad = (field: string, value: unknown, limit: string) => {
-    throw new CycleError('INVALID_CONTEXT', `context.options.${field} is ${String(value)}; it must be ${limit}`, { field, value });
+    throw new CycleError('INVALID_CONTEXT', `context.options.${field} is ${String(value)}; it must be ${limit}`, {
+      field,
+      value,
+    });
   };
-  if (!fin(opt.confidence) || opt.confidence <= 0 || opt.confidence >= 1) bad('confidence', opt.confidence, 'in (0, 1)');
-  if (!Number.isInteger(opt.stuckRounds) || opt.stuckRounds < 3) bad('stuckRounds', opt.stuckRounds, 'a whole number ≥ 3');
-  if (!fin(opt.barometricSigmaPa) || opt.barometricSigmaPa < 0) bad('barometricSigmaPa', opt.barometricSigmaPa, 'a finite number ≥ 0 (Pa)');
+  if (!fin(opt.confidence) || opt.confidence <= 0 || opt.confidence >= 1)
+    bad('confidence', opt.confidence, 'in (0, 1)');
+  if (!Number.isInteger(opt.stuckRounds) || opt.stuckRounds < 3)
+    bad('stuckRounds', opt.stuckRounds, 'a whole number ≥ 3');
+  if (!fin(opt.barometricSigmaPa) || opt.barometricSigmaPa < 0)
+    bad('barometricSigmaPa', opt.barometricSigmaPa, 'a finite number ≥ 0 (Pa)');
   if (!fin(opt.coverage) || opt.coverage <= 0) bad('coverage', opt.coverage, 'a finite number > 0');
-  if (!Number.isInteger(opt.maxIterations) || opt.maxIterations < 1) bad('maxIterations', opt.maxIterations, 'a whole number ≥ 1');
+  if (!Number.isInteger(opt.maxIterations) || opt.maxIterations < 1)
+    bad('maxIterations', opt.maxIterations, 'a whole number ≥ 1');
   if (!fin(opt.tolerance) || opt.tolerance <= 0) bad('tolerance', opt.tolerance, 'a finite number > 0 (σ units)');
   if (context.previousRounds !== undefined && !Array.isArray(context.previousRounds)) {
-    throw new CycleError('INVALID_CONTEXT', 'context.previousRounds must be an array of { readings } (oldest first)', { field: 'previousRounds' });
+    throw new CycleError('INVALID_CONTEXT', 'context.previousRounds must be an array of { readings } (oldest first)', {
+      field: 'previousRounds',
+    });
   }
   return opt;
 }
@@ -98,7 +116,14 @@ export function combine(list: { value: number; sigma: number }[]): Combined | nu
  */
 export function sigmaReferenceValue(model: CycleModel, i: Instrument, barometricPa: number): number {
   const nominal = i.point ? model.points.find((p) => p.id === i.point)?.nominal : undefined;
-  const n = i.quantity === 'pressure' ? nominal?.p : i.quantity === 'temperature' ? nominal?.T : i.quantity === 'massFlow' ? nominal?.m : undefined;
+  const n =
+    i.quantity === 'pressure'
+      ? nominal?.p
+      : i.quantity === 'temperature'
+        ? nominal?.T
+        : i.quantity === 'massFlow'
+          ? nominal?.m
+          : undefined;
   if (fin(n) && n > 0) return n;
   return fromOwnReference(i, 0.5 * (i.range.min + i.range.max), barometricPa);
 }
@@ -114,7 +139,11 @@ export function specSigmaOf(model: CycleModel, i: Instrument, barometricPa: numb
 }
 
 export function shownOf(i: Instrument): Shown {
-  return { quantity: i.quantity, unit: i.unit as Unit, ...(i.pressureReference ? { reference: i.pressureReference as PressureRef } : {}) };
+  return {
+    quantity: i.quantity,
+    unit: i.unit as Unit,
+    ...(i.pressureReference ? { reference: i.pressureReference as PressureRef } : {}),
+  };
 }
 
 /** The instrument's own-reference value of an absolute SI reading (Pa gauge / vacuum / absolute; others unchanged). */
@@ -135,7 +164,8 @@ export function fromOwnReference(i: Instrument, own: number, b: number): number 
 /** "0–100 bar(g)", "0–25 kPa(a)", "0–150 °C": the scale as printed on the face */
 export function rangeText(i: Instrument): string {
   const unit = i.unit as Unit;
-  const conv = (x: number) => (i.quantity === 'pressure' ? fromSIDelta('pressure', x, unit) : fromSI(i.quantity, x, unit));
+  const conv = (x: number) =>
+    i.quantity === 'pressure' ? fromSIDelta('pressure', x, unit) : fromSI(i.quantity, x, unit);
   const n = (x: number) => String(Number(x.toPrecision(6)));
   try {
     return `${n(conv(i.range.min))}–${n(conv(i.range.max))} ${unitLabel(unit, i.pressureReference as PressureRef | undefined)}`;
@@ -144,12 +174,10 @@ export function rangeText(i: Instrument): string {
   }
 }
 
-
 export { joinNames, lcFirst } from '../messages';
 
 /** code-unit order: the same on every JavaScript engine (no locale) */
 export const cmp = (a: string, c: string) => (a < c ? -1 : a > c ? 1 : 0);
-
 
 export const KIND_ORDER = new Map<FindingKind, number>(FINDING_KINDS.map((k, i) => [k, i]));
 
@@ -169,7 +197,20 @@ export interface PState extends FigureState {
   sx: number | null;
 }
 
-export const EMPTY: PState = { p: null, T: null, h: null, s: null, x: null, m: null, phase: null, sp: null, sT: null, sh: null, sm: null, sx: null };
+export const EMPTY: PState = {
+  p: null,
+  T: null,
+  h: null,
+  s: null,
+  x: null,
+  m: null,
+  phase: null,
+  sp: null,
+  sT: null,
+  sh: null,
+  sm: null,
+  sx: null,
+};
 
 /** (measured − reconciled)/σ(correction) of a measurement in the reconciliation with the suspects removed; null where not tested. */
 export function signedFinal(res: ReconcileResult, tag: string): number | null {
@@ -187,7 +228,8 @@ export function correlatedPairs(res: ReconcileResult): CorrelatedPair[] {
   for (let x = 0; x < tested.length; x++) {
     for (let y = x + 1; y < tested.length; y++) {
       const rho = correlationIn(cov, tested[x], tested[y]);
-      if (rho !== null && Math.abs(rho) >= EXPLAINED_CORRELATION) out.push({ a: tested[x], b: tested[y], rho: Math.round(rho * 1e4) / 1e4 });
+      if (rho !== null && Math.abs(rho) >= EXPLAINED_CORRELATION)
+        out.push({ a: tested[x], b: tested[y], rho: Math.round(rho * 1e4) / 1e4 });
     }
   }
   return out;
@@ -204,10 +246,18 @@ export function makeBase(model: CycleModel, opt: Options, context: RoundContext)
   const eqById = new Map(model.equipment.map((e) => [e.id, e]));
   const pointById = new Map(model.points.map((p) => [p.id, p]));
   const idsOf = (tags: string[]) => tags.map((t) => instByTag.get(t)?.id).filter((x): x is string => x !== undefined);
-  const add = (kind: FindingKind, severity: Level, tags: string[], message: string, evidence: Evidence, where: { equipmentId?: string; pointId?: string } = {}) => {
+  const add = (
+    kind: FindingKind,
+    severity: Level,
+    tags: string[],
+    message: string,
+    evidence: Evidence,
+    where: { equipmentId?: string; pointId?: string } = {},
+  ) => {
     findings.push({ kind, severity, instrumentTags: tags, instrumentIds: idsOf(tags), ...where, message, evidence });
   };
-  const placeOf = (i: Instrument): { equipmentId?: string; pointId?: string } => (i.point ? { pointId: i.point } : { equipmentId: i.equipment });
+  const placeOf = (i: Instrument): { equipmentId?: string; pointId?: string } =>
+    i.point ? { pointId: i.point } : { equipmentId: i.equipment };
   const placeLabel = (i: Instrument) => (i.point ? pointById.get(i.point)!.label : eqById.get(i.equipment!)!.label);
 
   // equipment criticality around each point
@@ -215,9 +265,26 @@ export function makeBase(model: CycleModel, opt: Options, context: RoundContext)
   for (const e of model.equipment) {
     for (const u of portUses(e)) critAtPoint.set(u.point, Math.max(critAtPoint.get(u.point) ?? 1, e.criticality));
   }
-  const critOf = (i: Instrument) => (i.point ? (critAtPoint.get(i.point) ?? 1) : (eqById.get(i.equipment!)?.criticality ?? 1));
+  const critOf = (i: Instrument) =>
+    i.point ? (critAtPoint.get(i.point) ?? 1) : (eqById.get(i.equipment!)?.criticality ?? 1);
 
-  return { model, opt, context, b, k, findings, instByTag, instById, eqById, pointById, idsOf, add, placeOf, placeLabel, critOf };
+  return {
+    model,
+    opt,
+    context,
+    b,
+    k,
+    findings,
+    instByTag,
+    instById,
+    eqById,
+    pointById,
+    idsOf,
+    add,
+    placeOf,
+    placeLabel,
+    critOf,
+  };
 }
 
 /** The context every stage starts from. */

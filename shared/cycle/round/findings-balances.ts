@@ -20,7 +20,14 @@ export function balanceFindings(c: FindingsCtx) {
       if (zr <= k) continue;
       const e = eqById.get(spec.equipmentId)!;
       const unit = row.unit === 'kg/s' ? 'kg/s' : 'W';
-      const what = spec.kind === 'mass' ? 'mass balance' : spec.kind === 'power' ? 'turbine work against generator output' : spec.kind === 'duty' ? 'steam-side heat against cooling water' : 'energy balance';
+      const what =
+        spec.kind === 'mass'
+          ? 'mass balance'
+          : spec.kind === 'power'
+            ? 'turbine work against generator output'
+            : spec.kind === 'duty'
+              ? 'steam-side heat against cooling water'
+              : 'energy balance';
       const rel = row.measured.relative;
       add(
         'balance-not-closed',
@@ -36,10 +43,17 @@ export function balanceFindings(c: FindingsCtx) {
           k,
           res.suspects,
         ),
-        { in: row.measured.in, out: row.measured.out, residual: row.measured.residual, sigma: row.measuredSigma, coverage: k, kind: spec.kind, explainedBy: [...res.suspects] },
+        {
+          in: row.measured.in,
+          out: row.measured.out,
+          residual: row.measured.residual,
+          sigma: row.measuredSigma,
+          coverage: k,
+          kind: spec.kind,
+          explainedBy: [...res.suspects],
+        },
         { equipmentId: e.id },
       );
     }
   }
-
 }

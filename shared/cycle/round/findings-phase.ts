@@ -20,7 +20,9 @@ export function phaseFindings(c: FindingsCtx) {
     if (!pm || !Tm) continue;
     const spread = (tags: string[]) => {
       const xs = tags.filter((t) => accepted.has(t)).map((t) => accepted.get(t)!);
-      for (let a = 0; a < xs.length; a++) for (let c = a + 1; c < xs.length; c++) if (Math.abs(xs[a].value - xs[c].value) > k * Math.hypot(xs[a].sigma, xs[c].sigma)) return true;
+      for (let a = 0; a < xs.length; a++)
+        for (let c = a + 1; c < xs.length; c++)
+          if (Math.abs(xs[a].value - xs[c].value) > k * Math.hypot(xs[a].sigma, xs[c].sigma)) return true;
       return false;
     };
     if (spread(pTags) || spread(r.tags.T)) continue; // the twin finding speaks first
@@ -43,11 +45,18 @@ export function phaseFindings(c: FindingsCtx) {
         'phase-mismatch',
         ATTEND,
         [...tT, ...tP],
-        messages.phaseMismatch(lcFirst(pt.label), vap, tT, showValue(sT, Tm.v, b, U), showDelta(sT, Math.abs(dT), U), showValue(sT, Ts, b, U), pShown),
+        messages.phaseMismatch(
+          lcFirst(pt.label),
+          vap,
+          tT,
+          showValue(sT, Tm.v, b, U),
+          showDelta(sT, Math.abs(dT), U),
+          showValue(sT, Ts, b, U),
+          pShown,
+        ),
         { T: Tm.v, p: pm.v, tsat: Ts, difference: dT, allowed: U, coverage: k },
         { pointId: pt.id },
       );
     }
   }
-
 }

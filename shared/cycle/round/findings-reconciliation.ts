@@ -22,7 +22,8 @@ import type { FindingsCtx } from './context';
 export function grossErrorFindings(c: FindingsCtx) {
   const { model, b, k, instByTag, eqById, pointById, add, placeOf, critOf, accepted, eq, res, scaleOf, suspects } = c;
   const constraintsOf = new Map<string, string[]>();
-  for (const ci of Object.values(eq.info)) for (const d of ci.deps) constraintsOf.set(d, [...(constraintsOf.get(d) ?? []), ci.id]);
+  for (const ci of Object.values(eq.info))
+    for (const d of ci.deps) constraintsOf.set(d, [...(constraintsOf.get(d) ?? []), ci.id]);
   /** what an instrument is held against, in words: "its twin TI-102B and the generator balance" */
   const contextFor = (i: Instrument): { phrase: string; plural: boolean } => {
     const equipmentNames: string[] = [];
@@ -51,11 +52,14 @@ export function grossErrorFindings(c: FindingsCtx) {
     if (twin.length) parts.push(`its twin ${twin[0]}`);
     if (rest.length) parts.push(`${joinNames(rest)} on the same ${i.quantity === 'massFlow' ? 'stream' : 'point'}`);
     // a splitter or valve only passes the enthalpy on: name it when nothing else holds the reading
-    const throughOnly = new Set(model.equipment.filter((e) => e.kind === 'splitter' || e.kind === 'throttle').map((e) => e.label));
+    const throughOnly = new Set(
+      model.equipment.filter((e) => e.kind === 'splitter' || e.kind === 'throttle').map((e) => e.label),
+    );
     const real = equipmentNames.filter((n) => !throughOnly.has(n));
     const names = (real.length ? real : equipmentNames).map(lcFirst);
     if (names.length === 1) parts.push(`the ${names[0]} balance`);
-    else if (names.length > 1) parts.push(`the ${names.length > 2 ? `${names.slice(0, 2).join(', ')} and other` : joinNames(names)} balances`);
+    else if (names.length > 1)
+      parts.push(`the ${names.length > 2 ? `${names.slice(0, 2).join(', ')} and other` : joinNames(names)} balances`);
     if (saturation.length) parts.push(`saturation at ${joinNames(saturation.map(lcFirst))}`);
     if (parts.length === 0) return { phrase: 'the rest of the readings', plural: true };
     return { phrase: joinNames(parts), plural: parts.length > 1 || names.length > 1 };
@@ -94,7 +98,14 @@ export function grossErrorFindings(c: FindingsCtx) {
       if (est !== null && estS !== null) {
         const d = reading.value - est;
         const dOwn = inst.quantity === 'pressure' && inst.pressureReference === 'vacuum' ? -d : d;
-        message = messages.grossError(who, showDelta(shown, Math.abs(d), k * estS), dOwn > 0, ctx.phrase, ctx.plural, showWithSpread(shown, est, k * estS, b));
+        message = messages.grossError(
+          who,
+          showDelta(shown, Math.abs(d), k * estS),
+          dOwn > 0,
+          ctx.phrase,
+          ctx.plural,
+          showWithSpread(shown, est, k * estS, b),
+        );
         evidence.difference = d;
       } else {
         message = messages.grossErrorNoEstimate(who, ctx.phrase, z === null ? '—' : z.toFixed(1), zc.toFixed(2));
@@ -110,7 +121,15 @@ export function grossErrorFindings(c: FindingsCtx) {
             'gauge-read-as-absolute',
             ATTEND,
             [tag],
-            messages.readAsAbsolute(tag, showKPa(d), ctx.phrase, ctx.plural, showValue(shown, est, b, k * estS), showKPa(b), unit),
+            messages.readAsAbsolute(
+              tag,
+              showKPa(d),
+              ctx.phrase,
+              ctx.plural,
+              showValue(shown, est, b, k * estS),
+              showKPa(b),
+              unit,
+            ),
             { reading: reading.value, estimate: est, difference: d, barometricPa: b, allowed: U, coverage: k },
             placeOf(inst),
           );
@@ -119,7 +138,15 @@ export function grossErrorFindings(c: FindingsCtx) {
             'absolute-read-as-gauge',
             ATTEND,
             [tag],
-            messages.readAsGauge(tag, showKPa(-d), ctx.phrase, ctx.plural, showValue(shown, est, b, k * estS), showKPa(b), unit),
+            messages.readAsGauge(
+              tag,
+              showKPa(-d),
+              ctx.phrase,
+              ctx.plural,
+              showValue(shown, est, b, k * estS),
+              showKPa(b),
+              unit,
+            ),
             { reading: reading.value, estimate: est, difference: d, barometricPa: b, allowed: U, coverage: k },
             placeOf(inst),
           );
@@ -128,7 +155,13 @@ export function grossErrorFindings(c: FindingsCtx) {
             'gauge-read-as-absolute',
             ATTEND,
             [tag],
-            messages.vacuumAsAbsolute(tag, showKPa(reading.value), showValue(shown, est, b, k * estS), showKPa(est), unit),
+            messages.vacuumAsAbsolute(
+              tag,
+              showKPa(reading.value),
+              showValue(shown, est, b, k * estS),
+              showKPa(est),
+              unit,
+            ),
             { reading: reading.value, estimate: est, barometricPa: b, allowed: U, coverage: k },
             placeOf(inst),
           );
@@ -136,5 +169,4 @@ export function grossErrorFindings(c: FindingsCtx) {
       }
     }
   }
-
 }

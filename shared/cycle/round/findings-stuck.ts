@@ -34,13 +34,17 @@ export function stuckFindings(c: FindingsCtx) {
         for (const h of hosts) for (const u of portUses(h)) pts.add(u.point);
       }
       return model.instruments
-        .filter((o) => o.tag !== i.tag && ((o.point && pts.has(o.point)) || (o.equipment && o.equipment === i.equipment)))
+        .filter(
+          (o) => o.tag !== i.tag && ((o.point && pts.has(o.point)) || (o.equipment && o.equipment === i.equipment)),
+        )
         .map((o) => o.tag);
     };
     for (const inst of model.instruments) {
       const cur = accepted.get(inst.tag);
       if (!cur) continue;
-      const same = history.every((h) => h.has(inst.tag) && Math.abs(h.get(inst.tag)! - cur.value) <= 1e-9 * Math.max(1, Math.abs(cur.value)));
+      const same = history.every(
+        (h) => h.has(inst.tag) && Math.abs(h.get(inst.tag)! - cur.value) <= 1e-9 * Math.max(1, Math.abs(cur.value)),
+      );
       if (!same) continue;
       const moved: { tag: string; by: number }[] = [];
       for (const n of neighbours(inst)) {
@@ -59,11 +63,20 @@ export function stuckFindings(c: FindingsCtx) {
         'stuck-value',
         ATTEND,
         [inst.tag],
-        messages.stuck(inst.tag, showValue(shown, cur.value, b, cur.sigma), opt.stuckRounds, `${movedText}${moved.length > 3 ? ', …' : ''}`),
-        { value: cur.value, rounds: opt.stuckRounds, neighboursMoved: moved.map((m) => m.tag), movedBy: moved.map((m) => m.by) },
+        messages.stuck(
+          inst.tag,
+          showValue(shown, cur.value, b, cur.sigma),
+          opt.stuckRounds,
+          `${movedText}${moved.length > 3 ? ', …' : ''}`,
+        ),
+        {
+          value: cur.value,
+          rounds: opt.stuckRounds,
+          neighboursMoved: moved.map((m) => m.tag),
+          movedBy: moved.map((m) => m.by),
+        },
         placeOf(inst),
       );
     }
   }
-
 }

@@ -32,7 +32,14 @@ export function intakeStage(c: BaseCtx, readings: readonly RoundReading[]) {
       continue;
     }
     if (!fin(r.valueSI)) {
-      add('invalid-reading', ATTEND, [inst.tag], messages.notANumber(inst.tag, String(r.valueSI)), { value: String(r.valueSI) }, placeOf(inst));
+      add(
+        'invalid-reading',
+        ATTEND,
+        [inst.tag],
+        messages.notANumber(inst.tag, String(r.valueSI)),
+        { value: String(r.valueSI) },
+        placeOf(inst),
+      );
       invalid.add(inst.tag);
       continue;
     }
@@ -40,7 +47,8 @@ export function intakeStage(c: BaseCtx, readings: readonly RoundReading[]) {
   }
 
   const specSigma = (i: Instrument): number | null => specSigmaOf(model, i, b);
-  const baroSigma = (i: Instrument) => (i.quantity === 'pressure' && i.pressureReference !== 'absolute' ? opt.barometricSigmaPa : 0);
+  const baroSigma = (i: Instrument) =>
+    i.quantity === 'pressure' && i.pressureReference !== 'absolute' ? opt.barometricSigmaPa : 0;
 
   const accepted = new Map<string, Intake>();
   const excluded = new Set<string>();
@@ -66,7 +74,14 @@ export function intakeStage(c: BaseCtx, readings: readonly RoundReading[]) {
     if (r.sigma !== undefined) {
       if (fin(r.sigma) && r.sigma > 0) sigma = r.sigma;
       else {
-        add('invalid-reading', NOTE, [inst.tag], messages.badSigma(inst.tag, String(r.sigma)), { sigma: String(r.sigma) }, placeOf(inst));
+        add(
+          'invalid-reading',
+          NOTE,
+          [inst.tag],
+          messages.badSigma(inst.tag, String(r.sigma)),
+          { sigma: String(r.sigma) },
+          placeOf(inst),
+        );
       }
     }
     if (sigma === null) {
@@ -94,7 +109,8 @@ export function intakeStage(c: BaseCtx, readings: readonly RoundReading[]) {
     // IF97
     if (inst.quantity === 'pressure' || inst.quantity === 'temperature') {
       let why: string | null = null;
-      if (inst.quantity === 'pressure' && value < P_LOW) why = `below ${P_LOW.toFixed(1)} Pa absolute, the triple-point pressure where the steam tables stop`;
+      if (inst.quantity === 'pressure' && value < P_LOW)
+        why = `below ${P_LOW.toFixed(1)} Pa absolute, the triple-point pressure where the steam tables stop`;
       if (inst.quantity === 'pressure' && value > P_MAX) why = 'above 100 MPa absolute, the top of IAPWS-IF97';
       if (inst.quantity === 'temperature' && value < 273.15) why = 'below 0 °C, the bottom of IAPWS-IF97';
       if (inst.quantity === 'temperature' && value > T_MAX_5) why = 'above 2000 °C, the top of IAPWS-IF97';
@@ -115,7 +131,14 @@ export function intakeStage(c: BaseCtx, readings: readonly RoundReading[]) {
   }
   for (const inst of model.instruments) {
     if (accepted.has(inst.tag) || excluded.has(inst.tag) || invalid.has(inst.tag)) continue;
-    add('missing-reading', NOTE, [inst.tag], messages.missing(inst.tag, inst.label ?? placeLabel(inst)), {}, placeOf(inst));
+    add(
+      'missing-reading',
+      NOTE,
+      [inst.tag],
+      messages.missing(inst.tag, inst.label ?? placeLabel(inst)),
+      {},
+      placeOf(inst),
+    );
   }
 
   return { resolve, accepted, excluded, invalid, readingSigma, baroSigma };

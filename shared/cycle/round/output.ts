@@ -15,7 +15,13 @@ export function outputStage(c: StatesCtx) {
     const a = accepted.get(i.tag);
     const inRec = !!res && i.tag in res.values;
     const sc = fin(SCALE[eq.vars[i.tag]?.kind ?? 'T']) ? scaleOf(i.tag) : 1;
-    const status: InstrumentResult['status'] = !a ? (excluded.has(i.tag) ? 'excluded' : 'missing') : eq.notInBalance.includes(i.tag) ? 'not-in-balance' : 'used';
+    const status: InstrumentResult['status'] = !a
+      ? excluded.has(i.tag)
+        ? 'excluded'
+        : 'missing'
+      : eq.notInBalance.includes(i.tag)
+        ? 'not-in-balance'
+        : 'used';
     return {
       tag: i.tag,
       ...(i.id ? { id: i.id } : {}),
@@ -43,7 +49,7 @@ export function outputStage(c: StatesCtx) {
     const observable = new Set(res.observable);
     const variables: VariableResult[] = Object.values(eq.vars)
       .filter((vi) => !vi.measured || vi.id in res!.values || suspects.has(vi.id))
-      .filter((vi) => vi.measured ? eq.measured.some((m) => m.id === vi.id) : true)
+      .filter((vi) => (vi.measured ? eq.measured.some((m) => m.id === vi.id) : true))
       .map((vi) => {
         const sc = SCALE[vi.kind];
         const has = vi.id in res!.values;
@@ -74,14 +80,25 @@ export function outputStage(c: StatesCtx) {
       zCritical: res.zCritical,
       iterations: res.iterations,
       suspects: [...res.suspects],
-      final: { chiSquare: res.final.chiSquare, dof: res.final.dof, critical: res.final.critical, passed: res.final.passed },
+      final: {
+        chiSquare: res.final.chiSquare,
+        dof: res.final.dof,
+        critical: res.final.critical,
+        passed: res.final.passed,
+      },
       ...(res.eliminationError ? { eliminationError: { ...res.eliminationError } } : {}),
       constraintTests: { ...res.constraintTests },
       correlatedCorrections: correlatedPairs(res),
       variables,
       constraints: eq.constraints.map((c) => {
         const ci = eq.info[c.id];
-        return { id: c.id, kind: ci.kind, ...(ci.equipmentId ? { equipmentId: ci.equipmentId } : {}), ...(ci.pointId ? { pointId: ci.pointId } : {}), label: ci.label };
+        return {
+          id: c.id,
+          kind: ci.kind,
+          ...(ci.equipmentId ? { equipmentId: ci.equipmentId } : {}),
+          ...(ci.pointId ? { pointId: ci.pointId } : {}),
+          label: ci.label,
+        };
       }),
     };
   }

@@ -13,7 +13,9 @@ import type { IntakeOut } from './intake';
 /** The plant equations reconciled (VDI 2048), the barometric pressure a common input of gauge and vacuum readings. */
 export function reconciliationStage(c: BaseCtx & IntakeOut) {
   const { model, opt, add, accepted, baroSigma } = c;
-  const acc = new Map<string, AcceptedReading>([...accepted].map(([t, r]) => [t, { tag: t, value: r.value, sigma: r.sigma }]));
+  const acc = new Map<string, AcceptedReading>(
+    [...accepted].map(([t, r]) => [t, { tag: t, value: r.value, sigma: r.sigma }]),
+  );
   const eq: EquationSystem = buildEquations(model, acc);
   let res: ReconcileResult | null = null;
   let recError: { code: string; message: string } | null = null;
@@ -30,7 +32,12 @@ export function reconciliationStage(c: BaseCtx & IntakeOut) {
       if (sb2 > 0) {
         const onBaro = eq.measured.filter((m) => accepted.has(m.id) && baroSigma(accepted.get(m.id)!.inst) > 0);
         for (let x = 0; x < onBaro.length; x++) {
-          for (let y = x + 1; y < onBaro.length; y++) correlations.push({ a: onBaro[x].id, b: onBaro[y].id, rho: sb2 / (accepted.get(onBaro[x].id)!.sigma * accepted.get(onBaro[y].id)!.sigma) });
+          for (let y = x + 1; y < onBaro.length; y++)
+            correlations.push({
+              a: onBaro[x].id,
+              b: onBaro[y].id,
+              rho: sb2 / (accepted.get(onBaro[x].id)!.sigma * accepted.get(onBaro[y].id)!.sigma),
+            });
         }
       }
       recInput = {

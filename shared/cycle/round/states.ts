@@ -37,7 +37,7 @@ export function statesStage(c: RecCtx) {
         T = recV(r.T.var);
         sT = recS(r.T.var);
       }
-      const hx = r.h ?? (eq.hGroups[r.hGroup]?.h ?? null);
+      const hx = r.h ?? eq.hGroups[r.hGroup]?.h ?? null;
       let h: number | null = hx ? evalFinal(hx) : null;
       const hv = eq.hGroups[r.hGroup] && !eq.hGroups[r.hGroup].rep ? `h@${r.hGroup}` : null;
       const sh = !r.h && hv ? recS(hv) : null;
@@ -53,7 +53,20 @@ export function statesStage(c: RecCtx) {
       if (T === null && st) T = st.T;
       const m = r.m ? recV(r.m) : null;
       const sm = r.m ? recS(r.m) : null;
-      recState.set(pt.id, { p: orNull(p), T: orNull(T), h: orNull(h), s: orNull(st?.s), x: orNull(x), m: orNull(m), phase: st?.phase ?? null, sp: orNull(sp), sT: orNull(sT), sh: orNull(sh), sm: orNull(sm), sx: orNull(sx) });
+      recState.set(pt.id, {
+        p: orNull(p),
+        T: orNull(T),
+        h: orNull(h),
+        s: orNull(st?.s),
+        x: orNull(x),
+        m: orNull(m),
+        phase: st?.phase ?? null,
+        sp: orNull(sp),
+        sT: orNull(sT),
+        sh: orNull(sh),
+        sm: orNull(sm),
+        sx: orNull(sx),
+      });
     }
   }
   for (const pt of model.points) {
@@ -77,7 +90,9 @@ export function statesStage(c: RecCtx) {
         if (pt.phase !== 'two-phase') {
           const liq = pt.phase === 'saturated-liquid';
           st = stateFromPX(pm.v, liq ? 0 : 1);
-          const d = ((liq ? propsSat(pm.v + dp).hf - propsSat(pm.v - dp).hf : propsSat(pm.v + dp).hg - propsSat(pm.v - dp).hg) / (2 * dp));
+          const d =
+            (liq ? propsSat(pm.v + dp).hf - propsSat(pm.v - dp).hf : propsSat(pm.v + dp).hg - propsSat(pm.v - dp).hg) /
+            (2 * dp);
           h = st?.h ?? null;
           sh = Math.abs(d) * pm.s;
         }
@@ -120,7 +135,8 @@ export function statesStage(c: RecCtx) {
     };
   };
   const powerTags: Record<string, string[]> = {};
-  for (const i of model.instruments) if (i.quantity === 'power' && accepted.has(i.tag)) (powerTags[i.equipment!] ??= []).push(i.tag);
+  for (const i of model.instruments)
+    if (i.quantity === 'power' && accepted.has(i.tag)) (powerTags[i.equipment!] ??= []).push(i.tag);
   const measPower = (gid: string) => measuredOf(powerTags[gid] ?? [])?.v ?? null;
   const recPower = (gid: string) => {
     const t = powerTags[gid];
@@ -131,7 +147,15 @@ export function statesStage(c: RecCtx) {
     const r = eq.points[pt.id];
     const rec = getRec(pt.id);
     const meas = getMeas(pt.id);
-    const vals = (s: PState): PointValues => ({ p: s.p, T: s.T, h: s.h, s: s.s, x: s.x, m: s.m, phase: (s.phase as SteamPhase | null) ?? null });
+    const vals = (s: PState): PointValues => ({
+      p: s.p,
+      T: s.T,
+      h: s.h,
+      s: s.s,
+      x: s.x,
+      m: s.m,
+      phase: (s.phase as SteamPhase | null) ?? null,
+    });
     return {
       id: pt.id,
       label: pt.label,

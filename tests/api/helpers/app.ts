@@ -34,7 +34,12 @@ export function memoryLogger(level: Config['LOG_LEVEL'] = 'info'): { logger: Log
   return { logger: makeLogger({ LOG_LEVEL: level }, sink), lines };
 }
 
-export function testApp(dataSource: DataSource, databaseUrl: string, env: Record<string, string> = {}, logger?: Logger): Express {
+export function testApp(
+  dataSource: DataSource,
+  databaseUrl: string,
+  env: Record<string, string> = {},
+  logger?: Logger,
+): Express {
   return createApp({ config: testConfig(databaseUrl, env), dataSource, logger });
 }
 
@@ -56,12 +61,20 @@ export const bearer = (token: string) => ({ Authorization: `Bearer ${token}` });
  * Adds an invented person to a demo site with the demo password (for tests that need a second
  * technician, or an admin of the other site); returns their user id.
  */
-export async function addMember(ds: DataSource, siteSlug: string, email: string, name: string, role: string): Promise<string> {
-  const [u] = (await ds.query(`INSERT INTO "users" ("email", "name", "password_hash") VALUES ($1, $2, $3) RETURNING "id"`, [
-    email,
-    name,
-    await hashPassword(DEMO_PASSWORD),
-  ])) as { id: string }[];
-  await ds.query(`INSERT INTO "memberships" ("user_id", "site_id", "role") SELECT $1, "id", $3 FROM "sites" WHERE "slug" = $2`, [u.id, siteSlug, role]);
+export async function addMember(
+  ds: DataSource,
+  siteSlug: string,
+  email: string,
+  name: string,
+  role: string,
+): Promise<string> {
+  const [u] = (await ds.query(
+    `INSERT INTO "users" ("email", "name", "password_hash") VALUES ($1, $2, $3) RETURNING "id"`,
+    [email, name, await hashPassword(DEMO_PASSWORD)],
+  )) as { id: string }[];
+  await ds.query(
+    `INSERT INTO "memberships" ("user_id", "site_id", "role") SELECT $1, "id", $3 FROM "sites" WHERE "slug" = $2`,
+    [u.id, siteSlug, role],
+  );
   return u.id;
 }

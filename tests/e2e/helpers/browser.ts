@@ -51,7 +51,13 @@ export async function signIn(page: Page, baseUrl: string, email: string, passwor
  * Signs in as a technician, waits until reference data has come down and the service worker
  * holds the app shell, goes offline and begins a boiler-house round; returns the round's id.
  */
-export async function beginRoundOffline(context: BrowserContext, page: Page, baseUrl: string, email: string, password: string): Promise<string> {
+export async function beginRoundOffline(
+  context: BrowserContext,
+  page: Page,
+  baseUrl: string,
+  email: string,
+  password: string,
+): Promise<string> {
   await signIn(page, baseUrl, email, password);
   await page.waitForURL('**/tech');
   await page.getByTestId('route-boiler-house-begin').waitFor();

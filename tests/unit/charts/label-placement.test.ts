@@ -36,7 +36,10 @@ describe.each(SIZES)('demo design point at %i × %i px', (width, height) => {
   test('no two label boxes intersect', () => {
     for (let i = 0; i < labels.length; i++) {
       for (let j = i + 1; j < labels.length; j++) {
-        if (boxesIntersect(labels[i].box, labels[j].box)) throw new Error(`${labels[i].id} and ${labels[j].id} overlap: ${JSON.stringify([labels[i].box, labels[j].box])}`);
+        if (boxesIntersect(labels[i].box, labels[j].box))
+          throw new Error(
+            `${labels[i].id} and ${labels[j].id} overlap: ${JSON.stringify([labels[i].box, labels[j].box])}`,
+          );
       }
     }
   });
@@ -57,7 +60,8 @@ test('a crowd of labels on one spot spreads out without overlaps, nearest first,
   const req = Array.from({ length: 12 }, (_, i) => ({ id: `p${i}`, x: 200, y: 150, w: 40, h: 14, r: 4 }));
   const out = placeLabels(req, { bounds });
   expect(out.every((l) => l.placed)).toBe(true);
-  for (let i = 0; i < out.length; i++) for (let j = i + 1; j < out.length; j++) expect(boxesIntersect(out[i].box, out[j].box)).toBe(false);
+  for (let i = 0; i < out.length; i++)
+    for (let j = i + 1; j < out.length; j++) expect(boxesIntersect(out[i].box, out[j].box)).toBe(false);
   // the first label sits at the upper right, 3 px beyond the mark (r 4 + gap 3), with no leader
   expect(out[0].box).toEqual({ x: 207, y: 129, w: 40, h: 14 });
   expect(out[0].leader).toBeNull();
@@ -66,10 +70,15 @@ test('a crowd of labels on one spot spreads out without overlaps, nearest first,
 
 test('a label keeps off a line when a clean spot is as near, and stays inside the plot', () => {
   // a horizontal line just above the point: the upper positions cross it
-  const out = placeLabels([{ id: 'a', x: 100, y: 100, w: 30, h: 12, r: 3 }], { bounds: { x: 0, y: 0, w: 300, h: 200 }, segments: [{ x1: 0, y1: 95, x2: 300, y2: 95 }] });
+  const out = placeLabels([{ id: 'a', x: 100, y: 100, w: 30, h: 12, r: 3 }], {
+    bounds: { x: 0, y: 0, w: 300, h: 200 },
+    segments: [{ x1: 0, y1: 95, x2: 300, y2: 95 }],
+  });
   expect(segmentHitsBox({ x1: 0, y1: 95, x2: 300, y2: 95 }, out[0].box)).toBe(false);
   // near the right edge the label goes left
-  const edge = placeLabels([{ id: 'b', x: 295, y: 100, w: 30, h: 12, r: 3 }], { bounds: { x: 0, y: 0, w: 300, h: 200 } });
+  const edge = placeLabels([{ id: 'b', x: 295, y: 100, w: 30, h: 12, r: 3 }], {
+    bounds: { x: 0, y: 0, w: 300, h: 200 },
+  });
   expect(edge[0].box.x + edge[0].box.w).toBeLessThanOrEqual(300);
   expect(edge[0].box.x).toBeLessThan(295);
 });
@@ -84,8 +93,12 @@ test('no room: the label is left out rather than drawn over another; bad sizes n
   );
   expect(out[0].placed).toBe(true);
   expect(out[1].placed).toBe(false);
-  expect(() => placeLabels([{ id: 'c', x: Number.NaN, y: 0, w: 10, h: 10 }], { bounds: { x: 0, y: 0, w: 10, h: 10 } })).toThrow('label c: x must be a finite number of px, got NaN');
-  expect(() => placeLabels([{ id: 'd', x: 0, y: 0, w: 0, h: 10 }], { bounds: { x: 0, y: 0, w: 10, h: 10 } })).toThrow('label d: w and h must be positive px, got 0 × 10');
+  expect(() =>
+    placeLabels([{ id: 'c', x: Number.NaN, y: 0, w: 10, h: 10 }], { bounds: { x: 0, y: 0, w: 10, h: 10 } }),
+  ).toThrow('label c: x must be a finite number of px, got NaN');
+  expect(() => placeLabels([{ id: 'd', x: 0, y: 0, w: 0, h: 10 }], { bounds: { x: 0, y: 0, w: 10, h: 10 } })).toThrow(
+    'label d: w and h must be positive px, got 0 × 10',
+  );
 });
 
 test('box and segment geometry: touching edges do not intersect; a segment through a box hits it, one beside it does not', () => {

@@ -29,7 +29,10 @@ test('the demo model itself is valid, and only the barometer on the routes is ou
   expect(validateModel(demoUnit).ok).toBe(true);
   const strict = validateRoute(boilerHouseRoute, demoUnit);
   expect(strict.ok ? [] : strict.issues).toEqual([
-    { path: 'stops.0.readings.0.tag', message: `${fernhallowBarometer.tag} is not an instrument of unit "${demoUnit.id}"` },
+    {
+      path: 'stops.0.readings.0.tag',
+      message: `${fernhallowBarometer.tag} is not an instrument of unit "${demoUnit.id}"`,
+    },
   ]);
   expect(validateRoute(turbineHallRoute, demoUnit).ok).toBe(true);
   expect(validateRoute(condenserCoolingWaterRoute, demoUnit).ok).toBe(true);
@@ -54,8 +57,15 @@ test('each band holds the design reading as the gauge face shows it at 112 m (p_
           continue;
         }
         const shown = design.get(x.tag)!;
-        expect({ tag: x.tag, unit: shown.unit, reference: shown.reference }).toEqual({ tag: x.tag, unit: x.unit, reference: x.reference });
-        expect({ tag: x.tag, inBand: shown.value > x.band.min && shown.value < x.band.max }).toEqual({ tag: x.tag, inBand: true });
+        expect({ tag: x.tag, unit: shown.unit, reference: shown.reference }).toEqual({
+          tag: x.tag,
+          unit: x.unit,
+          reference: x.reference,
+        });
+        expect({ tag: x.tag, inBand: shown.value > x.band.min && shown.value < x.band.max }).toEqual({
+          tag: x.tag,
+          inBand: true,
+        });
       }
     }
   }
@@ -65,7 +75,9 @@ test('hot, rotating and live stops carry a caution; the main-steam stops warn ab
   const stops = fernhallowRoutes.flatMap((r) => r.stops);
   expect(stops.filter((s) => s.caution).length).toBeGreaterThanOrEqual(10);
   for (const id of ['superheater-outlet', 'turbine-stop-valve']) {
-    expect(stops.find((s) => s.id === id)!.caution).toContain('Hot surfaces: main-steam line lagging above 400 °C — do not touch, keep to the walkway');
+    expect(stops.find((s) => s.id === id)!.caution).toContain(
+      'Hot surfaces: main-steam line lagging above 400 °C — do not touch, keep to the walkway',
+    );
   }
   expect(stops.find((s) => s.id === 'generator-panel')!.caution).toMatch(/Live switchgear/);
   expect(stops.find((s) => s.id === 'feed-pump')!.caution).toMatch(/Rotating equipment/);

@@ -34,14 +34,18 @@ function route(): RouteTemplate {
           { tag: 'PI-101', unit: 'bar', reference: 'gauge', band: { min: 60, max: 72 }, required: true },
           { tag: 'TI-101', unit: '°C', band: { min: 270, max: 295 }, required: false },
         ],
-        checks: [{ id: 'glass-clear', prompt: 'Gauge glass clear?', kind: 'yes-no', expected: true, photoRequired: true }],
+        checks: [
+          { id: 'glass-clear', prompt: 'Gauge glass clear?', kind: 'yes-no', expected: true, photoRequired: true },
+        ],
       },
       {
         id: 'condenser',
         name: 'Condenser',
         area: 'Basement',
         readings: [{ tag: 'PI-401', unit: 'kPa', reference: 'vacuum', band: { min: 85, max: 95 }, required: true }],
-        checks: [{ id: 'screens', prompt: 'Screens', kind: 'choice', options: ['clear', 'fouled'], photoRequired: false }],
+        checks: [
+          { id: 'screens', prompt: 'Screens', kind: 'choice', options: ['clear', 'fouled'], photoRequired: false },
+        ],
       },
     ],
   };
@@ -63,14 +67,19 @@ test('a good route passes with and without the model, and comes back parsed', ()
 test('duplicate stop ids: the second stop is named, with where the first is', () => {
   const t = route();
   t.stops[1].id = 'drum';
-  expect(issuesOf(t, model)).toEqual([{ path: 'stops.1.id', message: 'stop id "drum" is used twice (first at stops.0)' }]);
+  expect(issuesOf(t, model)).toEqual([
+    { path: 'stops.1.id', message: 'stop id "drum" is used twice (first at stops.0)' },
+  ]);
 });
 
 test('duplicate check ids across stops', () => {
   const t = route();
   t.stops[1].checks[0].id = 'glass-clear';
   expect(issuesOf(t, model)).toEqual([
-    { path: 'stops.1.checks.0.id', message: 'check id "glass-clear" is used twice on this route (first at stops.0.checks.0)' },
+    {
+      path: 'stops.1.checks.0.id',
+      message: 'check id "glass-clear" is used twice on this route (first at stops.0.checks.0)',
+    },
   ]);
 });
 
@@ -85,7 +94,9 @@ test('the same tag twice on one route', () => {
 test('a tag the model does not have', () => {
   const t = route();
   t.stops[0].readings[1].tag = 'TI-999';
-  expect(issuesOf(t, model)).toEqual([{ path: 'stops.0.readings.1.tag', message: 'TI-999 is not an instrument of unit "test-unit"' }]);
+  expect(issuesOf(t, model)).toEqual([
+    { path: 'stops.0.readings.1.tag', message: 'TI-999 is not an instrument of unit "test-unit"' },
+  ]);
   // without a model the tag cannot be checked, and the route passes
   expect(validateRoute(t).ok).toBe(true);
 });
@@ -102,13 +113,13 @@ test('a unit of the wrong quantity (°C for a pressure gauge) lists the units th
 });
 
 test('without a model the quantity comes from the ISA-5.1 first letter: t/h on a TI is refused', () => {
-  expect([quantityFromTag('PI-1'), quantityFromTag('TI-1'), quantityFromTag('FI-1'), quantityFromTag('LI-1'), quantityFromTag('JI-1')]).toEqual([
-    'pressure',
-    'temperature',
-    'massFlow',
-    'level',
-    'power',
-  ]);
+  expect([
+    quantityFromTag('PI-1'),
+    quantityFromTag('TI-1'),
+    quantityFromTag('FI-1'),
+    quantityFromTag('LI-1'),
+    quantityFromTag('JI-1'),
+  ]).toEqual(['pressure', 'temperature', 'massFlow', 'level', 'power']);
   const t = route();
   t.stops[0].readings[1].unit = 't/h';
   expect(issuesOf(t)[0]).toEqual({
@@ -136,7 +147,10 @@ test('pressure reference: missing on a pressure, present on a temperature, or no
   t.stops[0].readings[1].reference = 'gauge';
   t.stops[1].readings[0].reference = 'absolute';
   expect(issuesOf(t, model)).toEqual([
-    { path: 'stops.0.readings.0.reference', message: 'PI-101 is a pressure: say what it reads against (absolute, gauge, vacuum)' },
+    {
+      path: 'stops.0.readings.0.reference',
+      message: 'PI-101 is a pressure: say what it reads against (absolute, gauge, vacuum)',
+    },
     { path: 'stops.0.readings.1.reference', message: 'TI-101 is not a pressure and takes no reference, got "gauge"' },
     { path: 'stops.1.readings.0.reference', message: 'is "absolute" but PI-401 reads vacuum in the model' },
   ]);
@@ -166,7 +180,9 @@ test('a choice with a repeated option, and a stop with nothing to do', () => {
 test('the template’s unit must be the model’s', () => {
   const t = route();
   t.unitId = 'other-unit';
-  expect(issuesOf(t, model)).toEqual([{ path: 'unitId', message: 'is "other-unit" but the model given is unit "test-unit"' }]);
+  expect(issuesOf(t, model)).toEqual([
+    { path: 'unitId', message: 'is "other-unit" but the model given is unit "test-unit"' },
+  ]);
 });
 
 test('shape errors come from the schema with their paths: bad ids, tags, kinds, missing fields', () => {
@@ -184,7 +200,9 @@ test('shape errors come from the schema with their paths: bad ids, tags, kinds, 
       { path: 'stops.1.area', message: 'Required' },
     ]),
   );
-  expect(issuesOf({ id: 'r', name: 'R', unitId: 'u', stops: [] })).toEqual([{ path: 'stops', message: 'A route needs at least one stop' }]);
+  expect(issuesOf({ id: 'r', name: 'R', unitId: 'u', stops: [] })).toEqual([
+    { path: 'stops', message: 'A route needs at least one stop' },
+  ]);
   expect(issuesOf('not a route')[0].path).toBe('(template)');
 });
 

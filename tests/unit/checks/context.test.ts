@@ -13,7 +13,10 @@ const values = Object.fromEntries(design.map((r) => [r.instrumentTag, r.valueSI]
 
 test('no flag at design values, for any of the demo unit’s instruments', () => {
   for (const r of design) {
-    expect({ tag: r.instrumentTag, flags: checkInstrumentReading(demoUnit, r.instrumentTag, r.valueSI, { roundValues: values, barometricPa: baro }) }).toEqual({
+    expect({
+      tag: r.instrumentTag,
+      flags: checkInstrumentReading(demoUnit, r.instrumentTag, r.valueSI, { roundValues: values, barometricPa: baro }),
+    }).toEqual({
       tag: r.instrumentTag,
       flags: [],
     });
@@ -21,15 +24,28 @@ test('no flag at design values, for any of the demo unit’s instruments', () =>
 });
 
 test('a drum thermometer 8 K above the boiling point is flagged against the drum pressure gauge', () => {
-  const flags = checkInstrumentReading(demoUnit, 'TI-101', values['TI-101'] + 8, { roundValues: values, barometricPa: baro });
+  const flags = checkInstrumentReading(demoUnit, 'TI-101', values['TI-101'] + 8, {
+    roundValues: values,
+    barometricPa: baro,
+  });
   expect(flags.map((f) => f.kind)).toEqual(['saturation']);
-  expect(flags[0].message).toMatch(/^Drum steam: TI-101 reads [\d.]+ °C, 8\.0 K above the boiling point at PI-101's [\d.]+ bar\(g\)/);
+  expect(flags[0].message).toMatch(
+    /^Drum steam: TI-101 reads [\d.]+ °C, 8\.0 K above the boiling point at PI-101's [\d.]+ bar\(g\)/,
+  );
 });
 
 test('main-steam twins 15 K apart are flagged on either instrument', () => {
   const v: Record<string, number> = { ...values, 'TI-102B': values['TI-102B'] - 15 };
-  expect(checkInstrumentReading(demoUnit, 'TI-102A', v['TI-102A'], { roundValues: v, barometricPa: baro }).map((f) => f.kind)).toContain('twin');
-  expect(checkInstrumentReading(demoUnit, 'TI-102B', v['TI-102B'], { roundValues: v, barometricPa: baro }).map((f) => f.kind)).toContain('twin');
+  expect(
+    checkInstrumentReading(demoUnit, 'TI-102A', v['TI-102A'], { roundValues: v, barometricPa: baro }).map(
+      (f) => f.kind,
+    ),
+  ).toContain('twin');
+  expect(
+    checkInstrumentReading(demoUnit, 'TI-102B', v['TI-102B'], { roundValues: v, barometricPa: baro }).map(
+      (f) => f.kind,
+    ),
+  ).toContain('twin');
 });
 
 test('a gauge scale becomes absolute with the barometric pressure; without one it is unknown', () => {
@@ -39,5 +55,7 @@ test('a gauge scale becomes absolute with the barometric pressure; without one i
 });
 
 test('an unknown tag is refused by name', () => {
-  expect(() => checkInstrumentReading(demoUnit, 'TI-999', 300, { roundValues: {} })).toThrow(`instrument TI-999 is not in the model ${demoUnit.id}`);
+  expect(() => checkInstrumentReading(demoUnit, 'TI-999', 300, { roundValues: {} })).toThrow(
+    `instrument TI-999 is not in the model ${demoUnit.id}`,
+  );
 });

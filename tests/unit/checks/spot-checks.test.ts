@@ -42,7 +42,10 @@ describe('saturation (IAPWS-IF97 Table 35: Tsat(1 MPa) = 453.035632 K)', () => {
   });
 
   test('either reading can be the one being checked', () => {
-    const f = checkReading(drumP(1e6), { barometricPa: baro, saturation: { pointLabel: 'Drum', partner: drumT(458.15) } });
+    const f = checkReading(drumP(1e6), {
+      barometricPa: baro,
+      saturation: { pointLabel: 'Drum', partner: drumT(458.15) },
+    });
     expect(f.map((x) => x.kind)).toEqual(['saturation']);
     expect(f[0].message).toContain('8.99 bar(g)');
     expect(f[0].message).toContain('Re-read PI-110 and TI-111');
@@ -107,6 +110,8 @@ describe('range, band, twin and jump (common practice)', () => {
 
   test('bad input names the tag and the limit', () => {
     expect(() => checkReading({ ...ti(NaN) })).toThrow('TI-201: value is not a finite number');
-    expect(() => checkReading({ ...ti(700), sigma: 0 })).toThrow('TI-201: sigma must be a positive finite number, got 0');
+    expect(() => checkReading({ ...ti(700), sigma: 0 })).toThrow(
+      'TI-201: sigma must be a positive finite number, got 0',
+    );
   });
 });

@@ -16,12 +16,18 @@ import { gaussian, noisyRound } from '@/tests/helpers/detection';
 
 const B = 101325;
 const design = plain(demoDesignReadings(B));
-const onBaro = new Set(demoUnit.instruments.filter((i) => i.quantity === 'pressure' && i.pressureReference !== 'absolute').map((i) => i.tag));
+const onBaro = new Set(
+  demoUnit.instruments.filter((i) => i.quantity === 'pressure' && i.pressureReference !== 'absolute').map((i) => i.tag),
+);
 const sigmaOf = (a: ReturnType<typeof analyseRound>, tag: string) => a.instruments.find((i) => i.tag === tag)!.sigma!;
 
 test('σ comes from the reference value: a flow meter reading 20 % high keeps the σ of its design flow (0.5 % of reading spec)', () => {
   const at = analyseRound(demoUnit, design, { barometricPa: B });
-  const high = analyseRound(demoUnit, withValue(design, 'FI-101', (v) => v * 1.2), { barometricPa: B });
+  const high = analyseRound(
+    demoUnit,
+    withValue(design, 'FI-101', (v) => v * 1.2),
+    { barometricPa: B },
+  );
   expect(sigmaOf(high, 'FI-101')).toBe(sigmaOf(at, 'FI-101'));
   const fi = demoUnit.instruments.find((i) => i.tag === 'FI-101')!;
   const nominal = demoUnit.points.find((p) => p.id === fi.point)!.nominal!.m!;
@@ -39,11 +45,17 @@ describe('the barometric pressure, one common input of every gauge and vacuum re
     expect(sigmaOf(a, 'TI-301')).toBe(sigmaOf(a0, 'TI-301'));
   });
   test('a barometer misread by 3 u(b) shifts every gauge alike: correlated, it costs less χ² than the same σ taken as independent errors', () => {
-    const shifted: RoundReading[] = design.map((r) => (onBaro.has(r.instrumentTag!) ? { ...r, valueSI: r.valueSI + 3 * sb } : r));
+    const shifted: RoundReading[] = design.map((r) =>
+      onBaro.has(r.instrumentTag!) ? { ...r, valueSI: r.valueSI + 3 * sb } : r,
+    );
     const correlated = analyseRound(demoUnit, shifted, { barometricPa: B, options: { barometricSigmaPa: sb } });
     const sig = new Map(correlated.instruments.map((i) => [i.tag, i.sigma!]));
     // the same σ given with each reading and no barometric σ: the engine has no correlation to pass
-    const independent = analyseRound(demoUnit, shifted.map((r) => (onBaro.has(r.instrumentTag!) ? { ...r, sigma: sig.get(r.instrumentTag!)! } : r)), { barometricPa: B });
+    const independent = analyseRound(
+      demoUnit,
+      shifted.map((r) => (onBaro.has(r.instrumentTag!) ? { ...r, sigma: sig.get(r.instrumentTag!)! } : r)),
+      { barometricPa: B },
+    );
     expect(correlated.reconciliation.ok && independent.reconciliation.ok).toBe(true);
     if (!correlated.reconciliation.ok || !independent.reconciliation.ok) return;
     expect(correlated.reconciliation.chiSquare).toBeLessThan(independent.reconciliation.chiSquare);

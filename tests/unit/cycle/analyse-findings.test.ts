@@ -51,16 +51,23 @@ describe('gross errors: a biased instrument is named first (serial elimination, 
 
   test('redundancy of the demo unit: enough redundant instruments, the weak ones are the expected ones', () => {
     expect(redundant.length).toBeGreaterThanOrEqual(25);
-    expect(redundant.filter((i) => W(i.tag) < 0.1).map((i) => i.tag).sort()).toEqual([...WEAK].sort());
+    expect(
+      redundant
+        .filter((i) => W(i.tag) < 0.1)
+        .map((i) => i.tag)
+        .sort(),
+    ).toEqual([...WEAK].sort());
     // not in any balance: the boiler feed pump discharge (no pump power is read) and the levels
     const free = base.instruments.filter((i) => i.status === 'not-in-balance').map((i) => i.tag);
     expect(free).toEqual(expect.arrayContaining(['PI-103', 'TI-103', 'LI-101', 'LI-201', 'LI-301', 'LI-401']));
   });
 
-  const cases = redundant.filter((i) => W(i.tag) >= 0.1).flatMap((i) => [
-    { tag: i.tag, sign: 1 },
-    { tag: i.tag, sign: -1 },
-  ]);
+  const cases = redundant
+    .filter((i) => W(i.tag) >= 0.1)
+    .flatMap((i) => [
+      { tag: i.tag, sign: 1 },
+      { tag: i.tag, sign: -1 },
+    ]);
   test.each(cases)('$tag biased by $sign × max(8σ, 8σ/√W)', ({ tag, sign }) => {
     const i = instr(tag);
     const beta = Math.max(8, 8 / Math.sqrt(W(tag)));
@@ -103,7 +110,9 @@ describe('gross errors: a biased instrument is named first (serial elimination, 
   test('the message reads in trade language, in the instrument’s own unit: "TI-206 or … (the balances cannot tell which) reads … K above what the … balances allow (… °C ± … K)"', () => {
     const a = run(withValue(design, 'TI-206', (v) => v + 6));
     const f = first(a, 'gross-error')!;
-    expect(f.message).toMatch(/^TI-206 or FI-202 or TI-302 or PI-501 \(the balances cannot tell which\) reads 6\.0 K above what the LP feedwater heater and deaerator balances allow \(130\.5 °C ± \d\.\d K\)\.$/);
+    expect(f.message).toMatch(
+      /^TI-206 or FI-202 or TI-302 or PI-501 \(the balances cannot tell which\) reads 6\.0 K above what the LP feedwater heater and deaerator balances allow \(130\.5 °C ± \d\.\d K\)\.$/,
+    );
     expect(f.instrumentTags).toEqual(['TI-206', 'FI-202', 'TI-302', 'PI-501']);
     expect(f.pointId).toBe('lhf');
     expect(f.evidence.z as number).toBeGreaterThan(f.evidence.zCritical as number);
@@ -118,7 +127,9 @@ describe('a gauge read as absolute (or the reverse) says so', () => {
     const f = first(a, 'gauge-read-as-absolute');
     expect(f).toBeDefined();
     expect(f!.instrumentTags).toEqual(['PI-301']);
-    expect(f!.message).toMatch(/PI-301 looks read as absolute: it reads 98\.0 kPa below .*\(3\.520 bar\(g\)\), which is the barometric pressure of this round \(98\.0 kPa\)\. A bar\(g\) value was probably entered as bar\(a\)\./);
+    expect(f!.message).toMatch(
+      /PI-301 looks read as absolute: it reads 98\.0 kPa below .*\(3\.520 bar\(g\)\), which is the barometric pressure of this round \(98\.0 kPa\)\. A bar\(g\) value was probably entered as bar\(a\)\./,
+    );
     expect(a.reconciliation.ok && a.reconciliation.suspects[0]).toBe('PI-301');
   });
   test('an error of another size is not called a gauge read as absolute', () => {
@@ -147,7 +158,9 @@ describe('plain checks', () => {
     expect(kinds(a)).not.toContain('twin-disagreement');
     const f = first(a, 'gross-error')!;
     expect(f.instrumentTags).toEqual(['TI-403A']);
-    expect(f.message).toMatch(/^TI-403A reads 1\.00 K above what its twin TI-403B and the condenser balance allow \(35\.00 °C ± 0\.25 K\)\.$/);
+    expect(f.message).toMatch(
+      /^TI-403A reads 1\.00 K above what its twin TI-403B and the condenser balance allow \(35\.00 °C ± 0\.25 K\)\.$/,
+    );
     // a difference the reconciliation's tests accept is no finding at all
     const sa = a.instruments.find((i) => i.tag === 'TI-403A')!.sigma!;
     expect(run(withValue(design, 'TI-403A', (v) => v + 1.5 * sa)).findings).toEqual([]);
@@ -159,7 +172,9 @@ describe('plain checks', () => {
     expect(f.instrumentTags).toEqual(['TI-301']);
     // what the rest of the plant says it should read: the saturation temperature at the deaerator (IF97 design point)
     expect(f.evidence.estimate as number).toBeCloseTo(demoDesignPoint().points.dao.T, 2);
-    expect(f.message).toMatch(/^TI-301 reads 3\.00 K above what saturation at deaerator outlet \/ feed pump suction allows \(147\.91 °C ± 0\.44 K\)\.$/);
+    expect(f.message).toMatch(
+      /^TI-301 reads 3\.00 K above what saturation at deaerator outlet \/ feed pump suction allows \(147\.91 °C ± 0\.44 K\)\.$/,
+    );
   });
   test('a superheated point whose thermometer reads below saturation', () => {
     const a = run(withValue(design, 'TI-204', (v) => v - 30));
@@ -184,13 +199,17 @@ describe('plain checks', () => {
     expect(nonFinite(a)).toEqual([]);
   });
   test('a value stuck over 3 rounds while its neighbours moved', () => {
-    const prev = [1, 2].map((k) => ({ readings: design.map((r) => (r.instrumentTag === 'TI-206' ? r : { ...r, valueSI: r.valueSI * (1 + 0.003 * k) })) }));
+    const prev = [1, 2].map((k) => ({
+      readings: design.map((r) => (r.instrumentTag === 'TI-206' ? r : { ...r, valueSI: r.valueSI * (1 + 0.003 * k) })),
+    }));
     const a = run(design, { previousRounds: prev });
     const f = first(a, 'stuck-value')!;
     expect(f.instrumentTags).toEqual(['TI-206']);
     expect(f.message).toMatch(/on the last 3 rounds while its neighbours moved \(TI-204 by/);
     // everything stuck: nothing moved, nothing to hold it against
-    expect(kinds(run(design, { previousRounds: [{ readings: design }, { readings: design }] }))).not.toContain('stuck-value');
+    expect(kinds(run(design, { previousRounds: [{ readings: design }, { readings: design }] }))).not.toContain(
+      'stuck-value',
+    );
     // only one previous round: too short to call
     expect(kinds(run(design, { previousRounds: prev.slice(1) }))).not.toContain('stuck-value');
     // four rounds asked, three given: not called
@@ -198,7 +217,10 @@ describe('plain checks', () => {
   });
   test('missing readings are findings; the rest is still reconciled', () => {
     const a = run(design.filter((r) => r.instrumentTag !== 'TI-206' && r.instrumentTag !== 'FI-501'));
-    expect(a.findings.filter((f) => f.kind === 'missing-reading').map((f) => f.instrumentTags[0])).toEqual(['FI-501', 'TI-206']);
+    expect(a.findings.filter((f) => f.kind === 'missing-reading').map((f) => f.instrumentTags[0])).toEqual([
+      'FI-501',
+      'TI-206',
+    ]);
     expect(a.reconciliation.ok && a.reconciliation.dof).toBe(base.reconciliation.ok ? base.reconciliation.dof - 2 : -1);
     // the heater outlet temperature is then found from the balances
     expect(a.statePoints.find((p) => p.id === 'lhf')!.reconciled.T).toBeCloseTo(demoDesignPoint().points.lhf.T, 4);
@@ -209,7 +231,9 @@ describe('plain checks', () => {
     const f = a.findings.filter((x) => x.kind === 'balance-not-closed');
     expect(f.map((x) => x.equipmentId)).toContain('da');
     const da = f.find((x) => x.equipmentId === 'da')!;
-    expect(da.message).toMatch(/^The Deaerator (mass|energy) balance does not close: .* in against .* out \(\d+\.\d % apart\), .*; FI-301 would explain it\.$/);
+    expect(da.message).toMatch(
+      /^The Deaerator (mass|energy) balance does not close: .* in against .* out \(\d+\.\d % apart\), .*; FI-301 would explain it\.$/,
+    );
     expect(da.severity).toBe(3);
     expect(da.evidence.explainedBy).toEqual(['FI-301']);
   });
@@ -224,7 +248,12 @@ describe('plain checks', () => {
     ];
     const a = run(r);
     expect(kinds(a)).toEqual(expect.arrayContaining(['unknown-instrument', 'invalid-reading', 'duplicate-reading']));
-    expect(a.findings.filter((f) => f.kind === 'invalid-reading').map((f) => f.instrumentTags[0]).sort()).toEqual(['TI-202', 'TI-205']);
+    expect(
+      a.findings
+        .filter((f) => f.kind === 'invalid-reading')
+        .map((f) => f.instrumentTags[0])
+        .sort(),
+    ).toEqual(['TI-202', 'TI-205']);
     expect(a.findings.filter((f) => f.kind === 'missing-reading')).toEqual([]);
     // the last reading of TI-201 (the good one) was used; TI-202 got its σ from the accuracy spec
     expect(a.instruments.find((i) => i.tag === 'TI-201')!.reading).toBe(v('TI-201'));
@@ -234,9 +263,14 @@ describe('plain checks', () => {
   test('readings by instrument id instead of tag', () => {
     const m = structuredClone(demoUnit) as Record<string, any>;
     delete m.version;
-    m.instruments.forEach((i: Record<string, unknown>, k: number) => (i.id = `00000000-0000-4000-8000-${String(k).padStart(12, '0')}`));
+    m.instruments.forEach(
+      (i: Record<string, unknown>, k: number) => (i.id = `00000000-0000-4000-8000-${String(k).padStart(12, '0')}`),
+    );
     const ids = new Map<string, string>(m.instruments.map((i: { tag: string; id: string }) => [i.tag, i.id]));
-    const r = withValue(design, 'TI-301', (v) => v + 6).map((x) => ({ instrumentId: ids.get(x.instrumentTag!), valueSI: x.valueSI }));
+    const r = withValue(design, 'TI-301', (v) => v + 6).map((x) => ({
+      instrumentId: ids.get(x.instrumentTag!),
+      valueSI: x.valueSI,
+    }));
     const a = analyseRound(m, r, { barometricPa: B });
     const f = first(a, 'gross-error')!;
     expect(f.instrumentTags).toEqual(['TI-301']);
@@ -255,7 +289,9 @@ describe('bad model or context: a clear error', () => {
     const m = structuredClone(demoUnit) as Record<string, any>;
     m.instruments[0].range = { min: 5, max: 1 };
     expect(() => analyseRound(m, design, { barometricPa: B })).toThrow(CycleError);
-    expect(() => analyseRound(m, design, { barometricPa: B })).toThrow(/instruments\[PI-101\]\.range: PI-101: range min 5 must be below max 1/);
+    expect(() => analyseRound(m, design, { barometricPa: B })).toThrow(
+      /instruments\[PI-101\]\.range: PI-101: range min 5 must be below max 1/,
+    );
   });
   test.each([
     [{ barometricPa: 1013 }, /barometricPa is 1013; it must be a barometric pressure in Pa from 20000 to 120000/],

@@ -16,13 +16,29 @@ describe('demo unit: shape', () => {
     expect(ins.length).toBeGreaterThanOrEqual(38);
     expect(ins.length).toBeLessThanOrEqual(45);
     const twins = ins.filter((i) => i.twin).map((i) => [i.tag, i.twin!].sort().join('/'));
-    expect(new Set(twins)).toEqual(new Set(['TI-102A/TI-102B', 'PI-301/PI-302', 'PI-401/PI-402', 'TI-403A/TI-403B', 'JI-601/JI-602']));
-    expect(ins.filter((i) => i.quantity === 'pressure' && i.pressureReference === 'gauge' && i.unit === 'bar').length).toBeGreaterThanOrEqual(8);
+    expect(new Set(twins)).toEqual(
+      new Set(['TI-102A/TI-102B', 'PI-301/PI-302', 'PI-401/PI-402', 'TI-403A/TI-403B', 'JI-601/JI-602']),
+    );
+    expect(
+      ins.filter((i) => i.quantity === 'pressure' && i.pressureReference === 'gauge' && i.unit === 'bar').length,
+    ).toBeGreaterThanOrEqual(8);
     expect(ins.find((i) => i.tag === 'PI-401')).toMatchObject({ pressureReference: 'vacuum', unit: 'kPa' });
     expect(ins.filter((i) => i.quantity === 'power').every((i) => i.unit === 'MW')).toBe(true);
     expect(ins.some((i) => i.quantity === 'level' && i.equipment === 'drum')).toBe(true);
     const kinds = new Set(demoUnit.equipment.map((e) => e.kind));
-    for (const k of ['boiler', 'drum', 'superheater', 'turbine-section', 'splitter', 'throttle', 'condenser', 'closed-heater', 'deaerator', 'pump', 'generator']) {
+    for (const k of [
+      'boiler',
+      'drum',
+      'superheater',
+      'turbine-section',
+      'splitter',
+      'throttle',
+      'condenser',
+      'closed-heater',
+      'deaerator',
+      'pump',
+      'generator',
+    ]) {
       expect(kinds.has(k as never)).toBe(true);
     }
   });
@@ -30,7 +46,11 @@ describe('demo unit: shape', () => {
   test('design readings show on each face what the gauge would show (gauge = absolute − barometric, vacuum = barometric − absolute)', () => {
     const r = demoDesignReadings(B);
     const byTag = new Map(r.map((x) => [x.instrumentTag, x]));
-    expect(byTag.get('PI-101')!.shown).toEqual({ value: expect.closeTo((6.8e6 - B) / 1e5, 10), unit: 'bar', reference: 'gauge' });
+    expect(byTag.get('PI-101')!.shown).toEqual({
+      value: expect.closeTo((6.8e6 - B) / 1e5, 10),
+      unit: 'bar',
+      reference: 'gauge',
+    });
     expect(byTag.get('PI-401')!.shown.value).toBeCloseTo((B - 9e3) / 1e3, 10);
     expect(byTag.get('PI-402')!.shown.value).toBeCloseTo(9, 10);
     expect(byTag.get('TI-102A')!.shown.value).toBeCloseTo(485, 10);
@@ -39,7 +59,14 @@ describe('demo unit: shape', () => {
     // every reading lies inside its instrument's scale (own reference)
     for (const i of demoUnit.instruments) {
       const v = byTag.get(i.tag)!.valueSI;
-      const own = i.quantity !== 'pressure' ? v : i.pressureReference === 'gauge' ? v - B : i.pressureReference === 'vacuum' ? B - v : v;
+      const own =
+        i.quantity !== 'pressure'
+          ? v
+          : i.pressureReference === 'gauge'
+            ? v - B
+            : i.pressureReference === 'vacuum'
+              ? B - v
+              : v;
       expect(own).toBeGreaterThanOrEqual(i.range.min);
       expect(own).toBeLessThanOrEqual(i.range.max);
     }
@@ -79,7 +106,9 @@ describe('demo unit: design values are consistent (IF97, shared/steam)', () => {
     const rel = (x: number, y: number) => Math.abs(x - y) / Math.max(Math.abs(x), Math.abs(y));
     expect(rel(P.lpe.m * (P.lpe.h - P.lhd.h), P.cpo.m * (P.lhf.h - P.cpo.h))).toBeLessThan(1e-12); // LP heater
     expect(rel(P.das2.m * P.das2.h + P.lhf.m * P.lhf.h + P.mu.m * P.mu.h, P.dao.m * P.dao.h)).toBeLessThan(1e-12); // deaerator
-    expect(rel(P.lpx.m * P.lpx.h + P.lhd.m * P.lhd.h - P.hw.m * P.hw.h, P.cwi.m * (P.cwo.h - P.cwi.h))).toBeLessThan(1e-12); // condenser
+    expect(rel(P.lpx.m * P.lpx.h + P.lhd.m * P.lhd.h - P.hw.m * P.hw.h, P.cwi.m * (P.cwo.h - P.cwi.h))).toBeLessThan(
+      1e-12,
+    ); // condenser
     const shaft = P.ms.m * (P.ms.h - P.hpx.h) + P.lpi.m * P.lpi.h - P.lpe.m * P.lpe.h - P.lpx.m * P.lpx.h;
     expect(rel(DESIGN_PARAMETERS.generatorEfficiency * shaft, dp.power)).toBeLessThan(1e-12); // generator
     expect(rel(P.proc.m + P.das.m + P.lpi.m, P.hpx.m)).toBeLessThan(1e-12); // header

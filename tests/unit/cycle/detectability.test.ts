@@ -32,7 +32,9 @@ describe('linear network: heat exchanger with bypass, six flows, four balances (
   ];
   const input = {
     measured: names.map((id, i) => ({ id, value: x[i], sigma: s[i] })),
-    constraints: a.map((row, k) => linear(`c${k}`, Object.fromEntries(row.map((c, i) => [names[i], c]).filter(([, c]) => c !== 0)))),
+    constraints: a.map((row, k) =>
+      linear(`c${k}`, Object.fromEntries(row.map((c, i) => [names[i], c]).filter(([, c]) => c !== 0))),
+    ),
   };
   const sens = reconciledSensitivity(input, reconcile(input), 'main');
   const ref = closedForm(a, [0, 0, 0, 0], x, covFromSigmas(s));
@@ -68,13 +70,25 @@ describe('linear network: heat exchanger with bypass, six flows, four balances (
 describe('the demo unit at design (analyseRound’s σ)', () => {
   const B = 101325;
   const a = analyseRound(demoUnit, demoDesignReadings(B), { barometricPa: B });
-  const readings = a.instruments.filter((i) => i.reading !== null && i.sigma !== null).map((i) => ({ tag: i.tag, value: i.reading!, sigma: i.sigma! }));
+  const readings = a.instruments
+    .filter((i) => i.reading !== null && i.sigma !== null)
+    .map((i) => ({ tag: i.tag, value: i.reading!, sigma: i.sigma! }));
   const map = detectabilityMap(demoUnit, readings);
   const by = new Map(map.instruments.map((r) => [r.tag, r]));
 
   test('no balance can check the feedwater pressure and temperature, the LP extraction state, the LP heater drain and the levels', () => {
     const unchecked = map.instruments.filter((r) => r.status === 'unchecked').map((r) => r.tag);
-    expect(unchecked.sort()).toEqual(['LI-101', 'LI-201', 'LI-301', 'LI-401', 'PI-103', 'PI-203', 'TI-103', 'TI-204', 'TI-207']);
+    expect(unchecked.sort()).toEqual([
+      'LI-101',
+      'LI-201',
+      'LI-301',
+      'LI-401',
+      'PI-103',
+      'PI-203',
+      'TI-103',
+      'TI-204',
+      'TI-207',
+    ]);
     // the condensate pump discharge thermometer is held only through the 0.1 K rise across the pump: weakly
     expect(by.get('TI-205')!.status).toBe('weak');
     expect(by.get('TI-205')!.mdb!).toBeGreaterThan(10);

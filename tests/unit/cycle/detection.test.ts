@@ -17,12 +17,28 @@ const W = (tag: string) => {
   return 1 - (i.reconciledSigma! / i.sigma!) ** 2;
 };
 const rec = base.reconciliation.ok ? base.reconciliation : null;
-const grouped = new Set((rec?.correlatedCorrections ?? []).filter((p) => Math.abs(p.rho) >= 0.95).flatMap((p) => [p.a, p.b]));
+const grouped = new Set(
+  (rec?.correlatedCorrections ?? []).filter((p) => Math.abs(p.rho) >= 0.95).flatMap((p) => [p.a, p.b]),
+);
 /** redundant, well checked (the balances see at least half its error, W ≥ 0.5) and in no group */
-const SEPARABLE = base.instruments.filter((i) => i.redundant && W(i.tag) >= 0.5 && !grouped.has(i.tag)).map((i) => i.tag);
+const SEPARABLE = base.instruments
+  .filter((i) => i.redundant && W(i.tag) >= 0.5 && !grouped.has(i.tag))
+  .map((i) => i.tag);
 
 test('the separable, well-checked instruments of the demo unit are the expected ones (from its correction covariance)', () => {
-  expect(SEPARABLE).toEqual(['FI-101', 'FI-102', 'FI-201', 'TI-203', 'PI-301', 'PI-302', 'TI-301', 'PI-401', 'FI-501', 'TI-403A', 'TI-403B']);
+  expect(SEPARABLE).toEqual([
+    'FI-101',
+    'FI-102',
+    'FI-201',
+    'TI-203',
+    'PI-301',
+    'PI-302',
+    'TI-301',
+    'PI-401',
+    'FI-501',
+    'TI-403A',
+    'TI-403B',
+  ]);
 });
 
 test('fault-free rounds: any instrument blamed in ≤ 5 % of rounds (+ binomial tolerance), only when the global test fails (VDI 2048)', () => {
@@ -59,13 +75,21 @@ describe("sequential evidence before a work order (Page's CUSUM, k = 1, h = 6; g
     expect(sequence(270, 11).orders).toEqual([]);
   });
   test('a sustained bias of 2 in its test value is named within ≤ 10 of its rounds (median; ARL by Siegmund ≈ 6.7)', () => {
-    const firsts = SEPARABLE.flatMap((tag, k) => [1, 2].map((s) => sequence(12, 500 + 10 * k + s, { tag, sigmas: 2 / Math.sqrt(W(tag)) }).firstNamed.get(tag) ?? Infinity));
+    const firsts = SEPARABLE.flatMap((tag, k) =>
+      [1, 2].map(
+        (s) => sequence(12, 500 + 10 * k + s, { tag, sigmas: 2 / Math.sqrt(W(tag)) }).firstNamed.get(tag) ?? Infinity,
+      ),
+    );
     const sorted = [...firsts].sort((a, b) => a - b);
     expect(sorted[Math.floor(sorted.length / 2)]).toBeLessThanOrEqual(10);
     expect(firsts.filter((x) => x <= 10).length / firsts.length).toBeGreaterThanOrEqual(0.7);
   });
   test('a sustained bias of 5 in its test value is named within ≤ 2 of its rounds', () => {
-    const firsts = SEPARABLE.flatMap((tag, k) => [1, 2].map((s) => sequence(3, 700 + 10 * k + s, { tag, sigmas: 5 / Math.sqrt(W(tag)) }).firstNamed.get(tag) ?? Infinity));
+    const firsts = SEPARABLE.flatMap((tag, k) =>
+      [1, 2].map(
+        (s) => sequence(3, 700 + 10 * k + s, { tag, sigmas: 5 / Math.sqrt(W(tag)) }).firstNamed.get(tag) ?? Infinity,
+      ),
+    );
     expect(firsts.filter((x) => x <= 2).length / firsts.length).toBeGreaterThanOrEqual(0.9);
   });
 });

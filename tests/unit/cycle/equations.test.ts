@@ -42,10 +42,27 @@ describe('variables and constraints of the demo unit', () => {
   });
   test('saturation, enthalpy-equality, energy, duty, power and twin constraints are all there', () => {
     const ids = Object.keys(eq.info);
-    for (const id of ['sat:drum', 'sat:dao', 'sat:hw', 'enthalpy:proc', 'enthalpy:das2', 'energy:lph', 'energy:da', 'duty:cond', 'power:gen']) {
+    for (const id of [
+      'sat:drum',
+      'sat:dao',
+      'sat:hw',
+      'enthalpy:proc',
+      'enthalpy:das2',
+      'energy:lph',
+      'energy:da',
+      'duty:cond',
+      'power:gen',
+    ]) {
       expect(ids).toContain(id);
     }
-    for (const t of ['twin:PI-301:PI-302', 'twin:PI-401:PI-402', 'twin:TI-102A:TI-102B', 'twin:TI-403A:TI-403B', 'twin:JI-601:JI-602']) expect(ids).toContain(t);
+    for (const t of [
+      'twin:PI-301:PI-302',
+      'twin:PI-401:PI-402',
+      'twin:TI-102A:TI-102B',
+      'twin:TI-403A:TI-403B',
+      'twin:JI-601:JI-602',
+    ])
+      expect(ids).toContain(t);
     // the HP exhaust's enthalpy is the header's: no constraint for lpi and das (no thermometer of their own)
     expect(ids).not.toContain('enthalpy:lpi');
     expect(ids).not.toContain('enthalpy:das');
@@ -82,7 +99,12 @@ describe('analytic gradients agree with central differences (common practice)', 
 
 describe('reconcile() on the demo unit', () => {
   test('at design: converges, nothing to correct, observable unknowns at their design values', () => {
-    const r = reconcile({ measured: eq.measured, unmeasured: eq.unmeasured, constraints: eq.constraints, tolerance: 1e-8 });
+    const r = reconcile({
+      measured: eq.measured,
+      unmeasured: eq.unmeasured,
+      constraints: eq.constraints,
+      tolerance: 1e-8,
+    });
     expect(r.passed).toBe(true);
     expect(r.chiSquare).toBeLessThan(1e-12);
     expect(r.unobservable).toEqual([]);

@@ -27,7 +27,12 @@ const fig = (id: string): PerformanceFigure => {
   if (!f) throw new Error(`no figure ${id}`);
   return f;
 };
-const sigmaOf = new Map(readings.map((r) => [r.instrumentTag, sigmaFor(demoUnit.instruments.find((i) => i.tag === r.instrumentTag)!.accuracy, r.valueSI)]));
+const sigmaOf = new Map(
+  readings.map((r) => [
+    r.instrumentTag,
+    sigmaFor(demoUnit.instruments.find((i) => i.tag === r.instrumentTag)!.accuracy, r.valueSI),
+  ]),
+);
 
 /** The analysis' equation system and reconciliation for some readings (σ held at the design values, as the intake gives them at design). */
 function reconciled(values: Map<string, number>) {
@@ -87,7 +92,11 @@ describe('Monte Carlo, JCGM 101:2008: 250 draws of every reading around design (
     const loose = new Map(eq.notInBalance.map((t) => [t, v.get(t)!]));
     // the reconciliation without serial elimination: what the law of propagation describes
     const st = reconciledStates(demoUnit, eq, res.values, loose);
-    const vals = figureValues(demoUnit, (id) => st.get(id)!, (gid) => (gid === 'gen' ? res.values['JI-601'] * 1e6 : null));
+    const vals = figureValues(
+      demoUnit,
+      (id) => st.get(id)!,
+      (gid) => (gid === 'gen' ? res.values['JI-601'] * 1e6 : null),
+    );
     idx.forEach((i, n) => {
       const x = vals[i];
       if (x !== null) draws[n].push(x);
@@ -97,12 +106,15 @@ describe('Monte Carlo, JCGM 101:2008: 250 draws of every reading around design (
     const m = xs.reduce((p, c) => p + c, 0) / xs.length;
     return Math.sqrt(xs.reduce((p, c) => p + (c - m) ** 2, 0) / (xs.length - 1));
   };
-  test.each(ids.slice(0, 5).map((id, n) => [id, n] as const))('%s: the Monte Carlo standard deviation matches u within 15 % (the estimate’s own spread at N = 250 is about 4.5 %)', (id, n) => {
-    expect(draws[n].length).toBe(N);
-    const u = fig(id).uncertainty!.u;
-    expect(sd(draws[n]) / u).toBeGreaterThan(0.85);
-    expect(sd(draws[n]) / u).toBeLessThan(1.15);
-  });
+  test.each(ids.slice(0, 5).map((id, n) => [id, n] as const))(
+    '%s: the Monte Carlo standard deviation matches u within 15 % (the estimate’s own spread at N = 250 is about 4.5 %)',
+    (id, n) => {
+      expect(draws[n].length).toBe(N);
+      const u = fig(id).uncertainty!.u;
+      expect(sd(draws[n]) / u).toBeGreaterThan(0.85);
+      expect(sd(draws[n]) / u).toBeLessThan(1.15);
+    },
+  );
   test('condensate pump efficiency: the draws spread over more than half of 0–100 % too (2.5–97.5 % quantiles)', () => {
     const xs = [...draws[5]].sort((p, c) => p - c);
     const lo = xs[Math.floor(0.025 * xs.length)];
@@ -113,7 +125,8 @@ describe('Monte Carlo, JCGM 101:2008: 250 draws of every reading around design (
 
 test('too coarse for it: the condensate pump efficiency from TI-401 and TI-205 (a rise of about 0.1 K) is not determinable, and they are named', () => {
   const f = fig('eta:cep');
-  const rise = a.statePoints.find((p) => p.id === 'cpo')!.reconciled.T! - a.statePoints.find((p) => p.id === 'hw')!.reconciled.T!;
+  const rise =
+    a.statePoints.find((p) => p.id === 'cpo')!.reconciled.T! - a.statePoints.find((p) => p.id === 'hw')!.reconciled.T!;
   expect(rise).toBeGreaterThan(0.05);
   expect(rise).toBeLessThan(0.2);
   expect(f.uncertainty!.determinable).toBe(false);

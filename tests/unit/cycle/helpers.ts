@@ -13,7 +13,8 @@ export function nonFinite(value: unknown, path = '$', out: string[] = []): strin
   if (typeof value === 'number') {
     if (!Number.isFinite(value)) out.push(path);
   } else if (Array.isArray(value)) value.forEach((v, i) => nonFinite(v, `${path}[${i}]`, out));
-  else if (value && typeof value === 'object') for (const [k, v] of Object.entries(value)) nonFinite(v, `${path}.${k}`, out);
+  else if (value && typeof value === 'object')
+    for (const [k, v] of Object.entries(value)) nonFinite(v, `${path}.${k}`, out);
   return out;
 }
 

@@ -111,6 +111,10 @@ describe('figures follow the readings', () => {
     const b = analyseRound(demoUnit, r, { barometricPa: B });
     const f = b.performance.find((x) => x.id === 'ttd:cond')!;
     expect(f.measured).toBeCloseTo(fig('ttd:cond').measured! - 1, 9);
-    expect(b.performance.every((x) => (x.value === null || Number.isFinite(x.value)) && (x.measured === null || Number.isFinite(x.measured)))).toBe(true);
+    expect(
+      b.performance.every(
+        (x) => (x.value === null || Number.isFinite(x.value)) && (x.measured === null || Number.isFinite(x.measured)),
+      ),
+    ).toBe(true);
   });
 });

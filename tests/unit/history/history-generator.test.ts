@@ -81,16 +81,18 @@ function slope(xs: number[], ys: number[]): number {
 describe('deterministic and well-formed', () => {
   test('the same seed gives the same payloads byte for byte; another seed other numbers and ids', () => {
     const again = generateHistory({ start: START, days: 90, seed: 1 });
-    expect(JSON.stringify(again.shifts.map((s) => s.payload))).toBe(JSON.stringify(history.shifts.map((s) => s.payload)));
+    expect(JSON.stringify(again.shifts.map((s) => s.payload))).toBe(
+      JSON.stringify(history.shifts.map((s) => s.payload)),
+    );
     const other = generateHistory({ start: START, days: 5, seed: 2 });
     expect(other.shifts[0].payload.rounds[0].id).not.toBe(history.shifts[0].payload.rounds[0].id);
-    expect(other.shifts[0].readings.map((r) => r.valueTyped)).not.toEqual(history.shifts[0].readings.map((r) => r.valueTyped));
+    expect(other.shifts[0].readings.map((r) => r.valueTyped)).not.toEqual(
+      history.shifts[0].readings.map((r) => r.valueTyped),
+    );
     // mulberry32 against the published algorithm (Tommy Ettinger's, as in bryc's JavaScript), written out again in Python
     const u = mulberry32(1);
     const mine = Array.from({ length: 5 }, () => u());
-    const ref = JSON.parse(
-      execFileSync('/usr/bin/python3', ['-c', MULBERRY32_PY], { encoding: 'utf8' }),
-    ) as number[];
+    const ref = JSON.parse(execFileSync('/usr/bin/python3', ['-c', MULBERRY32_PY], { encoding: 'utf8' })) as number[];
     expect(mine).toEqual(ref);
     expect(uuidFor(1, 'x')).toMatch(/^[0-9a-f]{8}-[0-9a-f]{4}-8[0-9a-f]{3}-[89ab][0-9a-f]{3}-[0-9a-f]{12}$/);
   });
@@ -123,7 +125,9 @@ describe('deterministic and well-formed', () => {
 
   test('bad options are refused naming the option and its limit', () => {
     expect(() => generateHistory({ start: new Date('x') })).toThrow(/start must be a valid Date/);
-    expect(() => generateHistory({ start: START, days: 0 })).toThrow(/days must be a whole number from 1 to 3650, got 0/);
+    expect(() => generateHistory({ start: START, days: 0 })).toThrow(
+      /days must be a whole number from 1 to 3650, got 0/,
+    );
     expect(() => generateHistory({ start: START, roundsPerDay: 2 as 3 })).toThrow(/roundsPerDay must be 3/);
   });
 });
@@ -133,9 +137,16 @@ describe('the plant behind the numbers', () => {
     const sample = history.shifts.filter((_, i) => i % 45 === 0);
     const ps = sample.map((s) => reading(s, 'PI-401').truthSI);
     const ref = JSON.parse(
-      execFileSync('/usr/bin/python3', ['-c', `import json; from iapws import IAPWS97; print(json.dumps([IAPWS97(P=p/1e6, x=0).T for p in ${JSON.stringify(ps)}]))`], {
-        encoding: 'utf8',
-      }),
+      execFileSync(
+        '/usr/bin/python3',
+        [
+          '-c',
+          `import json; from iapws import IAPWS97; print(json.dumps([IAPWS97(P=p/1e6, x=0).T for p in ${JSON.stringify(ps)}]))`,
+        ],
+        {
+          encoding: 'utf8',
+        },
+      ),
     ) as number[];
     sample.forEach((s, k) => {
       expect(reading(s, 'TI-401').truthSI).toBeCloseTo(ref[k], 6);
@@ -177,8 +188,20 @@ describe('the faults are in the numbers', () => {
     expect(before.every((x) => x.r.fault === null)).toBe(true);
     expect(after.every((x) => x.r.fault === 'drift')).toBe(true);
     // no slope before (3 standard errors of an OLS slope of 60 points at σ ≈ 0.27 K: 0.02 K/day)
-    expect(Math.abs(slope(before.map((x) => x.t), before.map((x) => x.r.valueSI - x.r.truthSI)))).toBeLessThan(0.02);
-    expect(slope(after.map((x) => x.t), after.map((x) => x.r.valueSI - x.r.truthSI))).toBeCloseTo(F.drift.kelvinPerDay, 2);
+    expect(
+      Math.abs(
+        slope(
+          before.map((x) => x.t),
+          before.map((x) => x.r.valueSI - x.r.truthSI),
+        ),
+      ),
+    ).toBeLessThan(0.02);
+    expect(
+      slope(
+        after.map((x) => x.t),
+        after.map((x) => x.r.valueSI - x.r.truthSI),
+      ),
+    ).toBeCloseTo(F.drift.kelvinPerDay, 2);
   });
 
   test(`stuck: ${F.stuck.tag} shows one value from day ${F.stuck.fromDay} while PI-401 on the same shell keeps moving`, () => {
@@ -201,17 +224,44 @@ describe('the faults are in the numbers', () => {
       expect(Math.abs(r.truthSI - r.valueSI - s.barometricPa)).toBeLessThan(4.5 * sigmaOf(r.tag, r.truthSI) + 100);
     }
     const rest = history.shifts.filter((s) => !hit.includes(s)).map((s) => reading(s, F.readAsAbsolute.tag));
-    expect(rest.every((r) => r.reference === 'gauge' && Math.abs(r.valueSI - r.truthSI) < 4.5 * sigmaOf(r.tag, r.truthSI) + 100)).toBe(true);
+    expect(
+      rest.every(
+        (r) => r.reference === 'gauge' && Math.abs(r.valueSI - r.truthSI) < 4.5 * sigmaOf(r.tag, r.truthSI) + 100,
+      ),
+    ).toBe(true);
   });
 
   test(`fouling: the condenser TTD rises ${F.fouling.ttdKelvinPerDay} K/day from day ${F.fouling.fromDay}, in the truth and in the healthy readings`, () => {
-    const ttdRead = (s: HistoryShift) => tsat(reading(s, 'PI-401').valueSI) - (reading(s, 'TI-403A').valueSI + reading(s, 'TI-403B').valueSI) / 2;
+    const ttdRead = (s: HistoryShift) =>
+      tsat(reading(s, 'PI-401').valueSI) - (reading(s, 'TI-403A').valueSI + reading(s, 'TI-403B').valueSI) / 2;
     const pre = history.shifts.filter((s) => s.t < F.fouling.fromDay);
     const post = history.shifts.filter((s) => s.t > F.fouling.fromDay);
-    expect(slope(post.map((s) => s.t), post.map((s) => s.condenserTTD))).toBeCloseTo(F.fouling.ttdKelvinPerDay, 1);
-    expect(Math.abs(slope(pre.map((s) => s.t), pre.map((s) => s.condenserTTD)))).toBeLessThan(0.01);
-    expect(slope(post.map((s) => s.t), post.map(ttdRead))).toBeGreaterThan(0.08);
-    expect(slope(post.map((s) => s.t), post.map(ttdRead))).toBeLessThan(0.12);
+    expect(
+      slope(
+        post.map((s) => s.t),
+        post.map((s) => s.condenserTTD),
+      ),
+    ).toBeCloseTo(F.fouling.ttdKelvinPerDay, 1);
+    expect(
+      Math.abs(
+        slope(
+          pre.map((s) => s.t),
+          pre.map((s) => s.condenserTTD),
+        ),
+      ),
+    ).toBeLessThan(0.01);
+    expect(
+      slope(
+        post.map((s) => s.t),
+        post.map(ttdRead),
+      ),
+    ).toBeGreaterThan(0.08);
+    expect(
+      slope(
+        post.map((s) => s.t),
+        post.map(ttdRead),
+      ),
+    ).toBeLessThan(0.12);
     // before the fouling the TTD stays near its design value (tsat(9 kPa) − 35 °C ≈ 8.76 K)
     expect(DESIGN_CONDENSER_TTD).toBeCloseTo(8.76, 2);
     const meanPre = pre.reduce((a, s) => a + s.condenserTTD, 0) / pre.length;
@@ -227,7 +277,12 @@ describe('what the round analysis finds (analyseRound on the three routes of a s
   const absShift = (s: HistoryShift) => reading(s, F.readAsAbsolute.tag).fault === 'read-as-absolute';
 
   test('a fault-free history (the same plant, the faults moved past its end): no work order in 90 days; rounds with a flag ≤ 5 % (+ tolerance)', () => {
-    const never = { drift: { ...F.drift, fromDay: 1e9 }, stuck: { ...F.stuck, fromDay: 1e9 }, readAsAbsolute: { ...F.readAsAbsolute, fromDay: 1e9, untilDay: 1e9 }, fouling: { ...F.fouling, fromDay: 1e9 } };
+    const never = {
+      drift: { ...F.drift, fromDay: 1e9 },
+      stuck: { ...F.stuck, fromDay: 1e9 },
+      readAsAbsolute: { ...F.readAsAbsolute, fromDay: 1e9, untilDay: 1e9 },
+      fouling: { ...F.fouling, fromDay: 1e9 },
+    };
     const clean = analysedHistory(generateHistory({ start: START, days: 90, seed: 1, faults: never }));
     expect(simulateOrders(clean)).toEqual([]);
     const flagged = clean.filter((a) => a.findings.some((f) => BLAME_KINDS.has(f.kind))).length;
@@ -239,13 +294,19 @@ describe('what the round analysis finds (analyseRound on the three routes of a s
       const f = analyses[i].findings.find((x) => x.kind === 'gauge-read-as-absolute');
       if (!absShift(s)) return expect(f).toBeUndefined();
       expect(f?.instrumentTags).toEqual([F.readAsAbsolute.tag]);
-      expect(Math.abs((f!.evidence.difference as number) - s.barometerSI)).toBeLessThanOrEqual(f!.evidence.allowed as number);
+      expect(Math.abs((f!.evidence.difference as number) - s.barometerSI)).toBeLessThanOrEqual(
+        f!.evidence.allowed as number,
+      );
       expect(f!.evidence.barometricPa).toBe(s.barometerSI);
     });
   });
 
   test('each injected fault opens its work order, and nothing else does (when: round and σ)', () => {
-    const orders = simulateOrders(analyses).map((o) => ({ ...o, day: history.shifts[o.round].day, shift: history.shifts[o.round].shift }));
+    const orders = simulateOrders(analyses).map((o) => ({
+      ...o,
+      day: history.shifts[o.round].day,
+      shift: history.shifts[o.round].shift,
+    }));
     const sigma = sigmaOf(F.drift.tag, reading(history.shifts[0], F.drift.tag).truthSI);
     const drift = (i: number) => Math.max(0, F.drift.kelvinPerDay * (history.shifts[i].t - F.drift.fromDay)) / sigma;
     expect(orders.map((o) => [o.kind, o.target])).toEqual([
@@ -277,12 +338,23 @@ describe('what the round analysis finds (analyseRound on the three routes of a s
 
   test('the fouling shows in the reconciled condenser TTD: ~0.1 K/day from day 60, flat before', () => {
     const ttd = (a: RoundAnalysis) => a.performance.find((p) => p.kind === 'condenser-ttd')!.value!;
-    const pick = (lo: number, hi: number) => history.shifts.map((s, i) => ({ s, i })).filter(({ s }) => s.t > lo && s.t < hi);
+    const pick = (lo: number, hi: number) =>
+      history.shifts.map((s, i) => ({ s, i })).filter(({ s }) => s.t > lo && s.t < hi);
     const post = pick(F.fouling.fromDay, Infinity);
     const pre = pick(0, F.stuck.fromDay);
-    const postSlope = slope(post.map(({ s }) => s.t), post.map(({ i }) => ttd(analyses[i])));
+    const postSlope = slope(
+      post.map(({ s }) => s.t),
+      post.map(({ i }) => ttd(analyses[i])),
+    );
     expect(postSlope).toBeGreaterThan(0.07);
     expect(postSlope).toBeLessThan(0.13);
-    expect(Math.abs(slope(pre.map(({ s }) => s.t), pre.map(({ i }) => ttd(analyses[i]))))).toBeLessThan(0.01);
+    expect(
+      Math.abs(
+        slope(
+          pre.map(({ s }) => s.t),
+          pre.map(({ i }) => ttd(analyses[i])),
+        ),
+      ),
+    ).toBeLessThan(0.01);
   });
 });

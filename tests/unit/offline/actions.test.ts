@@ -8,7 +8,9 @@ import { UUID_PATTERN } from '@/offline/ids';
 import { harness, INSTRUMENTS, RV1, sha256Hex } from './fixtures';
 
 const outboxRows = (h: { db: { all<T>(sql: string): Promise<T[]> } }) =>
-  h.db.all<{ seq: number; kind: string; record_id: string; payload: string; state: string }>('SELECT * FROM outbox ORDER BY seq');
+  h.db.all<{ seq: number; kind: string; record_id: string; payload: string; state: string }>(
+    'SELECT * FROM outbox ORDER BY seq',
+  );
 
 describe('actions write their record and its outbox row together', () => {
   test('each action is one transaction: BEGIN … COMMIT around both inserts (SQLite: statements between BEGIN and COMMIT are atomic)', async () => {
@@ -18,7 +20,10 @@ describe('actions write their record and its outbox row together', () => {
     const begins = h.db.log.filter((s) => s.startsWith('BEGIN')).length;
     const commits = h.db.log.filter((s) => s.startsWith('COMMIT')).length;
     expect([begins, commits]).toEqual([1, 1]);
-    const inRound = h.db.log.slice(h.db.log.findIndex((s) => s.startsWith('BEGIN')), h.db.log.findIndex((s) => s.startsWith('COMMIT')) + 1);
+    const inRound = h.db.log.slice(
+      h.db.log.findIndex((s) => s.startsWith('BEGIN')),
+      h.db.log.findIndex((s) => s.startsWith('COMMIT')) + 1,
+    );
     expect(inRound.some((s) => s.startsWith('INSERT INTO rounds'))).toBe(true);
     expect(inRound.some((s) => s.startsWith('INSERT INTO outbox'))).toBe(true);
     const rows = await outboxRows(h);
@@ -31,7 +36,13 @@ describe('actions write their record and its outbox row together', () => {
       'recordReading',
       /INSERT INTO outbox/,
       async (h: Awaited<ReturnType<typeof harness>>, roundId: string) =>
-        h.actions.recordReading({ roundId, instrumentTag: 'PI-101', valueTyped: 10.2, unit: 'bar', reference: 'gauge' }),
+        h.actions.recordReading({
+          roundId,
+          instrumentTag: 'PI-101',
+          valueTyped: 10.2,
+          unit: 'bar',
+          reference: 'gauge',
+        }),
     ],
     [
       'answerCheck',
@@ -43,10 +54,23 @@ describe('actions write their record and its outbox row together', () => {
       'attachPhoto',
       /INSERT INTO outbox/,
       async (h: Awaited<ReturnType<typeof harness>>, roundId: string) =>
-        h.actions.attachPhoto({ roundId, bytes: new Uint8Array([0xff, 0xd8, 0xff, 0xe0, 1, 2, 3]), mime: 'image/jpeg' }),
+        h.actions.attachPhoto({
+          roundId,
+          bytes: new Uint8Array([0xff, 0xd8, 0xff, 0xe0, 1, 2, 3]),
+          mime: 'image/jpeg',
+        }),
     ],
-    ['finishRound', /INSERT INTO outbox/, async (h: Awaited<ReturnType<typeof harness>>, roundId: string) => h.actions.finishRound(roundId)],
-    ['dismissSuspect', /INSERT INTO outbox/, async (h: Awaited<ReturnType<typeof harness>>, roundId: string) => h.actions.dismissSuspect(roundId, 'PI-102', 'Re-read twice, needle free')],
+    [
+      'finishRound',
+      /INSERT INTO outbox/,
+      async (h: Awaited<ReturnType<typeof harness>>, roundId: string) => h.actions.finishRound(roundId),
+    ],
+    [
+      'dismissSuspect',
+      /INSERT INTO outbox/,
+      async (h: Awaited<ReturnType<typeof harness>>, roundId: string) =>
+        h.actions.dismissSuspect(roundId, 'PI-102', 'Re-read twice, needle free'),
+    ],
   ])('%s: a failure writing the outbox row leaves neither the record nor the row', async (name, pattern, act) => {
     const h = await harness();
     const round = await h.actions.startRound(RV1);
@@ -65,7 +89,9 @@ describe('actions write their record and its outbox row together', () => {
     const h = await harness();
     const round = await h.actions.startRound(RV1);
     h.db.failNext(/INSERT INTO readings/, 'constraint failed (simulated)');
-    await expect(h.actions.recordReading({ roundId: round.id, instrumentTag: 'TI-101', valueTyped: 184, unit: '°C' })).rejects.toThrow('simulated');
+    await expect(
+      h.actions.recordReading({ roundId: round.id, instrumentTag: 'TI-101', valueTyped: 184, unit: '°C' }),
+    ).rejects.toThrow('simulated');
     expect(await h.db.all('SELECT * FROM readings')).toEqual([]);
     expect((await outboxRows(h)).map((r) => r.kind)).toEqual(['round']);
   });
@@ -75,7 +101,13 @@ describe('ids and device time', () => {
   test('ids are UUID version 4 (RFC 9562 §5.4: version nibble 4, variant 10xx) made on the device', async () => {
     const h = await harness();
     const round = await h.actions.startRound(RV1);
-    const reading = await h.actions.recordReading({ roundId: round.id, instrumentTag: 'PI-101', valueTyped: 10.2, unit: 'bar', reference: 'gauge' });
+    const reading = await h.actions.recordReading({
+      roundId: round.id,
+      instrumentTag: 'PI-101',
+      valueTyped: 10.2,
+      unit: 'bar',
+      reference: 'gauge',
+    });
     for (const id of [round.id, reading.id]) {
       expect(id).toMatch(UUID_PATTERN);
       expect(id[14]).toBe('4');
@@ -91,7 +123,14 @@ describe('ids and device time', () => {
     const b = await h.actions.startRound(RV1, { id });
     expect(b).toEqual(a);
     const rid = '9f1c2a4e-0d7b-4c1e-a1f3-2b6c8d9e0f10';
-    const input = { id: rid, roundId: id, instrumentTag: 'PI-101', valueTyped: 10.2, unit: 'bar', reference: 'gauge' as const };
+    const input = {
+      id: rid,
+      roundId: id,
+      instrumentTag: 'PI-101',
+      valueTyped: 10.2,
+      unit: 'bar',
+      reference: 'gauge' as const,
+    };
     const r1 = await h.actions.recordReading(input);
     h.clock.advance(5_000);
     const r2 = await h.actions.recordReading(input);
@@ -107,10 +146,24 @@ describe('ids and device time', () => {
     const a = await h.actions.startRound(RV1);
     const b = await h.actions.startRound(RV1);
     const id = '9f1c2a4e-0d7b-4c1e-a1f3-2b6c8d9e0f11';
-    await h.actions.recordReading({ id, roundId: a.id, instrumentTag: 'PI-101', valueTyped: 10, unit: 'bar', reference: 'gauge' });
-    await expect(h.actions.recordReading({ id, roundId: b.id, instrumentTag: 'PI-101', valueTyped: 10, unit: 'bar', reference: 'gauge' })).rejects.toThrow(
-      /^id: already used by a reading of round/,
-    );
+    await h.actions.recordReading({
+      id,
+      roundId: a.id,
+      instrumentTag: 'PI-101',
+      valueTyped: 10,
+      unit: 'bar',
+      reference: 'gauge',
+    });
+    await expect(
+      h.actions.recordReading({
+        id,
+        roundId: b.id,
+        instrumentTag: 'PI-101',
+        valueTyped: 10,
+        unit: 'bar',
+        reference: 'gauge',
+      }),
+    ).rejects.toThrow(/^id: already used by a reading of round/);
   });
 
   test('device time is recorded as data, in ISO 8601 UTC, from the injected clock', async () => {
@@ -118,7 +171,12 @@ describe('ids and device time', () => {
     h.clock.t = Date.UTC(2025, 10, 30, 7, 42, 10, 5);
     const round = await h.actions.startRound(RV1);
     h.clock.advance(60_000);
-    const reading = await h.actions.recordReading({ roundId: round.id, instrumentTag: 'TI-101', valueTyped: 184.5, unit: '°C' });
+    const reading = await h.actions.recordReading({
+      roundId: round.id,
+      instrumentTag: 'TI-101',
+      valueTyped: 184.5,
+      unit: '°C',
+    });
     expect(round.startedAt).toBe('2025-11-30T07:42:10.005Z');
     expect(reading.deviceTime).toBe('2025-11-30T07:43:10.005Z');
     const payload = JSON.parse((await outboxRows(h))[1].payload);
@@ -160,21 +218,49 @@ describe('readings', () => {
   test('append-only: a correction is a new row that supersedes the old; UPDATE and DELETE are refused by the store', async () => {
     const h = await harness();
     const round = await h.actions.startRound(RV1);
-    const first = await h.actions.recordReading({ roundId: round.id, instrumentTag: 'PI-101', valueTyped: 1.02, unit: 'bar', reference: 'gauge' });
-    const fix = await h.actions.recordReading({ roundId: round.id, instrumentTag: 'PI-101', valueTyped: 10.2, unit: 'bar', reference: 'gauge', supersedes: first.id });
+    const first = await h.actions.recordReading({
+      roundId: round.id,
+      instrumentTag: 'PI-101',
+      valueTyped: 1.02,
+      unit: 'bar',
+      reference: 'gauge',
+    });
+    const fix = await h.actions.recordReading({
+      roundId: round.id,
+      instrumentTag: 'PI-101',
+      valueTyped: 10.2,
+      unit: 'bar',
+      reference: 'gauge',
+      supersedes: first.id,
+    });
     expect((await h.store.roundReadings(round.id)).map((r) => r.id)).toEqual([fix.id]);
     const all = await h.store.roundReadings(round.id, { all: true });
     expect(all.map((r) => [r.valueTyped, r.supersedes, r.supersededBy])).toEqual([
       [1.02, null, fix.id],
       [10.2, first.id, null],
     ]);
-    await expect(h.db.run('UPDATE readings SET value_typed = 0 WHERE id = ?', [first.id])).rejects.toThrow(/append-only/);
+    await expect(h.db.run('UPDATE readings SET value_typed = 0 WHERE id = ?', [first.id])).rejects.toThrow(
+      /append-only/,
+    );
     await expect(h.db.run('DELETE FROM readings WHERE id = ?', [first.id])).rejects.toThrow(/append-only/);
     await expect(
-      h.actions.recordReading({ roundId: round.id, instrumentTag: 'PI-101', valueTyped: 10.3, unit: 'bar', reference: 'gauge', supersedes: first.id }),
+      h.actions.recordReading({
+        roundId: round.id,
+        instrumentTag: 'PI-101',
+        valueTyped: 10.3,
+        unit: 'bar',
+        reference: 'gauge',
+        supersedes: first.id,
+      }),
     ).rejects.toThrow(`supersedes: already superseded by ${fix.id}`);
     await expect(
-      h.actions.recordReading({ roundId: round.id, instrumentTag: 'TI-101', valueTyped: 184, unit: '°C', supersedes: fix.id }),
+      h.actions.recordReading({
+        roundId: round.id,
+        instrumentTag: 'TI-101',
+        valueTyped: 184,
+        unit: '°C',
+        supersedes: fix.id,
+      }),
     ).rejects.toThrow('supersedes: that reading is of PI-101, not TI-101');
   });
 
@@ -182,11 +268,23 @@ describe('readings', () => {
     const h = await harness();
     const round = await h.actions.startRound(RV1);
     const base = { roundId: round.id, instrumentTag: 'PI-101', unit: 'bar', reference: 'gauge' as const };
-    await expect(h.actions.recordReading({ ...base, valueTyped: null })).rejects.toThrow('skipReason: A reading without a value needs a skip reason');
-    await expect(h.actions.recordReading({ ...base, valueTyped: 2e12 })).rejects.toThrow('valueTyped: Must be at most 1000000000000 (got 2000000000000)');
-    await expect(h.actions.recordReading({ ...base, instrumentTag: 'FI-999', valueTyped: 1 })).rejects.toThrow(/^instrumentTag: no instrument with this tag .* \(got "FI-999"\)$/);
-    await expect(h.actions.recordReading({ ...base, roundId: 'nope', valueTyped: 1 })).rejects.toThrow('roundId: no such round on this device (got "nope")');
-    const skipped = await h.actions.recordReading({ ...base, valueTyped: null, skipReason: 'Gauge behind scaffolding' });
+    await expect(h.actions.recordReading({ ...base, valueTyped: null })).rejects.toThrow(
+      'skipReason: A reading without a value needs a skip reason',
+    );
+    await expect(h.actions.recordReading({ ...base, valueTyped: 2e12 })).rejects.toThrow(
+      'valueTyped: Must be at most 1000000000000 (got 2000000000000)',
+    );
+    await expect(h.actions.recordReading({ ...base, instrumentTag: 'FI-999', valueTyped: 1 })).rejects.toThrow(
+      /^instrumentTag: no instrument with this tag .* \(got "FI-999"\)$/,
+    );
+    await expect(h.actions.recordReading({ ...base, roundId: 'nope', valueTyped: 1 })).rejects.toThrow(
+      'roundId: no such round on this device (got "nope")',
+    );
+    const skipped = await h.actions.recordReading({
+      ...base,
+      valueTyped: null,
+      skipReason: 'Gauge behind scaffolding',
+    });
     expect(skipped.valueTyped).toBeNull();
     const err = await h.actions.startRound('not-a-version').catch((e: unknown) => e);
     expect(err).toBeInstanceOf(ActionError);
@@ -197,7 +295,9 @@ describe('readings', () => {
     const h = await harness();
     const round = await h.actions.startRound(RV1);
     await h.actions.finishRound(round.id);
-    await expect(h.actions.recordReading({ roundId: round.id, instrumentTag: 'TI-101', valueTyped: 184, unit: '°C' })).rejects.toThrow(/round is finished/);
+    await expect(
+      h.actions.recordReading({ roundId: round.id, instrumentTag: 'TI-101', valueTyped: 184, unit: '°C' }),
+    ).rejects.toThrow(/round is finished/);
   });
 });
 
@@ -205,37 +305,64 @@ describe('rounds, answers, photos, dismissals', () => {
   test('finish and dismissals re-send the whole round; finishing twice adds nothing', async () => {
     const h = await harness();
     const round = await h.actions.startRound(RV1);
-    const r = await h.actions.recordReading({ roundId: round.id, instrumentTag: 'PI-102', valueTyped: 10.9, unit: 'bar', reference: 'gauge' });
+    const r = await h.actions.recordReading({
+      roundId: round.id,
+      instrumentTag: 'PI-102',
+      valueTyped: 10.9,
+      unit: 'bar',
+      reference: 'gauge',
+    });
     h.clock.advance(1000);
     await h.actions.dismissSuspect(round.id, 'PI-102', 'Checked against PI-101, both agree');
     h.clock.advance(1000);
     const fin = await h.actions.finishRound(round.id);
     await h.actions.finishRound(round.id);
     expect(fin.status).toBe('finished');
-    const rows = (await outboxRows(h)).filter((x) => x.kind === 'round').map((x) => PushRound.parse(JSON.parse(x.payload)));
+    const rows = (await outboxRows(h))
+      .filter((x) => x.kind === 'round')
+      .map((x) => PushRound.parse(JSON.parse(x.payload)));
     expect(rows.map((x) => [x.status, x.dismissals.length, x.finishedAt ?? null])).toEqual([
       ['in-progress', 0, null],
       ['in-progress', 1, null],
       ['finished', 1, '2025-11-30T07:00:02.000Z'],
     ]);
-    expect(rows[2].dismissals[0]).toEqual({ readingId: r.id, tag: 'PI-102', flag: 'suspect', note: 'Checked against PI-101, both agree', deviceTime: '2025-11-30T07:00:01.000Z' });
+    expect(rows[2].dismissals[0]).toEqual({
+      readingId: r.id,
+      tag: 'PI-102',
+      flag: 'suspect',
+      note: 'Checked against PI-101, both agree',
+      deviceTime: '2025-11-30T07:00:01.000Z',
+    });
     await expect(h.actions.dismissSuspect(round.id, 'PI-102', ' ')).rejects.toThrow(/round is finished/);
   });
 
   test('answers are checked against the route version template', async () => {
     const h = await harness();
     const round = await h.actions.startRound(RV1);
-    await expect(h.actions.answerCheck({ roundId: round.id, checkId: 'no-such', answer: { kind: 'yes-no', value: true } })).rejects.toThrow(
-      'checkId: no such check on route version 1 (got "no-such")',
-    );
-    await expect(h.actions.answerCheck({ roundId: round.id, checkId: 'gauge-glass-clear', answer: { kind: 'text', value: 'fine' } })).rejects.toThrow(
-      'answer.kind: check "gauge-glass-clear" takes a yes-no answer (got "text")',
-    );
-    await expect(h.actions.answerCheck({ roundId: round.id, checkId: 'trap-state', answer: { kind: 'choice', value: 'leaking' } })).rejects.toThrow(
-      'answer.value: must be one of "working", "blowing", "cold" (got "leaking")',
-    );
-    await h.actions.answerCheck({ roundId: round.id, checkId: 'trap-state', answer: { kind: 'choice', value: 'blowing' } });
-    await h.actions.answerCheck({ roundId: round.id, checkId: 'trap-state', answer: { kind: 'choice', value: 'working' }, note: 'second look' });
+    await expect(
+      h.actions.answerCheck({ roundId: round.id, checkId: 'no-such', answer: { kind: 'yes-no', value: true } }),
+    ).rejects.toThrow('checkId: no such check on route version 1 (got "no-such")');
+    await expect(
+      h.actions.answerCheck({
+        roundId: round.id,
+        checkId: 'gauge-glass-clear',
+        answer: { kind: 'text', value: 'fine' },
+      }),
+    ).rejects.toThrow('answer.kind: check "gauge-glass-clear" takes a yes-no answer (got "text")');
+    await expect(
+      h.actions.answerCheck({ roundId: round.id, checkId: 'trap-state', answer: { kind: 'choice', value: 'leaking' } }),
+    ).rejects.toThrow('answer.value: must be one of "working", "blowing", "cold" (got "leaking")');
+    await h.actions.answerCheck({
+      roundId: round.id,
+      checkId: 'trap-state',
+      answer: { kind: 'choice', value: 'blowing' },
+    });
+    await h.actions.answerCheck({
+      roundId: round.id,
+      checkId: 'trap-state',
+      answer: { kind: 'choice', value: 'working' },
+      note: 'second look',
+    });
     const answers = await h.store.roundCheckAnswers(round.id);
     expect(answers.map((a) => [a.checkId, a.answer])).toEqual([['trap-state', { kind: 'choice', value: 'working' }]]);
   });
@@ -251,7 +378,9 @@ describe('rounds, answers, photos, dismissals', () => {
     await expect(h.actions.attachPhoto({ roundId: round.id, bytes: abc, mime: 'image/gif' })).rejects.toThrow(
       'mime: must be one of image/jpeg, image/png, image/webp, image/heic, image/heif (got "image/gif")',
     );
-    await expect(h.actions.attachPhoto({ roundId: round.id, bytes: new Uint8Array(0), mime: 'image/png' })).rejects.toThrow('bytes: the photo is empty (got 0 bytes)');
+    await expect(
+      h.actions.attachPhoto({ roundId: round.id, bytes: new Uint8Array(0), mime: 'image/png' }),
+    ).rejects.toThrow('bytes: the photo is empty (got 0 bytes)');
   });
 
   test('the default SHA-256 (Web Crypto) agrees with OpenSSL through node:crypto', async () => {

@@ -36,7 +36,9 @@ describe('LocalDb (serial queue + transactions)', () => {
     await db.transaction(async (t) => {
       leaked = t;
     });
-    await expect(leaked!.run('INSERT INTO t VALUES (1)')).rejects.toThrow('A statement ran on a transaction that has already ended.');
+    await expect(leaked!.run('INSERT INTO t VALUES (1)')).rejects.toThrow(
+      'A statement ran on a transaction that has already ended.',
+    );
   });
 
   test('a closed database says so', async () => {
@@ -48,7 +50,9 @@ describe('LocalDb (serial queue + transactions)', () => {
 
 describe('backoff: exponential with full jitter (common practice; AWS Architecture Blog, "Exponential Backoff And Jitter", 2015)', () => {
   test('ceiling min(cap, base·2ⁿ) with base 1 s and cap 5 min', () => {
-    expect([0, 1, 2, 3, 8, 9, 10, 2000].map((n) => backoffCeiling(n))).toEqual([1000, 2000, 4000, 8000, 256000, 300000, 300000, 300000]);
+    expect([0, 1, 2, 3, 8, 9, 10, 2000].map((n) => backoffCeiling(n))).toEqual([
+      1000, 2000, 4000, 8000, 256000, 300000, 300000, 300000,
+    ]);
   });
 
   test('the delay is uniform in [0, ceiling): random 0 → 0, random just under 1 → just under the ceiling', () => {
@@ -60,7 +64,9 @@ describe('backoff: exponential with full jitter (common practice; AWS Architectu
   test('bad inputs name the input and the limit', () => {
     expect(() => backoffCeiling(-1)).toThrow('backoff attempt must be an integer ≥ 0, got -1');
     expect(() => backoffDelay(0, () => 1)).toThrow('random() must return a number in [0, 1), got 1');
-    expect(() => backoffCeiling(0, { baseMs: 0, capMs: 10 })).toThrow('backoff needs 0 < baseMs ≤ capMs, got baseMs=0, capMs=10');
+    expect(() => backoffCeiling(0, { baseMs: 0, capMs: 10 })).toThrow(
+      'backoff needs 0 < baseMs ≤ capMs, got baseMs=0, capMs=10',
+    );
   });
 });
 
@@ -105,15 +111,22 @@ describe('persistent storage (Storage Standard: navigator.storage.persist)', () 
     expect(await ensurePersistentStorage(h.store, storage)).toBe('denied');
     expect(await ensurePersistentStorage(h.store, storage)).toBe('not-persistent');
     expect(asked).toBe(1);
-    expect(JSON.parse((await h.store.getMeta('persist_asked'))!)).toEqual({ at: '2025-11-30T07:00:00.000Z', granted: false });
+    expect(JSON.parse((await h.store.getMeta('persist_asked'))!)).toEqual({
+      at: '2025-11-30T07:00:00.000Z',
+      granted: false,
+    });
   });
 
   test('already persistent: not asked; granted: said so; no storage manager: unsupported', async () => {
     const h = await harness({ seed: false });
     let asked = 0;
-    expect(await ensurePersistentStorage(h.store, { persisted: async () => true, persist: async () => (asked++, true) })).toBe('persisted');
+    expect(
+      await ensurePersistentStorage(h.store, { persisted: async () => true, persist: async () => (asked++, true) }),
+    ).toBe('persisted');
     expect(asked).toBe(0);
-    expect(await ensurePersistentStorage(h.store, { persisted: async () => false, persist: async () => true })).toBe('granted');
+    expect(await ensurePersistentStorage(h.store, { persisted: async () => false, persist: async () => true })).toBe(
+      'granted',
+    );
     expect(await ensurePersistentStorage(h.store, null)).toBe('unsupported');
   });
 });

@@ -62,7 +62,11 @@ export function unit(syncVersion = 1, name = 'Unit 1 (back-pressure set)'): Sync
   return { id: UNIT, siteId: SITE, name, model: { id: 'bp-set-1', points: [] }, modelVersion: 'c0ffee01', syncVersion };
 }
 
-export function instrument(tag: keyof typeof INSTRUMENTS, syncVersion = 1, status: SyncInstrument['status'] = 'ok'): SyncInstrument {
+export function instrument(
+  tag: keyof typeof INSTRUMENTS,
+  syncVersion = 1,
+  status: SyncInstrument['status'] = 'ok',
+): SyncInstrument {
   const pressure = tag.startsWith('PI');
   return {
     id: INSTRUMENTS[tag],
@@ -112,8 +116,20 @@ export function route(versionId = RV1, number = 1, syncVersion = 1): SyncRoute {
               { tag: 'PI-102', unit: 'bar', reference: 'gauge', band: { min: 9, max: 11 }, required: false },
             ],
             checks: [
-              { id: 'gauge-glass-clear', kind: 'yes-no', prompt: 'Is the gauge glass clear?', photoRequired: false, expected: true },
-              { id: 'trap-state', kind: 'choice', prompt: 'Steam trap', photoRequired: false, options: ['working', 'blowing', 'cold'] },
+              {
+                id: 'gauge-glass-clear',
+                kind: 'yes-no',
+                prompt: 'Is the gauge glass clear?',
+                photoRequired: false,
+                expected: true,
+              },
+              {
+                id: 'trap-state',
+                kind: 'choice',
+                prompt: 'Steam trap',
+                photoRequired: false,
+                options: ['working', 'blowing', 'cold'],
+              },
             ],
           },
         ],
@@ -193,14 +209,24 @@ export class FakeServer implements SyncTransport {
     this.fault('push');
     const parsed = PushRequest.safeParse(body);
     if (!parsed.success) {
-      throw failure(400, 'Invalid push', parsed.error.issues.map((i) => ({ path: i.path.join('.'), message: i.message })));
+      throw failure(
+        400,
+        'Invalid push',
+        parsed.error.issues.map((i) => ({ path: i.path.join('.'), message: i.message })),
+      );
     }
     const b = parsed.data;
     const issues: { path: string; message: string }[] = [];
     b.readings.forEach((r, i) => {
-      if (!this.rounds.has(r.roundId) && !b.rounds.some((x) => x.id === r.roundId)) issues.push({ path: `readings.${i}.roundId`, message: 'Unknown round' });
+      if (!this.rounds.has(r.roundId) && !b.rounds.some((x) => x.id === r.roundId))
+        issues.push({ path: `readings.${i}.roundId`, message: 'Unknown round' });
     });
-    for (const [kind, list] of [['rounds', b.rounds], ['readings', b.readings], ['checkAnswers', b.checkAnswers], ['photos', b.photos]] as const) {
+    for (const [kind, list] of [
+      ['rounds', b.rounds],
+      ['readings', b.readings],
+      ['checkAnswers', b.checkAnswers],
+      ['photos', b.photos],
+    ] as const) {
       list.forEach((x: { id: string }, i: number) => {
         const why = this.refuse.get(x.id);
         if (why) issues.push({ path: `${kind}.${i}`, message: why });
@@ -250,7 +276,8 @@ export class FakeServer implements SyncTransport {
     this.fault('uploadPhoto');
     const meta = this.photos.get(id);
     if (!meta) throw failure(404, `No photo ${id}`);
-    if (sha256 !== meta.sha256 || sha256Hex(bytes) !== meta.sha256) throw failure(400, 'The bytes do not match the announced SHA-256');
+    if (sha256 !== meta.sha256 || sha256Hex(bytes) !== meta.sha256)
+      throw failure(400, 'The bytes do not match the announced SHA-256');
     if (mime !== meta.mime) throw failure(415, `Expected ${meta.mime}`);
     const created = !this.photoBytes.has(id);
     this.photoBytes.set(id, bytes);
@@ -272,7 +299,15 @@ export class FakeServer implements SyncTransport {
 }
 
 export function client(h: Harness, server: SyncTransport, extra: Partial<SyncClientOptions> = {}): SyncClient {
-  return new SyncClient({ store: h.store, transport: server, ids: counterIds(0xd0), clock: h.clock, random: () => 0.5, siteId: () => SITE, ...extra });
+  return new SyncClient({
+    store: h.store,
+    transport: server,
+    ids: counterIds(0xd0),
+    clock: h.clock,
+    random: () => 0.5,
+    siteId: () => SITE,
+    ...extra,
+  });
 }
 
 /** Every user table's rows, for "same state" comparisons. */

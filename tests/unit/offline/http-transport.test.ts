@@ -15,7 +15,15 @@ function recorder() {
 
 test('push is a JSON POST to /api/sync/push', async () => {
   const { calls, transport } = recorder();
-  const body = { payloadVersion: 2 as const, deviceId: 'd', sentAt: '2025-11-30T08:00:00Z', rounds: [], readings: [], checkAnswers: [], photos: [] };
+  const body = {
+    payloadVersion: 2 as const,
+    deviceId: 'd',
+    sentAt: '2025-11-30T08:00:00Z',
+    rounds: [],
+    readings: [],
+    checkAnswers: [],
+    photos: [],
+  };
   await transport.push(body);
   expect(calls).toEqual([{ path: '/api/sync/push', init: { method: 'POST', json: body } }]);
 });

@@ -10,7 +10,11 @@ import { client, counterIds, FakeServer, INSTRUMENTS, manualClock, pull, RV1, SI
 import { openSqlJsDb } from './sqljs-db';
 
 const tables = async (db: { all<T>(sql: string): Promise<T[]> }) =>
-  (await db.all<{ name: string }>(`SELECT name FROM sqlite_master WHERE type = 'table' AND name NOT LIKE 'sqlite_%' ORDER BY name`)).map((t) => t.name);
+  (
+    await db.all<{ name: string }>(
+      `SELECT name FROM sqlite_master WHERE type = 'table' AND name NOT LIKE 'sqlite_%' ORDER BY name`,
+    )
+  ).map((t) => t.name);
 const columns = async (db: { all<T>(sql: string): Promise<T[]> }, table: string) =>
   (await db.all<{ name: string }>(`PRAGMA table_info(${table})`)).map((c) => c.name);
 
@@ -26,11 +30,23 @@ describe('migration 1 (initial)', () => {
     expect(r).toEqual({ from: 0, to: 1, applied: ['1 initial'] });
     expect(await schemaVersion(db)).toBe(1);
     expect(await tables(db)).toEqual([
-      'check_answers', 'instruments', 'meta', 'outbox', 'photos', 'pull_cursors', 'readings', 'rounds', 'route_versions', 'routes', 'units',
+      'check_answers',
+      'instruments',
+      'meta',
+      'outbox',
+      'photos',
+      'pull_cursors',
+      'readings',
+      'rounds',
+      'route_versions',
+      'routes',
+      'units',
     ]);
     expect(await columns(db, 'readings')).not.toContain('flags_json');
     // The outbox refuses an unknown kind and state (CHECK constraints).
-    await expect(db.run(`INSERT INTO outbox (kind, record_id, payload, created_at) VALUES ('note', 'x', '{}', 'now')`)).rejects.toThrow(/CHECK constraint failed/);
+    await expect(
+      db.run(`INSERT INTO outbox (kind, record_id, payload, created_at) VALUES ('note', 'x', '{}', 'now')`),
+    ).rejects.toThrow(/CHECK constraint failed/);
   });
 });
 
@@ -49,7 +65,9 @@ describe('migration 3 (authors)', () => {
   test('adds the author to outbox rows, rounds and photos; rows from before have none', async () => {
     const db = await openSqlJsDb();
     await migrate(db, MIGRATIONS, 2);
-    await db.run(`INSERT INTO outbox (kind, record_id, payload, created_at) VALUES ('round', 'r1', '{}', '2026-12-01T06:00:00Z')`);
+    await db.run(
+      `INSERT INTO outbox (kind, record_id, payload, created_at) VALUES ('round', 'r1', '{}', '2026-12-01T06:00:00Z')`,
+    );
     expect(await migrate(db)).toEqual({ from: 2, to: 3, applied: ['3 authors'] });
     expect(await columns(db, 'outbox')).toEqual(expect.arrayContaining(['author_id', 'author_name']));
     expect(await columns(db, 'rounds')).toEqual(expect.arrayContaining(['author_id', 'author_name']));
@@ -64,30 +82,93 @@ async function v1StoreWithData() {
   await migrate(db, MIGRATIONS, 1);
   const p = pull();
   const rt = p.routes[0];
-  const round = { id: '0b0f7c1e-1111-4a11-8a11-000000000001', routeVersionId: RV1, startedAt: '2025-11-29T07:00:00.000Z', finishedAt: null, status: 'in-progress' as const };
-  const r1 = {
-    id: '0b0f7c1e-1111-4a11-8a11-000000000002', roundId: round.id, instrumentId: INSTRUMENTS['PI-101'], valueTyped: 1.02, unit: 'bar',
-    reference: 'gauge' as const, deviceTime: '2025-11-29T07:05:00.000Z', note: null, skipReason: null, supersedes: null,
+  const round = {
+    id: '0b0f7c1e-1111-4a11-8a11-000000000001',
+    routeVersionId: RV1,
+    startedAt: '2025-11-29T07:00:00.000Z',
+    finishedAt: null,
+    status: 'in-progress' as const,
   };
-  const r2 = { ...r1, id: '0b0f7c1e-1111-4a11-8a11-000000000003', valueTyped: 10.2, deviceTime: '2025-11-29T07:06:00.000Z', supersedes: r1.id };
+  const r1 = {
+    id: '0b0f7c1e-1111-4a11-8a11-000000000002',
+    roundId: round.id,
+    instrumentId: INSTRUMENTS['PI-101'],
+    valueTyped: 1.02,
+    unit: 'bar',
+    reference: 'gauge' as const,
+    deviceTime: '2025-11-29T07:05:00.000Z',
+    note: null,
+    skipReason: null,
+    supersedes: null,
+  };
+  const r2 = {
+    ...r1,
+    id: '0b0f7c1e-1111-4a11-8a11-000000000003',
+    valueTyped: 10.2,
+    deviceTime: '2025-11-29T07:06:00.000Z',
+    supersedes: r1.id,
+  };
   await db.transaction(async (tx) => {
-    await tx.run(`INSERT INTO routes (id, site_id, unit_id, current_version_id, sync_version, json) VALUES (?, ?, ?, ?, ?, ?)`, [rt.id, rt.siteId, rt.unitId, rt.version.id, 1, JSON.stringify(rt)]);
-    await tx.run(`INSERT INTO route_versions (id, route_id, number, json) VALUES (?, ?, 1, ?)`, [rt.version.id, rt.id, JSON.stringify({ ...rt.version, routeId: rt.id })]);
-    for (const i of p.instruments) await tx.run(`INSERT INTO instruments (id, unit_id, tag, sync_version, json) VALUES (?, ?, ?, 1, ?)`, [i.id, i.unitId, i.tag, JSON.stringify(i)]);
-    for (const u of p.units) await tx.run(`INSERT INTO units (id, site_id, sync_version, json) VALUES (?, ?, 1, ?)`, [u.id, u.siteId, JSON.stringify(u)]);
-    await tx.run(`INSERT INTO pull_cursors (site_id, cursor, pulled_at, server_time) VALUES (?, 3, ?, ?)`, [SITE, '2025-11-29T06:00:00.000Z', p.serverTime]);
-    await tx.run(`INSERT INTO rounds (id, route_version_id, status, started_at) VALUES (?, ?, 'in-progress', ?)`, [round.id, RV1, round.startedAt]);
+    await tx.run(
+      `INSERT INTO routes (id, site_id, unit_id, current_version_id, sync_version, json) VALUES (?, ?, ?, ?, ?, ?)`,
+      [rt.id, rt.siteId, rt.unitId, rt.version.id, 1, JSON.stringify(rt)],
+    );
+    await tx.run(`INSERT INTO route_versions (id, route_id, number, json) VALUES (?, ?, 1, ?)`, [
+      rt.version.id,
+      rt.id,
+      JSON.stringify({ ...rt.version, routeId: rt.id }),
+    ]);
+    for (const i of p.instruments)
+      await tx.run(`INSERT INTO instruments (id, unit_id, tag, sync_version, json) VALUES (?, ?, ?, 1, ?)`, [
+        i.id,
+        i.unitId,
+        i.tag,
+        JSON.stringify(i),
+      ]);
+    for (const u of p.units)
+      await tx.run(`INSERT INTO units (id, site_id, sync_version, json) VALUES (?, ?, 1, ?)`, [
+        u.id,
+        u.siteId,
+        JSON.stringify(u),
+      ]);
+    await tx.run(`INSERT INTO pull_cursors (site_id, cursor, pulled_at, server_time) VALUES (?, 3, ?, ?)`, [
+      SITE,
+      '2025-11-29T06:00:00.000Z',
+      p.serverTime,
+    ]);
+    await tx.run(`INSERT INTO rounds (id, route_version_id, status, started_at) VALUES (?, ?, 'in-progress', ?)`, [
+      round.id,
+      RV1,
+      round.startedAt,
+    ]);
     for (const r of [r1, r2]) {
       await tx.run(
         `INSERT INTO readings (id, round_id, instrument_id, tag, value_typed, unit, reference, device_time, supersedes) VALUES (?, ?, ?, 'PI-101', ?, 'bar', 'gauge', ?, ?)`,
         [r.id, r.roundId, r.instrumentId, r.valueTyped, r.deviceTime, r.supersedes],
       );
     }
-    await tx.run(`INSERT INTO outbox (kind, record_id, payload, created_at) VALUES ('round', ?, ?, ?)`, [round.id, JSON.stringify(round), round.startedAt]);
-    for (const r of [r1, r2]) await tx.run(`INSERT INTO outbox (kind, record_id, payload, created_at) VALUES ('reading', ?, ?, ?)`, [r.id, JSON.stringify(r), r.deviceTime]);
+    await tx.run(`INSERT INTO outbox (kind, record_id, payload, created_at) VALUES ('round', ?, ?, ?)`, [
+      round.id,
+      JSON.stringify(round),
+      round.startedAt,
+    ]);
+    for (const r of [r1, r2])
+      await tx.run(`INSERT INTO outbox (kind, record_id, payload, created_at) VALUES ('reading', ?, ?, ?)`, [
+        r.id,
+        JSON.stringify(r),
+        r.deviceTime,
+      ]);
   });
   // The payloads really are version 1 (shared/api/sync.ts PushRequestV1) and not version 2.
-  const batch = { payloadVersion: 1, deviceId: 'd', sentAt: '2025-11-29T08:00:00Z', rounds: [round], readings: [r1, r2], checkAnswers: [], photos: [] };
+  const batch = {
+    payloadVersion: 1,
+    deviceId: 'd',
+    sentAt: '2025-11-29T08:00:00Z',
+    rounds: [round],
+    readings: [r1, r2],
+    checkAnswers: [],
+    photos: [],
+  };
   expect(PushRequestV1.safeParse(batch).success).toBe(true);
   expect(PushRequestV2.safeParse({ ...batch, payloadVersion: 2 }).success).toBe(false);
   return { db, round, r1, r2 };
@@ -165,6 +246,8 @@ describe('refusals', () => {
 
   test('a gap in the numbering is refused', async () => {
     const db = await openSqlJsDb();
-    await expect(migrate(db, [MIGRATIONS[1]])).rejects.toThrow('migration "flags-and-dismissals" is number 2, expected 1');
+    await expect(migrate(db, [MIGRATIONS[1]])).rejects.toThrow(
+      'migration "flags-and-dismissals" is number 2, expected 1',
+    );
   });
 });

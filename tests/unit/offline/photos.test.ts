@@ -9,8 +9,19 @@ const JPEG = Uint8Array.from([0xff, 0xd8, 0xff, 0xe0, 0x00, 0x10, 0x4a, 0x46, 0x
 async function roundWithPhoto() {
   const h = await harness();
   const round = await h.actions.startRound(RV1);
-  const reading = await h.actions.recordReading({ roundId: round.id, instrumentTag: 'PI-101', valueTyped: 10.2, unit: 'bar', reference: 'gauge' });
-  const photo = await h.actions.attachPhoto({ roundId: round.id, readingId: reading.id, bytes: JPEG, mime: 'image/jpeg' });
+  const reading = await h.actions.recordReading({
+    roundId: round.id,
+    instrumentTag: 'PI-101',
+    valueTyped: 10.2,
+    unit: 'bar',
+    reference: 'gauge',
+  });
+  const photo = await h.actions.attachPhoto({
+    roundId: round.id,
+    readingId: reading.id,
+    bytes: JPEG,
+    mime: 'image/jpeg',
+  });
   return { h, round, reading, photo };
 }
 
@@ -20,7 +31,15 @@ test('the push announces the photo, then its bytes are uploaded by id with the S
   const r = await client(h, server).syncNow();
   expect(r).toMatchObject({ ok: true, sent: 3, photosUploaded: 1 });
   expect(server.pushes[0].photos).toEqual([
-    { id: photo.id, roundId: photo.roundId, readingId: reading.id, checkId: null, sha256: photo.sha256, mime: 'image/jpeg', bytes: JPEG.length },
+    {
+      id: photo.id,
+      roundId: photo.roundId,
+      readingId: reading.id,
+      checkId: null,
+      sha256: photo.sha256,
+      mime: 'image/jpeg',
+      bytes: JPEG.length,
+    },
   ]);
   expect(server.uploads).toEqual([photo.id]);
   expect(Array.from(server.photoBytes.get(photo.id)!)).toEqual(Array.from(JPEG));
@@ -85,7 +104,10 @@ test('bytes the server turns down (415) are set aside as refused and shown; retr
   server.failNext('uploadPhoto', failure(415, 'Not an image the server can read'));
   const c = client(h, server);
   await c.syncNow();
-  expect(await h.store.getPhoto(photo.id)).toMatchObject({ uploadState: 'refused', lastError: 'Not an image the server can read' });
+  expect(await h.store.getPhoto(photo.id)).toMatchObject({
+    uploadState: 'refused',
+    lastError: 'Not an image the server can read',
+  });
   expect((await c.status()).photosRefused).toBe(1);
   await c.retryRefused();
   await c.syncNow();
@@ -112,7 +134,11 @@ test('a photo is not uploaded before a push has announced it', async () => {
 
 test('with zero jitter and a server that keeps failing, a run tries each photo once and ends', async () => {
   const { h, photo } = await roundWithPhoto();
-  const second = await h.actions.attachPhoto({ roundId: photo.roundId, bytes: Uint8Array.from([...JPEG, 9]), mime: 'image/jpeg' });
+  const second = await h.actions.attachPhoto({
+    roundId: photo.roundId,
+    bytes: Uint8Array.from([...JPEG, 9]),
+    mime: 'image/jpeg',
+  });
   const server = new FakeServer();
   server.failNext('uploadPhoto', failure(500, 'Internal Server Error'), 100);
   const c = client(h, server, { random: () => 0 });

@@ -26,7 +26,11 @@ describe('pull', () => {
     expect(await h.store.pullCursor(SITE)).toBe(3);
     expect((await h.store.listRoutes(SITE)).map((r) => r.name)).toEqual(['Boiler house morning round']);
     // A newer route version and an instrument turned suspect arrive with a higher sync version.
-    server.pullData = pull(5, { routes: [route(RV2, 2, 5)], instruments: [instrument('PI-102', 4, 'suspect')], units: [] });
+    server.pullData = pull(5, {
+      routes: [route(RV2, 2, 5)],
+      instruments: [instrument('PI-102', 4, 'suspect')],
+      units: [],
+    });
     await c.syncNow({ force: true });
     expect(server.pulls[1]).toEqual({ cursor: 3, siteId: SITE });
     expect((await h.store.getRoute((await h.store.listRoutes(SITE))[0].id))!.version.id).toBe(RV2);
@@ -64,7 +68,10 @@ describe('stored JSON is zod-checked on read', () => {
   test('a damaged reference row is reported and left out; the others are read', async () => {
     const h = await harness();
     const damaged = instrument('TI-101');
-    await h.db.run('UPDATE instruments SET json = ? WHERE id = ?', [JSON.stringify({ ...damaged, quantity: 'colour' }), damaged.id]);
+    await h.db.run('UPDATE instruments SET json = ? WHERE id = ?', [
+      JSON.stringify({ ...damaged, quantity: 'colour' }),
+      damaged.id,
+    ]);
     await h.db.run('UPDATE instruments SET json = ? WHERE tag = ?', ['{not json', 'PI-BARO']);
     const list = await h.store.listInstruments(UNIT);
     expect(list.map((i) => i.tag)).toEqual(['PI-101', 'PI-102']);
@@ -81,9 +88,23 @@ describe('stored JSON is zod-checked on read', () => {
   test('a damaged outbox row is set aside as refused with the reason; the rest of the queue is pushed', async () => {
     const h = await harness();
     const round = await h.actions.startRound(RV1);
-    const a = await h.actions.recordReading({ roundId: round.id, instrumentTag: 'PI-101', valueTyped: 10.2, unit: 'bar', reference: 'gauge' });
-    const b = await h.actions.recordReading({ roundId: round.id, instrumentTag: 'TI-101', valueTyped: 184, unit: '°C' });
-    await h.db.run(`UPDATE outbox SET payload = ? WHERE record_id = ?`, [JSON.stringify({ id: a.id, valueTyped: 'ten' }), a.id]);
+    const a = await h.actions.recordReading({
+      roundId: round.id,
+      instrumentTag: 'PI-101',
+      valueTyped: 10.2,
+      unit: 'bar',
+      reference: 'gauge',
+    });
+    const b = await h.actions.recordReading({
+      roundId: round.id,
+      instrumentTag: 'TI-101',
+      valueTyped: 184,
+      unit: '°C',
+    });
+    await h.db.run(`UPDATE outbox SET payload = ? WHERE record_id = ?`, [
+      JSON.stringify({ id: a.id, valueTyped: 'ten' }),
+      a.id,
+    ]);
     const server = new FakeServer();
     const c = client(h, server);
     const r = await c.syncNow();
@@ -91,14 +112,25 @@ describe('stored JSON is zod-checked on read', () => {
     expect(server.readings.has(b.id)).toBe(true);
     expect(server.readings.has(a.id)).toBe(false);
     const s = await c.status();
-    expect(s.refusedItems.map((x) => [x.recordId, x.message.startsWith('This record is damaged on the device and cannot be sent (')])).toEqual([[a.id, true]]);
+    expect(
+      s.refusedItems.map((x) => [
+        x.recordId,
+        x.message.startsWith('This record is damaged on the device and cannot be sent ('),
+      ]),
+    ).toEqual([[a.id, true]]);
     expect(s.badRows.some((x) => x.table === 'outbox' && x.column === 'payload')).toBe(true);
   });
 
   test('damaged flags on a reading are reported; the reading is still shown', async () => {
     const h = await harness();
     const round = await h.actions.startRound(RV1);
-    const a = await h.actions.recordReading({ roundId: round.id, instrumentTag: 'PI-101', valueTyped: 10.2, unit: 'bar', reference: 'gauge' });
+    const a = await h.actions.recordReading({
+      roundId: round.id,
+      instrumentTag: 'PI-101',
+      valueTyped: 10.2,
+      unit: 'bar',
+      reference: 'gauge',
+    });
     // Bypass the append-only trigger the way a broken writer might (drop, write, restore).
     await h.db.exec('DROP TRIGGER readings_no_update');
     await h.db.run(`UPDATE readings SET flags_json = '[{"code":"Bad Code"}]' WHERE id = ?`, [a.id]);

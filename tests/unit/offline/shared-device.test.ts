@@ -14,15 +14,31 @@ const B: Author = { id: 'user-b', name: 'Ash Renner' };
 async function sharedDevice() {
   const h = await harness();
   const who: { current: Author | null } = { current: A };
-  const actions = createActions({ store: h.store, ids: h.ids, clock: h.clock, sha256: async (b) => sha256Hex(b), author: () => who.current });
+  const actions = createActions({
+    store: h.store,
+    ids: h.ids,
+    clock: h.clock,
+    sha256: async (b) => sha256Hex(b),
+    author: () => who.current,
+  });
   return { h: { ...h, actions } as Harness, who };
 }
 
 test("A's records wait while B is signed in, B's go; when A signs in again A's go, with A's token", async () => {
   const { h, who } = await sharedDevice();
   const roundA = await h.actions.startRound(RV1);
-  const readingA = await h.actions.recordReading({ roundId: roundA.id, instrumentTag: 'TI-101', valueTyped: 180.4, unit: '°C' });
-  await h.actions.attachPhoto({ roundId: roundA.id, readingId: readingA.id, bytes: new Uint8Array([1, 2, 3]), mime: 'image/jpeg' });
+  const readingA = await h.actions.recordReading({
+    roundId: roundA.id,
+    instrumentTag: 'TI-101',
+    valueTyped: 180.4,
+    unit: '°C',
+  });
+  await h.actions.attachPhoto({
+    roundId: roundA.id,
+    readingId: readingA.id,
+    bytes: new Uint8Array([1, 2, 3]),
+    mime: 'image/jpeg',
+  });
   await h.actions.finishRound(roundA.id);
 
   // A signs out (offline); B signs in on the same device
@@ -35,7 +51,10 @@ test("A's records wait while B is signed in, B's go; when A signs in again A's g
   const signedIn = { id: B.id };
   const transport = {
     push: (body: Parameters<FakeServer['push']>[0]) => (pushedAs.push(signedIn.id), server.push(body)),
-    uploadPhoto: (...a: Parameters<FakeServer['uploadPhoto']>) => (pushedAs.push(`photo:${signedIn.id}`), server.uploadPhoto(...a)),
+    uploadPhoto: (...a: Parameters<FakeServer['uploadPhoto']>) => (
+      pushedAs.push(`photo:${signedIn.id}`),
+      server.uploadPhoto(...a)
+    ),
     pull: (...a: Parameters<FakeServer['pull']>) => server.pull(...a),
   };
   const sync = client(h, transport, { author: () => signedIn.id });
@@ -49,9 +68,9 @@ test("A's records wait while B is signed in, B's go; when A signs in again A's g
   expect(status.othersWaiting).toEqual([{ authorId: A.id, authorName: 'Robin Aske', records: 4 }]); // the round started and finished, the reading, the photo
 
   // B may not add to A's round on this device
-  await expect(h.actions.recordReading({ roundId: roundA.id, instrumentTag: 'TI-101', valueTyped: 1, unit: '°C' })).rejects.toThrow(
-    'this round was started by Robin Aske on this device; only they add to it',
-  );
+  await expect(
+    h.actions.recordReading({ roundId: roundA.id, instrumentTag: 'TI-101', valueTyped: 1, unit: '°C' }),
+  ).rejects.toThrow('this round was started by Robin Aske on this device; only they add to it');
 
   // A signs in again: A's round, reading and photo go, under A
   signedIn.id = A.id;
@@ -68,7 +87,9 @@ test('nobody signed in: the actions refuse and nothing is sent', async () => {
   const { h, who } = await sharedDevice();
   await h.actions.startRound(RV1);
   who.current = null;
-  await expect(h.actions.startRound(RV1)).rejects.toThrow('author: nobody is signed in on this device; sign in to record');
+  await expect(h.actions.startRound(RV1)).rejects.toThrow(
+    'author: nobody is signed in on this device; sign in to record',
+  );
   const server = new FakeServer();
   await client(h, server, { author: () => null }).syncNow();
   expect(server.pushes).toEqual([]);

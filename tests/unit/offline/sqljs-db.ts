@@ -5,7 +5,14 @@
  */
 import initSqlJs from 'sql.js';
 import type { Database, SqlJsStatic } from 'sql.js';
-import { createSerialDb, type LocalDb, type RawConnection, type Row, type SqlParams, type SqlValue } from '@/offline/local-db';
+import {
+  createSerialDb,
+  type LocalDb,
+  type RawConnection,
+  type Row,
+  type SqlParams,
+  type SqlValue,
+} from '@/offline/local-db';
 
 let engine: Promise<SqlJsStatic> | null = null;
 function sqlJs(): Promise<SqlJsStatic> {

@@ -13,7 +13,12 @@ async function roundWithReadings(h: Harness, n: number) {
   const round = await h.actions.startRound(RV1);
   for (let i = 0; i < n; i++) {
     h.clock.advance(1000);
-    await h.actions.recordReading({ roundId: round.id, instrumentTag: 'TI-101', valueTyped: 180 + (i % 10) / 10, unit: '°C' });
+    await h.actions.recordReading({
+      roundId: round.id,
+      instrumentTag: 'TI-101',
+      valueTyped: 180 + (i % 10) / 10,
+      unit: '°C',
+    });
   }
   return round;
 }
@@ -21,13 +26,21 @@ async function roundWithReadings(h: Harness, n: number) {
 /** Insert many outbox rows quickly (one transaction), the way many actions would have left them. */
 async function manyReadings(h: Harness, n: number) {
   const round = await h.actions.startRound(RV1);
-  const template = await h.actions.recordReading({ roundId: round.id, instrumentTag: 'TI-101', valueTyped: 180, unit: '°C' });
+  const template = await h.actions.recordReading({
+    roundId: round.id,
+    instrumentTag: 'TI-101',
+    valueTyped: 180,
+    unit: '°C',
+  });
   const row = await h.db.first<{ payload: string }>(`SELECT payload FROM outbox WHERE record_id = ?`, [template.id]);
   await h.db.transaction(async (tx) => {
     for (let i = 0; i < n - 1; i++) {
       const id = h.ids.uuid();
       const p = { ...JSON.parse(row!.payload), id };
-      await tx.run(`INSERT INTO outbox (kind, record_id, payload, created_at) VALUES ('reading', ?, ?, '2025-11-30T07:00:00.000Z')`, [id, JSON.stringify(p)]);
+      await tx.run(
+        `INSERT INTO outbox (kind, record_id, payload, created_at) VALUES ('reading', ?, ?, '2025-11-30T07:00:00.000Z')`,
+        [id, JSON.stringify(p)],
+      );
     }
   });
   return round;
@@ -40,7 +53,9 @@ describe('push batching', () => {
     const server = new FakeServer();
     const r = await client(h, server).syncNow();
     expect(r.ok).toBe(true);
-    const sizes = server.pushes.map((b) => b.rounds.length + b.readings.length + b.checkAnswers.length + b.photos.length);
+    const sizes = server.pushes.map(
+      (b) => b.rounds.length + b.readings.length + b.checkAnswers.length + b.photos.length,
+    );
     expect(sizes).toEqual([500, 500, 201]);
     for (const b of server.pushes) {
       expect(PushRequest.safeParse(b).success).toBe(true);
@@ -56,7 +71,9 @@ describe('push batching', () => {
     const server = new FakeServer();
     await client(h, server, { batchSize: 3 }).syncNow();
     expect(server.pushes.map((b) => b.rounds.length + b.readings.length)).toEqual([3, 3, 2]);
-    expect(() => client(h, server, { batchSize: 501 })).toThrow('batchSize must be a whole number from 1 to 500, got 501');
+    expect(() => client(h, server, { batchSize: 501 })).toThrow(
+      'batchSize must be a whole number from 1 to 500, got 501',
+    );
   });
 
   test('a round queued several times (started, dismissal, finished) goes once per batch, as its latest state', async () => {
@@ -72,7 +89,11 @@ describe('push batching', () => {
     expect(body.rounds[0].dismissals.length).toBe(1);
     const server = new FakeServer();
     await client(h, server).syncNow();
-    expect(server.rounds.get(round.id)).toEqual({ status: 'finished', dismissals: 1, finishedAt: body.rounds[0].finishedAt });
+    expect(server.rounds.get(round.id)).toEqual({
+      status: 'finished',
+      dismissals: 1,
+      finishedAt: body.rounds[0].finishedAt,
+    });
   });
 
   test('the device id is made once and sent with every push; sentAt is the device clock', async () => {
@@ -142,7 +163,10 @@ describe('refused batches', () => {
         refusedAt: new Date(h.clock.t).toISOString(),
       },
     ]);
-    expect(s.lastBatchRefusal).toMatchObject({ items: 6, message: 'Invalid push: readings.2: Instrument TI-101 is out of service on this unit' });
+    expect(s.lastBatchRefusal).toMatchObject({
+      items: 6,
+      message: 'Invalid push: readings.2: Instrument TI-101 is out of service on this unit',
+    });
   });
 
   test('a refused record never blocks later records, and retryRefused puts it back in the queue', async () => {
@@ -153,7 +177,13 @@ describe('refused batches', () => {
     server.refuse.set(only.recordId, 'Value is not plausible');
     const c = client(h, server);
     await c.syncNow();
-    await h.actions.recordReading({ roundId: round.id, instrumentTag: 'PI-101', valueTyped: 10.1, unit: 'bar', reference: 'gauge' });
+    await h.actions.recordReading({
+      roundId: round.id,
+      instrumentTag: 'PI-101',
+      valueTyped: 10.1,
+      unit: 'bar',
+      reference: 'gauge',
+    });
     await c.syncNow();
     expect(await h.store.outboxCounts()).toMatchObject({ waiting: 0, sent: 2, refused: 1 });
     server.refuse.clear(); // e.g. the server was fixed
@@ -164,8 +194,25 @@ describe('refused batches', () => {
   });
 
   test('classification: 400/403/404/409/413/415/422 refuse; 0, 408, 429 and 5xx retry; 401 is signed out', () => {
-    const kinds = [400, 403, 404, 409, 413, 415, 422, 0, 408, 429, 500, 502, 503, 401].map((s) => classifyFailure(failure(s, 'x')));
-    expect(kinds).toEqual(['refused', 'refused', 'refused', 'refused', 'refused', 'refused', 'refused', 'retry', 'retry', 'retry', 'retry', 'retry', 'retry', 'signed-out']);
+    const kinds = [400, 403, 404, 409, 413, 415, 422, 0, 408, 429, 500, 502, 503, 401].map((s) =>
+      classifyFailure(failure(s, 'x')),
+    );
+    expect(kinds).toEqual([
+      'refused',
+      'refused',
+      'refused',
+      'refused',
+      'refused',
+      'refused',
+      'refused',
+      'retry',
+      'retry',
+      'retry',
+      'retry',
+      'retry',
+      'retry',
+      'signed-out',
+    ]);
     expect(classifyFailure(new TypeError('Failed to fetch'))).toBe('retry');
   });
 });

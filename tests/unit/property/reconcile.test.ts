@@ -84,14 +84,18 @@ interface Problem {
 function problem(opts: { accumulation: boolean; correlated: boolean }): fc.Arbitrary<Problem> {
   return network.chain((net) => {
     const m = net.edges.length;
-    const vec = (min: number, max: number) => fc.array(fc.double({ min, max, noNaN: true }), { minLength: m, maxLength: m });
+    const vec = (min: number, max: number) =>
+      fc.array(fc.double({ min, max, noNaN: true }), { minLength: m, maxLength: m });
     return fc
       .record({
         base: vec(10, 1000),
         rel: vec(0.001, 0.1),
         noise: vec(-3, 3),
         balanced: fc.boolean(),
-        b: fc.array(opts.accumulation ? fc.double({ min: -50, max: 50, noNaN: true }) : fc.constant(0), { minLength: net.n, maxLength: net.n }),
+        b: fc.array(opts.accumulation ? fc.double({ min: -50, max: 50, noNaN: true }) : fc.constant(0), {
+          minLength: net.n,
+          maxLength: net.n,
+        }),
         factor: fc.array(fc.double({ min: -1, max: 1, noNaN: true }), { minLength: m * 2, maxLength: m * 2 }),
       })
       .map(({ base, rel, noise, balanced, b, factor }) => {
@@ -208,7 +212,10 @@ function expectClosedForm(r: ReconcileResult, p: Problem, ref: Reference): void 
     expect(Math.abs(r.sigmas[id] ** 2 - ref.sd[i] ** 2)).toBeLessThanOrEqual(1e-7 * p.sigma[i] ** 2);
     expect(r.z[id]).not.toBeNull();
     // plus the cancellation in a correction taken as x̂ − x: ε·|x|/σ, divided by sqrt(V_e,ii)/σ
-    const cancel = (16 * Number.EPSILON * Math.max(Math.abs(p.x[i]), Math.abs(ref.xhat[i]))) / p.sigma[i] / Math.sqrt(ref.veShare[i]);
+    const cancel =
+      (16 * Number.EPSILON * Math.max(Math.abs(p.x[i]), Math.abs(ref.xhat[i]))) /
+      p.sigma[i] /
+      Math.sqrt(ref.veShare[i]);
     expect(Math.abs(r.z[id]! - ref.z[i])).toBeLessThanOrEqual(1e-8 * zScale + cancel);
   }
   expect(Math.abs(r.chiSquare - ref.chi2)).toBeLessThanOrEqual(1e-8 * Math.max(ref.chi2, 1));
@@ -218,7 +225,10 @@ function expectClosedForm(r: ReconcileResult, p: Problem, ref: Reference): void 
   p.net.a.forEach((row, k) => {
     const residual = row.reduce((s, c, i) => s + c * r.values[streamId(i)], 0) - p.b[k];
     // round-off scale: the terms at the measured and at the reconciled values
-    const scale = row.reduce((s, c, i) => s + Math.abs(c) * (Math.abs(p.x[i]) + Math.abs(r.values[streamId(i)]) + p.sigma[i] * zScale), 0);
+    const scale = row.reduce(
+      (s, c, i) => s + Math.abs(c) * (Math.abs(p.x[i]) + Math.abs(r.values[streamId(i)]) + p.sigma[i] * zScale),
+      0,
+    );
     expect(Math.abs(residual)).toBeLessThanOrEqual(1e-9 * scale);
   });
 }
@@ -269,27 +279,38 @@ describe('random linear mass-balance networks: the engine equals the closed-form
 
   test('a reading off by a unit factor (×3.6, ×100, ×1000: t/h for kg/s, kPa for bar…), a gross error of up to ~1e6 σ, still gives the closed form', () => {
     fc.assert(
-      fc.property(problem({ accumulation: false, correlated: false }), fc.nat(), fc.constantFrom(3.6, 100, 1000, 1 / 1000), (p, k, f) => {
-        const i = k % p.x.length;
-        const bad = { ...p, x: p.x.map((v, j) => (j === i ? v * f : v)) };
-        expectClosedForm(run(bad), bad, closedForm(bad));
-      }),
+      fc.property(
+        problem({ accumulation: false, correlated: false }),
+        fc.nat(),
+        fc.constantFrom(3.6, 100, 1000, 1 / 1000),
+        (p, k, f) => {
+          const i = k % p.x.length;
+          const bad = { ...p, x: p.x.map((v, j) => (j === i ? v * f : v)) };
+          expectClosedForm(run(bad), bad, closedForm(bad));
+        },
+      ),
       { numRuns: 100 },
     );
   });
 
   test('scaling every σ by c leaves x̂ and z unchanged and divides χ² by c² (WLS invariance, common practice)', () => {
     fc.assert(
-      fc.property(problem({ accumulation: false, correlated: false }), fc.double({ min: 0.01, max: 100, noNaN: true }), (p, c) => {
-        const r1 = run(p);
-        const r2 = run({ ...p, sigma: p.sigma.map((s) => s * c) });
-        for (let i = 0; i < p.x.length; i++) {
-          const id = streamId(i);
-          expect(Math.abs(r2.values[id] - r1.values[id])).toBeLessThanOrEqual(1e-9 * Math.max(Math.abs(p.x[i]), p.sigma[i] * Math.max(c, 1)));
-          expect(Math.abs(r2.z[id]! * c - r1.z[id]!)).toBeLessThanOrEqual(1e-8 * Math.max(r1.z[id]!, 1));
-        }
-        expect(Math.abs(r2.chiSquare * c * c - r1.chiSquare)).toBeLessThanOrEqual(1e-8 * Math.max(r1.chiSquare, 1));
-      }),
+      fc.property(
+        problem({ accumulation: false, correlated: false }),
+        fc.double({ min: 0.01, max: 100, noNaN: true }),
+        (p, c) => {
+          const r1 = run(p);
+          const r2 = run({ ...p, sigma: p.sigma.map((s) => s * c) });
+          for (let i = 0; i < p.x.length; i++) {
+            const id = streamId(i);
+            expect(Math.abs(r2.values[id] - r1.values[id])).toBeLessThanOrEqual(
+              1e-9 * Math.max(Math.abs(p.x[i]), p.sigma[i] * Math.max(c, 1)),
+            );
+            expect(Math.abs(r2.z[id]! * c - r1.z[id]!)).toBeLessThanOrEqual(1e-8 * Math.max(r1.z[id]!, 1));
+          }
+          expect(Math.abs(r2.chiSquare * c * c - r1.chiSquare)).toBeLessThanOrEqual(1e-8 * Math.max(r1.chiSquare, 1));
+        },
+      ),
       { numRuns: 60 },
     );
   });

@@ -53,7 +53,8 @@ const D5 = 0.1;
 
 const unit = fc.double({ min: 0, max: 1, noNaN: true });
 /** log-uniform in [lo, hi] from u in [0, 1] */
-const logBetween = (lo: number, hi: number, u: number) => Math.min(hi, Math.max(lo, Math.exp(Math.log(lo) + u * (Math.log(hi) - Math.log(lo)))));
+const logBetween = (lo: number, hi: number, u: number) =>
+  Math.min(hi, Math.max(lo, Math.exp(Math.log(lo) + u * (Math.log(hi) - Math.log(lo)))));
 const between = (lo: number, hi: number, u: number) => lo + u * (hi - lo);
 
 type Sample = { p: number; T: number; region: 1 | 2 | 3 | 5 };
@@ -82,7 +83,9 @@ const region3 = fc
   .filter(({ p, T }) => p > b23P(T + D) && T > 623.15 + D && !(p < P_CRIT && Math.abs(T - tsat(p)) < D))
   .map(({ p, T }): Sample => ({ p, T, region: 3 }));
 
-const region5 = fc.tuple(unit, unit).map(([a, b]): Sample => ({ T: between(1073.15 + D5, 2273.15, a), p: logBetween(1, 50 * MPa, b), region: 5 }));
+const region5 = fc
+  .tuple(unit, unit)
+  .map(([a, b]): Sample => ({ T: between(1073.15 + D5, 2273.15, a), p: logBetween(1, 50 * MPa, b), region: 5 }));
 
 const anyRegion = fc.oneof(region1, region2, region3, region5);
 
@@ -242,51 +245,93 @@ function expectRefusal({ input, value, run }: Call): void {
 const notFinite = fc.constantFrom(NaN, Infinity, -Infinity);
 const validP = fc.double({ min: 1, max: 50 * MPa, noNaN: true });
 const validT = fc.double({ min: 273.15, max: 2273.15, noNaN: true });
-const badP = fc.oneof(notFinite, fc.double({ max: 0, noNaN: true }), fc.double({ min: 100 * MPa, max: 1e300, noNaN: true, minExcluded: true }));
-const badT = fc.oneof(notFinite, fc.double({ max: 273.15, maxExcluded: true, noNaN: true }), fc.double({ min: 2273.15, minExcluded: true, noNaN: true }));
+const badP = fc.oneof(
+  notFinite,
+  fc.double({ max: 0, noNaN: true }),
+  fc.double({ min: 100 * MPa, max: 1e300, noNaN: true, minExcluded: true }),
+);
+const badT = fc.oneof(
+  notFinite,
+  fc.double({ max: 273.15, maxExcluded: true, noNaN: true }),
+  fc.double({ min: 2273.15, minExcluded: true, noNaN: true }),
+);
 
 describe('invalid input → SteamRangeError naming the input and its value (IF97 Sect. 2 range), never a result', () => {
   test('pt with p or T outside IF97 (p ≤ 0, p > 100 MPa, T < 273.15 K, T > 2273.15 K, NaN, ±Infinity)', () => {
     fc.assert(
-      fc.property(fc.oneof(badP.map((p) => ['p', p] as const), badT.map((T) => ['T', T] as const)), validP, validT, ([which, bad], p, T) => {
-        expectRefusal({ input: which, value: bad, run: () => (which === 'p' ? pt(bad, T) : pt(p, bad)) });
-      }),
+      fc.property(
+        fc.oneof(
+          badP.map((p) => ['p', p] as const),
+          badT.map((T) => ['T', T] as const),
+        ),
+        validP,
+        validT,
+        ([which, bad], p, T) => {
+          expectRefusal({ input: which, value: bad, run: () => (which === 'p' ? pt(bad, T) : pt(p, bad)) });
+        },
+      ),
       { numRuns: 300 },
     );
   });
 
   test('pt above 50 MPa beyond 1073.15 K (region 5 limit)', () => {
     fc.assert(
-      fc.property(fc.double({ min: 50 * MPa, max: 100 * MPa, minExcluded: true, noNaN: true }), fc.double({ min: 1073.15, max: 2273.15, minExcluded: true, noNaN: true }), (p, T) => {
-        expectRefusal({ input: 'p', value: p, run: () => pt(p, T) });
-      }),
+      fc.property(
+        fc.double({ min: 50 * MPa, max: 100 * MPa, minExcluded: true, noNaN: true }),
+        fc.double({ min: 1073.15, max: 2273.15, minExcluded: true, noNaN: true }),
+        (p, T) => {
+          expectRefusal({ input: 'p', value: p, run: () => pt(p, T) });
+        },
+      ),
       { numRuns: 100 },
     );
   });
 
   test('ph / ps with p outside IF97, h / s not finite, or beyond the 273.15 K and top-of-range states', () => {
     fc.assert(
-      fc.property(fc.boolean(), fc.double({ min: 1, max: 100 * MPa, noNaN: true }), fc.oneof(badP.map((v) => ['p', v] as const), notFinite.map((v) => ['y', v] as const), fc.constantFrom(['below', 0] as const, ['above', 0] as const)), fc.double({ min: 1e-12, max: 1e7, noNaN: true }), (useS, p, [kind, v], gap) => {
-        const name = useS ? 's' : 'h';
-        const solve = (pp: number, y: number) => (useS ? ps(pp, y) : ph(pp, y));
-        if (kind === 'p') return expectRefusal({ input: 'p', value: v, run: () => solve(v, 1e3) });
-        if (kind === 'y') return expectRefusal({ input: name, value: v, run: () => solve(p, v) });
-        const edgeState = pt(p, kind === 'below' ? 273.15 : p > 50 * MPa ? 1073.15 : 2273.15);
-        const edge = edgeState[name];
-        // a step beyond the edge state of at least 1e-9 of its scale (far more than round-off)
-        const step = Math.max(gap, 1e-9 * (useS ? sScale(edgeState) : hScale(edgeState)));
-        const y = kind === 'below' ? edge - step : edge + step;
-        expectRefusal({ input: name, value: y, run: () => solve(p, y) });
-      }),
+      fc.property(
+        fc.boolean(),
+        fc.double({ min: 1, max: 100 * MPa, noNaN: true }),
+        fc.oneof(
+          badP.map((v) => ['p', v] as const),
+          notFinite.map((v) => ['y', v] as const),
+          fc.constantFrom(['below', 0] as const, ['above', 0] as const),
+        ),
+        fc.double({ min: 1e-12, max: 1e7, noNaN: true }),
+        (useS, p, [kind, v], gap) => {
+          const name = useS ? 's' : 'h';
+          const solve = (pp: number, y: number) => (useS ? ps(pp, y) : ph(pp, y));
+          if (kind === 'p') return expectRefusal({ input: 'p', value: v, run: () => solve(v, 1e3) });
+          if (kind === 'y') return expectRefusal({ input: name, value: v, run: () => solve(p, v) });
+          const edgeState = pt(p, kind === 'below' ? 273.15 : p > 50 * MPa ? 1073.15 : 2273.15);
+          const edge = edgeState[name];
+          // a step beyond the edge state of at least 1e-9 of its scale (far more than round-off)
+          const step = Math.max(gap, 1e-9 * (useS ? sScale(edgeState) : hScale(edgeState)));
+          const y = kind === 'below' ? edge - step : edge + step;
+          expectRefusal({ input: name, value: y, run: () => solve(p, y) });
+        },
+      ),
       { numRuns: 300 },
     );
   });
 
   test('saturation: psat / tx outside 273.15 K … T_c, tsat / px outside 611.213 Pa … p_c, quality outside 0 … 1', () => {
-    const badTsat = fc.oneof(notFinite, fc.double({ max: 273.15, maxExcluded: true, noNaN: true }), fc.double({ min: T_CRIT, minExcluded: true, noNaN: true }));
-    const badPsat = fc.oneof(notFinite, fc.double({ max: P_SAT_MIN, maxExcluded: true, noNaN: true }), fc.double({ min: P_CRIT, minExcluded: true, noNaN: true }));
+    const badTsat = fc.oneof(
+      notFinite,
+      fc.double({ max: 273.15, maxExcluded: true, noNaN: true }),
+      fc.double({ min: T_CRIT, minExcluded: true, noNaN: true }),
+    );
+    const badPsat = fc.oneof(
+      notFinite,
+      fc.double({ max: P_SAT_MIN, maxExcluded: true, noNaN: true }),
+      fc.double({ min: P_CRIT, minExcluded: true, noNaN: true }),
+    );
     // −0 is excluded: it is the quality 0, a valid input
-    const badX = fc.oneof(notFinite, fc.double({ max: 0, maxExcluded: true, noNaN: true }).filter((x) => !Object.is(x, -0)), fc.double({ min: 1, minExcluded: true, noNaN: true }));
+    const badX = fc.oneof(
+      notFinite,
+      fc.double({ max: 0, maxExcluded: true, noNaN: true }).filter((x) => !Object.is(x, -0)),
+      fc.double({ min: 1, minExcluded: true, noNaN: true }),
+    );
     fc.assert(
       fc.property(badTsat, badPsat, badX, fc.double({ min: 0, max: 1, noNaN: true }), (T, p, x, goodX) => {
         expectRefusal({ input: 'T', value: T, run: () => psat(T) });

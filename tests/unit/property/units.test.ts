@@ -80,7 +80,13 @@ function icaoPressure(z: number): number {
 }
 
 /** Expected SI value by the oracle above. */
-function expectedSI(quantity: Quantity, value: number, unit: string, reference: PressureRef | undefined, baro: number): number {
+function expectedSI(
+  quantity: Quantity,
+  value: number,
+  unit: string,
+  reference: PressureRef | undefined,
+  baro: number,
+): number {
   const { factor, shift } = SP811[unit];
   const own = (value + shift) * factor;
   if (quantity !== 'pressure' || reference === 'absolute') return own;
@@ -99,7 +105,9 @@ interface Case {
 }
 const CASES: Case[] = QUANTITIES.flatMap((quantity) =>
   UNITS_BY_QUANTITY[quantity].flatMap((unit): Case[] =>
-    quantity === 'pressure' ? PRESSURE_REFERENCES.map((reference) => ({ quantity, unit, reference })) : [{ quantity, unit }],
+    quantity === 'pressure'
+      ? PRESSURE_REFERENCES.map((reference) => ({ quantity, unit, reference }))
+      : [{ quantity, unit }],
   ),
 );
 
@@ -116,7 +124,8 @@ const site = fc.oneof(
  */
 function valueArb(c: Case, baro: number): fc.Arbitrary<number> {
   const { factor, shift } = SP811[c.unit];
-  const logU = (lo: number, hi: number) => fc.double({ min: Math.log10(lo), max: Math.log10(hi), noNaN: true }).map((e) => 10 ** e);
+  const logU = (lo: number, hi: number) =>
+    fc.double({ min: Math.log10(lo), max: Math.log10(hi), noNaN: true }).map((e) => 10 ** e);
   if (c.quantity === 'pressure') {
     const absPa = logU(1e-3, 1e9);
     if (c.reference === 'absolute') return absPa.map((p) => p / factor);
@@ -179,7 +188,12 @@ describe('toSI agrees with the SP 811 factors and the reference definitions (eve
         // the oracle: the same absolute state expressed in the target unit / reference
         const si = expectedSI(quantity, value, unit, reference, baro);
         const { factor, shift } = SP811[to.unit];
-        const own = quantity === 'pressure' && to.reference !== 'absolute' ? (to.reference === 'gauge' ? si - baro : baro - si) : si;
+        const own =
+          quantity === 'pressure' && to.reference !== 'absolute'
+            ? to.reference === 'gauge'
+              ? si - baro
+              : baro - si
+            : si;
         const expected = own / factor - shift;
         // gauge and vacuum values carry the barometric pressure's digits, °C and °F those of their
         // offsets, in either unit of the pair (see the header): the tolerance scale in SI
@@ -215,7 +229,9 @@ describe('toSI agrees with the SP 811 factors and the reference definitions (eve
         expect(parsed.unit).toBe(unit);
         expect(parsed.reference).toBe(reference);
         const shown = fromSI(quantity, si, unit, reference, ctx);
-        expect(Math.abs(parsed.value - shown)).toBeLessThanOrEqual(0.5 * 10 ** -digits * (1 + 1e-9) + 1e-15 * Math.abs(shown));
+        expect(Math.abs(parsed.value - shown)).toBeLessThanOrEqual(
+          0.5 * 10 ** -digits * (1 + 1e-9) + 1e-15 * Math.abs(shown),
+        );
       }),
       { numRuns: 300 },
     );
@@ -247,7 +263,26 @@ function outcome(f: () => unknown): { ok: true; value: unknown } | { ok: false; 
 
 /** Number-like garbage: NaN / Infinity spellings, huge exponents, decimal commas, stray signs. */
 const numberGarbage = fc.oneof(
-  fc.constantFrom('NaN', 'nan', '-NaN', 'Infinity', '-Infinity', '+inf', 'INF', '−Infinity', '1e400', '-1e999', '1,5', '12,75', '--1', '+-3', '.', 'e5', '', '   '),
+  fc.constantFrom(
+    'NaN',
+    'nan',
+    '-NaN',
+    'Infinity',
+    '-Infinity',
+    '+inf',
+    'INF',
+    '−Infinity',
+    '1e400',
+    '-1e999',
+    '1,5',
+    '12,75',
+    '--1',
+    '+-3',
+    '.',
+    'e5',
+    '',
+    '   ',
+  ),
   fc.integer({ min: 309, max: 100_000 }).map((e) => `9.9e${e}`),
   fc.integer({ min: 309, max: 100_000 }).map((e) => `-1e+${e}`),
   fc.tuple(fc.integer({ min: 0, max: 99 }), fc.integer({ min: 1, max: 999 })).map(([a, b]) => `${a},${b}`),
@@ -262,7 +297,9 @@ describe('bad input: a UnitError that names the input, never NaN or Infinity (pr
           fc.string({ unit: 'binary', maxLength: 40 }),
           fc.tuple(numberGarbage, fc.constantFrom('', ' '), unitText).map(([n, sp, u]) => `${n}${sp}${u}`),
           fc.tuple(fc.double(), unitText).map(([x, u]) => `${x} ${u}`),
-          fc.tuple(fc.double({ min: -1e6, max: 1e6, noNaN: true }), fc.string({ maxLength: 8 })).map(([x, u]) => `${x} ${u}`),
+          fc
+            .tuple(fc.double({ min: -1e6, max: 1e6, noNaN: true }), fc.string({ maxLength: 8 }))
+            .map(([x, u]) => `${x} ${u}`),
         ),
         (text) => {
           const r = outcome(() => parseQuantity(text));
@@ -293,7 +330,13 @@ describe('bad input: a UnitError that names the input, never NaN or Infinity (pr
         const calls: (() => unknown)[] = [
           () => toSI({ quantity: c.quantity, value: bad, unit: c.unit, reference: c.reference }, s.ctx),
           () => fromSI(c.quantity, bad, c.unit, c.reference, s.ctx),
-          () => convert({ quantity: c.quantity, value: bad, unit: c.unit, reference: c.reference }, c.unit, c.reference, s.ctx),
+          () =>
+            convert(
+              { quantity: c.quantity, value: bad, unit: c.unit, reference: c.reference },
+              c.unit,
+              c.reference,
+              s.ctx,
+            ),
           () => toSIDelta({ quantity: c.quantity, value: bad, unit: c.unit }),
           () => fromSIDelta(c.quantity, bad, c.unit),
         ];
@@ -322,7 +365,13 @@ describe('bad input: a UnitError that names the input, never NaN or Infinity (pr
           const calls: (() => unknown)[] = [
             () => toSI({ quantity: c.quantity, value, unit: c.unit, reference: c.reference }, s.ctx),
             () => fromSI(c.quantity, value, c.unit, c.reference, s.ctx),
-            () => convert({ quantity: c.quantity, value, unit: c.unit, reference: c.reference }, c.unit, c.reference, s.ctx),
+            () =>
+              convert(
+                { quantity: c.quantity, value, unit: c.unit, reference: c.reference },
+                c.unit,
+                c.reference,
+                s.ctx,
+              ),
             () => toSIDelta({ quantity: c.quantity, value, unit: c.unit }),
             () => fromSIDelta(c.quantity, value, c.unit),
           ];
@@ -349,9 +398,13 @@ describe('bad input: a UnitError that names the input, never NaN or Infinity (pr
         fc.constantFrom(...CASES.filter((c) => c.reference && c.reference !== 'absolute')),
         fc.oneof(
           fc.constantFrom(NaN, Infinity, -Infinity).map((b) => ({ barometricPa: b }) as const),
-          fc.oneof(fc.double({ max: 19_999.999, noNaN: true }), fc.double({ min: 120_000.001, noNaN: true })).map((b) => ({ barometricPa: b })),
+          fc
+            .oneof(fc.double({ max: 19_999.999, noNaN: true }), fc.double({ min: 120_000.001, noNaN: true }))
+            .map((b) => ({ barometricPa: b })),
           fc.constantFrom(NaN, Infinity, -Infinity).map((z) => ({ elevationM: z })),
-          fc.oneof(fc.double({ max: -1000.001, noNaN: true }), fc.double({ min: 11_000.001, noNaN: true })).map((z) => ({ elevationM: z })),
+          fc
+            .oneof(fc.double({ max: -1000.001, noNaN: true }), fc.double({ min: 11_000.001, noNaN: true }))
+            .map((z) => ({ elevationM: z })),
         ),
         (c, ctx) => {
           const r = outcome(() => toSI({ quantity: c.quantity, value: 1, unit: c.unit, reference: c.reference }, ctx));
@@ -373,9 +426,19 @@ describe('bad input: a UnitError that names the input, never NaN or Infinity (pr
       fc.property(
         fc.constantFrom(...CASES.filter((c) => c.quantity === 'pressure')),
         fc.double({ min: 1, max: 1e6, noNaN: true }),
-        fc.option(fc.string({ minLength: 1, maxLength: 10 }).filter((s) => !(PRESSURE_REFERENCES as readonly string[]).includes(s)), { nil: undefined }),
+        fc.option(
+          fc
+            .string({ minLength: 1, maxLength: 10 })
+            .filter((s) => !(PRESSURE_REFERENCES as readonly string[]).includes(s)),
+          { nil: undefined },
+        ),
         (c, value, reference) => {
-          const r = outcome(() => toSI({ quantity: 'pressure', value, unit: c.unit, reference: reference as PressureRef }, { barometricPa: 1e5 }));
+          const r = outcome(() =>
+            toSI(
+              { quantity: 'pressure', value, unit: c.unit, reference: reference as PressureRef },
+              { barometricPa: 1e5 },
+            ),
+          );
           expect(r.ok).toBe(false);
           const e = (r as { error: unknown }).error as UnitError;
           expect(e).toBeInstanceOf(UnitError);

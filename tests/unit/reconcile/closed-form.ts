@@ -11,7 +11,8 @@ export type Mat = number[][];
 export type Vec = number[];
 
 export const T = (a: Mat): Mat => a[0].map((_, j) => a.map((row) => row[j]));
-export const mul = (a: Mat, b: Mat): Mat => a.map((row) => b[0].map((_, j) => row.reduce((s, aik, k) => s + aik * b[k][j], 0)));
+export const mul = (a: Mat, b: Mat): Mat =>
+  a.map((row) => b[0].map((_, j) => row.reduce((s, aik, k) => s + aik * b[k][j], 0)));
 export const mulv = (a: Mat, x: Vec): Vec => a.map((row) => row.reduce((s, aij, j) => s + aij * x[j], 0));
 export const diag = (d: Vec): Mat => d.map((di, i) => d.map((_, j) => (i === j ? di : 0)));
 
@@ -33,7 +34,11 @@ export function solve(a: Mat, b: Mat): Mat {
   }
   return m.map((row, i) => row.slice(n).map((v) => v / m[i][i]));
 }
-export const solvev = (a: Mat, b: Vec): Vec => solve(a, b.map((v) => [v])).map((r) => r[0]);
+export const solvev = (a: Mat, b: Vec): Vec =>
+  solve(
+    a,
+    b.map((v) => [v]),
+  ).map((r) => r[0]);
 
 export interface ClosedForm {
   xhat: Vec;
@@ -94,7 +99,10 @@ export function lagrangeNewton(p: NlpProblem, iters = 50): { z: Vec; lambda: Vec
     const h: Mat = diag(p.weights);
     hs.forEach((hk, k) => hk.forEach((row, a) => row.forEach((v, b) => (h[a][b] += lambda[k] * v))));
     const grad = z.map((zi, i) => p.weights[i] * (zi - p.zm[i]) + j.reduce((s, row, k) => s + row[i] * lambda[k], 0));
-    const kkt: Mat = [...h.map((row, a) => [...row, ...j.map((r) => r[a])]), ...j.map((row) => [...row, ...new Array(m).fill(0)])];
+    const kkt: Mat = [
+      ...h.map((row, a) => [...row, ...j.map((r) => r[a])]),
+      ...j.map((row) => [...row, ...new Array(m).fill(0)]),
+    ];
     const rhs = [...grad.map((v) => -v), ...g.map((v) => -v)];
     const step = solvev(kkt, rhs);
     z = z.map((zi, i) => zi + step[i]);

@@ -14,7 +14,9 @@ import { closedForm, covFromSigmas, type Mat } from './closed-form';
 
 const ids = (n: number, p = 'F') => Array.from({ length: n }, (_, i) => `${p}${i + 1}`);
 const fromMatrix = (m: Mat, cols: string[], rowNames: string[]) =>
-  m.map((row, k) => linear(rowNames[k], Object.fromEntries(row.map((c, i) => [cols[i], c]).filter(([, c]) => c !== 0))));
+  m.map((row, k) =>
+    linear(rowNames[k], Object.fromEntries(row.map((c, i) => [cols[i], c]).filter(([, c]) => c !== 0))),
+  );
 
 const names = ids(6);
 const x = [101.91, 64.45, 34.65, 64.2, 36.44, 98.88];
@@ -26,8 +28,12 @@ const a: Mat = [
   [0, 0, 0, 1, 1, -1],
 ];
 const ref = closedForm(a, [0, 0, 0, 0], x, covFromSigmas(s));
-const r = reconcile({ measured: names.map((id, i) => ({ id, value: x[i], sigma: s[i] })), constraints: fromMatrix(a, names, ['split', 'hx', 'valve', 'mix']) });
-const at = (cov: { ids: string[]; matrix: number[] }, i: string, j: string) => cov.matrix[cov.ids.indexOf(i) * cov.ids.length + cov.ids.indexOf(j)];
+const r = reconcile({
+  measured: names.map((id, i) => ({ id, value: x[i], sigma: s[i] })),
+  constraints: fromMatrix(a, names, ['split', 'hx', 'valve', 'mix']),
+});
+const at = (cov: { ids: string[]; matrix: number[] }, i: string, j: string) =>
+  cov.matrix[cov.ids.indexOf(i) * cov.ids.length + cov.ids.indexOf(j)];
 
 test('covariance of the reconciled values equals Σ − ΣAᵀ(AΣAᵀ)⁻¹AΣ, off the diagonal too', () => {
   expect(r.covariance.ids).toEqual(names);
@@ -35,8 +41,13 @@ test('covariance of the reconciled values equals Σ − ΣAᵀ(AΣAᵀ)⁻¹AΣ,
 });
 
 test('covariance of the corrections equals ΣAᵀ(AΣAᵀ)⁻¹AΣ; their correlation is V_ij/√(V_ii V_jj)', () => {
-  names.forEach((p, i) => names.forEach((q, j) => expect(at(r.correctionCovariance, p, q)).toBeCloseTo(ref.ve[i][j], 10)));
-  expect(correlationIn(r.correctionCovariance, 'F1', 'F6')).toBeCloseTo(ref.ve[0][5] / Math.sqrt(ref.ve[0][0] * ref.ve[5][5]), 10);
+  names.forEach((p, i) =>
+    names.forEach((q, j) => expect(at(r.correctionCovariance, p, q)).toBeCloseTo(ref.ve[i][j], 10)),
+  );
+  expect(correlationIn(r.correctionCovariance, 'F1', 'F6')).toBeCloseTo(
+    ref.ve[0][5] / Math.sqrt(ref.ve[0][0] * ref.ve[5][5]),
+    10,
+  );
   expect(correlationIn(r.correctionCovariance, 'F1', 'nope')).toBeNull();
 });
 
@@ -45,7 +56,12 @@ test('an observable unmeasured variable: its covariance with the measured ones i
   const res = reconcile({
     measured: m.map((id) => ({ id, value: x[names.indexOf(id)], sigma: s[names.indexOf(id)] })),
     unmeasured: [{ id: 'F2' }],
-    constraints: [linear('split', { F1: 1, F2: -1, F3: -1 }), linear('hx', { F2: 1, F4: -1 }), linear('valve', { F3: 1, F5: -1 }), linear('mix', { F4: 1, F5: 1, F6: -1 })],
+    constraints: [
+      linear('split', { F1: 1, F2: -1, F3: -1 }),
+      linear('hx', { F2: 1, F4: -1 }),
+      linear('valve', { F3: 1, F5: -1 }),
+      linear('mix', { F4: 1, F5: 1, F6: -1 }),
+    ],
   });
   expect(res.covariance.ids).toEqual([...m, 'F2']);
   for (const q of [...m, 'F2']) expect(at(res.covariance, 'F2', q)).toBeCloseTo(at(res.covariance, 'F4', q), 9);

@@ -6,7 +6,9 @@ const ids = (n: number, p = 'F') => Array.from({ length: n }, (_, i) => `${p}${i
 
 /** incidence matrix rows → linear() constraints (rhs 0) */
 const fromMatrix = (a: Mat, names: string[], rowNames: string[]) =>
-  a.map((row, k) => linear(rowNames[k], Object.fromEntries(row.map((c, i) => [names[i], c]).filter(([, c]) => c !== 0))));
+  a.map((row, k) =>
+    linear(rowNames[k], Object.fromEntries(row.map((c, i) => [names[i], c]).filter(([, c]) => c !== 0))),
+  );
 
 describe('linear flow network: heat exchanger with bypass (Narasimhan & Jordache 1999, data from memory)', () => {
   // Values recalled from memory of Narasimhan & Jordache (1999), "Data Reconciliation & Gross
@@ -248,7 +250,10 @@ describe('serial elimination finds a 10σ gross error (serial elimination with t
   ];
   const cons = fromMatrix(a, names, ['N1', 'N2', 'N3', 'N4']);
   test('no gross error: global test passes, no suspect', () => {
-    const r = reconcile({ measured: names.map((id, i) => ({ id, value: truth[i] + noise[i] * s[i], sigma: s[i] })), constraints: cons });
+    const r = reconcile({
+      measured: names.map((id, i) => ({ id, value: truth[i] + noise[i] * s[i], sigma: s[i] })),
+      constraints: cons,
+    });
     expect(r.passed).toBe(true);
     expect(r.suspects).toEqual([]);
     expect(r.final.chiSquare).toBe(r.chiSquare);
@@ -274,7 +279,12 @@ describe('serial elimination finds a 10σ gross error (serial elimination with t
       .filter((_, i) => i !== k)
       .map((row) => row.map((v, c) => v - (row[j] / a[k][j]) * a[k][c]).filter((_, c) => c !== j));
     const keep = names.map((_, i) => i).filter((i) => i !== j);
-    const fin = closedForm(red, new Array(red.length).fill(0), keep.map((i) => x[i]), covFromSigmas(keep.map((i) => s[i])));
+    const fin = closedForm(
+      red,
+      new Array(red.length).fill(0),
+      keep.map((i) => x[i]),
+      covFromSigmas(keep.map((i) => s[i])),
+    );
     keep.forEach((i, c) => expect(r.final.values[names[i]]).toBeCloseTo(fin.xhat[c], 8));
     expect(r.final.chiSquare).toBeCloseTo(fin.chi2, 8);
     expect(r.final.chiSquare).toBeLessThan(r.final.critical);
@@ -284,34 +294,30 @@ describe('serial elimination finds a 10σ gross error (serial elimination with t
 describe('random linear networks: engine equals the closed form (property test, fast-check)', () => {
   test('x̂, σ and χ² agree for random full-row-rank incidence matrices', () => {
     fc.assert(
-      fc.property(
-        fc.integer({ min: 3, max: 9 }),
-        fc.integer({ min: 0, max: 1_000_000 }),
-        (n, seed) => {
-          let st = seed + 1;
-          const rnd = () => ((st = (st * 16807) % 2147483647) / 2147483647);
-          const m = Math.max(1, Math.floor(n / 2));
-          // constraint k ties variable k to a random mix of the others (full row rank by construction)
-          const a: Mat = Array.from({ length: m }, (_, k) =>
-            Array.from({ length: n }, (_, i) => (i === k ? 1 : i >= m && rnd() < 0.6 ? -(0.2 + rnd()) : 0)),
-          );
-          for (let k = 0; k < m; k++) a[k][m + (k % (n - m))] = -(0.5 + rnd());
-          const x = Array.from({ length: n }, () => 10 + 90 * rnd());
-          const s = Array.from({ length: n }, () => 0.1 + 2 * rnd());
-          const names = ids(n, 'v');
-          const ref = closedForm(a, new Array(m).fill(0), x, covFromSigmas(s));
-          const r = reconcile({
-            measured: names.map((id, i) => ({ id, value: x[i], sigma: s[i] })),
-            constraints: fromMatrix(a, names, ids(m, 'c')),
-          });
-          names.forEach((id, i) => {
-            expect(r.values[id]).toBeCloseTo(ref.xhat[i], 8);
-            expect(r.sigmas[id]).toBeCloseTo(Math.sqrt(ref.cov[i][i]), 8);
-          });
-          expect(r.chiSquare).toBeCloseTo(ref.chi2, 6);
-          expect(r.dof).toBe(m);
-        },
-      ),
+      fc.property(fc.integer({ min: 3, max: 9 }), fc.integer({ min: 0, max: 1_000_000 }), (n, seed) => {
+        let st = seed + 1;
+        const rnd = () => (st = (st * 16807) % 2147483647) / 2147483647;
+        const m = Math.max(1, Math.floor(n / 2));
+        // constraint k ties variable k to a random mix of the others (full row rank by construction)
+        const a: Mat = Array.from({ length: m }, (_, k) =>
+          Array.from({ length: n }, (_, i) => (i === k ? 1 : i >= m && rnd() < 0.6 ? -(0.2 + rnd()) : 0)),
+        );
+        for (let k = 0; k < m; k++) a[k][m + (k % (n - m))] = -(0.5 + rnd());
+        const x = Array.from({ length: n }, () => 10 + 90 * rnd());
+        const s = Array.from({ length: n }, () => 0.1 + 2 * rnd());
+        const names = ids(n, 'v');
+        const ref = closedForm(a, new Array(m).fill(0), x, covFromSigmas(s));
+        const r = reconcile({
+          measured: names.map((id, i) => ({ id, value: x[i], sigma: s[i] })),
+          constraints: fromMatrix(a, names, ids(m, 'c')),
+        });
+        names.forEach((id, i) => {
+          expect(r.values[id]).toBeCloseTo(ref.xhat[i], 8);
+          expect(r.sigmas[id]).toBeCloseTo(Math.sqrt(ref.cov[i][i]), 8);
+        });
+        expect(r.chiSquare).toBeCloseTo(ref.chi2, 6);
+        expect(r.dof).toBe(m);
+      }),
       { numRuns: 60 },
     );
   });

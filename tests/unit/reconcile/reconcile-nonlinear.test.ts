@@ -168,7 +168,10 @@ describe('gas flow through a differential-pressure meter: m = C·sqrt(Δp·p/(R�
       zm: meas.map((x) => x.value),
       weights: meas.map((x) => 1 / x.sigma ** 2),
       z0: meas.map((x) => x.value),
-      g: ([m, m2, dp, p, t]) => [m - m2, Math.log(m) - Math.log(C) - 0.5 * (Math.log(dp) + Math.log(p) - Math.log(R) - Math.log(t))],
+      g: ([m, m2, dp, p, t]) => [
+        m - m2,
+        Math.log(m) - Math.log(C) - 0.5 * (Math.log(dp) + Math.log(p) - Math.log(R) - Math.log(t)),
+      ],
       jac: ([m, , dp, p, t]) => [
         [1, -1, 0, 0, 0],
         [1 / m, 0, -0.5 / dp, -0.5 / p, 0.5 / t],

@@ -34,21 +34,42 @@ describe('input validation', () => {
       message: expect.stringContaining('"a"'),
     });
     expect(codeOf(() => reconcile(two({ unmeasured: [{ id: 'b' }] }))).code).toBe('DUPLICATE_ID');
-    expect(codeOf(() => reconcile(two({ constraints: [linear('c', { a: 1, b: -1 }), linear('c', { a: 1, b: -1 })] }))).code).toBe(
-      'DUPLICATE_ID',
-    );
+    expect(
+      codeOf(() => reconcile(two({ constraints: [linear('c', { a: 1, b: -1 }), linear('c', { a: 1, b: -1 })] }))).code,
+    ).toBe('DUPLICATE_ID');
   });
-  test.each([0, -0.1, Number.NaN, Number.POSITIVE_INFINITY])('sigma %p is refused, naming the measurement and value', (sigma) => {
-    const e = codeOf(() => reconcile({ ...two(), measured: [{ id: 'a', value: 1, sigma }, { id: 'b', value: 1, sigma: 1 }] }));
-    expect(e.code).toBe('INVALID_SIGMA');
-    expect(e.message).toContain('"a"');
-    expect(e.message).toContain(String(sigma));
-  });
+  test.each([0, -0.1, Number.NaN, Number.POSITIVE_INFINITY])(
+    'sigma %p is refused, naming the measurement and value',
+    (sigma) => {
+      const e = codeOf(() =>
+        reconcile({
+          ...two(),
+          measured: [
+            { id: 'a', value: 1, sigma },
+            { id: 'b', value: 1, sigma: 1 },
+          ],
+        }),
+      );
+      expect(e.code).toBe('INVALID_SIGMA');
+      expect(e.message).toContain('"a"');
+      expect(e.message).toContain(String(sigma));
+    },
+  );
   test('non-finite value and guess, empty id', () => {
-    expect(codeOf(() => reconcile({ ...two(), measured: [{ id: 'a', value: Number.NaN, sigma: 1 }, { id: 'b', value: 1, sigma: 1 }] })).code).toBe(
+    expect(
+      codeOf(() =>
+        reconcile({
+          ...two(),
+          measured: [
+            { id: 'a', value: Number.NaN, sigma: 1 },
+            { id: 'b', value: 1, sigma: 1 },
+          ],
+        }),
+      ).code,
+    ).toBe('INVALID_VALUE');
+    expect(codeOf(() => reconcile(two({ unmeasured: [{ id: 'u', guess: Number.POSITIVE_INFINITY }] }))).code).toBe(
       'INVALID_VALUE',
     );
-    expect(codeOf(() => reconcile(two({ unmeasured: [{ id: 'u', guess: Number.POSITIVE_INFINITY }] }))).code).toBe('INVALID_VALUE');
     expect(codeOf(() => reconcile({ ...two(), measured: [{ id: '', value: 1, sigma: 1 }] })).code).toBe('INVALID_ID');
   });
   test('constraint reading an unknown id (Proxy on the values), and a linear() typo', () => {
@@ -56,14 +77,20 @@ describe('input validation', () => {
     expect(e.code).toBe('UNKNOWN_VARIABLE');
     expect(e.message).toContain('"typo"');
     expect(e.message).toContain('"bb"');
-    expect(codeOf(() => reconcile(two({ constraints: [linear('lin', { a: 1, B: -1 })] }))).code).toBe('UNKNOWN_VARIABLE');
+    expect(codeOf(() => reconcile(two({ constraints: [linear('lin', { a: 1, B: -1 })] }))).code).toBe(
+      'UNKNOWN_VARIABLE',
+    );
   });
   test.each([1, -1, 1.5, Number.NaN])('correlation rho %p outside (-1, 1) is refused', (rho) => {
     expect(codeOf(() => reconcile(two({ correlations: [{ a: 'a', b: 'b', rho }] }))).code).toBe('INVALID_CORRELATION');
   });
   test('correlation with an unknown or unmeasured id, with itself, or given twice', () => {
-    expect(codeOf(() => reconcile(two({ correlations: [{ a: 'a', b: 'zz', rho: 0.2 }] }))).code).toBe('INVALID_CORRELATION');
-    expect(codeOf(() => reconcile(two({ correlations: [{ a: 'a', b: 'a', rho: 0.2 }] }))).code).toBe('INVALID_CORRELATION');
+    expect(codeOf(() => reconcile(two({ correlations: [{ a: 'a', b: 'zz', rho: 0.2 }] }))).code).toBe(
+      'INVALID_CORRELATION',
+    );
+    expect(codeOf(() => reconcile(two({ correlations: [{ a: 'a', b: 'a', rho: 0.2 }] }))).code).toBe(
+      'INVALID_CORRELATION',
+    );
     expect(
       codeOf(() =>
         reconcile(
@@ -129,22 +156,37 @@ describe('numerical refusals', () => {
     expect(e.message).toContain('table lookup failed');
   });
   test('zero gradient with a non-zero residual is singular', () => {
-    const e = codeOf(() => reconcile(two({ constraints: [linear('ab', { a: 1, b: -1 }), { id: 'flat', f: (v) => 0 * v.a + 1 }] })));
+    const e = codeOf(() =>
+      reconcile(two({ constraints: [linear('ab', { a: 1, b: -1 }), { id: 'flat', f: (v) => 0 * v.a + 1 }] })),
+    );
     expect(e.code).toBe('SINGULAR');
     expect(e.message).toContain('"flat"');
   });
   test('contradicting dependent constraints are inconsistent', () => {
     const e = codeOf(() =>
-      reconcile(two({ unmeasured: [{ id: 'u' }], constraints: [linear('ab', { a: 1, b: -1 }), linear('u1', { u: 1 }, 1), linear('u2', { u: 1 }, 2)] })),
+      reconcile(
+        two({
+          unmeasured: [{ id: 'u' }],
+          constraints: [linear('ab', { a: 1, b: -1 }), linear('u1', { u: 1 }, 1), linear('u2', { u: 1 }, 2)],
+        }),
+      ),
     );
     expect(e.code).toBe('INCONSISTENT');
   });
   test('no redundancy (dof 0) is refused, naming the observable unmeasured', () => {
-    const e = codeOf(() => reconcile({ measured: [{ id: 'a', value: 1, sigma: 0.1 }], unmeasured: [{ id: 'u' }], constraints: [linear('c', { a: 1, u: -1 })] }));
+    const e = codeOf(() =>
+      reconcile({
+        measured: [{ id: 'a', value: 1, sigma: 0.1 }],
+        unmeasured: [{ id: 'u' }],
+        constraints: [linear('c', { a: 1, u: -1 })],
+      }),
+    );
     expect(e.code).toBe('NOT_REDUNDANT');
   });
   test('a constraint with no real solution does not converge: x² + 1 = 0', () => {
-    const e = codeOf(() => reconcile(two({ constraints: [linear('ab', { a: 1, b: -1 }), { id: 'sq', f: (v) => v.a * v.a + 1 }] })));
+    const e = codeOf(() =>
+      reconcile(two({ constraints: [linear('ab', { a: 1, b: -1 }), { id: 'sq', f: (v) => v.a * v.a + 1 }] })),
+    );
     expect(e.code).toBe('NOT_CONVERGED');
     expect(e.message).toContain('50');
   });
@@ -160,10 +202,17 @@ describe('numerical refusals', () => {
     expect(e.code).toBe('NOT_CONVERGED');
   });
   test('results never carry NaN: a zero-residual problem gives zeros, not 0/0', () => {
-    const r = reconcile({ measured: [{ id: 'a', value: 5, sigma: 1 }, { id: 'b', value: 5, sigma: 1 }], constraints: [linear('ab', { a: 1, b: -1 })] });
+    const r = reconcile({
+      measured: [
+        { id: 'a', value: 5, sigma: 1 },
+        { id: 'b', value: 5, sigma: 1 },
+      ],
+      constraints: [linear('ab', { a: 1, b: -1 })],
+    });
     expect(r.chiSquare).toBe(0);
     expect(r.z.a).toBe(0);
     expect(r.passed).toBe(true);
-    for (const v of [...Object.values(r.values), ...Object.values(r.sigmas), ...Object.values(r.corrections)]) expect(Number.isFinite(v)).toBe(true);
+    for (const v of [...Object.values(r.values), ...Object.values(r.sigmas), ...Object.values(r.corrections)])
+      expect(Number.isFinite(v)).toBe(true);
   });
 });

@@ -93,7 +93,9 @@ test('demo unit at design (nonlinear IF97 balances): the diagonal equals reconci
   expect(s.outputs.length).toBeGreaterThan(eq.measured.length);
   for (const id of s.outputs) {
     const sd = Math.sqrt(Math.max(0, s.covariance(id, id)));
-    expect(Math.abs(sd - res.final.sigmas[id])).toBeLessThanOrEqual(1e-6 * Math.max(res.final.sigmas[id], 1e-9) + 1e-12);
+    expect(Math.abs(sd - res.final.sigmas[id])).toBeLessThanOrEqual(
+      1e-6 * Math.max(res.final.sigmas[id], 1e-9) + 1e-12,
+    );
   }
   // analyseRound runs on the same system: it stays a valid analysis
   expect(analyseRound(demoUnit, readings, { barometricPa: b }).reconciliation.ok).toBe(true);

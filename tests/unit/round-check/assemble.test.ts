@@ -31,9 +31,14 @@ describe('the unit-level readings of a round', () => {
       [cw.roundId, ROUTE_NAME['condenser-cooling-water']],
     ]);
     // the site barometer (PI-001) is not a cycle instrument: it is not borrowed
-    expect(a.borrowed[0].tags.sort()).toEqual(tagsOf('boiler-house').filter((t) => t !== 'PI-001').sort());
+    expect(a.borrowed[0].tags.sort()).toEqual(
+      tagsOf('boiler-house')
+        .filter((t) => t !== 'PI-001')
+        .sort(),
+    );
     expect(a.borrowed[1].tags.sort()).toEqual(tagsOf('condenser-cooling-water').sort());
-    for (const t of tagsOf('turbine-hall')) expect(a.sources[t]).toEqual({ roundId: th.roundId, readingId: th.readingIds[t], own: true });
+    for (const t of tagsOf('turbine-hall'))
+      expect(a.sources[t]).toEqual({ roundId: th.roundId, readingId: th.readingIds[t], own: true });
     expect(a.notRead).toEqual([]);
   });
 
@@ -47,7 +52,9 @@ describe('the unit-level readings of a round', () => {
     const review = checkRound(await inputOf(d, th.roundId));
     const cwTags = tagsOf('condenser-cooling-water');
     expect(review.assembled.notRead.map((n) => n.tag).sort()).toEqual([...cwTags].sort());
-    expect(new Set(review.assembled.notRead.map((n) => n.routeName))).toEqual(new Set([ROUTE_NAME['condenser-cooling-water']]));
+    expect(new Set(review.assembled.notRead.map((n) => n.routeName))).toEqual(
+      new Set([ROUTE_NAME['condenser-cooling-water']]),
+    );
     expect(review.complete).toBe(false);
     const condenser = review.balances.find((l) => l.equipmentId === 'cond')!;
     expect(condenser.status).toBe('incomplete');
@@ -65,7 +72,10 @@ describe('the unit-level readings of a round', () => {
     const a = assembleRoundCheck(await inputOf(d, th.roundId));
     expect(a.sources['TI-302']).toEqual({ roundId: later.roundId, readingId: later.readingIds['TI-302'], own: false });
     // °C → K (ITS-90: T/K = t/°C + 273.15)
-    expect(a.readings.find((r) => r.instrumentTag === 'TI-302')!.valueSI).toBeCloseTo(typed['TI-302'] + 0.5 + 273.15, 9);
+    expect(a.readings.find((r) => r.instrumentTag === 'TI-302')!.valueSI).toBeCloseTo(
+      typed['TI-302'] + 0.5 + 273.15,
+      9,
+    );
   });
 
   test('an instrument of this route that this round skipped stays missing even when another round read it', async () => {
@@ -75,7 +85,11 @@ describe('the unit-level readings of a round', () => {
     const th = await walk(d, 'turbine-hall', typed, { skip: ['TI-206'] });
     const a = assembleRoundCheck(await inputOf(d, th.roundId));
     expect(a.sources['TI-206']).toBeUndefined();
-    expect(a.notRead.find((n) => n.tag === 'TI-206')).toEqual({ tag: 'TI-206', routeName: ROUTE_NAME['turbine-hall'], onThisRoute: true });
+    expect(a.notRead.find((n) => n.tag === 'TI-206')).toEqual({
+      tag: 'TI-206',
+      routeName: ROUTE_NAME['turbine-hall'],
+      onThisRoute: true,
+    });
   });
 
   test('earlier rounds of the same route are the stuck-value history, oldest first', async () => {
@@ -97,8 +111,12 @@ describe('the unit-level readings of a round', () => {
     const input = await inputOf(d, th.roundId);
     expect(() => assembleRoundCheck({ ...input, at: Number.NaN })).toThrow(RoundCheckInputError);
     expect(() => assembleRoundCheck({ ...input, at: Number.NaN })).toThrow(/^at: must be a time in ms/);
-    expect(() => assembleRoundCheck({ ...input, windowHours: -1 })).toThrow(/windowHours: must be a positive number of hours \(got -1\)/);
+    expect(() => assembleRoundCheck({ ...input, windowHours: -1 })).toThrow(
+      /windowHours: must be a positive number of hours \(got -1\)/,
+    );
     const bad = { ...input.round, readings: [{ ...input.round.readings[0], valueSI: Number.NaN }] };
-    expect(() => assembleRoundCheck({ ...input, round: bad })).toThrow(/round\.readings\.0\.valueSI: PI-102: must be a finite SI value or null/);
+    expect(() => assembleRoundCheck({ ...input, round: bad })).toThrow(
+      /round\.readings\.0\.valueSI: PI-102: must be a finite SI value or null/,
+    );
   });
 });

@@ -18,21 +18,55 @@ import { checkRound, type RoundCheck } from '@/shared/round-check';
 import { loadRoundCheckInput } from '@/offline/round-check';
 import { demoDevice, demoPull, designTyped, differences, serverSideInput, walk, type Device } from './helpers';
 
-type Case = { name: string; review: string; faults: Record<string, Record<string, (v: number) => number>>; retake?: string; expectSuspects: string[] };
+type Case = {
+  name: string;
+  review: string;
+  faults: Record<string, Record<string, (v: number) => number>>;
+  retake?: string;
+  expectSuspects: string[];
+};
 
 const CASES: Case[] = [
   { name: 'all at design', review: 'turbine-hall', faults: {}, expectSuspects: [] },
-  { name: 'LP heater outlet thermometer 6 K high (turbine hall)', review: 'turbine-hall', faults: { 'turbine-hall': { 'TI-206': (v) => v + 6 } }, expectSuspects: ['TI-206'] },
-  { name: 'the same, re-taken at design', review: 'turbine-hall', faults: { 'turbine-hall': { 'TI-206': (v) => v + 6 } }, retake: 'TI-206', expectSuspects: [] },
-  { name: 'cooling-water outlet RTD 6 K high (condenser round)', review: 'condenser-cooling-water', faults: { 'condenser-cooling-water': { 'TI-403A': (v) => v + 6 } }, expectSuspects: ['TI-403A'] },
-  { name: 'main steam flow 10 % low (boiler house)', review: 'boiler-house', faults: { 'boiler-house': { 'FI-101': (v) => v * 0.9 } }, expectSuspects: ['FI-101'] },
-  { name: 'make-up water 10 K high on the boiler house, checked from the turbine hall', review: 'turbine-hall', faults: { 'boiler-house': { 'TI-302': (v) => v + 10 } }, expectSuspects: ['TI-302'] },
+  {
+    name: 'LP heater outlet thermometer 6 K high (turbine hall)',
+    review: 'turbine-hall',
+    faults: { 'turbine-hall': { 'TI-206': (v) => v + 6 } },
+    expectSuspects: ['TI-206'],
+  },
+  {
+    name: 'the same, re-taken at design',
+    review: 'turbine-hall',
+    faults: { 'turbine-hall': { 'TI-206': (v) => v + 6 } },
+    retake: 'TI-206',
+    expectSuspects: [],
+  },
+  {
+    name: 'cooling-water outlet RTD 6 K high (condenser round)',
+    review: 'condenser-cooling-water',
+    faults: { 'condenser-cooling-water': { 'TI-403A': (v) => v + 6 } },
+    expectSuspects: ['TI-403A'],
+  },
+  {
+    name: 'main steam flow 10 % low (boiler house)',
+    review: 'boiler-house',
+    faults: { 'boiler-house': { 'FI-101': (v) => v * 0.9 } },
+    expectSuspects: ['FI-101'],
+  },
+  {
+    name: 'make-up water 10 K high on the boiler house, checked from the turbine hall',
+    review: 'turbine-hall',
+    faults: { 'boiler-house': { 'TI-302': (v) => v + 10 } },
+    expectSuspects: ['TI-302'],
+  },
 ];
 
 async function both(c: Case): Promise<{ device: RoundCheck; server: RoundCheck; d: Device }> {
   const d = await demoDevice();
   const typed = designTyped();
-  const order = ['boiler-house', 'condenser-cooling-water', 'turbine-hall'].filter((k) => k !== c.review).concat(c.review);
+  const order = ['boiler-house', 'condenser-cooling-water', 'turbine-hall']
+    .filter((k) => k !== c.review)
+    .concat(c.review);
   let roundId = '';
   let walked: Awaited<ReturnType<typeof walk>> | null = null;
   for (const k of order) {
@@ -44,7 +78,14 @@ async function both(c: Case): Promise<{ device: RoundCheck; server: RoundCheck; 
   if (c.retake) {
     d.clock.advance(60_000);
     const spec = (await d.store.roundReadings(roundId)).find((r) => r.tag === c.retake)!;
-    await d.actions.recordReading({ roundId, instrumentTag: c.retake, valueTyped: typed[c.retake], unit: spec.unit, reference: spec.reference, supersedes: walked!.readingIds[c.retake] });
+    await d.actions.recordReading({
+      roundId,
+      instrumentTag: c.retake,
+      valueTyped: typed[c.retake],
+      unit: spec.unit,
+      reference: spec.reference,
+      supersedes: walked!.readingIds[c.retake],
+    });
   }
   // finish the reviewed round too: the server checks it at its finish time, the device likewise
   d.clock.advance(60_000);

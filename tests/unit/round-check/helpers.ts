@@ -36,9 +36,15 @@ const uuid = (kind: number, n: number) => {
 export const SITE = uuid(1, 1);
 export const UNIT = uuid(2, 1);
 const allInstruments: Instrument[] = [...demoUnit.instruments, fernhallowBarometer];
-export const INSTRUMENT_ID: Record<string, string> = Object.fromEntries(allInstruments.map((i, k) => [i.tag, uuid(3, k + 1)]));
-export const ROUTE_ID: Record<string, string> = Object.fromEntries(fernhallowRoutes.map((r, k) => [r.id, uuid(4, k + 1)]));
-export const VERSION_ID: Record<string, string> = Object.fromEntries(fernhallowRoutes.map((r, k) => [r.id, uuid(5, k + 1)]));
+export const INSTRUMENT_ID: Record<string, string> = Object.fromEntries(
+  allInstruments.map((i, k) => [i.tag, uuid(3, k + 1)]),
+);
+export const ROUTE_ID: Record<string, string> = Object.fromEntries(
+  fernhallowRoutes.map((r, k) => [r.id, uuid(4, k + 1)]),
+);
+export const VERSION_ID: Record<string, string> = Object.fromEntries(
+  fernhallowRoutes.map((r, k) => [r.id, uuid(5, k + 1)]),
+);
 export const TEMPLATE: Record<string, RouteTemplate> = Object.fromEntries(fernhallowRoutes.map((r) => [r.id, r]));
 export const ROUTE_NAME: Record<string, string> = Object.fromEntries(fernhallowRoutes.map((r) => [r.id, r.name]));
 
@@ -73,7 +79,9 @@ export function demoPull(): PullResponse {
   }));
   return PullResponse.parse({
     cursor: 1,
-    units: [{ id: UNIT, siteId: SITE, name: demoUnit.name, model: demoUnit, modelVersion: demoUnit.version, syncVersion: 1 }],
+    units: [
+      { id: UNIT, siteId: SITE, name: demoUnit.name, model: demoUnit, modelVersion: demoUnit.version, syncVersion: 1 },
+    ],
     instruments,
     routes,
     serverTime: '2025-11-30T06:00:00.000Z',
@@ -99,7 +107,9 @@ export async function demoDevice(): Promise<Device> {
 
 /** What each gauge face shows at design, as a technician types it (two decimals). */
 export function designTyped(): Record<string, number> {
-  const out: Record<string, number> = Object.fromEntries(demoDesignReadings(BARO_PA).map((r) => [r.instrumentTag, Number(r.shown.value.toFixed(2))]));
+  const out: Record<string, number> = Object.fromEntries(
+    demoDesignReadings(BARO_PA).map((r) => [r.instrumentTag, Number(r.shown.value.toFixed(2))]),
+  );
   out['PI-001'] = Number((BARO_PA / 100).toFixed(2)); // mbar
   return out;
 }
@@ -113,7 +123,12 @@ export interface Walked {
  * Walks a route on the device: one reading a minute, in walking order, with `typed[tag]` in the
  * route's unit; `skip` tags are skipped with a reason. Leaves the round in progress unless `finish`.
  */
-export async function walk(d: Device, routeKey: string, typed: Record<string, number>, opts: { skip?: string[]; finish?: boolean } = {}): Promise<Walked> {
+export async function walk(
+  d: Device,
+  routeKey: string,
+  typed: Record<string, number>,
+  opts: { skip?: string[]; finish?: boolean } = {},
+): Promise<Walked> {
   const t = TEMPLATE[routeKey];
   const round = await d.actions.startRound(VERSION_ID[routeKey]);
   const readingIds: Record<string, string> = {};
@@ -168,7 +183,12 @@ export async function serverSideInput(d: Device, roundId: string, at: number): P
   const superseded = new Set(readings.map((r) => r.supersedes).filter(Boolean));
   for (const r of readings) {
     if (tagOfId[r.instrumentId] !== 'PI-001' || r.valueTyped === null || superseded.has(r.id)) continue;
-    baro.set(r.roundId, siteBarometricPa({ barometricPa: toSI({ quantity: 'pressure', value: r.valueTyped, unit: r.unit, reference: 'absolute' }) })!);
+    baro.set(
+      r.roundId,
+      siteBarometricPa({
+        barometricPa: toSI({ quantity: 'pressure', value: r.valueTyped, unit: r.unit, reference: 'absolute' }),
+      })!,
+    );
   }
   const rows: ReadingRow[] = readings.map((r, k) => {
     const tag = tagOfId[r.instrumentId];
@@ -177,7 +197,13 @@ export async function serverSideInput(d: Device, roundId: string, at: number): P
       id: r.id,
       roundId: r.roundId,
       tag,
-      valueSi: r.valueTyped === null ? null : toSI({ quantity: quantityOf[tag], value: r.valueTyped, unit: r.unit, reference: r.reference ?? undefined }, { barometricPa: b }),
+      valueSi:
+        r.valueTyped === null
+          ? null
+          : toSI(
+              { quantity: quantityOf[tag], value: r.valueTyped, unit: r.unit, reference: r.reference ?? undefined },
+              { barometricPa: b },
+            ),
       deviceTime: r.deviceTime,
       supersedes: r.supersedes ?? null,
       isBarometer: tag === 'PI-001',
@@ -204,8 +230,14 @@ export async function serverSideInput(d: Device, roundId: string, at: number): P
     round,
     others: all.filter((r) => r.id !== roundId),
     at,
-    dismissals: dismissals.filter((x) => x.tag).map((x) => ({ tag: x.tag!, note: x.note ?? '', ...(x.readingId ? { readingId: x.readingId } : {}) })),
-    routes: fernhallowRoutes.map((t) => ({ id: ROUTE_ID[t.id], name: t.name, stops: t.stops.map((s) => ({ name: s.name, tags: s.readings.map((x) => x.tag) })) })),
+    dismissals: dismissals
+      .filter((x) => x.tag)
+      .map((x) => ({ tag: x.tag!, note: x.note ?? '', ...(x.readingId ? { readingId: x.readingId } : {}) })),
+    routes: fernhallowRoutes.map((t) => ({
+      id: ROUTE_ID[t.id],
+      name: t.name,
+      stops: t.stops.map((s) => ({ name: s.name, tags: s.readings.map((x) => x.tag) })),
+    })),
   };
 }
 
@@ -224,7 +256,8 @@ export function differences(a: unknown, b: unknown, rel = 1e-9, path = '$', out:
     else a.forEach((x, i) => differences(x, b[i], rel, `${path}[${i}]`, out));
   } else if (a && b && typeof a === 'object' && typeof b === 'object') {
     const keys = new Set([...Object.keys(a), ...Object.keys(b)]);
-    for (const k of keys) differences((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k], rel, `${path}.${k}`, out);
+    for (const k of keys)
+      differences((a as Record<string, unknown>)[k], (b as Record<string, unknown>)[k], rel, `${path}.${k}`, out);
   } else if (a !== b) out.push(`${path}: ${JSON.stringify(a)} vs ${JSON.stringify(b)}`);
   return out;
 }

@@ -23,7 +23,9 @@ async function check(d: Device, roundId: string): Promise<RoundCheck> {
 }
 
 /** boiler house and condenser at design (finished), then the turbine hall with the given changes (in progress) */
-async function turbineHallWith(changes: Record<string, number>): Promise<{ d: Device; th: Walked; typed: Record<string, number> }> {
+async function turbineHallWith(
+  changes: Record<string, number>,
+): Promise<{ d: Device; th: Walked; typed: Record<string, number> }> {
   const d = await demoDevice();
   const typed = designTyped();
   await walk(d, 'boiler-house', typed, { finish: true });
@@ -39,7 +41,13 @@ describe('the re-take list', () => {
     const r = await check(d, th.roundId);
     expect(r.clean).toBe(false);
     expect(r.retakes.map((i) => i.tag)).toEqual(['TI-206']);
-    expect(r.retakes[0]).toMatchObject({ stop: 2, stopName: 'LP extraction and LP heater', readingId: th.readingIds['TI-206'], kind: 'gross-error', dismissed: null });
+    expect(r.retakes[0]).toMatchObject({
+      stop: 2,
+      stopName: 'LP extraction and LP heater',
+      readingId: th.readingIds['TI-206'],
+      kind: 'gross-error',
+      dismissed: null,
+    });
     // TI-206's corrections correlate with FI-202's, TI-302's and PI-501's by |ρ| ≥ 0.95 (shared/reconcile GROUP_CORRELATION): the group is said
     expect(r.retakes[0].line).toBe(
       'Stop 3, LP extraction and LP heater: TI-206 — reads about 6 K high against the LP feedwater heater and deaerator balances (or FI-202, TI-302 and PI-501: the balances cannot tell them apart)',
@@ -62,7 +70,11 @@ describe('the re-take list', () => {
     const typed = designTyped();
     await walk(d, 'boiler-house', typed, { finish: true });
     await walk(d, 'turbine-hall', typed, { finish: true });
-    const cw = await walk(d, 'condenser-cooling-water', { ...typed, 'TI-403A': typed['TI-403A'] + 6, 'TI-401': typed['TI-401'] + 6 });
+    const cw = await walk(d, 'condenser-cooling-water', {
+      ...typed,
+      'TI-403A': typed['TI-403A'] + 6,
+      'TI-401': typed['TI-401'] + 6,
+    });
     const r = await check(d, cw.roundId);
     expect(r.suspects.map((s) => s.tag).sort()).toEqual(['TI-401', 'TI-403A']);
     // PI-402 and TI-401 are one group (the condenser's saturation holds them together, |ρ| ≥ 0.95): both are re-taken
@@ -84,14 +96,21 @@ describe('the re-take list', () => {
     const th = await walk(d, 'turbine-hall', typed);
     const r = await check(d, th.roundId);
     // TI-206 on this route is in TI-302's group (|ρ| ≥ 0.95): it is re-taken too, saying why
-    expect(r.retakes.map((i) => [i.tag, i.line])).toEqual([['TI-206', 'Stop 3, LP extraction and LP heater: TI-206 — cannot be told apart from TI-302 by the balances: re-take both']]);
+    expect(r.retakes.map((i) => [i.tag, i.line])).toEqual([
+      [
+        'TI-206',
+        'Stop 3, LP extraction and LP heater: TI-206 — cannot be told apart from TI-302 by the balances: re-take both',
+      ],
+    ]);
     // the rest of the group, read on other rounds, is listed apart, TI-302 first
     expect(r.elsewhere.map((i) => [i.tag, i.roundId, i.stop, i.routeName])).toEqual([
       ['TI-302', bh.roundId, null, 'Boiler house'],
       ['FI-202', bh.roundId, null, 'Boiler house'],
       ['PI-501', cw.roundId, null, 'Condenser and cooling water'],
     ]);
-    expect(r.elsewhere[0].line).toMatch(/^TI-302 \(Boiler house round\) — reads about 10 K high against the deaerator balance \(or FI-202, TI-206 and PI-501: the balances cannot tell them apart\)$/);
+    expect(r.elsewhere[0].line).toMatch(
+      /^TI-302 \(Boiler house round\) — reads about 10 K high against the deaerator balance \(or FI-202, TI-206 and PI-501: the balances cannot tell them apart\)$/,
+    );
   });
 
   test('a saturated point read 6 K hot: the estimate is the IAPWS-IF97 saturation temperature at the reconciled pressure (python3-iapws)', async () => {
@@ -102,7 +121,9 @@ describe('the re-take list', () => {
     const bh = await walk(d, 'boiler-house', { ...typed, 'TI-301': typed['TI-301'] + 6 });
     const r = await check(d, bh.roundId);
     expect(r.retakes.map((i) => i.tag)).toEqual(['TI-301']);
-    expect(r.retakes[0].line).toMatch(/^Stop 3, Deaerator: TI-301 — reads about 6 K high against saturation at deaerator outlet/);
+    expect(r.retakes[0].line).toMatch(
+      /^Stop 3, Deaerator: TI-301 — reads about 6 K high against saturation at deaerator outlet/,
+    );
     const p = r.analysis.statePoints.find((s) => s.id === 'dao')!.reconciled.p!;
     const tsat = python<number>(`from iapws import IAPWS97; print(IAPWS97(P=${p / 1e6}, x=0).T)`);
     expect(r.suspects[0].estimate!).toBeCloseTo(tsat, 6);
@@ -131,7 +152,9 @@ describe('re-takes and dismissals', () => {
       [th.readingIds['TI-206'], null],
       [retake.id, th.readingIds['TI-206']],
     ]);
-    const out = (await pushed(d)).readings.filter((x) => x.roundId === th.roundId && (x.id === retake.id || x.id === th.readingIds['TI-206']));
+    const out = (await pushed(d)).readings.filter(
+      (x) => x.roundId === th.roundId && (x.id === retake.id || x.id === th.readingIds['TI-206']),
+    );
     expect(out).toHaveLength(2);
   });
 
@@ -144,8 +167,21 @@ describe('re-takes and dismissals', () => {
     // the deaerator balance stays open: dismissing a flag does not make the round clean
     expect(r.clean).toBe(false);
     const round = (await pushed(d)).rounds.find((x) => x.id === th.roundId)!;
-    expect(round.dismissals).toEqual([expect.objectContaining({ tag: 'TI-206', flag: 'suspect', readingId: th.readingIds['TI-206'], note: 'Thermometer well known to read high, work order open' })]);
-    await d.actions.recordReading({ roundId: th.roundId, instrumentTag: 'TI-206', valueTyped: base['TI-206'] + 6.5, unit: '°C', supersedes: th.readingIds['TI-206'] });
+    expect(round.dismissals).toEqual([
+      expect.objectContaining({
+        tag: 'TI-206',
+        flag: 'suspect',
+        readingId: th.readingIds['TI-206'],
+        note: 'Thermometer well known to read high, work order open',
+      }),
+    ]);
+    await d.actions.recordReading({
+      roundId: th.roundId,
+      instrumentTag: 'TI-206',
+      valueTyped: base['TI-206'] + 6.5,
+      unit: '°C',
+      supersedes: th.readingIds['TI-206'],
+    });
     r = await check(d, th.roundId);
     expect(r.retakes.map((i) => [i.tag, i.dismissed])).toEqual([['TI-206', null]]);
   });

@@ -52,7 +52,12 @@ describe('generated IF97 power sums', () => {
       for (const [x0, y] of POINTS) {
         const x = spec.kind === 'derivsY' ? 1 : x0;
         if (spec.kind === 'value') {
-          check(`(${x}, ${y})`, (fn as ValueFn)(x, y), ref.value(x, y), magnitude(rows, x, y, () => 1));
+          check(
+            `(${x}, ${y})`,
+            (fn as ValueFn)(x, y),
+            ref.value(x, y),
+            magnitude(rows, x, y, () => 1),
+          );
           continue;
         }
         const want = new Float64Array(6);

@@ -54,11 +54,13 @@ function compare(row: Row): string[] {
     if (!(Math.abs(mine - ref) <= tol)) out.push(`${tag}: ${k} = ${mine}, python3-iapws ${ref}`);
   }
   if (row.ref.x !== undefined && row.ref.x !== null) {
-    if (st.x === null || !(Math.abs(st.x - row.ref.x) <= 1e-9)) out.push(`${tag}: x = ${st.x}, python3-iapws ${row.ref.x}`);
+    if (st.x === null || !(Math.abs(st.x - row.ref.x) <= 1e-9))
+      out.push(`${tag}: x = ${st.x}, python3-iapws ${row.ref.x}`);
   } else if (st.x !== null) {
     out.push(`${tag}: x = ${st.x}, expected a single-phase state`);
   }
-  if (row.ref.region === 4 && (st.cp !== null || st.cv !== null || st.w !== null)) out.push(`${tag}: cp, cv, w must be null`);
+  if (row.ref.region === 4 && (st.cp !== null || st.cv !== null || st.w !== null))
+    out.push(`${tag}: cp, cv, w must be null`);
   return out;
 }
 
@@ -66,11 +68,30 @@ describe('states against python3-iapws (iapws.IAPWS97), fixture iapws-grid.json'
   test('the fixture covers every region and input pair with at least 500 states', () => {
     expect(rows.length).toBeGreaterThanOrEqual(500);
     const seen = new Set(rows.map((r) => `${r.kind}/${r.ref.region}`));
-    for (const k of ['pt/1', 'pt/2', 'pt/3', 'pt/5', 'ph/1', 'ph/2', 'ph/3', 'ph/4', 'ph/5', 'ps/1', 'ps/2', 'ps/3', 'ps/4', 'ps/5', 'px/4', 'tx/4']) {
+    for (const k of [
+      'pt/1',
+      'pt/2',
+      'pt/3',
+      'pt/5',
+      'ph/1',
+      'ph/2',
+      'ph/3',
+      'ph/4',
+      'ph/5',
+      'ps/1',
+      'ps/2',
+      'ps/3',
+      'ps/4',
+      'ps/5',
+      'px/4',
+      'tx/4',
+    ]) {
       expect(seen.has(k)).toBe(true);
     }
     // two-phase rows in the region-3 range built by the lever rule (python3-iapws fault)
-    expect(rows.some((r) => r.kind === 'ph' && r.ref.region === 4 && r.in[0] > 16.6e6 && r.how.startsWith('lever'))).toBe(true);
+    expect(
+      rows.some((r) => r.kind === 'ph' && r.ref.region === 4 && r.in[0] > 16.6e6 && r.how.startsWith('lever')),
+    ).toBe(true);
   });
 
   for (const kind of ['pt', 'ph', 'ps', 'px', 'tx'] as const) {

@@ -34,8 +34,10 @@ function roundTrips(states: [number, number][]): string[] {
     const st = pt(p, T);
     const a = ph(p, st.h);
     const b = ps(p, st.s);
-    if (!(Math.abs(a.T / T - 1) <= 1e-9) || a.region !== st.region) bad.push(`ph p=${p} T=${T}: ${a.T} region ${a.region}/${st.region}`);
-    if (!(Math.abs(b.T / T - 1) <= 1e-9) || b.region !== st.region) bad.push(`ps p=${p} T=${T}: ${b.T} region ${b.region}/${st.region}`);
+    if (!(Math.abs(a.T / T - 1) <= 1e-9) || a.region !== st.region)
+      bad.push(`ph p=${p} T=${T}: ${a.T} region ${a.region}/${st.region}`);
+    if (!(Math.abs(b.T / T - 1) <= 1e-9) || b.region !== st.region)
+      bad.push(`ps p=${p} T=${T}: ${b.T} region ${b.region}/${st.region}`);
   }
   return bad;
 }
@@ -108,8 +110,12 @@ describe('round trips to 1e-9', () => {
         const w = px(p, x);
         const a = ph(p, w.h);
         const b = ps(p, w.s);
-        for (const [name, st] of [['ph', a], ['ps', b]] as const) {
-          if (st.region !== 4 || Math.abs((st.x as number) - x) > 1e-9 || st.T !== tsat(p)) bad.push(`${name} p=${p} x=${x}: x=${st.x} T=${st.T}`);
+        for (const [name, st] of [
+          ['ph', a],
+          ['ps', b],
+        ] as const) {
+          if (st.region !== 4 || Math.abs((st.x as number) - x) > 1e-9 || st.T !== tsat(p))
+            bad.push(`${name} p=${p} x=${x}: x=${st.x} T=${st.T}`);
           if (Math.abs(st.v / w.v - 1) > 1e-9) bad.push(`${name} p=${p} x=${x}: v=${st.v}/${w.v}`);
         }
       }

@@ -10,15 +10,7 @@
  * against python3-iapws's value at the same point (fixture `tables`).
  */
 import fixture from '../../fixtures/steam/iapws-grid.json';
-import {
-  h3ab,
-  p3satH,
-  p3satS,
-  region3TPh,
-  region3TPs,
-  region3VPh,
-  region3VPs,
-} from '@/shared/steam/region3';
+import { h3ab, p3satH, p3satS, region3TPh, region3TPs, region3VPh, region3VPs } from '@/shared/steam/region3';
 import {
   t3ab,
   t3cd,
@@ -45,7 +37,10 @@ const kJ = 1e3;
 
 function check(rows: [string, number, string][], py: number[], scale = 1): string[] {
   return rows
-    .flatMap(([label, mine, printed], i) => [mismatch(label, mine / scale, printed), mismatch(`${label} (python3-iapws)`, py[i] / scale, printed)])
+    .flatMap(([label, mine, printed], i) => [
+      mismatch(label, mine / scale, printed),
+      mismatch(`${label} (python3-iapws)`, py[i] / scale, printed),
+    ])
     .filter((e): e is string => e !== null);
 }
 
@@ -72,28 +67,72 @@ describe('IAPWS SR3-03(2014): region 3 backward equations of (p,h) and (p,s)', (
   });
 
   test('SR3 Eqs. (2), (3): T3a(p,h), T3b(p,h) verification table', () => {
-    const printed = ['0.6293083892e3', '0.6905718338e3', '0.7336163014e3', '0.6418418053e3', '0.7351848618e3', '0.8420460876e3'];
-    const rows = PH.map(([p, h], i): [string, number, string] => [`T(${p} MPa, ${h} kJ/kg)`, region3TPh(p * MPa, h * kJ), printed[i]]);
+    const printed = [
+      '0.6293083892e3',
+      '0.6905718338e3',
+      '0.7336163014e3',
+      '0.6418418053e3',
+      '0.7351848618e3',
+      '0.8420460876e3',
+    ];
+    const rows = PH.map(([p, h], i): [string, number, string] => [
+      `T(${p} MPa, ${h} kJ/kg)`,
+      region3TPh(p * MPa, h * kJ),
+      printed[i],
+    ]);
     expect(check(rows, tables['SR3 T(p,h)'] as number[])).toEqual([]);
     // the first three lie in 3a, the last three in 3b (SR3 Eq. (1))
     PH.forEach(([p, h], i) => expect(h * kJ <= h3ab(p * MPa)).toBe(i < 3));
   });
 
   test('SR3 Eqs. (4), (5): v3a(p,h), v3b(p,h) verification table', () => {
-    const printed = ['0.1749903962e-2', '0.1908139035e-2', '0.1676229776e-2', '0.6670547043e-2', '0.2801244590e-2', '0.2404234998e-2'];
-    const rows = PH.map(([p, h], i): [string, number, string] => [`v(${p} MPa, ${h} kJ/kg)`, region3VPh(p * MPa, h * kJ), printed[i]]);
+    const printed = [
+      '0.1749903962e-2',
+      '0.1908139035e-2',
+      '0.1676229776e-2',
+      '0.6670547043e-2',
+      '0.2801244590e-2',
+      '0.2404234998e-2',
+    ];
+    const rows = PH.map(([p, h], i): [string, number, string] => [
+      `v(${p} MPa, ${h} kJ/kg)`,
+      region3VPh(p * MPa, h * kJ),
+      printed[i],
+    ]);
     expect(check(rows, tables['SR3 v(p,h)'] as number[])).toEqual([]);
   });
 
   test('SR3 Eqs. (6), (7): T3a(p,s), T3b(p,s) verification table', () => {
-    const printed = ['0.6282959869e3', '0.6297158726e3', '0.7056880237e3', '0.6401176443e3', '0.7163687517e3', '0.8474332825e3'];
-    const rows = PS.map(([p, s], i): [string, number, string] => [`T(${p} MPa, ${s} kJ/(kg K))`, region3TPs(p * MPa, s * kJ), printed[i]]);
+    const printed = [
+      '0.6282959869e3',
+      '0.6297158726e3',
+      '0.7056880237e3',
+      '0.6401176443e3',
+      '0.7163687517e3',
+      '0.8474332825e3',
+    ];
+    const rows = PS.map(([p, s], i): [string, number, string] => [
+      `T(${p} MPa, ${s} kJ/(kg K))`,
+      region3TPs(p * MPa, s * kJ),
+      printed[i],
+    ]);
     expect(check(rows, tables['SR3 T(p,s)'] as number[])).toEqual([]);
   });
 
   test('SR3 Eqs. (8), (9): v3a(p,s), v3b(p,s) verification table', () => {
-    const printed = ['0.1733791463e-2', '0.1469680170e-2', '0.1555893131e-2', '0.6262101987e-2', '0.2332634294e-2', '0.2449610757e-2'];
-    const rows = PS.map(([p, s], i): [string, number, string] => [`v(${p} MPa, ${s} kJ/(kg K))`, region3VPs(p * MPa, s * kJ), printed[i]]);
+    const printed = [
+      '0.1733791463e-2',
+      '0.1469680170e-2',
+      '0.1555893131e-2',
+      '0.6262101987e-2',
+      '0.2332634294e-2',
+      '0.2449610757e-2',
+    ];
+    const rows = PS.map(([p, s], i): [string, number, string] => [
+      `v(${p} MPa, ${s} kJ/(kg K))`,
+      region3VPs(p * MPa, s * kJ),
+      printed[i],
+    ]);
     expect(check(rows, tables['SR3 v(p,s)'] as number[])).toEqual([]);
   });
 
@@ -131,46 +170,78 @@ describe('IAPWS SR5-05(2016): region 3 backward equations v(p,T)', () => {
       ['wx', t3wx(22.3 * MPa), '648.2049480', 'T3wx(22.3 MPa)'],
     ];
     const errors = rows
-      .flatMap(([key, mine, printed, label]) => [mismatch(label, mine, printed), mismatch(`${label} (python3-iapws)`, py[key], printed)])
+      .flatMap(([key, mine, printed, label]) => [
+        mismatch(label, mine, printed),
+        mismatch(`${label} (python3-iapws)`, py[key], printed),
+      ])
       .filter(Boolean);
     expect(errors).toEqual([]);
   });
 
   // subregion, p / MPa, T / K, published v / (m³/kg)
   const V_TABLE: [string, number, number, string][] = [
-    ['a', 50, 630, '0.001470853100'], ['a', 80, 670, '0.001503831359'],
-    ['b', 50, 710, '0.002204728587'], ['b', 80, 750, '0.001973692940'],
-    ['c', 20, 630, '0.001761696406'], ['c', 30, 650, '0.001819560617'],
-    ['d', 26, 656, '0.002245587720'], ['d', 30, 670, '0.002506897702'],
-    ['e', 26, 661, '0.002970225962'], ['e', 30, 675, '0.003004627086'],
-    ['f', 26, 671, '0.005019029401'], ['f', 30, 690, '0.004656470142'],
-    ['g', 23.6, 649, '0.002163198378'], ['g', 24, 650, '0.002166044161'],
-    ['h', 23.6, 652, '0.002651081407'], ['h', 24, 654, '0.002967802335'],
-    ['i', 23.6, 653, '0.003273916816'], ['i', 24, 655, '0.003550329864'],
-    ['j', 23.5, 655, '0.004545001142'], ['j', 24, 660, '0.005100267704'],
-    ['k', 23, 660, '0.006109525997'], ['k', 24, 670, '0.006427325645'],
-    ['l', 22.6, 646, '0.002117860851'], ['l', 23, 646, '0.002062374674'],
-    ['m', 22.6, 648.6, '0.002533063780'], ['m', 22.8, 649.3, '0.002572971781'],
-    ['n', 22.6, 649, '0.002923432711'], ['n', 22.8, 649.7, '0.002913311494'],
-    ['o', 22.6, 649.1, '0.003131208996'], ['o', 22.8, 649.9, '0.003221160278'],
-    ['p', 22.6, 649.4, '0.003715596186'], ['p', 22.8, 650.2, '0.003664754790'],
-    ['q', 21.1, 640, '0.001970999272'], ['q', 21.8, 643, '0.002043919161'],
-    ['r', 21.1, 644, '0.005251009921'], ['r', 21.8, 648, '0.005256844741'],
-    ['s', 19.1, 635, '0.001932829079'], ['s', 20, 638, '0.001985387227'],
-    ['t', 17, 626, '0.008483262001'], ['t', 20, 640, '0.006227528101'],
-    ['u', 21.5, 644.6, '0.002268366647'], ['u', 22, 646.1, '0.002296350553'],
-    ['v', 22.5, 648.6, '0.002832373260'], ['v', 22.3, 647.9, '0.002811424405'],
-    ['w', 22.15, 647.5, '0.003694032281'], ['w', 22.3, 648.1, '0.003622226305'],
-    ['x', 22.11, 648, '0.004528072649'], ['x', 22.3, 649, '0.004556905799'],
-    ['y', 22, 646.84, '0.002698354719'], ['y', 22.064, 647.05, '0.002717655648'],
-    ['z', 22, 646.89, '0.003798732962'], ['z', 22.064, 647.15, '0.003701940009'],
+    ['a', 50, 630, '0.001470853100'],
+    ['a', 80, 670, '0.001503831359'],
+    ['b', 50, 710, '0.002204728587'],
+    ['b', 80, 750, '0.001973692940'],
+    ['c', 20, 630, '0.001761696406'],
+    ['c', 30, 650, '0.001819560617'],
+    ['d', 26, 656, '0.002245587720'],
+    ['d', 30, 670, '0.002506897702'],
+    ['e', 26, 661, '0.002970225962'],
+    ['e', 30, 675, '0.003004627086'],
+    ['f', 26, 671, '0.005019029401'],
+    ['f', 30, 690, '0.004656470142'],
+    ['g', 23.6, 649, '0.002163198378'],
+    ['g', 24, 650, '0.002166044161'],
+    ['h', 23.6, 652, '0.002651081407'],
+    ['h', 24, 654, '0.002967802335'],
+    ['i', 23.6, 653, '0.003273916816'],
+    ['i', 24, 655, '0.003550329864'],
+    ['j', 23.5, 655, '0.004545001142'],
+    ['j', 24, 660, '0.005100267704'],
+    ['k', 23, 660, '0.006109525997'],
+    ['k', 24, 670, '0.006427325645'],
+    ['l', 22.6, 646, '0.002117860851'],
+    ['l', 23, 646, '0.002062374674'],
+    ['m', 22.6, 648.6, '0.002533063780'],
+    ['m', 22.8, 649.3, '0.002572971781'],
+    ['n', 22.6, 649, '0.002923432711'],
+    ['n', 22.8, 649.7, '0.002913311494'],
+    ['o', 22.6, 649.1, '0.003131208996'],
+    ['o', 22.8, 649.9, '0.003221160278'],
+    ['p', 22.6, 649.4, '0.003715596186'],
+    ['p', 22.8, 650.2, '0.003664754790'],
+    ['q', 21.1, 640, '0.001970999272'],
+    ['q', 21.8, 643, '0.002043919161'],
+    ['r', 21.1, 644, '0.005251009921'],
+    ['r', 21.8, 648, '0.005256844741'],
+    ['s', 19.1, 635, '0.001932829079'],
+    ['s', 20, 638, '0.001985387227'],
+    ['t', 17, 626, '0.008483262001'],
+    ['t', 20, 640, '0.006227528101'],
+    ['u', 21.5, 644.6, '0.002268366647'],
+    ['u', 22, 646.1, '0.002296350553'],
+    ['v', 22.5, 648.6, '0.002832373260'],
+    ['v', 22.3, 647.9, '0.002811424405'],
+    ['w', 22.15, 647.5, '0.003694032281'],
+    ['w', 22.3, 648.1, '0.003622226305'],
+    ['x', 22.11, 648, '0.004528072649'],
+    ['x', 22.3, 649, '0.004556905799'],
+    ['y', 22, 646.84, '0.002698354719'],
+    ['y', 22.064, 647.05, '0.002717655648'],
+    ['z', 22, 646.89, '0.003798732962'],
+    ['z', 22.064, 647.15, '0.003701940009'],
   ];
 
   test('SR5 Eqs. (4), (5): v(p,T) of all 26 subregions 3a-3z, verification table', () => {
     const py = tables['SR5 v(p,T)'] as { id: string; v: number }[];
     const errors = V_TABLE.flatMap(([id, p, T, v], i) => {
       expect(py[i].id).toBe(id);
-      return [mismatch(`3${id} (${p} MPa, ${T} K)`, vpt3Subregion(id, p * MPa, T), v), mismatch(`3${id} (python3-iapws)`, py[i].v, v)];
+      return [
+        mismatch(`3${id} (${p} MPa, ${T} K)`, vpt3Subregion(id, p * MPa, T), v),
+        mismatch(`3${id} (python3-iapws)`, py[i].v, v),
+      ];
     });
     expect(errors.filter(Boolean)).toEqual([]);
   });

@@ -35,7 +35,9 @@ describe('pressure gauges', () => {
     expect(sigmaFor({ kind: 'en837', class: cls, spanPa: span }, 12e5)).toBeCloseTo(a / R3, 9);
   });
   test('EN 837-1: a class outside the standard list is refused', () => {
-    expect(codeOf(() => sigmaFor({ kind: 'en837', class: 1.5, spanPa: 1e6 } as unknown as AccuracySpec, 5e5))).toBe('INVALID_SPEC');
+    expect(codeOf(() => sigmaFor({ kind: 'en837', class: 1.5, spanPa: 1e6 } as unknown as AccuracySpec, 5e5))).toBe(
+      'INVALID_SPEC',
+    );
   });
   // ASME B40.100 grades (from memory): 4A 0.1 %, 3A 0.25 %, 2A 0.5 %, 1A 1 % of span;
   // grade A 2-1-2 % (2 % in the outer quarters, 1 % in the middle half).
@@ -45,7 +47,7 @@ describe('pressure gauges', () => {
     ['2A', 0.5],
     ['1A', 1],
   ] as const)('ASME B40.100 grade %s = ±%p %% of span', (grade, pct) => {
-    expect(sigmaFor({ kind: 'asmeB40', grade, spanPa: 20e5 }, 10e5)).toBeCloseTo((pct / 100) * 20e5 / R3, 9);
+    expect(sigmaFor({ kind: 'asmeB40', grade, spanPa: 20e5 }, 10e5)).toBeCloseTo(((pct / 100) * 20e5) / R3, 9);
   });
   test('ASME B40.100 grade A: 1 % mid-scale, 2 % in the end quarters; 2 % throughout without the scale start (simplification)', () => {
     const base = { kind: 'asmeB40', grade: 'A', spanPa: 10e5, rangeStartPa: 101325 } as const;
@@ -107,7 +109,10 @@ describe('flow', () => {
     expect(orificeCdUncertaintyPercent(0.7)).toBeCloseTo(0.6669, 12);
     expect(sigmaFor({ kind: 'orifice', beta: 0.5 }, 40)).toBeCloseTo((0.005 * 40) / 1.96, 12);
     // with 0.8 % for the other terms (Δp, density…), in quadrature
-    expect(sigmaFor({ kind: 'orifice', beta: 0.5, otherPercent: 0.8 }, 40)).toBeCloseTo((Math.hypot(0.5, 0.8) / 100) * 40 / 1.96, 12);
+    expect(sigmaFor({ kind: 'orifice', beta: 0.5, otherPercent: 0.8 }, 40)).toBeCloseTo(
+      ((Math.hypot(0.5, 0.8) / 100) * 40) / 1.96,
+      12,
+    );
     expect(codeOf(() => sigmaFor({ kind: 'orifice', beta: 0.8 }, 40))).toBe('INVALID_SPEC');
   });
   test('% of reading as tolerance (σ = a/√3) or 95 % interval (σ = U/1.96, VDI 2048)', () => {
@@ -131,7 +136,10 @@ describe('generic specs and combination in quadrature (GUM §5.1.2)', () => {
     const sRes = 0.25e5 / Math.sqrt(12);
     expect(b.components.map((c) => c.sigma)).toEqual([expect.closeTo(sClass, 6), expect.closeTo(sRes, 6)]);
     expect(b.sigma).toBeCloseTo(Math.hypot(sClass, sRes), 6);
-    expect(sigmaFor({ kind: 'percentReading', percent: 1, basis: 'u95', resolution: 0.1 }, 0)).toBeCloseTo(0.1 / Math.sqrt(12), 12);
+    expect(sigmaFor({ kind: 'percentReading', percent: 1, basis: 'u95', resolution: 0.1 }, 0)).toBeCloseTo(
+      0.1 / Math.sqrt(12),
+      12,
+    );
   });
   test('the zod schema refuses malformed specs, naming the field', () => {
     expect(accuracySpecSchema.safeParse({ kind: 'iec60751', class: 'D' }).success).toBe(false);

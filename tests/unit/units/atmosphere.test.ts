@@ -5,12 +5,7 @@
  * formula before use; tables give 5 significant figures, so the tolerance is 1 Pa.
  */
 
-import {
-  barometricFromElevation,
-  geopotentialAltitude,
-  pressureAtGeopotential,
-  UnitError,
-} from '@/shared/units';
+import { barometricFromElevation, geopotentialAltitude, pressureAtGeopotential, UnitError } from '@/shared/units';
 import { thrown } from './thrown';
 
 describe('ICAO standard atmosphere by geopotential altitude (ICAO Doc 7488 table, from memory)', () => {
@@ -65,6 +60,8 @@ describe('barometricFromElevation uses geometric site elevation (U.S. Standard A
     expect(nan.code).toBe('notFinite');
     expect(nan.message).toBe('elevation must be a finite number of metres, got NaN');
     const above = thrown(UnitError, () => pressureAtGeopotential(11001));
-    expect(above.message).toBe('geopotential altitude 11001 m is outside the ICAO standard troposphere (-5000 m to 11000 m)');
+    expect(above.message).toBe(
+      'geopotential altitude 11001 m is outside the ICAO standard troposphere (-5000 m to 11000 m)',
+    );
   });
 });

@@ -66,7 +66,12 @@ describe('parseQuantity refusals (project rule: name the input and what is allow
 
 describe('toSI / fromSI refusals (project rule: never a silent NaN or default)', () => {
   const cases: [string, Measure, string, string][] = [
-    ['NaN', { quantity: 'power', value: NaN, unit: 'MW' }, 'notFinite', 'power value must be a finite number, got NaN (unit MW)'],
+    [
+      'NaN',
+      { quantity: 'power', value: NaN, unit: 'MW' },
+      'notFinite',
+      'power value must be a finite number, got NaN (unit MW)',
+    ],
     [
       'Infinity',
       { quantity: 'pressure', value: Infinity, unit: 'bar', reference: 'absolute' },
@@ -85,7 +90,12 @@ describe('toSI / fromSI refusals (project rule: never a silent NaN or default)',
       'wrongQuantity',
       `"°C" is a temperature unit, not a pressure unit; allowed: ${PRESSURE}`,
     ],
-    ['empty unit', { quantity: 'pressure', value: 1, unit: '', reference: 'gauge' }, 'empty', `pressure unit is empty; allowed: ${PRESSURE}`],
+    [
+      'empty unit',
+      { quantity: 'pressure', value: 1, unit: '', reference: 'gauge' },
+      'empty',
+      `pressure unit is empty; allowed: ${PRESSURE}`,
+    ],
     [
       'unknown quantity',
       { quantity: 'flow' as never, value: 1, unit: 'kg/s' },

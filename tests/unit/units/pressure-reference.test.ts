@@ -82,7 +82,9 @@ describe('absolute, gauge and vacuum pressures (ISO 80000-4 gauge pressure; vacu
 
   test('gauge below −barometric, and absolute ≤ 0, are errors', () => {
     const g = thrown(UnitError, () => toSI(parseQuantity('-1.1 bar(g)'), { barometricPa: STD }));
-    expect(g.message).toBe('-1.1 bar gauge with barometric pressure 101325 Pa gives absolute pressure -8675 Pa, not above 0 Pa');
+    expect(g.message).toBe(
+      '-1.1 bar gauge with barometric pressure 101325 Pa gives absolute pressure -8675 Pa, not above 0 Pa',
+    );
     const a = thrown(UnitError, () => toSI(parseQuantity('0 kPa(a)')));
     expect(a.message).toBe('absolute pressure 0 kPa absolute is 0 Pa, not above 0 Pa');
     const back = thrown(UnitError, () => fromSI('pressure', -5, 'bar', 'absolute'));

@@ -52,7 +52,10 @@ describe('round trips toSI → fromSI for every unit (common practice: lossless 
             fc.property(valuesFor(quantity, unit, reference), (value) => {
               const si = toSI({ quantity, value, unit, reference }, BARO);
               const back = fromSI(quantity, si, unit, reference, BARO);
-              const scale = Math.max(Math.abs(value), quantity === 'pressure' ? fromSI('pressure', BARO.barometricPa, unit, 'absolute') : 1);
+              const scale = Math.max(
+                Math.abs(value),
+                quantity === 'pressure' ? fromSI('pressure', BARO.barometricPa, unit, 'absolute') : 1,
+              );
               expect(Math.abs(back - value)).toBeLessThanOrEqual(1e-12 * scale);
             }),
             { numRuns: 200 },
@@ -79,13 +82,21 @@ describe('round trips toSI → fromSI for every unit (common practice: lossless 
 
 describe('convert between units (figures derived from NIST SP 811 (2008) B.8 factors)', () => {
   test('1 bar = 14.5038 psi; 1 kgf/cm² = 0.980665 bar; 10 000 mmH₂O = 1 kgf/cm²', () => {
-    expect(convert({ quantity: 'pressure', value: 1, unit: 'bar', reference: 'absolute' }, 'psi', 'absolute')).toBeCloseTo(14.5038, 4);
-    expect(convert({ quantity: 'pressure', value: 1, unit: 'kgf/cm²', reference: 'gauge' }, 'bar', 'gauge', BARO)).toBeCloseTo(0.980665, 12);
-    expect(convert({ quantity: 'pressure', value: 10_000, unit: 'mmH₂O', reference: 'absolute' }, 'kgf/cm²', 'absolute')).toBeCloseTo(1, 12);
+    expect(
+      convert({ quantity: 'pressure', value: 1, unit: 'bar', reference: 'absolute' }, 'psi', 'absolute'),
+    ).toBeCloseTo(14.5038, 4);
+    expect(
+      convert({ quantity: 'pressure', value: 1, unit: 'kgf/cm²', reference: 'gauge' }, 'bar', 'gauge', BARO),
+    ).toBeCloseTo(0.980665, 12);
+    expect(
+      convert({ quantity: 'pressure', value: 10_000, unit: 'mmH₂O', reference: 'absolute' }, 'kgf/cm²', 'absolute'),
+    ).toBeCloseTo(1, 12);
   });
 
   test('gauge → vacuum through the barometric pressure: −0.5 bar(g) = 50 kPa vac', () => {
-    expect(convert({ quantity: 'pressure', value: -0.5, unit: 'bar', reference: 'gauge' }, 'kPa', 'vacuum', BARO)).toBeCloseTo(50, 9);
+    expect(
+      convert({ quantity: 'pressure', value: -0.5, unit: 'bar', reference: 'gauge' }, 'kPa', 'vacuum', BARO),
+    ).toBeCloseTo(50, 9);
   });
 
   test('100 °C = 212 °F; 1000 lb/h = 0.125998 kg/s; 450 t/h = 125 kg/s', () => {

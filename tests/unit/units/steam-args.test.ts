@@ -70,17 +70,33 @@ describe('steam CLI arguments: refusals name the argument', () => {
   test.each([
     [[], 'command line', 'give exactly two properties, one of the pairs p+T, p+h, p+s, p+x, T+x; got none'],
     [['p=1 bar(a)'], 'command line', 'give exactly two properties, one of the pairs p+T, p+h, p+s, p+x, T+x; got p'],
-    [['p=1 bar(a)', 'T=100 °C', 'h=100 kJ/kg'], 'command line', 'give exactly two properties, one of the pairs p+T, p+h, p+s, p+x, T+x; got p, T, h'],
+    [
+      ['p=1 bar(a)', 'T=100 °C', 'h=100 kJ/kg'],
+      'command line',
+      'give exactly two properties, one of the pairs p+T, p+h, p+s, p+x, T+x; got p, T, h',
+    ],
     [['T=100 °C', 'h=100 kJ/kg'], 'command line', 'T+h is not a supported pair; use one of p+T, p+h, p+s, p+x, T+x'],
     [['p=1 bar(a)', 'p=2 bar(a)'], 'p', 'p given twice'],
     [['q=1', 'T=100 °C'], 'q', 'unknown property "q" in "q=1"; use p, T, h, s or x'],
-    [['p=12', 'bar(g)'], 'bar(g)', 'unexpected argument "bar(g)"; give properties as name=value and quote each one, e.g. "p=12 bar(g)"'],
+    [
+      ['p=12', 'bar(g)'],
+      'bar(g)',
+      'unexpected argument "bar(g)"; give properties as name=value and quote each one, e.g. "p=12 bar(g)"',
+    ],
     [['--verbose'], '--verbose', 'unknown option --verbose; see --help'],
     [['--elevation'], '--elevation', '--elevation needs a value'],
     [['--elevation', '1', '--elevation', '2'], '--elevation', '--elevation given twice'],
     [['--elevation', '1', '--barometric', '1 bar'], '--barometric', 'give --elevation or --barometric, not both'],
-    [['--elevation', '180 ft', 'p=1 bar(g)', 'T=100 °C'], '--elevation', '--elevation 180 ft: give metres above sea level, e.g. --elevation 180'],
-    [['--barometric', '1013 mbar(g)', 'p=1 bar(g)', 'T=100 °C'], '--barometric', '--barometric 1013 mbar(g): a barometric pressure is absolute, not gauge'],
+    [
+      ['--elevation', '180 ft', 'p=1 bar(g)', 'T=100 °C'],
+      '--elevation',
+      '--elevation 180 ft: give metres above sea level, e.g. --elevation 180',
+    ],
+    [
+      ['--barometric', '1013 mbar(g)', 'p=1 bar(g)', 'T=100 °C'],
+      '--barometric',
+      '--barometric 1013 mbar(g): a barometric pressure is absolute, not gauge',
+    ],
     [['p=1 MPa(a)', 'h=2800 kJ'], 'h', 'h=2800 kJ: unknown unit "kJ"; allowed: kJ/kg, J/kg, MJ/kg'],
     [['p=1 MPa(a)', 'h=2800'], 'h', 'h=2800: no unit; allowed: kJ/kg, J/kg, MJ/kg'],
     [['p=1 MPa(a)', 's=6.5 kJ/kg'], 's', 's=6.5 kJ/kg: unknown unit "kJ/kg"; allowed: kJ/(kg K), J/(kg K)'],
@@ -114,10 +130,14 @@ describe('steam CLI arguments: refusals name the argument', () => {
 
     const high = thrown(SteamArgError, () => parseSteamArgs(['--elevation', '20000', 'p=1 bar(g)', 'T=100 °C']));
     expect(high.field).toBe('--elevation');
-    expect(high.message).toBe('--elevation 20000: elevation 20000 m is outside -1000 m to 11000 m (the ICAO standard troposphere)');
+    expect(high.message).toBe(
+      '--elevation 20000: elevation 20000 m is outside -1000 m to 11000 m (the ICAO standard troposphere)',
+    );
 
     const baro = thrown(SteamArgError, () => parseSteamArgs(['--barometric', '1013 kPa', 'p=1 bar(g)', 'T=100 °C']));
-    expect(baro.message).toBe('--barometric 1013 kPa: barometric pressure 1013000 Pa is outside 20000 Pa to 120000 Pa; check its unit');
+    expect(baro.message).toBe(
+      '--barometric 1013 kPa: barometric pressure 1013000 Pa is outside 20000 Pa to 120000 Pa; check its unit',
+    );
 
     const vac = thrown(SteamArgError, () => parseSteamArgs(['p=1.2 bar vac', 'x=0', '--barometric', '1 bar']));
     expect(vac.message).toBe(
