@@ -10,13 +10,18 @@
  *    plant thermometers reading a rise of about 0.1 K) is not determinable, and the readings that
  *    carry its variance are named.
  */
-import { analyseRound, buildEquations, type AcceptedReading, type PerformanceFigure } from '@/shared/cycle';
+import {
+  analyseRound,
+  buildEquations,
+  specSigmaOf,
+  type AcceptedReading,
+  type PerformanceFigure,
+} from '@/shared/cycle';
 import { demoDesignReadings, demoUnit } from '@/demo/unit';
 import { reconciledStates } from '@/shared/cycle/figure-uncertainty';
 import { figureValues } from '@/shared/cycle/performance';
 import { reconcile } from '@/shared/reconcile';
 import { reconciledSensitivity } from '@/shared/reconcile/sensitivity';
-import { sigmaFor } from '@/shared/uncertainty';
 import { lcg } from './helpers';
 
 const B = 101325;
@@ -27,14 +32,20 @@ const fig = (id: string): PerformanceFigure => {
   if (!f) throw new Error(`no figure ${id}`);
   return f;
 };
+// σ as the analysis' intake gives it: from the accuracy spec at the instrument's reference value
+// (the point's design value or mid-range), never at the reading (shared/cycle/round/base.ts)
 const sigmaOf = new Map(
   readings.map((r) => [
     r.instrumentTag,
-    sigmaFor(demoUnit.instruments.find((i) => i.tag === r.instrumentTag)!.accuracy, r.valueSI),
+    specSigmaOf(
+      demoUnit,
+      demoUnit.instruments.find((i) => i.tag === r.instrumentTag)!,
+      B,
+    )!,
   ]),
 );
 
-/** The analysis' equation system and reconciliation for some readings (σ held at the design values, as the intake gives them at design). */
+/** The analysis' equation system and reconciliation for some readings (σ at the reference values, as the intake gives them). */
 function reconciled(values: Map<string, number>) {
   const acc = new Map<string, AcceptedReading>();
   for (const [tag, value] of values) acc.set(tag, { tag, value, sigma: sigmaOf.get(tag)! });
