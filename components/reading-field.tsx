@@ -96,22 +96,26 @@ export function ReadingField(p: ReadingFieldProps) {
     setError(e);
   };
 
+  const head = (
+    <View style={styles.head}>
+      <ThemedText variant="title" testID={`${id}-tag`}>
+        {p.tag}
+      </ThemedText>
+      {p.bandText ? (
+        <ThemedText variant="caption" muted testID={`${id}-band`}>
+          expected {p.bandText} {p.unitLabel}
+        </ThemedText>
+      ) : null}
+    </View>
+  );
+
   if (p.readOnly) {
     return (
       <View
         testID={id}
         style={[styles.wrap, styles.readOnly, { borderColor: colors.rule, backgroundColor: colors.surfaceAlt }]}
       >
-        <View style={styles.head}>
-          <ThemedText variant="title" testID={`${id}-tag`}>
-            {p.tag}
-          </ThemedText>
-          {p.bandText ? (
-            <ThemedText variant="caption" muted testID={`${id}-band`}>
-              expected {p.bandText} {p.unitLabel}
-            </ThemedText>
-          ) : null}
-        </View>
+        {head}
         <ThemedText variant="title" testID={`${id}-value`}>
           {p.skipped ? `Skipped: ${p.skipped}` : p.saved !== undefined ? `${p.saved} ${p.unitLabel}` : 'Not read'}
         </ThemedText>
@@ -135,16 +139,7 @@ export function ReadingField(p: ReadingFieldProps) {
       testID={id}
       style={[styles.wrap, { borderColor: flagged ? colors.warning : colors.rule, backgroundColor: colors.surface }]}
     >
-      <View style={styles.head}>
-        <ThemedText variant="title" testID={`${id}-tag`}>
-          {p.tag}
-        </ThemedText>
-        {p.bandText ? (
-          <ThemedText variant="caption" muted testID={`${id}-band`}>
-            expected {p.bandText} {p.unitLabel}
-          </ThemedText>
-        ) : null}
-      </View>
+      {head}
       {p.description ? (
         <ThemedText variant="label" muted>
           {p.description}

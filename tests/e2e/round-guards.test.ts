@@ -57,7 +57,7 @@ test('skip undone, resume at the stop, sign-out warns offline, Finish held by a 
   await page.getByTestId('reading-PI-001-save').click();
   await stateOf(page, 'PI-001').filter({ hasText: 'Saved on this device' }).waitFor();
   await page.getByTestId('reading-PI-001-skipped').waitFor({ state: 'detached' });
-  await page.getByTestId('stop-0-progress').filter({ hasText: '1 of 1 done' }).waitFor();
+  await page.getByTestId('stop-0-progress').filter({ hasText: '1 of 2 done' }).waitFor();
 
   // Stop 2, then a reload (offline, from the service worker): the round opens at stop 2, not stop 1.
   await page.getByTestId('stop-next').click();
@@ -105,6 +105,8 @@ test('skip undone, resume at the stop, sign-out warns offline, Finish held by a 
   await shot(page, 'guards-finished-phone');
   await page.setViewportSize(WIDE);
   await page.getByTestId('nav-side').waitFor();
+  await page.getByTestId('round-finished').waitFor();
+  await page.getByTestId('reading-PI-001-readonly').waitFor();
   await shot(page, 'guards-finished-wide');
   await page.setViewportSize(PHONE);
 
