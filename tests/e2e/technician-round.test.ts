@@ -114,6 +114,9 @@ test('a technician walks the boiler-house round offline, reloads mid-round, fini
       // Mid-round, still offline: reload. The app opens from the service worker with every entry.
       await page.reload();
       await page.getByTestId('round-screen').waitFor();
+      // it reopens at the stop it was on, not the first
+      await page.getByTestId('stop-name').filter({ hasText: stop.name }).waitFor();
+      await page.getByTestId('stop-0').click();
       await page
         .getByTestId('reading-PI-001-input')
         .and(page.locator(`[value="${shown('PI-001')}"]`))
