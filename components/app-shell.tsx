@@ -1,10 +1,10 @@
 import { Link, usePathname, useRouter, type Href } from 'expo-router';
-import type { ReactNode } from 'react';
+import { useState, type ReactNode } from 'react';
 import { Pressable, ScrollView, StyleSheet, View } from 'react-native';
 import { SafeAreaView } from 'react-native-safe-area-context';
 import { space, touchTarget } from '@/constants/theme';
 import { useSession } from '@/hooks/session';
-import { useSignOut } from '@/offline/use-offline';
+import { useSignOut, type SignOutCheck } from '@/offline/use-offline';
 import { useTheme } from '@/hooks/use-theme';
 import { useWide } from '@/hooks/use-wide';
 import { Button } from './button';
@@ -25,11 +25,70 @@ export function AppShell({ nav, title, children }: { nav: NavItem[]; title: stri
   const wide = useWide();
   const pathname = usePathname();
   const { user, membership, signOut: endSession } = useSession();
-  const signOut = useSignOut(endSession);
+  const { prepare, signOut } = useSignOut(endSession);
   const router = useRouter();
-  const password = (
-    <Button testID="password-open" label="Password" kind="inverse" onPress={() => router.push('/password')} />
+  // Sign-out sits behind the account menu and asks first: offline, signing in again is not possible.
+  const [menuOpen, setMenuOpen] = useState(false);
+  const [confirm, setConfirm] = useState<SignOutCheck | 'checking' | null>(null);
+  const closeMenu = () => {
+    setMenuOpen(false);
+    setConfirm(null);
+  };
+  const askSignOut = async () => {
+    setConfirm('checking');
+    setConfirm(await prepare().catch(() => ({ online: false, unsent: 0 })));
+  };
+  const menuButton = (
+    <Button
+      testID="account-menu"
+      label={menuOpen ? 'Close' : 'Account'}
+      kind="inverse"
+      aria-expanded={menuOpen}
+      onPress={() => (menuOpen ? closeMenu() : setMenuOpen(true))}
+    />
   );
+  const confirmPanel =
+    confirm === null ? null : confirm === 'checking' ? (
+      <ThemedText variant="label" testID="sign-out-checking" style={{ color: colors.text }}>
+        Sending your records first…
+      </ThemedText>
+    ) : (
+      <View style={styles.menuBlock} testID="sign-out-panel">
+        <ThemedText variant="title">Sign out?</ThemedText>
+        {!confirm.online ? (
+          <ThemedText tone="danger" bold testID="sign-out-offline">
+            No signal: signing in again needs signal. Until then nobody can record on this device.
+          </ThemedText>
+        ) : null}
+        {confirm.unsent > 0 ? (
+          <ThemedText tone="warning" bold testID="sign-out-unsent">
+            {confirm.unsent === 1 ? '1 of your records is' : `${confirm.unsent} of your records are`} not sent. They
+            stay on this device and are sent when you sign in here again.
+          </ThemedText>
+        ) : (
+          <ThemedText testID="sign-out-all-sent">Everything you recorded is sent.</ThemedText>
+        )}
+        <View style={styles.menuRow}>
+          <Button testID="sign-out-cancel" label="Stay signed in" kind="plain" onPress={closeMenu} />
+          <Button testID="sign-out-confirm" label="Sign out" kind="danger" onPress={() => void signOut()} />
+        </View>
+      </View>
+    );
+  const menu = menuOpen ? (
+    <View style={[styles.menu, { backgroundColor: colors.surface, borderColor: colors.rule }]} testID="account-panel">
+      <ThemedText variant="label" testID="shell-user">
+        {user?.name} · {membership?.siteName}
+      </ThemedText>
+      {confirm === null ? (
+        <View style={styles.menuRow}>
+          <Button testID="password-open" label="Password" kind="plain" onPress={() => router.push('/password')} />
+          <Button testID="sign-out" label="Sign out…" kind="plain" onPress={() => void askSignOut()} />
+        </View>
+      ) : (
+        confirmPanel
+      )}
+    </View>
+  ) : null;
   // The group's title heads its home only; deeper screens carry their own heading.
   const heading =
     pathname === nav[0]?.href ? (
@@ -64,11 +123,8 @@ export function AppShell({ nav, title, children }: { nav: NavItem[]; title: stri
 
   const account = (
     <View style={styles.account}>
-      <ThemedText variant="caption" style={{ color: wide ? colors.onPrimary : colors.textMuted }} testID="shell-user">
-        {user?.name} · {membership?.siteName}
-      </ThemedText>
-      {password}
-      <Button testID="sign-out" label="Sign out" kind="inverse" onPress={() => void signOut()} />
+      {menuButton}
+      {menu}
     </View>
   );
 
@@ -95,11 +151,9 @@ export function AppShell({ nav, title, children }: { nav: NavItem[]; title: stri
         <ThemedText variant="title" style={{ color: colors.onPrimary }}>
           Trueround
         </ThemedText>
-        <View style={styles.topActions}>
-          {password}
-          <Button testID="sign-out" label="Sign out" kind="inverse" onPress={() => void signOut()} />
-        </View>
+        <View style={styles.topActions}>{menuButton}</View>
       </View>
+      {menu}
       <ScrollView style={styles.flex} contentContainerStyle={styles.content}>
         {heading}
         {children}
@@ -138,6 +192,9 @@ const styles = StyleSheet.create({
     paddingVertical: space.sm,
   },
   account: { gap: space.sm },
+  menu: { borderWidth: 1, padding: space.md, gap: space.sm },
+  menuBlock: { gap: space.sm },
+  menuRow: { flexDirection: 'row', gap: space.sm, flexWrap: 'wrap' },
   topActions: { flexDirection: 'row', gap: space.sm },
   content: { padding: space.lg, gap: space.lg, maxWidth: 1100, width: '100%' },
 });

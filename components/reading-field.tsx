@@ -31,6 +31,28 @@ export interface ReadingFieldProps {
   onSkip(reason: string): void;
   onConfirm(): void;
   onPhoto?(): void;
+  /** A finished round: the value is shown, not editable; `readOnlyNote` says why. */
+  readOnly?: boolean;
+  readOnlyNote?: string;
+  /** Open with the cursor in the field (a re-take sent the technician here). */
+  autoFocus?: boolean;
+}
+
+/** What the field holds: nothing yet, typed but not saved, saved, or saved and flagged by the spot checks. */
+export type FieldState = 'empty' | 'unsaved' | 'saved' | 'flagged';
+
+const STATE_WORDS: Record<Exclude<FieldState, 'empty'>, string> = {
+  unsaved: 'Not saved yet — tap Save',
+  saved: '✓ Saved on this device',
+  flagged: '! Saved, needs a re-read',
+};
+
+export function fieldState(text: string, saved: string | undefined, flagged: boolean): FieldState {
+  const typed = text.trim();
+  if (saved === undefined) return typed === '' ? 'empty' : 'unsaved';
+  if (typed !== '' && Number(typed) !== Number(saved)) return 'unsaved';
+  if (typed === '' && saved !== '') return 'unsaved';
+  return flagged ? 'flagged' : 'saved';
 }
 
 const NUMBER = /^[-+]?(\d+(\.\d*)?|\.\d+)([eE][-+]?\d+)?$/;
@@ -54,9 +76,14 @@ export function ReadingField(p: ReadingFieldProps) {
   const [text, setText] = useState(p.saved ?? '');
   const [error, setError] = useState<string | null>(null);
   const [skipOpen, setSkipOpen] = useState(false);
+  // Undoing a skip opens the field again; the skip stays recorded until a value is saved over it.
+  const [unskipped, setUnskipped] = useState(false);
   useEffect(() => setText(p.saved ?? ''), [p.saved]);
+  useEffect(() => setUnskipped(false), [p.skipped]);
   const id = `reading-${p.tag}`;
   const flagged = p.flags.length > 0 && !p.confirmed;
+  const skipped = p.skipped && !unskipped ? p.skipped : null;
+  const state = fieldState(text, p.saved, flagged);
 
   // Leaving the field and tapping Save both save: the same text is recorded once.
   const submitted = useRef<string | null>(null);
@@ -69,29 +96,59 @@ export function ReadingField(p: ReadingFieldProps) {
     setError(e);
   };
 
+  const head = (
+    <View style={styles.head}>
+      <ThemedText variant="title" testID={`${id}-tag`}>
+        {p.tag}
+      </ThemedText>
+      {p.bandText ? (
+        <ThemedText variant="caption" muted testID={`${id}-band`}>
+          expected {p.bandText} {p.unitLabel}
+        </ThemedText>
+      ) : null}
+    </View>
+  );
+
+  if (p.readOnly) {
+    return (
+      <View
+        testID={id}
+        style={[styles.wrap, styles.readOnly, { borderColor: colors.rule, backgroundColor: colors.surfaceAlt }]}
+      >
+        {head}
+        <ThemedText variant="title" testID={`${id}-value`}>
+          {p.skipped ? `Skipped: ${p.skipped}` : p.saved !== undefined ? `${p.saved} ${p.unitLabel}` : 'Not read'}
+        </ThemedText>
+        {p.flags.map((f, i) => (
+          <View key={i} style={styles.flagLine} testID={`${id}-flag-${f.kind}`}>
+            <SeverityMark severity={f.severity} />
+            <ThemedText variant="label">{f.message}</ThemedText>
+          </View>
+        ))}
+        {p.readOnlyNote ? (
+          <ThemedText variant="caption" muted testID={`${id}-readonly`}>
+            {p.readOnlyNote}
+          </ThemedText>
+        ) : null}
+      </View>
+    );
+  }
+
   return (
     <View
       testID={id}
       style={[styles.wrap, { borderColor: flagged ? colors.warning : colors.rule, backgroundColor: colors.surface }]}
     >
-      <View style={styles.head}>
-        <ThemedText variant="title" testID={`${id}-tag`}>
-          {p.tag}
-        </ThemedText>
-        {p.bandText ? (
-          <ThemedText variant="caption" muted testID={`${id}-band`}>
-            expected {p.bandText} {p.unitLabel}
-          </ThemedText>
-        ) : null}
-      </View>
+      {head}
       {p.description ? (
         <ThemedText variant="label" muted>
           {p.description}
         </ThemedText>
       ) : null}
-      {p.skipped ? (
+      {skipped ? (
         <View style={styles.row}>
-          <ThemedText testID={`${id}-skipped`}>Skipped: {p.skipped}</ThemedText>
+          <ThemedText testID={`${id}-skipped`}>Skipped: {skipped}</ThemedText>
+          <Button testID={`${id}-unskip`} label="Undo skip" kind="plain" onPress={() => setUnskipped(true)} />
         </View>
       ) : (
         <View style={styles.row}>
@@ -105,6 +162,7 @@ export function ReadingField(p: ReadingFieldProps) {
             onBlur={save}
             onSubmitEditing={save}
             placeholder="—"
+            autoFocus={p.autoFocus || unskipped}
             placeholderTextColor={colors.textMuted}
             style={[
               styles.input,
@@ -121,6 +179,21 @@ export function ReadingField(p: ReadingFieldProps) {
           <Button testID={`${id}-save`} label="Save" kind="plain" onPress={save} />
         </View>
       )}
+      {state !== 'empty' && !skipped ? (
+        <ThemedText
+          variant="label"
+          bold
+          tone={state === 'saved' ? 'ok' : state === 'flagged' ? 'warning' : undefined}
+          testID={`${id}-state`}
+        >
+          {STATE_WORDS[state]}
+        </ThemedText>
+      ) : null}
+      {unskipped && p.skipped ? (
+        <ThemedText variant="caption" muted testID={`${id}-unskip-note`}>
+          The skip ({p.skipped}) stays recorded until you save a value.
+        </ThemedText>
+      ) : null}
       {error ? (
         <ThemedText tone="danger" variant="caption" testID={`${id}-error`} accessibilityRole="alert">
           {error}
@@ -157,7 +230,7 @@ export function ReadingField(p: ReadingFieldProps) {
           Confirmed at the gauge.
         </ThemedText>
       ) : null}
-      {!p.skipped ? (
+      {!skipped && !unskipped ? (
         <View style={styles.row}>
           <Pressable
             testID={`${id}-skip`}
@@ -166,7 +239,7 @@ export function ReadingField(p: ReadingFieldProps) {
             style={styles.link}
           >
             <ThemedText variant="label" style={{ color: colors.primary }}>
-              {skipOpen ? 'Keep this reading' : 'Cannot read it…'}
+              {skipOpen ? 'Don’t skip it' : 'Cannot read it…'}
             </ThemedText>
           </Pressable>
           {p.onPhoto && !flagged ? (
@@ -178,7 +251,7 @@ export function ReadingField(p: ReadingFieldProps) {
           ) : null}
         </View>
       ) : null}
-      {skipOpen && !p.skipped ? (
+      {skipOpen && !skipped ? (
         <View style={styles.reasons}>
           {SKIP_REASONS.map((r, i) => (
             <Button
@@ -222,6 +295,8 @@ const styles = StyleSheet.create({
   },
   unit: { minWidth: 72 },
   flag: { borderLeftWidth: 6, padding: space.sm, gap: space.xs },
+  flagLine: { flexDirection: 'row', alignItems: 'center', gap: space.xs, flexWrap: 'wrap' },
+  readOnly: { borderStyle: 'dashed' },
   actions: { gap: space.sm },
   link: { minHeight: touchTarget, justifyContent: 'center' },
   reasons: { gap: space.xs },

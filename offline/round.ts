@@ -173,17 +173,54 @@ export function flagsFor(data: RoundData, spec: RouteReading, valueSI: number): 
   }
 }
 
-/** What is still missing before the round is complete. */
+/** What is still missing before the round is complete: required readings, checks, required photos. */
 export function missingOf(data: RoundData): {
   readings: { stop: string; tag: string }[];
   checks: { stop: string; id: string; prompt: string }[];
+  photos: { stop: string; id: string; prompt: string }[];
 } {
   const readings: { stop: string; tag: string }[] = [];
   const checks: { stop: string; id: string; prompt: string }[] = [];
+  const photos: { stop: string; id: string; prompt: string }[] = [];
   for (const stop of data.template.stops) {
     for (const r of stop.readings)
       if (r.required && !data.readings[r.tag]) readings.push({ stop: stop.name, tag: r.tag });
-    for (const c of stop.checks) if (!data.answers[c.id]) checks.push({ stop: stop.name, id: c.id, prompt: c.prompt });
+    for (const c of stop.checks) {
+      if (!data.answers[c.id]) checks.push({ stop: stop.name, id: c.id, prompt: c.prompt });
+      if (c.photoRequired && !data.photos.some((p) => p.checkId === c.id))
+        photos.push({ stop: stop.name, id: c.id, prompt: c.prompt });
+    }
   }
-  return { readings, checks };
+  return { readings, checks, photos };
+}
+
+/** The device-meta key holding the stop a technician was last on in a round. */
+export const ROUND_STOP_META = (roundId: string) => `round-stop:${roundId}`;
+
+/** The stop to open a round at: the one last shown on this device, else the first. */
+export async function lastStopOf(store: Store, roundId: string): Promise<number> {
+  const v = Number(await store.getMeta(ROUND_STOP_META(roundId)));
+  return Number.isInteger(v) && v >= 0 ? v : 0;
+}
+
+/** Where a round's records stand on their way to the server, counted from the outbox. */
+export interface RoundSendState {
+  waiting: number;
+  sent: number;
+  refused: number;
+}
+
+export async function roundSendState(store: Store, roundId: string): Promise<RoundSendState> {
+  // the round's own row, and every reading, answer and photo row whose payload names the round
+  const rows = await store.db.all<{ state: string; n: number }>(
+    `SELECT state, COUNT(*) AS n FROM outbox WHERE record_id = ? OR payload LIKE ? GROUP BY state`,
+    [roundId, `%"roundId":"${roundId}"%`],
+  );
+  const out: RoundSendState = { waiting: 0, sent: 0, refused: 0 };
+  for (const r of rows) {
+    if (r.state === 'sent') out.sent += Number(r.n);
+    else if (r.state === 'refused') out.refused += Number(r.n);
+    else out.waiting += Number(r.n);
+  }
+  return out;
 }

@@ -7,7 +7,7 @@
  *   const readings = useStoreQuery((s) => s.roundReadings(roundId), roundId);
  *   const status = useOutboxStatus();                          // counts, refused items, last sync…
  *   const { syncNow, retryRefused, running } = useSyncNow();
- *   const signOut = useSignOut(session.signOut);                // sends the person's own records first, then signs out
+ *   const { prepare, signOut } = useSignOut(session.signOut);   // prepare sends the person's own records first and says what is left
  *
  * Records carry the signed-in person as their author and are sent only while that person is
  * signed in (./sync.ts): on a shared phone, another person's records wait for them.
@@ -214,20 +214,35 @@ export function useOutboxStatus(): SyncStatus | null {
   return status;
 }
 
+/** What signing out now would leave behind: whether the device has signal, and how many of the person's records are unsent. */
+export interface SignOutCheck {
+  online: boolean;
+  /** The signed-in person's records still on this device only (0 outside the technician's screens). */
+  unsent: number;
+}
+
 /**
- * Sign-out that first tries to send the person's own waiting records (they would otherwise wait
- * on this device until the same person signs in here again); then signs out whatever the network said.
+ * Sign-out in two steps. `prepare` first tries to send the person's own waiting records (they would
+ * otherwise wait on this device until the same person signs in here again) and says what is left,
+ * for the confirmation; `signOut` then ends the session whatever the network said.
  */
-export function useSignOut(signOut: () => Promise<void>): () => Promise<void> {
+export function useSignOut(signOut: () => Promise<void>): {
+  prepare: () => Promise<SignOutCheck>;
+  signOut: () => Promise<void>;
+} {
   // outside the technician's screens there is no device store: a plain sign-out
   const sync = useContext(OfflineContext)?.sync ?? null;
-  return useCallback(async () => {
-    if (sync) {
-      const s = await sync.status().catch(() => null);
-      if (s && s.waiting > 0) await sync.syncNow({ force: true }).catch(() => null);
+  const prepare = useCallback(async (): Promise<SignOutCheck> => {
+    const online = globalThis.navigator?.onLine !== false;
+    if (!sync) return { online, unsent: 0 };
+    let s = await sync.status().catch(() => null);
+    if (s && s.waiting > 0 && online) {
+      await sync.syncNow({ force: true }).catch(() => null);
+      s = await sync.status().catch(() => s);
     }
-    await signOut();
-  }, [sync, signOut]);
+    return { online: globalThis.navigator?.onLine !== false, unsent: s?.waiting ?? 0 };
+  }, [sync]);
+  return { prepare, signOut };
 }
 
 export function useSyncNow(): {

@@ -100,7 +100,9 @@ export function RoundCheckScreen({ roundId }: { roundId: string }) {
   const selected = flagged.find((i) => i.tag === picked) ?? flagged[0];
   const suspectOf = (tag: string) => review.suspects.find((s) => s.tag === tag);
   const retake = (i: RetakeItem) =>
-    inProgress && i.own && i.stop !== null ? () => router.push(`/tech/round/${roundId}?stop=${i.stop}`) : undefined;
+    inProgress && i.own && i.stop !== null
+      ? () => router.push(`/tech/round/${roundId}?stop=${i.stop}&focus=${encodeURIComponent(i.tag)}`)
+      : undefined;
   const dismiss =
     inProgress && actions
       ? (tag: string) => async (reason: string) => {

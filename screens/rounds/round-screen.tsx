@@ -14,7 +14,18 @@ import { space } from '@/constants/theme';
 import { pickPhoto } from '@/lib/pick-photo';
 import { warmUpRoundCheck } from '@/lib/round-check-runner';
 import { useSession } from '@/hooks/session';
-import { flagCodes, flagsFor, loadRound, missingOf, siOf, type RoundData } from '@/offline/round';
+import {
+  flagCodes,
+  flagsFor,
+  lastStopOf,
+  loadRound,
+  missingOf,
+  ROUND_STOP_META,
+  roundSendState,
+  siOf,
+  type RoundData,
+  type RoundSendState,
+} from '@/offline/round';
 import { useWide } from '@/hooks/use-wide';
 import { useStore, useStoreQuery } from '@/offline/use-offline';
 import type { RouteReading } from '@/shared/route/template';
@@ -24,21 +35,64 @@ function bandText(r: RouteReading): string {
   return `${r.band.min} – ${r.band.max}`;
 }
 
+function answerText(a: CheckValue | undefined): string {
+  if (!a) return 'Not answered';
+  if (a.kind === 'yes-no') return a.value ? 'Yes' : 'No';
+  return a.value;
+}
+
+/** What is true of a finished round's records: still on this device, refused, or all with the server. */
+function finishedBanner(st: RoundSendState | undefined): string {
+  if (!st) return 'This round is finished.';
+  if (st.refused > 0)
+    return `This round is finished. The server refused ${st.refused} of its records: see Outbox for why.`;
+  if (st.waiting > 0)
+    return `This round is finished and read-only. ${st.waiting} of its records are on this device only, not sent yet; they go when there is signal.`;
+  return 'This round is finished and read-only. Everything is sent: the server has it and analyses it there; this device is not told when that is done.';
+}
+
 /** Walking a round: the stop list, the stop's readings and checks, photos, and finishing. */
-export function RoundScreen({ roundId, initialStop = 0 }: { roundId: string; initialStop?: number }) {
+export function RoundScreen({
+  roundId,
+  initialStop,
+  focusTag,
+}: {
+  roundId: string;
+  /** The stop to open at; absent: the stop last shown for this round on this device. */
+  initialStop?: number;
+  /** A reading to open with the cursor in its field (a re-take). */
+  focusTag?: string;
+}) {
   const { store, actions, state, error } = useStore();
   const { membership } = useSession();
   const router = useRouter();
   const wide = useWide();
-  const [stopIndex, setStopIndex] = useState(initialStop);
+  const [stopIndex, setStopIndex] = useState(initialStop ?? 0);
+  // the stop is remembered once the one to open at is known (else a first 0 would overwrite it)
+  const [restored, setRestored] = useState(initialStop !== undefined);
   const [finishing, setFinishing] = useState(false);
   const [problem, setProblem] = useState<string | null>(null);
   const { data, error: readError } = useStoreQuery(
     (s) => loadRound(s, roundId, membership?.siteId ?? null),
     `${roundId}|${membership?.siteId ?? ''}`,
   );
+  const { data: sendState } = useStoreQuery((s) => roundSendState(s, roundId), roundId);
   // the round check's engine gets compiled while the technician walks (a worker on the web)
   useEffect(() => warmUpRoundCheck(), []);
+  useEffect(() => {
+    if (restored || !store) return;
+    let live = true;
+    lastStopOf(store, roundId).then(
+      (i) => live && (setStopIndex(i), setRestored(true)),
+      () => live && setRestored(true),
+    );
+    return () => {
+      live = false;
+    };
+  }, [restored, store, roundId]);
+  useEffect(() => {
+    if (restored && store) void store.setMeta(ROUND_STOP_META(roundId), String(stopIndex)).catch(() => undefined);
+  }, [restored, store, roundId, stopIndex]);
 
   const stops: StopSummary[] = useMemo(
     () =>
@@ -68,16 +122,21 @@ export function RoundScreen({ roundId, initialStop = 0 }: { roundId: string; ini
       const flags = flagsFor(d, spec, valueSI);
       const cur = d.readings[spec.tag];
       const t0 = globalThis.performance?.now();
-      await actions.recordReading({
-        roundId,
-        instrumentTag: spec.tag,
-        valueTyped: parsed.value,
-        unit: spec.unit,
-        reference: spec.reference ?? null,
-        flags: flags.map((f) => ({ code: flagCodes[f.kind], message: f.message })),
-        confirmedAfterFlag: false,
-        supersedes: cur?.id ?? null,
-      });
+      try {
+        await actions.recordReading({
+          roundId,
+          instrumentTag: spec.tag,
+          valueTyped: parsed.value,
+          unit: spec.unit,
+          reference: spec.reference ?? null,
+          flags: flags.map((f) => ({ code: flagCodes[f.kind], message: f.message })),
+          confirmedAfterFlag: false,
+          supersedes: cur?.id ?? null,
+        });
+      } catch (e) {
+        // never a silent drop: the field says why the device did not keep it
+        return e instanceof Error ? e.message : String(e);
+      }
       // User Timing: from Save to the reading and its outbox row committed on the device (bench/device-save.bench.ts).
       if (t0 !== undefined) globalThis.performance?.measure?.('trueround:reading-saved', { start: t0 });
       return null;
@@ -99,9 +158,14 @@ export function RoundScreen({ roundId, initialStop = 0 }: { roundId: string; ini
     );
   if (!data || !store || !actions) return <ThemedText muted>Opening the round…</ThemedText>;
 
-  const stop = data.template.stops[Math.min(stopIndex, data.template.stops.length - 1)];
+  const stopAt = Math.min(stopIndex, data.template.stops.length - 1);
+  const stop = data.template.stops[stopAt];
   const missing = missingOf(data);
+  const gapCount = missing.readings.length + missing.checks.length + missing.photos.length;
   const finished = data.round.status === 'finished';
+  const readOnlyNote = finished
+    ? 'Finished: this value can no longer be changed on the device. If it is wrong, tell your supervisor and take it again on the next round.'
+    : undefined;
 
   const attach = async (readingId: string | null, checkId: string | null) => {
     setProblem(null);
@@ -117,7 +181,7 @@ export function RoundScreen({ roundId, initialStop = 0 }: { roundId: string; ini
     <View style={styles.stop} testID="stop-body">
       <View style={styles.stopHead}>
         <ThemedText variant="caption" muted>
-          Stop {stopIndex + 1} of {data.template.stops.length} · {stop.area}
+          Stop {stopAt + 1} of {data.template.stops.length} · {stop.area}
         </ThemedText>
         <ThemedText variant="title" testID="stop-name">
           {stop.name}
@@ -144,6 +208,9 @@ export function RoundScreen({ roundId, initialStop = 0 }: { roundId: string; ini
               skipped={cur?.skipReason ?? null}
               confirmed={cur?.confirmedAfterFlag ?? false}
               flags={flags}
+              readOnly={finished}
+              readOnlyNote={readOnlyNote}
+              autoFocus={focusTag === spec.tag}
               onSave={(text) => saveReading(data, spec, text)}
               onSkip={(reason) =>
                 void actions.recordReading({
@@ -169,7 +236,7 @@ export function RoundScreen({ roundId, initialStop = 0 }: { roundId: string; ini
                   supersedes: cur.id,
                 })
               }
-              onPhoto={() => void attach(cur?.id ?? null, null)}
+              onPhoto={finished ? undefined : () => void attach(cur?.id ?? null, null)}
             />
             {photos.length ? (
               <View style={styles.thumbs}>
@@ -193,13 +260,25 @@ export function RoundScreen({ roundId, initialStop = 0 }: { roundId: string; ini
         const photos = data.photos.filter((p) => p.checkId === c.id);
         return (
           <View key={c.id} style={styles.gapSm}>
-            <CheckField
-              check={c}
-              answer={a?.answer as CheckValue | undefined}
-              onAnswer={(v) => void actions.answerCheck({ roundId, checkId: c.id, answer: v })}
-              onPhoto={() => void attach(null, c.id)}
-              photoCount={photos.length}
-            />
+            {finished ? (
+              <View style={styles.readOnly} testID={`check-${c.id}-readonly`}>
+                <ThemedText variant="label">{c.prompt}</ThemedText>
+                <ThemedText bold>{answerText(a?.answer as CheckValue | undefined)}</ThemedText>
+              </View>
+            ) : (
+              <CheckField
+                check={c}
+                answer={a?.answer as CheckValue | undefined}
+                onAnswer={(v) => void actions.answerCheck({ roundId, checkId: c.id, answer: v })}
+                onPhoto={() => void attach(null, c.id)}
+                photoCount={photos.length}
+              />
+            )}
+            {c.photoRequired && !finished && photos.length === 0 ? (
+              <ThemedText variant="label" tone="warning" testID={`check-${c.id}-photo-needed`}>
+                A photo is required here before the round can be finished complete.
+              </ThemedText>
+            ) : null}
             {photos.length ? (
               <View style={styles.thumbs}>
                 {photos.map((p) => (
@@ -227,7 +306,7 @@ export function RoundScreen({ roundId, initialStop = 0 }: { roundId: string; ini
           testID="stop-prev"
           label="Previous stop"
           kind="plain"
-          disabled={stopIndex === 0}
+          disabled={stopAt === 0}
           onPress={() => setStopIndex((i) => Math.max(0, i - 1))}
         />
         <Button
@@ -236,22 +315,35 @@ export function RoundScreen({ roundId, initialStop = 0 }: { roundId: string; ini
           kind="plain"
           onPress={() => router.push(`/tech/round/${roundId}/review`)}
         />
-        {stopIndex < data.template.stops.length - 1 ? (
-          <Button testID="stop-next" label="Next stop" onPress={() => setStopIndex((i) => i + 1)} />
-        ) : (
+        {stopAt < data.template.stops.length - 1 ? (
+          <Button testID="stop-next" label="Next stop" onPress={() => setStopIndex(stopAt + 1)} />
+        ) : finished ? null : (
           <Button testID="round-review" label="Finish…" kind="accent" onPress={() => setFinishing(true)} />
         )}
       </View>
     </View>
   );
 
+  const finish = async () => {
+    setProblem(null);
+    try {
+      await actions.finishRound(roundId);
+      router.replace('/tech');
+    } catch (e) {
+      setProblem(e instanceof Error ? e.message : String(e));
+    }
+  };
+
   const finishPanel = (
     <Card testID="finish-panel">
       <ThemedText variant="title">Finish this round</ThemedText>
-      {missing.readings.length === 0 && missing.checks.length === 0 ? (
-        <ThemedText testID="finish-complete">Every reading and check is done.</ThemedText>
+      {gapCount === 0 ? (
+        <ThemedText testID="finish-complete">Every reading, check and required photo is done.</ThemedText>
       ) : (
         <View style={styles.gapSm} testID="finish-missing">
+          <ThemedText bold tone="warning" testID="finish-blocked">
+            {gapCount === 1 ? '1 gap' : `${gapCount} gaps`} — the round is not complete:
+          </ThemedText>
           {missing.readings.map((m) => (
             <ThemedText key={m.tag} testID={`missing-${m.tag}`}>
               Not read: {m.tag} ({m.stop})
@@ -262,20 +354,31 @@ export function RoundScreen({ roundId, initialStop = 0 }: { roundId: string; ini
               Not answered: {m.prompt} ({m.stop})
             </ThemedText>
           ))}
+          {missing.photos.map((m) => (
+            <ThemedText key={m.id} testID={`missing-photo-${m.id}`}>
+              Photo required: {m.prompt} ({m.stop})
+            </ThemedText>
+          ))}
         </View>
       )}
       <RoundCheckSummary roundId={roundId} onOpen={() => router.push(`/tech/round/${roundId}/review`)} />
+      {problem ? (
+        <ThemedText tone="danger" testID="finish-problem">
+          {problem}
+        </ThemedText>
+      ) : null}
       <View style={styles.nav}>
         <Button testID="finish-back" label="Back to the stops" kind="plain" onPress={() => setFinishing(false)} />
-        <Button
-          testID="finish-confirm"
-          label={missing.readings.length ? 'Finish with gaps' : 'Finish round'}
-          kind="accent"
-          onPress={async () => {
-            await actions.finishRound(roundId);
-            router.replace('/tech');
-          }}
-        />
+        {gapCount === 0 ? (
+          <Button testID="finish-confirm" label="Finish round" kind="accent" onPress={finish} />
+        ) : (
+          <Button
+            testID="finish-with-gaps"
+            label={`Finish with ${gapCount === 1 ? 'this gap' : `these ${gapCount} gaps`}`}
+            kind="danger"
+            onPress={finish}
+          />
+        )}
       </View>
     </Card>
   );
@@ -286,8 +389,8 @@ export function RoundScreen({ roundId, initialStop = 0 }: { roundId: string; ini
         {data.routeName}
       </ThemedText>
       {finished ? (
-        <ThemedText testID="round-finished" tone="ok">
-          This round is finished. Its readings stay on the device until the server has them.
+        <ThemedText testID="round-finished" bold tone={sendState?.refused ? 'danger' : 'info'}>
+          {finishedBanner(sendState)}
         </ThemedText>
       ) : null}
       {wide ? (
@@ -295,7 +398,7 @@ export function RoundScreen({ roundId, initialStop = 0 }: { roundId: string; ini
           <View style={styles.side}>
             <StopList
               stops={stops}
-              current={stopIndex}
+              current={stopAt}
               onPick={(i) => {
                 setStopIndex(i);
                 setFinishing(false);
@@ -309,7 +412,7 @@ export function RoundScreen({ roundId, initialStop = 0 }: { roundId: string; ini
       ) : (
         stopBody
       )}
-      {!wide && !finishing ? <StopList stops={stops} current={stopIndex} onPick={setStopIndex} /> : null}
+      {!wide && !finishing ? <StopList stops={stops} current={stopAt} onPick={setStopIndex} /> : null}
     </View>
   );
 }
@@ -324,4 +427,5 @@ const styles = StyleSheet.create({
   wideRow: { flexDirection: 'row', gap: space.lg, alignItems: 'flex-start' },
   side: { width: 280 },
   main: { flex: 1 },
+  readOnly: { gap: space.xxs, paddingVertical: space.xs },
 });

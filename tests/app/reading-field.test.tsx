@@ -4,7 +4,7 @@
  * is one tap. Behaviour is common practice for rounds capture; messages are Trueround's own.
  */
 import { fireEvent, render, screen, waitFor } from '@testing-library/react-native';
-import { parseTyped, ReadingField } from '@/components/reading-field';
+import { fieldState, parseTyped, ReadingField } from '@/components/reading-field';
 
 test.each([
   ['12.5', 12.5],
@@ -84,4 +84,47 @@ test('skipping takes a reason', () => {
   fireEvent.press(screen.getByTestId('reading-PI-110-skip'));
   fireEvent.press(screen.getByTestId('reading-PI-110-skip-1'));
   expect(onSkip).toHaveBeenCalledWith('Gauge broken or unreadable');
+});
+
+test.each([
+  ['', undefined, false, 'empty'],
+  ['40', undefined, false, 'unsaved'],
+  ['40', '40', false, 'saved'],
+  ['40.0', '40', false, 'saved'],
+  ['41', '40', false, 'unsaved'],
+  ['', '40', false, 'unsaved'],
+  ['40', '40', true, 'flagged'],
+] as const)('typed %j with %j saved (flagged %p) is %p', (text, saved, flagged, state) => {
+  expect(fieldState(text, saved, flagged)).toBe(state);
+});
+
+test('typed but not saved says so; saved says it is on the device', () => {
+  const { rerender } = render(<ReadingField {...base} onSave={() => null} />);
+  fireEvent.changeText(screen.getByTestId('reading-PI-110-input'), '40');
+  expect(screen.getByTestId('reading-PI-110-state')).toHaveTextContent('Not saved yet — tap Save');
+  rerender(<ReadingField {...base} saved="40" onSave={() => null} />);
+  expect(screen.getByTestId('reading-PI-110-state')).toHaveTextContent('✓ Saved on this device');
+});
+
+test('the skip list closes with "Don’t skip it", and a skip can be undone to type a value', () => {
+  const { rerender } = render(<ReadingField {...base} onSave={() => null} />);
+  fireEvent.press(screen.getByTestId('reading-PI-110-skip'));
+  expect(screen.getByTestId('reading-PI-110-skip')).toHaveTextContent('Don’t skip it');
+  rerender(<ReadingField {...base} skipped="Gauge not reachable" onSave={() => null} />);
+  expect(screen.queryByTestId('reading-PI-110-input')).toBeNull();
+  fireEvent.press(screen.getByTestId('reading-PI-110-unskip'));
+  expect(screen.getByTestId('reading-PI-110-input')).toBeTruthy();
+  expect(screen.getByTestId('reading-PI-110-unskip-note')).toHaveTextContent(
+    'The skip (Gauge not reachable) stays recorded until you save a value.',
+  );
+});
+
+test('a finished round shows the value read-only with the reason, and no field to type in', () => {
+  render(
+    <ReadingField {...base} saved="40" readOnly readOnlyNote="Finished: cannot be changed." onSave={() => null} />,
+  );
+  expect(screen.getByTestId('reading-PI-110-value')).toHaveTextContent('40 bar(g)');
+  expect(screen.getByTestId('reading-PI-110-readonly')).toHaveTextContent('Finished: cannot be changed.');
+  expect(screen.queryByTestId('reading-PI-110-input')).toBeNull();
+  expect(screen.queryByTestId('reading-PI-110-save')).toBeNull();
 });

@@ -100,7 +100,8 @@ async function tallShot(page: Page, name: string, size: { width: number; height:
 }
 
 async function finishFromPanel(page: Page) {
-  await page.getByTestId('finish-confirm').click();
+  // these rounds take readings only: their checks and required photos are left, so Finish names the gaps
+  await page.getByTestId('finish-confirm').or(page.getByTestId('finish-with-gaps')).click();
   await page.waitForURL('**/tech');
 }
 
@@ -188,8 +189,11 @@ test('the phone checks the whole round offline, sends the technician back to TI-
 
   // tap the re-take: its stop opens; re-read at design
   await page.getByTestId('retake-TI-206-go').click();
-  await page.waitForURL(`**/tech/round/${roundId}?stop=2`);
+  await page.waitForURL(`**/tech/round/${roundId}?stop=2&focus=${FAULT}`);
   await page.getByTestId('stop-name').filter({ hasText: 'LP extraction and LP heater' }).waitFor();
+  // the field to re-take has the cursor (and the browser scrolled it into view)
+  await page.waitForFunction(`document.activeElement?.getAttribute('data-testid') === 'reading-${FAULT}-input'`);
+  await shot(page, 'retake-focused-phone');
   await enter(page, FAULT, typed(FAULT));
   await cdp.send('Emulation.setCPUThrottlingRate', { rate: 4 });
   await page.getByTestId('round-check').click();

@@ -15,7 +15,7 @@ import { hashPassword } from '@/server/auth/passwords';
 import { DEMO_PASSWORD } from '@/server/seed/demo-users';
 import { demoDesignReadings } from '@/demo/unit';
 import { barometricFromElevation } from '@/shared/units';
-import { beginRoundOffline, launch, newPage, PHONE, shot, signIn, WIDE } from './helpers/browser';
+import { beginRoundOffline, launch, newPage, PHONE, shot, signIn, WIDE, signOutViaMenu } from './helpers/browser';
 import { startTestServer, type RunningServer } from './helpers/server';
 
 let server: RunningServer;
@@ -66,8 +66,7 @@ async function enter(page: Page, tag: string) {
 }
 
 async function signOut(page: Page) {
-  await page.getByTestId('sign-out').first().click();
-  await page.getByTestId('sign-in-email').waitFor();
+  await signOutViaMenu(page);
 }
 
 test("A records offline and signs out; B signs in: A's readings wait for A, and are stored as A's when A signs in again", async () => {

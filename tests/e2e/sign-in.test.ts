@@ -5,7 +5,7 @@
 import { mkdirSync } from 'node:fs';
 import type { Browser } from 'playwright-core';
 import { DEMO_PASSWORD, demoUsers } from '@/server/seed/demo-users';
-import { launch, newPage, PHONE, shot, signIn, WIDE } from './helpers/browser';
+import { launch, newPage, PHONE, shot, signIn, WIDE, signOutViaMenu } from './helpers/browser';
 import { startTestServer, type RunningServer } from './helpers/server';
 
 const roleWords: Record<string, string> = {
@@ -68,8 +68,7 @@ test.each(fernhallow.map((u) => [u.role, u] as const))(
     expect(new URL(page.url()).pathname).toBe(homePath[role]);
 
     // Signing out ends it.
-    await page.getByTestId('sign-out').first().click();
-    await page.getByTestId('sign-in-email').waitFor();
+    await signOutViaMenu(page);
     await page.goto(`${server.url}${homePath[role]}`);
     await page.getByTestId('sign-in-email').waitFor();
     await context.close();

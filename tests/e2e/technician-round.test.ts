@@ -31,6 +31,8 @@ const typed = (tag: string) => design[tag].toFixed(2);
 /** How the field shows a stored value: the number, without trailing zeros. */
 const shown = (tag: string) => String(Number(typed(tag)));
 const SKIPPED = 'FI-202';
+/** The checks the route asks a photo of (boiler-house template): Finish is blocked until each has one. */
+const PHOTO_CHECKS = boilerHouseRoute.stops.flatMap((s) => s.checks.filter((c) => c.photoRequired).map((c) => c.id));
 
 beforeAll(async () => {
   mkdirSync('.tmp/screens', { recursive: true });
@@ -95,7 +97,7 @@ test('a technician walks the boiler-house round offline, reloads mid-round, fini
         await page.getByTestId(`check-${c.id}-text`).fill('All in order');
         await page.getByTestId(`check-${c.id}-text`).blur();
       }
-      if (c.id === 'bfp-seal-leak') {
+      if (c.photoRequired) {
         const chooser = page.waitForEvent('filechooser');
         await page.getByTestId(`check-${c.id}-photo`).click();
         await (await chooser).setFiles(jpeg);
@@ -112,6 +114,9 @@ test('a technician walks the boiler-house round offline, reloads mid-round, fini
       // Mid-round, still offline: reload. The app opens from the service worker with every entry.
       await page.reload();
       await page.getByTestId('round-screen').waitFor();
+      // it reopens at the stop it was on, not the first
+      await page.getByTestId('stop-name').filter({ hasText: stop.name }).waitFor();
+      await page.getByTestId('stop-0').click();
       await page
         .getByTestId('reading-PI-001-input')
         .and(page.locator(`[value="${shown('PI-001')}"]`))
@@ -131,7 +136,7 @@ test('a technician walks the boiler-house round offline, reloads mid-round, fini
   await page.getByTestId('round-review').click();
   await page.getByTestId('finish-panel').waitFor();
   await shot(page, 'round-finish');
-  // FI-202 is optional: skipping it leaves nothing missing.
+  // FI-202 is optional: skipping it leaves nothing missing; every required photo was taken.
   await page.getByTestId('finish-complete').waitFor();
   await page.getByTestId('finish-confirm').click();
   await page.waitForURL('**/tech');
@@ -140,7 +145,10 @@ test('a technician walks the boiler-house round offline, reloads mid-round, fini
   await page.getByTestId('nav-tech-outbox').click();
   await page.getByTestId('sync-now').click();
   await page.getByTestId('outbox-waiting').filter({ hasText: /^0$/ }).waitFor({ timeout: 30_000 });
-  await page.getByTestId('outbox-photos-stored').filter({ hasText: /^1$/ }).waitFor({ timeout: 30_000 });
+  await page
+    .getByTestId('outbox-photos-stored')
+    .filter({ hasText: new RegExp(`^${PHOTO_CHECKS.length}$`) })
+    .waitFor({ timeout: 30_000 });
   await shot(page, 'outbox-synced');
 
   const db = new Client({ connectionString: server.databaseUrl });
@@ -175,10 +183,12 @@ test('a technician walks the boiler-house round offline, reloads mid-round, fini
       `select status, storage_key, thumb_key, width, height from photos where round_id = $1`,
       [roundId],
     );
-    expect(photos.rowCount).toBe(1);
-    expect(photos.rows[0]).toMatchObject({ status: 'stored', width: 640, height: 480 });
-    expect(photos.rows[0].thumb_key).toBeTruthy();
-    expect(existsSync(join(photoDir, photos.rows[0].thumb_key))).toBe(true);
+    expect(photos.rowCount).toBe(PHOTO_CHECKS.length);
+    for (const p of photos.rows) {
+      expect(p).toMatchObject({ status: 'stored', width: 640, height: 480 });
+      expect(p.thumb_key).toBeTruthy();
+      expect(existsSync(join(photoDir, p.thumb_key))).toBe(true);
+    }
 
     const round = await db.query(`select status from rounds where id = $1`, [roundId]);
     expect(round.rows[0].status).toBe('finished');

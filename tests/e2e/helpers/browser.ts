@@ -68,3 +68,11 @@ export async function beginRoundOffline(
   await page.waitForURL('**/tech/round/**');
   return page.url().split('/').pop()!;
 }
+
+/** Signs out through the account menu and its confirmation; ends on the sign-in form. */
+export async function signOutViaMenu(page: Page): Promise<void> {
+  await page.getByTestId('account-menu').first().click();
+  await page.getByTestId('sign-out').first().click();
+  await page.getByTestId('sign-out-confirm').click();
+  await page.getByTestId('sign-in-email').waitFor();
+}
