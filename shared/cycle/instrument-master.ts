@@ -10,15 +10,15 @@
  *  - an instrument whose row is out of service leaves the model (and a twin pointing at it loses
  *    the twin): its readings are not reconciled, and `outOfService` names it;
  *  - a model instrument with no row keeps the model's entry.
- * The effective version is "fnv1a64:" + the hash of the canonical JSON of the published model's
- * version and the rows it uses (in tag order, the fields above, calibration interval and status
- * included), so every instrument edit gives a new version that the round (from the phone) and its
- * analysis (on the server) record. The effective model itself carries its content hash as its
- * `version` (the engine checks that), which changes only with what the physics reads.
+ * The effective version is the content hash of the effective model (shared/cycle modelVersion):
+ * it is the published version while the rows agree with the model, and every edit the physics reads
+ * (range, accuracy class or resolution, face unit, reference, out of service) gives a new one, which
+ * the round (from the phone) and its analysis (on the server) record. An edit the physics does not
+ * read (calibration interval, the status "suspect") leaves it as it is.
  * Pure, browser-safe: the phone and the server run it on the same rows and agree to the digit.
  */
 import { accuracySpecSchema } from '../uncertainty';
-import { canonicalJson, fnv1a64, modelVersion, type CycleModel, type Instrument } from './model';
+import { modelVersion, type CycleModel, type Instrument } from './model';
 
 /** The fields of an instrument row that the model takes from the master (server row or pulled row). */
 export interface MasterInstrumentRow {
@@ -36,9 +36,9 @@ export interface MasterInstrumentRow {
 export const OUT_OF_SERVICE = 'out-of-service';
 
 export interface EffectiveModel {
-  /** the model with the master's values; its `version` is its own content hash (what the engine checks) */
+  /** the model with the master's values; its `version` is the effective version */
   model: CycleModel;
-  /** the effective version (the published model's version + the instrument rows it uses): rounds and analyses record it */
+  /** the effective version: the content hash of the effective model; rounds and analyses record it */
   version: string;
   /** tags of the model's instruments that are out of service (not reconciled), in model order */
   outOfService: string[];
@@ -47,7 +47,6 @@ export interface EffectiveModel {
 /** The model as the instrument master has it (see the file comment). */
 export function effectiveModel(model: CycleModel, rows: readonly MasterInstrumentRow[]): EffectiveModel {
   const byTag = new Map(rows.map((r) => [r.tag, r]));
-  const used: Record<string, unknown>[] = [];
   const outOfService: string[] = [];
   const kept: Instrument[] = [];
   for (const inst of model.instruments) {
@@ -56,16 +55,6 @@ export function effectiveModel(model: CycleModel, rows: readonly MasterInstrumen
       kept.push(inst);
       continue;
     }
-    used.push({
-      tag: row.tag,
-      quantity: row.quantity,
-      reference: row.reference ?? null,
-      range: row.range ? { min: row.range.min, max: row.range.max } : null,
-      accuracy: row.accuracy ?? null,
-      gaugeUnit: row.gaugeUnit,
-      calibrationIntervalDays: row.calibrationIntervalDays ?? null,
-      status: row.status,
-    });
     if (row.status === OUT_OF_SERVICE) {
       outOfService.push(inst.tag);
       continue;
@@ -87,10 +76,8 @@ export function effectiveModel(model: CycleModel, rows: readonly MasterInstrumen
     const { twin: _twin, ...rest } = i;
     return rest;
   });
-  used.sort((a, b) => (String(a.tag) < String(b.tag) ? -1 : String(a.tag) > String(b.tag) ? 1 : 0));
   const { version: _published, ...content } = { ...model, instruments };
   // the engine checks that a model's version is its content hash: the effective model carries its own
-  const contentVersion = modelVersion(content);
-  const version = `fnv1a64:${fnv1a64(canonicalJson({ model: model.version, instruments: used }))}`;
-  return { model: { ...content, version: contentVersion }, version, outOfService };
+  const version = modelVersion(content);
+  return { model: { ...content, version }, version, outOfService };
 }
