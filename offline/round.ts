@@ -17,7 +17,10 @@ export interface RoundData {
   round: LocalRound;
   template: RouteTemplate;
   routeName: string;
+  /** the unit's model as the instrument master has it (shared/cycle/instrument-master): out-of-service instruments left out */
   model: CycleModel | null;
+  /** each model instrument's label, by tag (out-of-service ones included) */
+  labels: Record<string, string>;
   instruments: Record<string, LocalInstrument>;
   readings: Record<string, LocalReading>;
   answers: Record<string, LocalCheckAnswer>;
@@ -111,6 +114,9 @@ export async function loadRound(store: Store, roundId: string, siteId: string | 
     template: version.template,
     routeName: route?.name ?? version.template.name,
     model,
+    labels: Object.fromEntries(
+      (parsed && parsed.ok ? parsed.model.instruments : []).flatMap((i) => (i.label ? [[i.tag, i.label]] : [])),
+    ),
     instruments,
     readings,
     answers,
