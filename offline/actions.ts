@@ -20,6 +20,7 @@ import {
   type PhotoMime,
   type ReadingFlag,
 } from '@/shared/api/sync';
+import { effectiveModel, validateModel } from '@/shared/cycle';
 import { isoTime, type Clock, type IdSource } from './ids';
 import type { LocalDbOps } from './local-db';
 import type { OutboxKind, OutboxPayloadOf } from './schemas';
@@ -194,6 +195,10 @@ export function createActions(deps: ActionDeps): Actions {
     const version = await store.getRouteVersion(r.routeVersionId, tx);
     const route = version ? await store.getRoute(version.routeId, tx) : null;
     const unit = route ? await store.getUnit(route.unitId, tx) : null;
+    // the effective version: the model with this device's instrument rows (shared/cycle/instrument-master)
+    const parsed = unit ? validateModel(unit.model) : null;
+    const modelVersion =
+      unit && parsed?.ok ? effectiveModel(parsed.model, await store.listInstruments(unit.id, tx)).version : undefined;
     return wire(PushRound, {
       id: r.id,
       routeVersionId: r.routeVersionId,
@@ -201,7 +206,7 @@ export function createActions(deps: ActionDeps): Actions {
       finishedAt: r.finishedAt,
       status: r.status,
       dismissals: r.dismissals.map(({ id: _id, ...d }) => d),
-      ...(unit ? { modelVersion: unit.modelVersion } : {}),
+      ...(modelVersion ? { modelVersion } : {}),
     });
   }
 

@@ -4,7 +4,7 @@
  * model, the other rounds of the same unit kept on the device, the dismissals made on the round.
  * The assembly and the analysis are in shared/review (the server runs the same).
  */
-import { validateModel, type CycleModel } from '@/shared/cycle';
+import { effectiveModel, validateModel, type CycleModel } from '@/shared/cycle';
 import { stopsOf, type RoundCheckInput, type CheckedRound, type RoundCheckRouteInfo } from '@/shared/round-check';
 import { BAROMETER_MAX_PA, BAROMETER_MIN_PA } from '@/shared/round-check/rows';
 import { HISTORY_ROUNDS, ROUND_CHECK_WINDOW_HOURS } from '@/shared/round-check/assemble';
@@ -18,7 +18,7 @@ export type DeviceRoundCheckLoad =
       input: RoundCheckInput & { model: CycleModel };
       round: LocalRound;
       routeName: string;
-      /** the model version the server published with the unit (SyncUnit.modelVersion) */
+      /** the content version of the model the check uses: the published model with the pulled instrument rows (shared/cycle/instrument-master) */
       unitModelVersion: string;
     }
   | { ok: false; problem: string; round: LocalRound | null };
@@ -75,11 +75,11 @@ export async function loadRoundCheckInput(
       problem: `The unit's cycle model on this device is damaged (${parsed.errors[0]?.path}: ${parsed.errors[0]?.message}); sync again.`,
       round,
     };
-  const model = parsed.model;
-  const instruments = Object.fromEntries((await store.listInstruments(unit.id)).map((i) => [i.tag, i])) as Record<
-    string,
-    LocalInstrument
-  >;
+  const rows = await store.listInstruments(unit.id);
+  // the model as the instrument master has it (shared/cycle/instrument-master), as the server's analysis reads it
+  const effective = effectiveModel(parsed.model, rows);
+  const model = effective.model;
+  const instruments = Object.fromEntries(rows.map((i) => [i.tag, i])) as Record<string, LocalInstrument>;
   const elev = await store.getMeta(SITE_ELEVATION_META(route.siteId));
   const elevationPa =
     elev !== null && Number.isFinite(Number(elev)) ? barometricFromElevation(Number(elev)) : undefined;
@@ -166,7 +166,7 @@ export async function loadRoundCheckInput(
     ok: true,
     round,
     routeName: route.name,
-    unitModelVersion: unit.modelVersion,
+    unitModelVersion: effective.model.version,
     input: {
       model,
       round: mine,

@@ -6,7 +6,7 @@
 import { checkInstrumentReading, checkReading, type SpotFlag } from '@/shared/checks';
 import { parseAccuracySpec, sigmaFor } from '@/shared/uncertainty';
 import type { CycleModel } from '@/shared/cycle/model';
-import { validateModel } from '@/shared/cycle';
+import { effectiveModel, validateModel } from '@/shared/cycle';
 import { barometricFromElevation, toSI, type PressureRef, type Quantity, type Unit } from '@/shared/units';
 import type { RouteReading, RouteTemplate } from '@/shared/route/template';
 import type { LocalCheckAnswer, LocalInstrument, LocalPhoto, LocalReading, LocalRound, Store } from '@/offline/store';
@@ -17,7 +17,10 @@ export interface RoundData {
   round: LocalRound;
   template: RouteTemplate;
   routeName: string;
+  /** the unit's model as the instrument master has it (shared/cycle/instrument-master): out-of-service instruments left out */
   model: CycleModel | null;
+  /** each model instrument's label, by tag (out-of-service ones included) */
+  labels: Record<string, string>;
   instruments: Record<string, LocalInstrument>;
   readings: Record<string, LocalReading>;
   answers: Record<string, LocalCheckAnswer>;
@@ -55,8 +58,9 @@ export async function loadRound(store: Store, roundId: string, siteId: string | 
   const route = await store.getRoute(version.routeId);
   const unit = route ? await store.getUnit(route.unitId) : null;
   const parsed = unit ? validateModel(unit.model) : null;
-  const model = parsed && parsed.ok ? parsed.model : null;
   const list = unit ? await store.listInstruments(unit.id) : [];
+  // the model as the instrument master has it: an out-of-service instrument is not in it
+  const model = parsed && parsed.ok ? effectiveModel(parsed.model, list).model : null;
   const instruments = Object.fromEntries(list.map((i) => [i.tag, i]));
   const current = await store.roundReadings(roundId);
   const readings = Object.fromEntries(current.map((r) => [r.tag, r]));
@@ -110,6 +114,9 @@ export async function loadRound(store: Store, roundId: string, siteId: string | 
     template: version.template,
     routeName: route?.name ?? version.template.name,
     model,
+    labels: Object.fromEntries(
+      (parsed && parsed.ok ? parsed.model.instruments : []).flatMap((i) => (i.label ? [[i.tag, i.label]] : [])),
+    ),
     instruments,
     readings,
     answers,

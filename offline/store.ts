@@ -360,8 +360,8 @@ export class Store {
     return this.parseRows('units', StoredUnit, rows)[0] ?? null;
   }
 
-  async listInstruments(unitId: string): Promise<LocalInstrument[]> {
-    const rows = await this.db.all<{ id: string; json: string }>(
+  async listInstruments(unitId: string, db: LocalDbOps = this.db): Promise<LocalInstrument[]> {
+    const rows = await db.all<{ id: string; json: string }>(
       'SELECT id, json FROM instruments WHERE unit_id = ? ORDER BY tag',
       [unitId],
     );

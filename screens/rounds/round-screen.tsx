@@ -198,10 +198,7 @@ export function RoundScreen({
           <View key={spec.tag} style={styles.gapSm}>
             <ReadingField
               tag={spec.tag}
-              description={
-                data.model?.instruments.find((i) => i.tag === spec.tag)?.label ??
-                (inst ? undefined : "Not in this unit's instrument list")
-              }
+              description={data.labels[spec.tag] ?? (inst ? undefined : "Not in this unit's instrument list")}
               unitLabel={unitLabel(spec.unit as Unit, spec.reference)}
               bandText={bandText(spec)}
               saved={cur?.valueTyped !== null && cur?.valueTyped !== undefined ? String(cur.valueTyped) : undefined}
@@ -238,6 +235,12 @@ export function RoundScreen({
               }
               onPhoto={finished ? undefined : () => void attach(cur?.id ?? null, null)}
             />
+            {inst?.status === 'out-of-service' ? (
+              <ThemedText variant="caption" tone="warning" testID={`out-of-service-${spec.tag}`}>
+                {spec.tag} is out of service: a reading is kept, but the round check and the analysis do not reconcile
+                it.
+              </ThemedText>
+            ) : null}
             {photos.length ? (
               <View style={styles.thumbs}>
                 {photos.map((p) => (

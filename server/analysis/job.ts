@@ -32,6 +32,7 @@ import {
   type RoundAnalysis,
   type RoundReading,
 } from '../../shared/cycle';
+import { effectiveModel, type MasterInstrumentRow } from '../../shared/cycle/instrument-master';
 import { assembleRoundCheck, roundsFromRows, type ReadingRow } from '../../shared/round-check';
 import { barometricFromElevation } from '../../shared/units';
 import type { Logger } from '../logger';
@@ -43,7 +44,7 @@ import {
   type WorkOrderChanges,
 } from '../work-orders/from-findings';
 import { instrumentEvidence } from './evidence';
-import { serverFindings } from './plant-checks';
+import { outOfServiceFindings, serverFindings } from './plant-checks';
 
 export interface AnalysisDeps {
   dataSource: DataSource;
@@ -71,7 +72,7 @@ interface RoundRow {
   elevation_m: number;
 }
 
-interface InstrumentRow extends UnitInstrument {
+interface InstrumentRow extends UnitInstrument, MasterInstrumentRow {
   isBarometer: boolean;
 }
 
@@ -108,9 +109,15 @@ export async function runAnalysisJob(deps: AnalysisDeps, roundId: string): Promi
       model_version: string;
     }[];
     const instrumentRows = (await em.query(
-      `SELECT "id", "tag", "point_ref" AS "pointRef", "equipment_ref" AS "equipmentRef", "is_barometer" AS "isBarometer" FROM "instruments" WHERE "unit_id" = $1`,
+      `SELECT "id", "tag", "point_ref" AS "pointRef", "equipment_ref" AS "equipmentRef", "is_barometer" AS "isBarometer",
+              "quantity", "reference", "range", "accuracy", "gauge_unit" AS "gaugeUnit",
+              "calibration_interval_days" AS "calibrationIntervalDays", "status"
+         FROM "instruments" WHERE "unit_id" = $1 ORDER BY "tag"`,
       [unit.id],
     )) as InstrumentRow[];
+    // the instrument master: the rows' range, accuracy and status over the model's entries
+    const effective = effectiveModel(unit.model, instrumentRows);
+    const model = effective.model;
     const byId = new Map(instrumentRows.map((i) => [i.id, i]));
     const idByTag = new Map(instrumentRows.map((i) => [i.tag, i.id]));
 
@@ -174,7 +181,7 @@ export async function runAnalysisJob(deps: AnalysisDeps, roundId: string): Promi
     );
     const me = checkRounds.find((r) => r.id === round.id)!;
     const assembled = assembleRoundCheck({
-      model: unit.model,
+      model,
       round: me,
       others: checkRounds.filter((r) => r.id !== round.id),
       at: me.finishedAt ?? me.startedAt,
@@ -198,7 +205,7 @@ export async function runAnalysisJob(deps: AnalysisDeps, roundId: string): Promi
         value_si: r.valueSi,
         device_time: new Date(iso(r.deviceTime)!),
       }));
-    const inputHash = sha256(canonicalJson({ modelVersion: unit.model_version, context: assembled.context, readings }));
+    const inputHash = sha256(canonicalJson({ modelVersion: effective.version, context: assembled.context, readings }));
 
     const [existing] = (await em.query(
       `SELECT "id", "is_current" FROM "analyses" WHERE "round_id" = $1 AND "input_hash" = $2`,
@@ -219,10 +226,10 @@ export async function runAnalysisJob(deps: AnalysisDeps, roundId: string): Promi
       return { status: 'unchanged', roundId, analysisId: existing.id };
     }
 
-    const analysis = analyseRound(unit.model, readings, assembled.context);
+    const analysis = analyseRound(model, readings, assembled.context);
     const routeTags = new Set(round.template.stops.flatMap((s) => s.readings.map((r) => r.tag)));
     const modelVersionMismatch =
-      round.device_model_version !== null && round.device_model_version !== unit.model_version;
+      round.device_model_version !== null && round.device_model_version !== effective.version;
 
     await em.query(`UPDATE "analyses" SET "is_current" = false WHERE "round_id" = $1 AND "is_current"`, [round.id]);
     await em.query(`UPDATE "analysis_instruments" SET "is_current" = false WHERE "round_id" = $1 AND "is_current"`, [
@@ -237,7 +244,8 @@ export async function runAnalysisJob(deps: AnalysisDeps, roundId: string): Promi
       new Map(mine.map((r) => [r.instrument_id, r.device_time])),
     );
     const findings = [
-      ...serverFindings(unit.model, analysis.findings, analysis.performance, routeTags),
+      ...serverFindings(model, analysis.findings, analysis.performance, routeTags),
+      ...outOfServiceFindings(effective.outOfService, routeTags),
       ...evidence.findings,
     ];
     const [{ id: analysisId }] = (await em.query(
@@ -249,7 +257,7 @@ export async function runAnalysisJob(deps: AnalysisDeps, roundId: string): Promi
         round.site_id,
         unit.id,
         inputHash,
-        unit.model_version,
+        effective.version,
         round.device_model_version,
         modelVersionMismatch,
         barometricPa,
@@ -258,7 +266,7 @@ export async function runAnalysisJob(deps: AnalysisDeps, roundId: string): Promi
         JSON.stringify(analysis.balances),
         JSON.stringify(analysis.performance),
         JSON.stringify(analysis.instruments),
-        JSON.stringify(summaryOfReconciliation(analysis.reconciliation)),
+        JSON.stringify({ ...summaryOfReconciliation(analysis.reconciliation), outOfService: effective.outOfService }),
         findings.length,
       ],
     )) as { id: string }[];
@@ -356,7 +364,7 @@ export async function runAnalysisJob(deps: AnalysisDeps, roundId: string): Promi
         roundId: round.id,
         roundReceivedAt: round.received_at,
         roundSeq: Number(round.server_seq),
-        model: unit.model,
+        model,
         instruments: byId,
         suspects,
         named: evidence.named,

@@ -15,6 +15,7 @@
  * covers part of the unit; the rest is read on other routes).
  */
 import type { CycleModel, Finding, PerformanceFigure } from '../../shared/cycle';
+import { NOTE } from '../../shared/cycle/severity';
 import { tsat } from '../../shared/steam';
 
 export const CONDENSER_TTD_MARGIN_K = 3;
@@ -81,4 +82,20 @@ export function serverFindings(
     (f) => f.kind !== 'missing-reading' || f.instrumentTags.some((t) => routeTags.has(t)),
   );
   return [...kept, ...condenserChecks(model, performance)];
+}
+
+/**
+ * instrument-out-of-service: one note per model instrument whose row in the instrument master is
+ * out of service (shared/cycle/instrument-master.ts). Its readings were left out of the
+ * reconciliation; the note says so, and whether this round's route reads it.
+ */
+export function outOfServiceFindings(tags: readonly string[], routeTags: ReadonlySet<string>): ServerFinding[] {
+  return tags.map((tag) => ({
+    kind: 'instrument-out-of-service',
+    severity: NOTE,
+    instrumentTags: [tag],
+    instrumentIds: [],
+    message: `${tag} is out of service: its readings are not reconciled and no balance checks them in this analysis.`,
+    evidence: { status: 'out-of-service', onRoute: routeTags.has(tag) },
+  }));
 }

@@ -26,6 +26,7 @@ export {
   type PortUse,
 } from './model';
 export { validateModel, type ValidationError, type ValidationResult } from './validate';
+export { effectiveModel, OUT_OF_SERVICE, type EffectiveModel, type MasterInstrumentRow } from './instrument-master';
 export {
   buildEquations,
   balanceSpecs,

@@ -14,12 +14,17 @@
  * analysis (GET /api/sites/:siteId/rounds/:roundId/analysis).
  */
 import { demoUnit } from '@/demo/unit';
+import type { SyncInstrument } from '@/shared/api/sync';
+import { effectiveModel } from '@/shared/cycle';
 import { checkRound, type RoundCheck } from '@/shared/round-check';
 import { loadRoundCheckInput } from '@/offline/round-check';
-import { demoDevice, demoPull, designTyped, differences, serverSideInput, walk, type Device } from './helpers';
+import { SITE, demoDevice, demoPull, designTyped, differences, serverSideInput, walk, type Device } from './helpers';
 
 type Case = {
   name: string;
+  /** instrument rows changed by an admin before the rounds (the device pulls the same rows the server holds) */
+  edits?: Record<string, Partial<SyncInstrument>>;
+  expectOutOfService?: string[];
   review: string;
   faults: Record<string, Record<string, (v: number) => number>>;
   retake?: string;
@@ -59,10 +64,29 @@ const CASES: Case[] = [
     faults: { 'boiler-house': { 'TI-302': (v) => v + 10 } },
     expectSuspects: ['TI-302'],
   },
+  {
+    name: 'an admin put TI-206 out of service and class 2 on TI-204 (the device pulled the rows)',
+    review: 'turbine-hall',
+    edits: {
+      'TI-206': { status: 'out-of-service' },
+      'TI-204': { accuracy: { kind: 'iec60584', type: 'K', class: 2, resolution: 0.5 } },
+    },
+    faults: { 'turbine-hall': { 'TI-206': (v) => v + 6 } },
+    expectSuspects: [],
+    expectOutOfService: ['TI-206'],
+  },
 ];
+
+function rowsOf(c: Case): SyncInstrument[] {
+  return demoPull().instruments.map((i) =>
+    c.edits?.[i.tag] ? { ...i, ...c.edits[i.tag], rowVersion: 2, syncVersion: 2 } : i,
+  );
+}
 
 async function both(c: Case): Promise<{ device: RoundCheck; server: RoundCheck; d: Device }> {
   const d = await demoDevice();
+  if (c.edits)
+    await d.store.applyPull(SITE, { ...demoPull(), cursor: 2, units: [], routes: [], instruments: rowsOf(c) });
   const typed = designTyped();
   const order = ['boiler-house', 'condenser-cooling-water', 'turbine-hall']
     .filter((k) => k !== c.review)
@@ -93,7 +117,7 @@ async function both(c: Case): Promise<{ device: RoundCheck; server: RoundCheck; 
   const load = await loadRoundCheckInput(d.store, roundId);
   if (!load.ok) throw new Error(load.problem);
   const device = checkRound(load.input);
-  const server = checkRound(await serverSideInput(d, roundId, Date.parse(finished.finishedAt!)));
+  const server = checkRound(await serverSideInput(d, roundId, Date.parse(finished.finishedAt!), rowsOf(c)));
   return { device, server, d };
 }
 
@@ -110,9 +134,22 @@ describe('the phone and the server give the same round check', () => {
     expect(device.retakes.map((i) => i.line)).toEqual(server.retakes.map((i) => i.line));
     expect(device.balances).toEqual(server.balances);
     expect(device.fingerprint).toBe(server.fingerprint);
-    // the model version the device used is the one the server published with the unit
-    expect(device.modelVersion).toBe(demoPull().units[0].modelVersion);
-    expect(server.modelVersion).toBe(demoUnit.version);
+    // both used the effective version: the published model with the instrument rows; rows that
+    // agree with the model keep the version the server published with the unit
+    const effective = effectiveModel(demoUnit, rowsOf(c));
+    expect(device.modelVersion).toBe(effective.version);
+    expect(server.modelVersion).toBe(effective.version);
+    if (c.edits) expect(effective.version).not.toBe(demoUnit.version);
+    else expect(device.modelVersion).toBe(demoPull().units[0].modelVersion);
+    expect(effective.outOfService).toEqual(c.expectOutOfService ?? []);
+    for (const tag of c.expectOutOfService ?? []) {
+      expect(device.analysis.instruments.map((i) => i.tag)).not.toContain(tag);
+    }
+    if (c.edits?.['TI-204']) {
+      // IEC 60584-1 class 2, type K: ±2.5 K or 0.0075·|t| above 333 °C (a uniform bound, σ = a/√3, GUM 4.3.7)
+      const ti204 = device.analysis.instruments.find((i) => i.tag === 'TI-204')!;
+      expect(ti204.sigma).toBeGreaterThan(2.5 / Math.sqrt(3) - 1e-9);
+    }
   });
 
   test('the comparison can fail: one reading 1e-6 relative off changes figures beyond 1e-9', async () => {

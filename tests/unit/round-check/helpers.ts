@@ -10,7 +10,7 @@
 import { PullResponse, type PushReading, type PushRound, type SyncInstrument, type SyncRoute } from '@/shared/api/sync';
 import { fernhallowBarometer, fernhallowRoutes } from '@/demo/routes';
 import type { RouteTemplate } from '@/shared/route/template';
-import { type Instrument } from '@/shared/cycle';
+import { effectiveModel, type Instrument } from '@/shared/cycle';
 import { demoDesignReadings, demoUnit } from '@/demo/unit';
 import { checkRound, roundsFromRows, type ReadingRow, type RoundCheckInput, type RoundRow } from '@/shared/round-check';
 import { barometricFromElevation, siteBarometricPa, toSI, type Quantity } from '@/shared/units';
@@ -177,7 +177,16 @@ const routeKeyOfVersion = Object.fromEntries(Object.entries(VERSION_ID).map(([k,
  * reading, else the site's elevation through the ICAO standard atmosphere), then the check run on
  * those rows through shared/review's row adapter.
  */
-export async function serverSideInput(d: Device, roundId: string, at: number): Promise<RoundCheckInput> {
+/**
+ * The server side of a round check. `instruments` are the server's instrument rows (the instrument
+ * master, shared/cycle/instrument-master): the pulled rows unless a test changed them.
+ */
+export async function serverSideInput(
+  d: Device,
+  roundId: string,
+  at: number,
+  instruments: readonly SyncInstrument[] = demoPull().instruments,
+): Promise<RoundCheckInput> {
   const { rounds, readings } = await pushed(d);
   const baro = new Map<string, number>();
   const superseded = new Set(readings.map((r) => r.supersedes).filter(Boolean));
@@ -226,7 +235,7 @@ export async function serverSideInput(d: Device, roundId: string, at: number): P
   const round = all.find((r) => r.id === roundId)!;
   const dismissals = rounds.find((r) => r.id === roundId)!.dismissals;
   return {
-    model: demoUnit,
+    model: effectiveModel(demoUnit, instruments).model,
     round,
     others: all.filter((r) => r.id !== roundId),
     at,
