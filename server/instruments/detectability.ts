@@ -2,13 +2,16 @@
  * The detectability map of a site's units (shared/cycle/detectability.ts), at each unit's latest
  * current analysis: its per-instrument rows hold the readings (SI absolute) and the σ the
  * analysis gave them, which are the operating point. The map is a pure function of the analysis
- * and the model, so it is kept per (analysis, model version) in a small in-process cache: the
+ * and the model as the instrument master has it today (shared/cycle/instrument-master.ts: range,
+ * class and status from the instruments table), so it is kept per (analysis, effective model
+ * version) in a small in-process cache: the
  * search over candidate measurements reconciles the unit some forty times (about 0.5 s on the demo
  * unit on this machine), and every process may compute it again.
  */
 import type { DataSource } from 'typeorm';
 import type { DetectabilityResponse, UnitDetectability } from '../../shared/api/detectability';
 import { detectabilityMap, type CycleModel, type DetectabilityMap, type InstrumentResult } from '../../shared/cycle';
+import { effectiveModel, type MasterInstrumentRow } from '../../shared/cycle/instrument-master';
 import { AppError } from '../errors';
 
 const CACHE_SIZE = 16;
@@ -58,13 +61,27 @@ export async function siteDetectability(
       unitId,
       siteId,
     ])) as unknown[];
-    if (!u) throw new AppError(404, 'not_found', `No unit ${unitId} on this site`);
+    if (!u) throw new AppError(404, 'not_found', 'No such unit on this site');
   }
+  const masterRows = rows.length
+    ? ((await ds.query(
+        `SELECT "unit_id", "tag", "quantity", "reference", "range", "accuracy", "gauge_unit" AS "gaugeUnit",
+                "calibration_interval_days" AS "calibrationIntervalDays", "status"
+           FROM "instruments" WHERE "unit_id" = ANY($1) ORDER BY "tag"`,
+        [rows.map((r) => r.unit_id)],
+      )) as (MasterInstrumentRow & { unit_id: string })[])
+    : [];
   const units: UnitDetectability[] = rows.map((r) => {
+    const effective = effectiveModel(
+      r.model,
+      masterRows.filter((m) => m.unit_id === r.unit_id),
+    );
     const readings = r.instruments
       .filter((i) => i.reading !== null && i.sigma !== null && (i.status === 'used' || i.status === 'not-in-balance'))
       .map((i) => ({ tag: i.tag, value: i.reading!, sigma: i.sigma! }));
-    const map = cached(`${r.analysis_id}|${r.model_version}`, () => detectabilityMap(r.model, readings));
+    const map = cached(`${r.analysis_id}|${effective.model.version}`, () =>
+      detectabilityMap(effective.model, readings),
+    );
     return {
       unitId: r.unit_id,
       unitName: r.unit_name,
