@@ -299,7 +299,9 @@ function groups(ids: string[], pairs: [string, string][]): Map<string, string> {
 
 // ---------------------------------------------------------------------------------------------
 // enthalpy expressions (kJ/kg of internal variables), each with a one-entry cache: reconcile()
-// asks for f and then grad at the same point
+// asks for f and then grad at the same point. The pressure derivative (two more IF97 calls) is
+// formed only when a gradient asks for it: a value alone (a trial step, the figures' sensitivity
+// moves) does not pay for it.
 
 function pDeriv(pS: number): number {
   return Math.max(pS * REL_DP, 1e-3);
@@ -309,30 +311,39 @@ function hSinglePhase(phase: PointPhase, pRef: Ref, TVar: string): HExpr {
   const pVar = 'var' in pRef ? pRef.var : null;
   let kp = NaN;
   let kT = NaN;
-  let c = { h: 0, dp: 0, dT: 0 };
+  let h = 0;
+  let dT = 0;
+  /** dp at (kp, kT), NaN until asked for */
+  let dp = NaN;
   const at = (v: Readonly<Record<string, number>>) => {
     const p = valueOf(pRef, v);
     const T = v[TVar];
-    if (p === kp && T === kT) return c;
-    const pS = p * SCALE.p;
-    const a = propsPT(pS, T, phase);
-    let dp = 0;
-    if (pVar) {
-      const d = pDeriv(pS);
-      dp = ((propsPT(pS + d, T, phase).h - propsPT(pS - d, T, phase).h) / (2 * d)) * (SCALE.p / SCALE.h);
-    }
+    if (p === kp && T === kT) return;
+    const a = propsPT(p * SCALE.p, T, phase);
     kp = p;
     kT = T;
-    c = { h: a.h / SCALE.h, dp, dT: a.cp / SCALE.h };
-    return c;
+    h = a.h / SCALE.h;
+    dT = a.cp / SCALE.h;
+    dp = NaN;
+  };
+  const dpAt = () => {
+    if (Number.isNaN(dp)) {
+      const pS = kp * SCALE.p;
+      const d = pDeriv(pS);
+      dp = ((propsPT(pS + d, kT, phase).h - propsPT(pS - d, kT, phase).h) / (2 * d)) * (SCALE.p / SCALE.h);
+    }
+    return dp;
   };
   return {
     deps: pVar ? [pVar, TVar] : [TVar],
-    value: (v) => at(v).h,
+    value: (v) => {
+      at(v);
+      return h;
+    },
     grad: (v) => {
-      const r = at(v);
-      const g: Record<string, number> = { [TVar]: r.dT };
-      if (pVar) g[pVar] = r.dp;
+      at(v);
+      const g: Record<string, number> = { [TVar]: dT };
+      if (pVar) g[pVar] = dpAt();
       return g;
     },
   };
@@ -342,33 +353,42 @@ function hSaturated(phase: PointPhase, pRef: Ref, xVar: string | null): HExpr {
   const pVar = 'var' in pRef ? pRef.var : null;
   let kp = NaN;
   let kx = NaN;
-  let c = { h: 0, dp: 0, dx: 0 };
+  let h = 0;
+  let dx = 0;
+  /** dp at (kp, kx), NaN until asked for */
+  let dp = NaN;
   const mix = (s: { hf: number; hg: number }, x: number) =>
     phase === 'saturated-liquid' ? s.hf : phase === 'saturated-vapour' ? s.hg : s.hf + x * (s.hg - s.hf);
   const at = (v: Readonly<Record<string, number>>) => {
     const p = valueOf(pRef, v);
     const x = xVar ? v[xVar] : 0;
-    if (p === kp && x === kx) return c;
-    const pS = p * SCALE.p;
-    const s0 = propsSat(pS);
-    let dp = 0;
-    if (pVar) {
-      const d = pDeriv(pS);
-      dp = ((mix(propsSat(pS + d), x) - mix(propsSat(pS - d), x)) / (2 * d)) * (SCALE.p / SCALE.h);
-    }
+    if (p === kp && x === kx) return;
+    const s0 = propsSat(p * SCALE.p);
     kp = p;
     kx = x;
-    c = { h: mix(s0, x) / SCALE.h, dp, dx: (s0.hg - s0.hf) / SCALE.h };
-    return c;
+    h = mix(s0, x) / SCALE.h;
+    dx = (s0.hg - s0.hf) / SCALE.h;
+    dp = NaN;
+  };
+  const dpAt = () => {
+    if (Number.isNaN(dp)) {
+      const pS = kp * SCALE.p;
+      const d = pDeriv(pS);
+      dp = ((mix(propsSat(pS + d), kx) - mix(propsSat(pS - d), kx)) / (2 * d)) * (SCALE.p / SCALE.h);
+    }
+    return dp;
   };
   return {
     deps: [...(pVar ? [pVar] : []), ...(xVar ? [xVar] : [])],
-    value: (v) => at(v).h,
+    value: (v) => {
+      at(v);
+      return h;
+    },
     grad: (v) => {
-      const r = at(v);
+      at(v);
       const g: Record<string, number> = {};
-      if (pVar) g[pVar] = r.dp;
-      if (xVar) g[xVar] = r.dx;
+      if (pVar) g[pVar] = dpAt();
+      if (xVar) g[xVar] = dx;
       return g;
     },
   };

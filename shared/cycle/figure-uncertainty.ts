@@ -26,9 +26,9 @@
  */
 import type { ReconcileInput, ReconcileResult } from '../reconcile';
 import { reconciledSensitivity } from '../reconcile/sensitivity';
-import { SCALE, type EquationSystem, type HExpr } from './equations';
-import type { CycleModel } from './model';
-import { figureValues, type FigureState } from './performance';
+import { SCALE, type EquationSystem, type HExpr, type PointRefs } from './equations';
+import type { CycleModel, CyclePoint } from './model';
+import { figureFunctions, type FigureState } from './performance';
 import { propsSat, stateFromPH, stateFromPT, tsatSafe } from './properties';
 import type { FigureUncertainty, PerformanceFigure } from './types';
 
@@ -50,6 +50,87 @@ export function meaningfulSpan(f: Pick<PerformanceFigure, 'unit' | 'value'>): nu
   return fin(f.value) && f.value !== 0 ? Math.abs(f.value) : null;
 }
 
+/** How one point's reconciled state is built, and the variables it reads. */
+interface PointPlan {
+  pt: CyclePoint;
+  r: PointRefs;
+  sat: boolean;
+  hx: HExpr | null;
+  /** variables (or loose readings) p, T, h, s, x and the phase are built from */
+  core: string[];
+  /** the variable (or loose reading) of the mass flow */
+  m: string | null;
+}
+
+function planPoints(model: CycleModel, eq: EquationSystem): PointPlan[] {
+  return model.points.map((pt) => {
+    const r = eq.points[pt.id];
+    const sat = pt.phase === 'saturated-liquid' || pt.phase === 'saturated-vapour' || pt.phase === 'two-phase';
+    const hx = r.h ?? eq.hGroups[r.hGroup]?.h ?? null;
+    const core = new Set<string>();
+    if ('var' in r.p) core.add(r.p.var);
+    if (!sat && r.T && 'var' in r.T) core.add(r.T.var);
+    if (hx) for (const d of hx.deps) core.add(d);
+    if (r.x) core.add(r.x);
+    return { pt, r, sat, hx, core: [...core], m: r.m };
+  });
+}
+
+/** A value by id, SI: reconciled (internal units in `fv`) or a reading no balance reads (`loose`). */
+function valueOf(
+  eq: EquationSystem,
+  fv: Readonly<Record<string, number>>,
+  loose: ReadonlyMap<string, number>,
+  id: string,
+): number | null {
+  if (id in fv) return fv[id] * SCALE[eq.vars[id]?.kind ?? 'T'];
+  if (eq.notInBalance.includes(id)) return loose.get(id) ?? null;
+  return null;
+}
+
+/** One point's reconciled state (as the analysis builds it in round/states.ts). */
+function pointState(
+  eq: EquationSystem,
+  plan: PointPlan,
+  fv: Readonly<Record<string, number>>,
+  loose: ReadonlyMap<string, number>,
+): FigureState {
+  const { pt, r, sat, hx } = plan;
+  const recV = (id: string) => valueOf(eq, fv, loose, id);
+  const p = 'var' in r.p ? recV(r.p.var) : r.p.value * SCALE.p;
+  let T: number | null = null;
+  if (sat) T = fin(p) ? tsatSafe(p) : null;
+  else if (r.T && 'var' in r.T) T = recV(r.T.var);
+  let h: number | null = null;
+  if (hx) {
+    let known = true;
+    for (const d of hx.deps) if (!fin(fv[d])) known = false;
+    if (known) {
+      const hv = hx.value(fv) * SCALE.h;
+      h = fin(hv) ? hv : null;
+    }
+  }
+  if (h === null && fin(p)) {
+    if (pt.phase === 'saturated-liquid') h = propsSat(p).hf;
+    else if (pt.phase === 'saturated-vapour') h = propsSat(p).hg;
+    else if (!sat && fin(T)) h = stateFromPT(p, T)?.h ?? null;
+  }
+  const st = fin(p) && fin(h) ? stateFromPH(p, h) : null;
+  let x: number | null = r.x ? recV(r.x) : null;
+  if (x === null) x = pt.phase === 'saturated-liquid' ? 0 : pt.phase === 'saturated-vapour' ? 1 : (st?.x ?? null);
+  if (T === null && st) T = st.T;
+  const m = r.m ? recV(r.m) : null;
+  return {
+    p: orNull(p),
+    T: orNull(T),
+    h: orNull(h),
+    s: orNull(st?.s),
+    x: orNull(x),
+    m: orNull(m),
+    phase: st?.phase ?? null,
+  };
+}
+
 /**
  * The reconciled state of every point from reconciled values `fv` (internal units, as reconcile()
  * returns them) and the SI values of readings no balance reads (`loose`).
@@ -60,47 +141,8 @@ export function reconciledStates(
   fv: Readonly<Record<string, number>>,
   loose: ReadonlyMap<string, number>,
 ): Map<string, FigureState> {
-  const scaleOf = (id: string) => SCALE[eq.vars[id]?.kind ?? 'T'];
-  const recV = (id: string): number | null => {
-    if (id in fv) return fv[id] * scaleOf(id);
-    if (eq.notInBalance.includes(id)) return loose.get(id) ?? null;
-    return null;
-  };
-  const evalH = (e: HExpr): number | null => {
-    for (const d of e.deps) if (!fin(fv[d])) return null;
-    const h = e.value(fv) * SCALE.h;
-    return fin(h) ? h : null;
-  };
   const out = new Map<string, FigureState>();
-  for (const pt of model.points) {
-    const r = eq.points[pt.id];
-    const sat = pt.phase === 'saturated-liquid' || pt.phase === 'saturated-vapour' || pt.phase === 'two-phase';
-    const p = 'var' in r.p ? recV(r.p.var) : r.p.value * SCALE.p;
-    let T: number | null = null;
-    if (sat) T = fin(p) ? tsatSafe(p) : null;
-    else if (r.T && 'var' in r.T) T = recV(r.T.var);
-    const hx = r.h ?? eq.hGroups[r.hGroup]?.h ?? null;
-    let h: number | null = hx ? evalH(hx) : null;
-    if (h === null && fin(p)) {
-      if (pt.phase === 'saturated-liquid') h = propsSat(p).hf;
-      else if (pt.phase === 'saturated-vapour') h = propsSat(p).hg;
-      else if (!sat && fin(T)) h = stateFromPT(p, T)?.h ?? null;
-    }
-    const st = fin(p) && fin(h) ? stateFromPH(p, h) : null;
-    let x: number | null = r.x ? recV(r.x) : null;
-    if (x === null) x = pt.phase === 'saturated-liquid' ? 0 : pt.phase === 'saturated-vapour' ? 1 : (st?.x ?? null);
-    if (T === null && st) T = st.T;
-    const m = r.m ? recV(r.m) : null;
-    out.set(pt.id, {
-      p: orNull(p),
-      T: orNull(T),
-      h: orNull(h),
-      s: orNull(st?.s),
-      x: orNull(x),
-      m: orNull(m),
-      phase: st?.phase ?? null,
-    });
-  }
+  for (const plan of planPoints(model, eq)) out.set(plan.pt.id, pointState(eq, plan, fv, loose));
   return out;
 }
 
@@ -132,15 +174,86 @@ export function withUncertainty(input: FigureUncertaintyInput): PerformanceFigur
   const powerTag = new Map<string, string>();
   for (const i of model.instruments)
     if (i.quantity === 'power' && accepted.has(i.tag) && !powerTag.has(i.equipment!)) powerTag.set(i.equipment!, i.tag);
-  const evaluate = (vals: Readonly<Record<string, number>>, lo: ReadonlyMap<string, number>): (number | null)[] => {
-    const states = reconciledStates(model, eq, vals, lo);
-    const recPower = (gid: string): number | null => {
+  const powerOf =
+    (vals: Readonly<Record<string, number>>, lo: ReadonlyMap<string, number>) =>
+    (gid: string): number | null => {
       const t = powerTag.get(gid);
       if (!t) return null;
       if (t in vals) return vals[t] * SCALE[eq.vars[t]?.kind ?? 'power'];
       return eq.notInBalance.includes(t) ? (lo.get(t) ?? null) : null;
     };
-    return figureValues(model, (id) => states.get(id) ?? EMPTY, recPower);
+
+  // A move of one reading changes only the points that read a variable it moves, and only the
+  // figures that read such a point (or a generator whose power reading it moves): the rest keep
+  // their value at the solution. A figure is a deterministic function of the states it reads, so
+  // when none of them changed it would take the same path to the same value.
+  const plans = planPoints(model, eq);
+  const nP = plans.length;
+  const pointIndex = new Map(plans.map((pl, i) => [pl.pt.id, i]));
+  const coreReaders = new Map<string, number[]>();
+  const flowReaders = new Map<string, number[]>();
+  plans.forEach((pl, i) => {
+    for (const id of pl.core) (coreReaders.get(id) ?? coreReaders.set(id, []).get(id)!).push(i);
+    if (pl.m) (flowReaders.get(pl.m) ?? flowReaders.set(pl.m, []).get(pl.m)!).push(i);
+  });
+  const genOfTag = new Map([...powerTag].map(([gid, t]) => [t, gid]));
+  const fns = figureFunctions(model);
+  const nF = fns.length;
+  const baseStates = plans.map((pl) => pointState(eq, pl, fv, loose));
+  const basePower = powerOf(fv, loose);
+  const readsPoints: Set<number>[] = [];
+  const readsGens: Set<string>[] = [];
+  const baseValues = fns.map((fn, f) => {
+    const pts = new Set<number>();
+    const gens = new Set<string>();
+    readsPoints[f] = pts;
+    readsGens[f] = gens;
+    return fn(
+      (id) => {
+        const i = pointIndex.get(id);
+        if (i === undefined) return EMPTY;
+        pts.add(i);
+        return baseStates[i];
+      },
+      (gid) => {
+        gens.add(gid);
+        return basePower(gid);
+      },
+    );
+  });
+  const pointMark = new Uint8Array(nP);
+  /** the figures with `changed` (ids of variables or loose readings) moved to `vals` / `lo` */
+  const evaluate = (
+    vals: Readonly<Record<string, number>>,
+    lo: ReadonlyMap<string, number>,
+    changed: readonly string[],
+  ): (number | null)[] => {
+    pointMark.fill(0);
+    const gens = new Set<string>();
+    for (const id of changed) {
+      for (const i of flowReaders.get(id) ?? []) pointMark[i] |= 1;
+      for (const i of coreReaders.get(id) ?? []) pointMark[i] |= 2;
+      const g = genOfTag.get(id);
+      if (g !== undefined) gens.add(g);
+    }
+    const states = baseStates.slice();
+    for (let i = 0; i < nP; i++) {
+      if (pointMark[i] & 2) states[i] = pointState(eq, plans[i], vals, lo);
+      else if (pointMark[i] & 1) states[i] = { ...baseStates[i], m: orNull(valueOf(eq, vals, lo, plans[i].m!)) };
+    }
+    const get = (id: string): FigureState => {
+      const i = pointIndex.get(id);
+      return i === undefined ? EMPTY : states[i];
+    };
+    const power = powerOf(vals, lo);
+    const out = baseValues.slice();
+    for (let f = 0; f < nF; f++) {
+      let moved = false;
+      for (const i of readsPoints[f]) if (pointMark[i] !== 0) moved = true;
+      for (const g of readsGens[f]) if (gens.has(g)) moved = true;
+      if (moved) out[f] = fns[f](get, power);
+    }
+    return out;
   };
   // inputs: the readings the reconciliation used, then those no balance reads
   interface In {
@@ -153,6 +266,7 @@ export function withUncertainty(input: FigureUncertaintyInput): PerformanceFigur
   const ins: In[] = [];
   sens.inputs.forEach((tag, j) => {
     const h = STEP * sens.inputSigmas[j];
+    const changed = sens.outputs.filter((_, k) => sens.gain[k * n + j] !== 0);
     ins.push({
       tag,
       sigma: sens.inputSigmas[j],
@@ -163,16 +277,15 @@ export function withUncertainty(input: FigureUncertaintyInput): PerformanceFigur
           const g = sens.gain[k * n + j];
           if (g !== 0) v[id] = fv[id] + sign * h * g;
         });
-        return evaluate(v, loose);
+        return evaluate(v, loose, changed);
       },
     });
   });
   for (const [tag, value] of loose) {
     const sigma = accepted.get(tag)!.sigma;
     const h = STEP * sigma;
-    ins.push({ tag, sigma, h, move: (sign) => evaluate(fv, new Map([...loose, [tag, value + sign * h]])) });
+    ins.push({ tag, sigma, h, move: (sign) => evaluate(fv, new Map([...loose, [tag, value + sign * h]]), [tag]) });
   }
-  const nF = figures.length;
   const coef = ins.map((inp) => {
     const up = inp.move(1);
     const dn = inp.move(-1);

@@ -411,17 +411,25 @@ export function performanceFigures(
   });
 }
 
-/** The value of every figure (in the order performanceFigures gives them) from one state; null where it cannot be formed. */
-export function figureValues(
-  model: CycleModel,
-  get: StateOf,
-  power: (genId: string) => number | null,
-): (number | null)[] {
-  return figureDefs(model).map((d) => {
+/** One figure as a function of a state (in the order performanceFigures gives them); null where it cannot be formed. */
+export type FigureFunction = (get: StateOf, power: (genId: string) => number | null) => number | null;
+
+/** The figure functions of a model, built once for many evaluations (figureValues builds them on every call). */
+export function figureFunctions(model: CycleModel): FigureFunction[] {
+  return figureDefs(model).map((d) => (get, power) => {
     try {
       return out(d.f(get, power));
     } catch {
       return null;
     }
   });
+}
+
+/** The value of every figure (in the order performanceFigures gives them) from one state; null where it cannot be formed. */
+export function figureValues(
+  model: CycleModel,
+  get: StateOf,
+  power: (genId: string) => number | null,
+): (number | null)[] {
+  return figureFunctions(model).map((f) => f(get, power));
 }

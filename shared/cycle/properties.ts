@@ -11,7 +11,12 @@
  *
  * SI in and out: Pa, K, J/kg, J/(kg·K).
  */
-import { P_CRIT, P_MAX, P_SAT_MIN, T_MAX_2, T_MIN, ph, pt, px, tsat, type SteamState } from '../steam';
+import * as steam from '../steam';
+import type { SteamState } from '../steam';
+
+// bound once: some module loaders (tsx among them) turn each use of an imported name into a getter
+// call, which the analysis' inner loops should not pay for (as in ../steam/index.ts)
+const { P_CRIT, P_MAX, P_SAT_MIN, T_MAX_2, T_MIN, ph, pt, px, tsat } = steam;
 import type { PointPhase } from './model';
 
 /** Side margin (K): the linear continuation starts this far inside the declared side. */
