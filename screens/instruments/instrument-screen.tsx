@@ -9,13 +9,14 @@ import { Button } from '@/components/button';
 import { Card } from '@/components/card';
 import { InstrumentTrend } from '@/components/instrument-trend';
 import { detectabilityWords, powerWords, remedyWords } from '@/components/detectability';
-import { biasWords, InstrumentStatusMark, showDeltaOf, showValueOf } from '@/components/instrument-values';
+import { HealthStatusMark, InstrumentStatusMark, showDeltaOf, showValueOf } from '@/components/instrument-values';
+import { biasInWords, calibrationsInWords, evidenceInWords } from '@/lib/instrument-figures';
 import { ThemedText } from '@/components/themed-text';
 import { space, touchTarget } from '@/constants/theme';
 import { useDetectability } from '@/hooks/queries/detectability';
 import { useInstrumentHealth, useInstrumentHistory } from '@/hooks/queries/instruments';
 
-const RANGES = [7, 30, 90] as const;
+const RANGES = [7, 30, 90, 365] as const;
 
 export function InstrumentScreen({ tag }: { tag: string }) {
   const [days, setDays] = useState<(typeof RANGES)[number]>(30);
@@ -33,11 +34,24 @@ export function InstrumentScreen({ tag }: { tag: string }) {
         <ThemedText variant="heading" testID="instrument-tag">
           {tag}
         </ThemedText>
-        {h.data ? <InstrumentStatusMark status={h.data.instrument.status} testID="instrument-status" /> : null}
+        {health ? (
+          <HealthStatusMark status={health.status} evidence={health.evidence} testID="instrument-status" />
+        ) : h.data ? (
+          <InstrumentStatusMark status={h.data.instrument.status} testID="instrument-status" />
+        ) : null}
       </View>
       {health ? (
         <Card>
-          <ThemedText variant="label">{`Over 30 days: ${health.flags30d} flags in ${health.samples30d} analysed rounds; ${biasWords(q, health.biasSi30d)}${health.meanAbsZ30d !== null ? `; mean |z| ${health.meanAbsZ30d.toFixed(2)}` : ''}.`}</ThemedText>
+          <ThemedText variant="label" testID="instrument-evidence">
+            {`Evidence: ${evidenceInWords(health.evidence)}.`}
+          </ThemedText>
+          <ThemedText
+            variant="label"
+            testID="instrument-summary"
+          >{`Over 30 days: ${health.flags30d} flags in ${health.samples30d} analysed rounds; ${biasInWords(health.quantity, health.gaugeUnit, health.biasSi30d, health.biasUncertaintySi30d)}${health.meanAbsZ30d !== null ? `; mean |z| ${health.meanAbsZ30d.toFixed(2)}` : ''}.`}</ThemedText>
+          <ThemedText variant="label" testID="instrument-calibrations">
+            {`Calibrations: ${calibrationsInWords(health.calibrations)}.`}
+          </ThemedText>
           <ThemedText
             variant="label"
             muted
