@@ -103,7 +103,7 @@ export function TrendChart({
           ),
         )}
         {yTicks.map((v) => (
-          <G key={v}>
+          <G key={v} testID={`${testID}-value-tick`}>
             <Line x1={PAD.left - 4} x2={PAD.left} y1={Y(v)} y2={Y(v)} stroke={colors.textMuted} />
             <SvgText
               x={PAD.left - 6}
