@@ -22,11 +22,27 @@ export function fixed(x: number, d: number): string {
   return /^-0(\.0+)?$/.test(s) ? s.slice(1) : s;
 }
 
-/** Decimal places for a figure with no uncertainty: three significant digits of its size (common practice). */
-function decimalsOfSize(x: number): number {
-  const a = Math.abs(x);
-  if (!(a > 0)) return 0;
-  return Math.max(0, 2 - Math.floor(Math.log10(a)));
+/**
+ * A reading and, beside it, the balances' value with its ±2σ, in the gauge's unit: both to the
+ * decimal place of 2σ at two significant digits (GUM §7.2.6). "8.74 kPa abs · balance 10.91 ± 0.31 kPa abs".
+ */
+export function pointInWords(
+  q: Quantity,
+  unit: string,
+  reference: PressureRef | null,
+  barometricPa: number | null,
+  reading: number | null,
+  ref: number | null,
+  sigma: number | null,
+): string {
+  const label = gaugeUnitLabel(unit, reference);
+  const U = sigma === null ? null : deltaInUnit(q, 2 * sigma, unit);
+  const d = U !== null && U > 0 ? decimalsFor(U) : 2;
+  const r = reading === null ? null : valueInUnit(q, reading, unit, reference, barometricPa);
+  const b = ref === null ? null : valueInUnit(q, ref, unit, reference, barometricPa);
+  const read = reading === null ? 'no reading' : r === null ? 'not shown' : `${fixed(r, d)} ${label}`;
+  if (b === null) return read;
+  return `${read} · balance ${fixed(b, d)}${U !== null && U > 0 ? ` ± ${fixed(U, d)}` : ''} ${label}`;
 }
 
 /** A difference (SI) in the gauge's unit, as a number; null where the unit cannot take it. */
@@ -56,10 +72,9 @@ export function biasInWords(q: Quantity, unit: string, biasSi: number | null, uS
   const b = deltaInUnit(q, biasSi, unit);
   if (b === null) return 'no estimate';
   const u = uSi === null ? null : deltaInUnit(q, uSi, unit);
-  if (u === null || !(u > 0)) {
-    const d = decimalsOfSize(b);
-    return `reads ${fixed(Math.abs(b), d)} ${unit} ${b > 0 ? 'high' : 'low'} (uncertainty not known)`;
-  }
+  // no uncertainty of the difference: the balances do not correct it (no redundancy), so a mean
+  // difference of zero says nothing about its bias
+  if (u === null || !(u > 0)) return 'bias not determinable from these instruments';
   const U = 2 * Math.abs(u);
   const d = decimalsFor(U);
   if (Math.abs(b) <= U) return `no evidence of a bias (within ± ${fixed(U, d)} ${unit}, 95 %)`;
@@ -77,13 +92,13 @@ export function healthMark(status: string, evidence: InstrumentHealth['evidence'
   if (status === 'suspect') return { glyph: '◆', word: 'Suspect', level: 1 };
   if (evidence.level === 'strong') return { glyph: '◆', word: 'Evidence against it', level: 1 };
   if (evidence.level === 'some') return { glyph: '▲', word: 'In service, some evidence against it', level: 2 };
-  if (evidence.level === 'untested') return { glyph: '●', word: 'In service, no balance tests it', level: 3 };
+  if (evidence.level === 'untested') return { glyph: '●', word: 'In service, not tested since calibration', level: 3 };
   return { glyph: '✓', word: 'In service, no evidence against it', level: 'ok' };
 }
 
 /** "strong evidence it reads high: CUSUM 9.4 (alarm at 6) over 23 rounds since its calibration of 2026-10-01". */
 export function evidenceInWords(e: InstrumentHealth['evidence']): string {
-  if (e.level === 'untested') return 'no balance has tested it since its last calibration';
+  if (e.level === 'untested') return 'no round has tested it since its last calibration';
   const since = e.since ? `since ${e.since.slice(0, 10)}` : 'since its first analysed round';
   const rounds = `${e.rounds} round${e.rounds === 1 ? '' : 's'} ${since}`;
   const stat = `CUSUM ${e.cusum.toFixed(1)}, alarm at ${e.threshold}`;

@@ -9,8 +9,8 @@ import { Button } from '@/components/button';
 import { Card } from '@/components/card';
 import { InstrumentTrend } from '@/components/instrument-trend';
 import { detectabilityWords, powerWords, remedyWords } from '@/components/detectability';
-import { HealthStatusMark, InstrumentStatusMark, showDeltaOf, showValueOf } from '@/components/instrument-values';
-import { biasInWords, calibrationsInWords, evidenceInWords } from '@/lib/instrument-figures';
+import { HealthStatusMark, InstrumentStatusMark } from '@/components/instrument-values';
+import { biasInWords, calibrationsInWords, evidenceInWords, pointInWords } from '@/lib/instrument-figures';
 import { ThemedText } from '@/components/themed-text';
 import { space, touchTarget } from '@/constants/theme';
 import { useDetectability } from '@/hooks/queries/detectability';
@@ -23,7 +23,6 @@ export function InstrumentScreen({ tag }: { tag: string }) {
   const from = new Date(Date.now() - days * 86_400_000).toISOString().slice(0, 10);
   const h = useInstrumentHistory(tag, from);
   const health = useInstrumentHealth().data?.instruments.find((i) => i.tag === tag);
-  const q = h.data?.instrument.quantity ?? health?.quantity ?? null;
   const unitId = h.data?.instrument.unitId ?? health?.unitId;
   const detUnit = useDetectability().data?.units.find((u) => u.unitId === unitId);
   const det = detUnit?.instruments.find((i) => i.tag === tag);
@@ -121,7 +120,7 @@ export function InstrumentScreen({ tag }: { tag: string }) {
                     {new Date(p.measuredAt).toLocaleString()}
                   </ThemedText>
                   <ThemedText variant="label" numeric>
-                    {`${p.reading === null ? 'no reading' : showValueOf(q, p.reading)}${ref !== null ? ` · balance ${showValueOf(q, ref)}${sigma !== null ? ` ± ${showDeltaOf(q, 2 * sigma)}` : ''}` : ''}${p.z !== null ? ` · z ${p.z.toFixed(1)}` : ''}${p.suspect ? ' · ◆ suspect' : ''}`}
+                    {`${h.data ? pointInWords(h.data.instrument.quantity, h.data.instrument.gaugeUnit, h.data.instrument.reference, p.barometricPa, p.reading, ref, sigma) : ''}${p.z !== null ? ` · z ${p.z.toFixed(1)}` : ''}${p.suspect ? ' · ◆ suspect' : ''}`}
                   </ThemedText>
                 </Pressable>
               </Link>

@@ -180,7 +180,7 @@ test('one order by evidence since calibration: TI-102A first, its status never "
   expect(healthMark(p.status, p.evidence).word).toBe('In service, no evidence against it');
   // a level no balance tests: no tick
   expect(healthMark('ok', all.instruments.find((i) => i.tag === 'LI-101')!.evidence).word).toBe(
-    'In service, no balance tests it',
+    'In service, not tested since calibration',
   );
 });
 

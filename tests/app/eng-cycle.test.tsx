@@ -100,5 +100,5 @@ test('status beside strong evidence is never "in service ✓"', () => {
   render(<HealthStatusMark status="ok" evidence={ev(0.3, 'none')} testID="s2" />);
   expect(screen.getByTestId('s2')).toHaveTextContent('✓ In service, no evidence against it');
   render(<HealthStatusMark status="ok" evidence={ev(0, 'untested')} testID="s3" />);
-  expect(screen.getByTestId('s3')).toHaveTextContent('● In service, no balance tests it');
+  expect(screen.getByTestId('s3')).toHaveTextContent('● In service, not tested since calibration');
 });

@@ -13,6 +13,7 @@ import {
   fixed,
   gaugeUnitLabel,
   healthMark,
+  pointInWords,
   valueInUnit,
 } from '../../../lib/instrument-figures';
 
@@ -36,7 +37,12 @@ test('a vacuum gauge in kPa, a thermometer in °C, a level in %', () => {
   expect(biasInWords('temperature', '°C', 0.523, 0.09)).toBe('reads 0.52 °C high (± 0.18 °C, 95 %)');
   expect(biasInWords('level', '%', 0.031, 0.004)).toBe('reads 3.10 % high (± 0.80 %, 95 %)');
   expect(biasInWords('temperature', '°C', null, null)).toBe('no estimate');
-  expect(biasInWords('temperature', '°C', 0.5, null)).toBe('reads 0.500 °C high (uncertainty not known)');
+  // no uncertainty: the balances do not correct it (house rule wording)
+  expect(biasInWords('massFlow', 't/h', 1e-12, 0)).toBe('bias not determinable from these instruments');
+  // the latest rounds' line: 2σ = 0.306 kPa → 0.31, the values to two decimals
+  expect(pointInWords('pressure', 'kPa', 'absolute', 101_325, 8740, 10_910, 153)).toBe(
+    '8.74 kPa abs · balance 10.91 ± 0.31 kPa abs',
+  );
 });
 
 test('values as the gauge shows them: gauge and vacuum against the round’s barometer', () => {
