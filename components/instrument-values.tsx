@@ -3,6 +3,8 @@
  * bar), temperature in °C, differences in K or kPa, flow in t/h, power in MW, level in %. The
  * quantity comes from the health table or, in evidence, from the tag's first ISA-5.1 letter.
  */
+import { healthMark } from '@/lib/instrument-figures';
+import type { InstrumentHealth } from '@/shared/api/analysis';
 import type { Quantity } from '@/shared/units';
 import { SeverityMark } from './severity-mark';
 import { ThemedText } from './themed-text';
@@ -99,12 +101,44 @@ export function displayUnit(q: Quantity | null): string {
             : '';
 }
 
-/** "reads 6.2 K high" / "reads 0.4 kPa low" / "reads true". */
+/** "reads 6.2 K high" / "reads 0.4 kPa low" / "no evidence of a bias" (zero at the shown digits is no evidence, not a true reading). */
 export function biasWords(q: Quantity | null, biasSi: number | null): string {
   if (biasSi === null) return 'no estimate';
   const shown = showDeltaOf(q, biasSi);
-  if (/^0(\.0+)? /.test(shown)) return 'reads true';
+  if (/^0(\.0+)? /.test(shown)) return 'no evidence of a bias';
   return `reads ${shown} ${biasSi > 0 ? 'high' : 'low'}`;
+}
+
+/**
+ * An instrument's status said with its evidence (lib/instrument-figures healthMark): strong
+ * evidence against it is never shown as in service with a tick.
+ */
+export function HealthStatusMark({
+  status,
+  evidence,
+  testID,
+}: {
+  status: string;
+  evidence: InstrumentHealth['evidence'];
+  testID?: string;
+}) {
+  const m = healthMark(status, evidence);
+  if (m.level !== 'ok') {
+    return (
+      <ThemedText
+        variant="label"
+        bold={m.level === 1}
+        tone={m.level === 1 ? 'danger' : m.level === 2 ? 'warning' : 'info'}
+        testID={testID}
+        accessibilityLabel={`Status: ${m.word}`}
+      >{`${m.glyph} ${m.word}`}</ThemedText>
+    );
+  }
+  return (
+    <ThemedText variant="label" tone="ok" testID={testID} accessibilityLabel={`Status: ${m.word}`}>
+      {`${m.glyph} ${m.word}`}
+    </ThemedText>
+  );
 }
 
 /** The instrument's status said as a word with a shape (never colour alone). */

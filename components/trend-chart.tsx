@@ -2,7 +2,8 @@ import { StyleSheet, View } from 'react-native';
 import Svg, { Circle, G, Line, Path, Text as SvgText } from 'react-native-svg';
 import { fonts } from '@/constants/theme';
 import { useTheme } from '@/hooks/use-theme';
-import { project, ticks, type Scale } from '@/shared/charts/ts-diagram';
+import { dateTickLabel, dateTicks, tickDecimals, valueTicks } from '@/shared/charts/trend-scale';
+import { project, type Scale } from '@/shared/charts/ts-diagram';
 import { ThemedText } from './themed-text';
 
 export interface TrendSample {
@@ -73,9 +74,9 @@ export function TrendChart({
       : null;
   const rec = samples.filter((s) => s.reconciled !== null);
   const recPath = rec.map((s, i) => `${i ? 'L' : 'M'}${X(s.t).toFixed(1)},${Y(s.reconciled!).toFixed(1)}`).join(' ');
-  const yTicks = ticks(lo - pad, hi + pad, 5);
-  const days = (t1 - t0) / 86_400_000;
-  const dateLabel = (t: number) => new Date(t).toISOString().slice(days > 2 ? 5 : 11, days > 2 ? 10 : 16);
+  const yTicks = valueTicks(lo - pad, hi + pad, 5);
+  const yDecimals = tickDecimals(yTicks);
+  const xTicks = dateTicks(t0, t1, 4);
 
   return (
     <View
@@ -102,7 +103,7 @@ export function TrendChart({
           ),
         )}
         {yTicks.map((v) => (
-          <G key={v}>
+          <G key={v} testID={`${testID}-value-tick`}>
             <Line x1={PAD.left - 4} x2={PAD.left} y1={Y(v)} y2={Y(v)} stroke={colors.textMuted} />
             <SvgText
               x={PAD.left - 6}
@@ -112,7 +113,7 @@ export function TrendChart({
               fill={colors.textMuted}
               fontFamily={fonts.regular}
             >
-              {String(v)}
+              {v.toFixed(yDecimals)}
             </SvgText>
           </G>
         ))}
@@ -124,25 +125,21 @@ export function TrendChart({
           stroke={colors.text}
         />
         <Line x1={PAD.left} x2={PAD.left} y1={PAD.top} y2={height - PAD.bottom} stroke={colors.text} />
-        <SvgText
-          x={PAD.left}
-          y={height - PAD.bottom + 16}
-          fontSize={11}
-          fill={colors.textMuted}
-          fontFamily={fonts.regular}
-        >
-          {dateLabel(t0)}
-        </SvgText>
-        <SvgText
-          x={width - PAD.right}
-          y={height - PAD.bottom + 16}
-          fontSize={11}
-          textAnchor="end"
-          fill={colors.textMuted}
-          fontFamily={fonts.regular}
-        >
-          {dateLabel(t1)}
-        </SvgText>
+        {xTicks.ticks.map((t, n) => (
+          <G key={t} testID={`${testID}-date-tick`}>
+            <Line x1={X(t)} x2={X(t)} y1={height - PAD.bottom} y2={height - PAD.bottom + 4} stroke={colors.textMuted} />
+            <SvgText
+              x={X(t)}
+              y={height - PAD.bottom + 16}
+              fontSize={11}
+              textAnchor={xTicks.ticks.length === 1 ? 'start' : 'middle'}
+              fill={colors.textMuted}
+              fontFamily={fonts.regular}
+            >
+              {dateTickLabel(t, xTicks.stepMs, n === 0)}
+            </SvgText>
+          </G>
+        ))}
         <SvgText x={4} y={PAD.top + 4} fontSize={11} fill={colors.text} fontFamily={fonts.regular}>
           {unit}
         </SvgText>

@@ -1,7 +1,8 @@
 /**
  * Instrument health: every instrument of the site with the flags of the last 30 days, the mean
- * normalised correction, the estimated bias with its sign, calibration and status; worst first,
- * sortable by any column; each row says from how large a bias the balances notice the instrument
+ * normalised correction, the estimated bias in the gauge's unit with its 95 % interval, the
+ * evidence since calibration (Page's CUSUM), calibration and status; ordered by evidence
+ * (shared/api/analysis byEvidence, the server's order), sortable by any column; each row says from how large a bias the balances notice the instrument
  * (the detectability map), and a card lists the instruments no balance can check with the one
  * measurement that would. Below it, recent analysed rounds to open a round's cycle.
  */
@@ -11,30 +12,19 @@ import { Pressable, StyleSheet, View } from 'react-native';
 import { Card } from '@/components/card';
 import { DataTable, ExportButton, type Column } from '@/components/data-table';
 import { DetectabilitySummary } from '@/components/detectability';
-import { biasWords, InstrumentStatusMark, showDeltaOf } from '@/components/instrument-values';
+import { HealthStatusMark, showDeltaOf } from '@/components/instrument-values';
 import { ThemedText } from '@/components/themed-text';
 import { space, touchTarget } from '@/constants/theme';
 import { useSession } from '@/hooks/session';
 import { useDetectability } from '@/hooks/queries/detectability';
 import { useInstrumentHealth, useInstrumentHistory } from '@/hooks/queries/instruments';
-import type { InstrumentHealth } from '@/shared/api/analysis';
+import { biasInWords, calibrationsInWords } from '@/lib/instrument-figures';
+import { byEvidence, type InstrumentHealth } from '@/shared/api/analysis';
 import type { DetectabilityResponse, InstrumentDetectability } from '@/shared/api/detectability';
 
-const statusRank: Record<string, number> = { suspect: 0, 'out-of-service': 1, ok: 2 };
-
-/** Worst first: suspect before the rest, then overdue calibration, then flags, then mean |z|. */
-export function worstFirst(a: InstrumentHealth, b: InstrumentHealth): number {
-  return (
-    statusRank[a.status] - statusRank[b.status] ||
-    Number(b.calibrationOverdue) - Number(a.calibrationOverdue) ||
-    b.flags30d - a.flags30d ||
-    (b.meanAbsZ30d ?? -1) - (a.meanAbsZ30d ?? -1) ||
-    a.tag.localeCompare(b.tag)
-  );
-}
-
 const sorters: Record<string, (a: InstrumentHealth, b: InstrumentHealth) => number> = {
-  worst: worstFirst,
+  worst: byEvidence,
+  evidence: (a, b) => -byEvidence(a, b),
   tag: (a, b) => a.tag.localeCompare(b.tag),
   flags: (a, b) => a.flags30d - b.flags30d,
   z: (a, b) => (a.meanAbsZ30d ?? -1) - (b.meanAbsZ30d ?? -1),
@@ -94,7 +84,27 @@ const columns: Column<InstrumentHealth>[] = [
     key: 'status',
     label: 'Status',
     flex: 1.2,
-    render: (i) => <InstrumentStatusMark status={i.status} testID={`health-${i.tag}-status`} />,
+    render: (i) => <HealthStatusMark status={i.status} evidence={i.evidence} testID={`health-${i.tag}-status`} />,
+  },
+  {
+    key: 'evidence',
+    label: 'Evidence since calibration',
+    flex: 1.4,
+    numeric: true,
+    sortKey: 'evidence',
+    render: (i) => (
+      <ThemedText
+        variant="label"
+        numeric
+        bold={i.evidence.level === 'strong'}
+        tone={i.evidence.level === 'strong' ? 'danger' : undefined}
+        testID={`health-${i.tag}-evidence`}
+      >
+        {i.evidence.level === 'untested'
+          ? 'not tested'
+          : `${i.evidence.level === 'strong' ? '◆ ' : ''}${i.evidence.cusum.toFixed(1)} of ${i.evidence.threshold}${i.evidence.direction ? `, ${i.evidence.direction}` : ''} · ${i.evidence.rounds} rounds`}
+      </ThemedText>
+    ),
   },
   { key: 'flags', label: 'Flags, 30 d', flex: 0.9, numeric: true, sortKey: 'flags', render: (i) => String(i.flags30d) },
   {
@@ -111,7 +121,11 @@ const columns: Column<InstrumentHealth>[] = [
     flex: 1.6,
     sortKey: 'bias',
     numeric: true,
-    render: (i) => biasWords(i.quantity, i.biasSi30d),
+    render: (i) => (
+      <ThemedText variant="label" numeric testID={`health-${i.tag}-bias`}>
+        {biasInWords(i.quantity, i.gaugeUnit, i.biasSi30d, i.biasUncertaintySi30d)}
+      </ThemedText>
+    ),
   },
   { key: 'cal', label: 'Calibrated', flex: 1, numeric: true, render: (i) => i.lastCalibration ?? '—' },
   {
@@ -139,6 +153,19 @@ const columns: Column<InstrumentHealth>[] = [
     render: (i) => (i.openWorkOrders.length ? i.openWorkOrders.map((w) => w.number).join(', ') : '—'),
   },
 ];
+
+/** What the recorded calibrations said of the evidence, over the whole list. */
+export function calibrationSummary(all: InstrumentHealth[]): string {
+  const sum = all.reduce(
+    (s, i) => ({
+      closed: s.closed + i.calibrations.closed,
+      confirmed: s.confirmed + i.calibrations.confirmed,
+      refuted: s.refuted + i.calibrations.refuted,
+    }),
+    { closed: 0, confirmed: 0, refuted: 0 },
+  );
+  return `Calibrations: ${calibrationsInWords(sum)}.`;
+}
 
 function daysAgo(n: number): string {
   return new Date(Date.now() - n * 86_400_000).toISOString().slice(0, 10);
@@ -186,7 +213,7 @@ export function InstrumentHealthScreen() {
   const rows = useMemo(() => {
     const all = [...(q.data?.instruments ?? [])];
     const desc = sort.startsWith('-');
-    const f = sorters[desc ? sort.slice(1) : sort] ?? worstFirst;
+    const f = sorters[desc ? sort.slice(1) : sort] ?? byEvidence;
     return all.sort((a, b) => (desc ? -f(a, b) : f(a, b)));
   }, [q.data, sort]);
   const common = rows.find((i) => i.quantity === 'pressure' && i.samples30d > 0)?.tag ?? rows[0]?.tag;
@@ -205,7 +232,7 @@ export function InstrumentHealthScreen() {
       </View>
       <ThemedText muted variant="label">
         {
-          'Worst first. |z| is how far the balances had to move a reading, in its own standard uncertainties; a bias is the mean of reading − estimate over the last 30 days.'
+          'Strongest evidence first: Page’s CUSUM of each instrument’s normalised corrections since its last calibration, alarm at 6. |z| is how far the balances had to move a reading, in its own standard uncertainties; a bias is the mean of reading − estimate over the last 30 days, in the gauge’s unit, with its 95 % interval.'
         }
       </ThemedText>
       {sort !== 'worst' ? (
@@ -216,7 +243,7 @@ export function InstrumentHealthScreen() {
           style={styles.link}
         >
           <ThemedText variant="label" tone="info">
-            Back to worst first
+            Back to strongest evidence first
           </ThemedText>
         </Pressable>
       ) : null}
@@ -237,6 +264,11 @@ export function InstrumentHealthScreen() {
           onSort={(s) => setSort(s)}
           onPressRow={(i) => router.push(`/eng/instruments/${encodeURIComponent(i.tag)}`)}
         />
+      ) : null}
+      {q.data ? (
+        <ThemedText variant="caption" muted testID="health-calibrations">
+          {calibrationSummary(q.data.instruments)}
+        </ThemedText>
       ) : null}
       {det.error ? (
         <ThemedText tone="danger" testID="detectability-error">

@@ -9,20 +9,20 @@ import { Button } from '@/components/button';
 import { Card } from '@/components/card';
 import { InstrumentTrend } from '@/components/instrument-trend';
 import { detectabilityWords, powerWords, remedyWords } from '@/components/detectability';
-import { biasWords, InstrumentStatusMark, showDeltaOf, showValueOf } from '@/components/instrument-values';
+import { HealthStatusMark, InstrumentStatusMark } from '@/components/instrument-values';
+import { biasInWords, calibrationsInWords, evidenceInWords, pointInWords } from '@/lib/instrument-figures';
 import { ThemedText } from '@/components/themed-text';
 import { space, touchTarget } from '@/constants/theme';
 import { useDetectability } from '@/hooks/queries/detectability';
 import { useInstrumentHealth, useInstrumentHistory } from '@/hooks/queries/instruments';
 
-const RANGES = [7, 30, 90] as const;
+const RANGES = [7, 30, 90, 365] as const;
 
 export function InstrumentScreen({ tag }: { tag: string }) {
   const [days, setDays] = useState<(typeof RANGES)[number]>(30);
   const from = new Date(Date.now() - days * 86_400_000).toISOString().slice(0, 10);
   const h = useInstrumentHistory(tag, from);
   const health = useInstrumentHealth().data?.instruments.find((i) => i.tag === tag);
-  const q = h.data?.instrument.quantity ?? health?.quantity ?? null;
   const unitId = h.data?.instrument.unitId ?? health?.unitId;
   const detUnit = useDetectability().data?.units.find((u) => u.unitId === unitId);
   const det = detUnit?.instruments.find((i) => i.tag === tag);
@@ -33,11 +33,24 @@ export function InstrumentScreen({ tag }: { tag: string }) {
         <ThemedText variant="heading" testID="instrument-tag">
           {tag}
         </ThemedText>
-        {h.data ? <InstrumentStatusMark status={h.data.instrument.status} testID="instrument-status" /> : null}
+        {health ? (
+          <HealthStatusMark status={health.status} evidence={health.evidence} testID="instrument-status" />
+        ) : h.data ? (
+          <InstrumentStatusMark status={h.data.instrument.status} testID="instrument-status" />
+        ) : null}
       </View>
       {health ? (
         <Card>
-          <ThemedText variant="label">{`Over 30 days: ${health.flags30d} flags in ${health.samples30d} analysed rounds; ${biasWords(q, health.biasSi30d)}${health.meanAbsZ30d !== null ? `; mean |z| ${health.meanAbsZ30d.toFixed(2)}` : ''}.`}</ThemedText>
+          <ThemedText variant="label" testID="instrument-evidence">
+            {`Evidence: ${evidenceInWords(health.evidence)}.`}
+          </ThemedText>
+          <ThemedText
+            variant="label"
+            testID="instrument-summary"
+          >{`Over 30 days: ${health.flags30d} flags in ${health.samples30d} analysed rounds; ${biasInWords(health.quantity, health.gaugeUnit, health.biasSi30d, health.biasUncertaintySi30d)}${health.meanAbsZ30d !== null ? `; mean |z| ${health.meanAbsZ30d.toFixed(2)}` : ''}.`}</ThemedText>
+          <ThemedText variant="label" testID="instrument-calibrations">
+            {`Calibrations: ${calibrationsInWords(health.calibrations)}.`}
+          </ThemedText>
           <ThemedText
             variant="label"
             muted
@@ -107,7 +120,7 @@ export function InstrumentScreen({ tag }: { tag: string }) {
                     {new Date(p.measuredAt).toLocaleString()}
                   </ThemedText>
                   <ThemedText variant="label" numeric>
-                    {`${p.reading === null ? 'no reading' : showValueOf(q, p.reading)}${ref !== null ? ` · balance ${showValueOf(q, ref)}${sigma !== null ? ` ± ${showDeltaOf(q, 2 * sigma)}` : ''}` : ''}${p.z !== null ? ` · z ${p.z.toFixed(1)}` : ''}${p.suspect ? ' · ◆ suspect' : ''}`}
+                    {`${h.data ? pointInWords(h.data.instrument.quantity, h.data.instrument.gaugeUnit, h.data.instrument.reference, p.barometricPa, p.reading, ref, sigma) : ''}${p.z !== null ? ` · z ${p.z.toFixed(1)}` : ''}${p.suspect ? ' · ◆ suspect' : ''}`}
                   </ThemedText>
                 </Pressable>
               </Link>

@@ -13,8 +13,9 @@
  * analysed round, in device time (the time of the reading).
  */
 import { And, LessThan, MoreThanOrEqual, type DataSource } from 'typeorm';
-import type {
-  HistoryPoint,
+import {
+  byEvidence,
+  type HistoryPoint,
   InstrumentHealth,
   InstrumentHistoryResponse,
   InstrumentListQuery,
@@ -28,7 +29,16 @@ import {
 } from '../../shared/api/instruments';
 import type { z } from 'zod';
 import { accuracySpecSchema, type AccuracySpec } from '../../shared/uncertainty';
-import { ELEVATION_MIN_M, SI_UNIT, barometricFromElevation, type Quantity } from '../../shared/units';
+import {
+  ELEVATION_MIN_M,
+  SI_UNIT,
+  barometricFromElevation,
+  toSIDelta,
+  type PressureRef,
+  type Quantity,
+} from '../../shared/units';
+import { CUSUM_H, cusumOver, cusumValue } from '../../shared/cycle/evidence';
+import { SERIES_MAX } from '../analysis/evidence';
 import { AnalysisInstrumentEntity, InstrumentEntity } from '../entities';
 import type { Instrument } from '../entities/instrument';
 import { AppError } from '../errors';
@@ -76,14 +86,20 @@ export async function instrumentHealth(
                                       WHERE o."analysis_id" = ai."analysis_id" AND o."instrument_id" = ANY(f."instrument_ids") AND o."suspect")
                          AND coalesce(abs(ai."z"), -1) >= ALL (SELECT coalesce(abs(o."z"), -1) FROM "analysis_instruments" o
                                                                WHERE o."analysis_id" = ai."analysis_id" AND o."instrument_id" = ANY(f."instrument_ids"))))) AS "flags",
-            s."n", s."mean_abs_z", s."bias"
+            s."n", s."mean_abs_z", s."bias", s."bias_var", i."reference"
        FROM "instruments" i
        JOIN "units" u ON u."id" = i."unit_id"
        LEFT JOIN LATERAL (
          SELECT count(*) FILTER (WHERE ai."z" IS NOT NULL)::int AS "n",
                 avg(abs(ai."z")) FILTER (WHERE ai."z" IS NOT NULL) AS "mean_abs_z",
                 avg(ai."reading_si" - coalesce(ai."estimate_si", ai."reconciled_si"))
-                  FILTER (WHERE ai."status" = 'used' AND ai."reading_si" IS NOT NULL AND coalesce(ai."estimate_si", ai."reconciled_si") IS NOT NULL) AS "bias"
+                  FILTER (WHERE ai."status" = 'used' AND ai."reading_si" IS NOT NULL AND coalesce(ai."estimate_si", ai."reconciled_si") IS NOT NULL) AS "bias",
+                -- variance of one (reading − estimate): σ² + σ_est² (the estimate leaves the reading out),
+                -- or, against the main-pass value, the correction's σ² − σ_rec² (VDI 2048-1)
+                avg(CASE WHEN ai."estimate_si" IS NOT NULL THEN power(ai."sigma_si", 2) + power(coalesce(ai."estimate_sigma_si", 0), 2)
+                         ELSE greatest(power(ai."sigma_si", 2) - power(coalesce(ai."reconciled_sigma_si", 0), 2), 0) END)
+                  FILTER (WHERE ai."status" = 'used' AND ai."reading_si" IS NOT NULL AND ai."sigma_si" IS NOT NULL
+                            AND coalesce(ai."estimate_si", ai."reconciled_si") IS NOT NULL) AS "bias_var"
            FROM "analysis_instruments" ai
           WHERE ai."instrument_id" = i."id" AND ai."is_current" AND ai."measured_at" >= $2
        ) s ON true
@@ -105,34 +121,157 @@ export async function instrumentHealth(
     n: number | null;
     mean_abs_z: number | null;
     bias: number | null;
+    bias_var: number | null;
+    reference: PressureRef | null;
   }[];
+  const ev = await evidenceSinceCalibration(
+    ds,
+    rows.map((r) => r.id),
+  );
+  const cal = await calibrationOutcomes(
+    ds,
+    rows.map((r) => r.id),
+  );
   const open = (await ds.query(
     `SELECT "id", "code", "kind", "status", "instrument_id" FROM "work_orders"
       WHERE "site_id" = $1 AND "instrument_id" IS NOT NULL AND "status" NOT IN ('done', 'cancelled') ORDER BY "number"`,
     [siteId],
   )) as { id: string; code: string; kind: string; status: string; instrument_id: string }[];
   const num = (v: unknown) => (v === null || v === undefined ? null : Number(v));
-  const instruments: InstrumentHealth[] = rows.map((r) => ({
-    id: r.id,
-    unitId: r.unit_id,
-    tag: r.tag,
-    quantity: r.quantity,
-    siUnit: siUnitOf(r.quantity),
-    gaugeUnit: r.gauge_unit,
-    status: r.status,
-    flags30d: r.flags,
-    samples30d: r.n ?? 0,
-    meanAbsZ30d: num(r.mean_abs_z),
-    biasSi30d: num(r.bias),
-    lastCalibration: r.calibration_date,
-    calibrationIntervalDays: r.calibration_interval_days,
-    calibrationDue: r.due,
-    calibrationOverdue: r.overdue,
-    openWorkOrders: open
-      .filter((w) => w.instrument_id === r.id)
-      .map((w) => ({ id: w.id, number: w.code, kind: w.kind, status: w.status })),
-  }));
+  const instruments: InstrumentHealth[] = rows.map((r) => {
+    const n = r.n ?? 0;
+    const bias = num(r.bias);
+    const v = num(r.bias_var);
+    return {
+      id: r.id,
+      unitId: r.unit_id,
+      tag: r.tag,
+      quantity: r.quantity,
+      siUnit: siUnitOf(r.quantity),
+      gaugeUnit: r.gauge_unit,
+      status: r.status,
+      flags30d: r.flags,
+      samples30d: n,
+      meanAbsZ30d: num(r.mean_abs_z),
+      biasSi30d: bias,
+      biasUncertaintySi30d: bias !== null && v !== null && n > 0 ? Math.sqrt(v / n) : null,
+      reference: r.quantity === 'pressure' ? r.reference : null,
+      evidence: ev.get(r.id) ?? untested,
+      calibrations: cal.get(r.id) ?? { closed: 0, confirmed: 0, refuted: 0 },
+      lastCalibration: r.calibration_date,
+      calibrationIntervalDays: r.calibration_interval_days,
+      calibrationDue: r.due,
+      calibrationOverdue: r.overdue,
+      openWorkOrders: open
+        .filter((w) => w.instrument_id === r.id)
+        .map((w) => ({ id: w.id, number: w.code, kind: w.kind, status: w.status })),
+    };
+  });
+  instruments.sort(byEvidence);
   return { instruments, asOf: now.toISOString() };
+}
+
+type Evidence = InstrumentHealth['evidence'];
+const untested: Evidence = { cusum: 0, threshold: CUSUM_H, direction: null, rounds: 0, level: 'untested', since: null };
+
+/**
+ * Page's CUSUM per instrument over its own rounds since its last reset, with the reset rule and
+ * series limit the analysis uses (server/analysis/evidence.ts): the later of the last calibration
+ * record and the close of the last done calibrate or check-group order; rounds received after it.
+ */
+async function evidenceSinceCalibration(ds: DataSource, ids: string[]): Promise<Map<string, Evidence>> {
+  if (ids.length === 0) return new Map();
+  const rows = (await ds.query(
+    `WITH reset AS (
+        SELECT x."id" AS "instrument_id",
+               GREATEST(
+                 (SELECT max(c."created_at") FROM "calibration_records" c WHERE c."instrument_id" = x."id"),
+                 (SELECT max(w."closed_at") FROM "work_orders" w
+                   WHERE w."instrument_id" = x."id" AND w."status" = 'done' AND w."kind" IN ('calibrate', 'check-group'))
+               ) AS "at"
+          FROM unnest($1::uuid[]) AS x("id")),
+      series AS (
+        SELECT ai."instrument_id", ai."u", ai."measured_at", ai."round_id",
+               row_number() OVER (PARTITION BY ai."instrument_id" ORDER BY ai."measured_at" DESC, ai."round_id" DESC) AS "k"
+          FROM "analysis_instruments" ai
+          JOIN "rounds" r ON r."id" = ai."round_id"
+          JOIN reset ON reset."instrument_id" = ai."instrument_id"
+         WHERE ai."is_current" AND ai."u" IS NOT NULL AND (reset."at" IS NULL OR r."received_at" > reset."at"))
+     SELECT s."instrument_id", s."u", to_char(reset."at" AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"') AS "since"
+       FROM series s JOIN reset ON reset."instrument_id" = s."instrument_id"
+      WHERE s."k" <= $2
+      ORDER BY s."instrument_id", s."measured_at", s."round_id"`,
+    [ids, SERIES_MAX],
+  )) as { instrument_id: string; u: number; since: string | null }[];
+  const series = new Map<string, { us: number[]; since: string | null }>();
+  for (const r of rows) {
+    const e = series.get(r.instrument_id) ?? { us: [], since: r.since };
+    e.us.push(Number(r.u));
+    series.set(r.instrument_id, e);
+  }
+  const out = new Map<string, Evidence>();
+  for (const [id, { us, since }] of series) {
+    const st = cusumOver(us);
+    const c = cusumValue(st);
+    out.set(id, {
+      cusum: c,
+      threshold: CUSUM_H,
+      direction: c > 0 ? (st.hi >= st.lo ? 'high' : 'low') : null,
+      rounds: st.rounds,
+      level: c >= CUSUM_H ? 'strong' : c >= CUSUM_H / 2 ? 'some' : 'none',
+      since,
+    });
+  }
+  return out;
+}
+
+/**
+ * Calibration records of done orders opened for the instrument: the as-found error (as found − as
+ * left, in the record's unit) against 2σ of the instrument's readings (its latest σ in the
+ * analyses). Confirmed when it was larger, refuted when not.
+ */
+async function calibrationOutcomes(
+  ds: DataSource,
+  ids: string[],
+): Promise<Map<string, InstrumentHealth['calibrations']>> {
+  if (ids.length === 0) return new Map();
+  const rows = (await ds.query(
+    `SELECT c."instrument_id", c."as_found", c."as_left", c."unit", i."quantity",
+            (SELECT ai."sigma_si" FROM "analysis_instruments" ai
+              WHERE ai."instrument_id" = c."instrument_id" AND ai."sigma_si" IS NOT NULL
+              ORDER BY ai."measured_at" DESC LIMIT 1) AS "sigma"
+       FROM "calibration_records" c
+       JOIN "work_orders" w ON w."id" = c."work_order_id" AND w."status" = 'done'
+       JOIN "instruments" i ON i."id" = c."instrument_id"
+      WHERE c."instrument_id" = ANY($1::uuid[])`,
+    [ids],
+  )) as {
+    instrument_id: string;
+    as_found: number;
+    as_left: number;
+    unit: string;
+    quantity: Quantity;
+    sigma: number | null;
+  }[];
+  const out = new Map<string, InstrumentHealth['calibrations']>();
+  for (const r of rows) {
+    const e = out.get(r.instrument_id) ?? { closed: 0, confirmed: 0, refuted: 0 };
+    e.closed++;
+    let errSi: number | null = null;
+    try {
+      errSi = Math.abs(
+        toSIDelta({ quantity: r.quantity, value: Number(r.as_found) - Number(r.as_left), unit: r.unit }),
+      );
+    } catch {
+      errSi = null;
+    }
+    if (errSi !== null && r.sigma !== null) {
+      if (errSi > 2 * Number(r.sigma)) e.confirmed++;
+      else e.refuted++;
+    }
+    out.set(r.instrument_id, e);
+  }
+  return out;
 }
 
 /** A date-only bound is midnight UTC; `to` as a date means the end of that day. */
@@ -150,7 +289,7 @@ export async function instrumentHistory(
   now = new Date(),
 ): Promise<InstrumentHistoryResponse> {
   const params: unknown[] = [siteId, tag];
-  let sql = `SELECT i."id", i."unit_id", i."tag", i."quantity", i."status" FROM "instruments" i JOIN "units" u ON u."id" = i."unit_id"
+  let sql = `SELECT i."id", i."unit_id", i."tag", i."quantity", i."status", i."gauge_unit", i."reference" FROM "instruments" i JOIN "units" u ON u."id" = i."unit_id"
               WHERE u."site_id" = $1 AND upper(i."tag") = upper($2)`;
   if (q.unitId) sql += ` AND i."unit_id" = $${params.push(q.unitId)}`;
   const found = (await ds.query(sql, params)) as {
@@ -159,6 +298,8 @@ export async function instrumentHistory(
     tag: string;
     quantity: Quantity;
     status: InstrumentStatus;
+    gauge_unit: string;
+    reference: PressureRef | null;
   }[];
   if (found.length === 0)
     throw new AppError(404, 'not_found', `No instrument with this tag on this site${q.unitId ? ' in that unit' : ''}`);
@@ -195,6 +336,15 @@ export async function instrumentHistory(
         [pts.map((p) => p.analysisId), inst.id],
       )) as { analysis_id: string; kind: string }[])
     : [];
+  const baro = pts.length
+    ? new Map(
+        (
+          (await ds.query(`SELECT "id", "barometric_pa" FROM "analyses" WHERE "id" = ANY($1::uuid[])`, [
+            [...new Set(pts.map((p) => p.analysisId))],
+          ])) as { id: string; barometric_pa: number | null }[]
+        ).map((a) => [a.id, a.barometric_pa === null ? null : Number(a.barometric_pa)]),
+      )
+    : new Map<string, number | null>();
   const points: HistoryPoint[] = pts.map((p) => ({
     analysisId: p.analysisId,
     roundId: p.roundId,
@@ -209,6 +359,7 @@ export async function instrumentHistory(
     z: p.z,
     suspect: p.suspect,
     findings: flagged.filter((f) => f.analysis_id === p.analysisId).map((f) => f.kind),
+    barometricPa: baro.get(p.analysisId) ?? null,
   }));
   return {
     instrument: {
@@ -218,6 +369,8 @@ export async function instrumentHistory(
       quantity: inst.quantity,
       siUnit: siUnitOf(inst.quantity),
       status: inst.status,
+      gaugeUnit: inst.gauge_unit,
+      reference: inst.quantity === 'pressure' ? inst.reference : null,
     },
     from: from.toISOString(),
     to: to.toISOString(),

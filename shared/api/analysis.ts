@@ -108,6 +108,33 @@ export const InstrumentHealth = z.object({
   meanAbsZ30d: z.number().nullable(),
   /** mean (measured − reconciled), SI, signed: positive reads high; reconciled = the estimate with the suspects removed */
   biasSi30d: z.number().nullable(),
+  /** standard uncertainty of that mean, SI: √(mean variance of (reading − estimate) / n) */
+  biasUncertaintySi30d: z.number().nullable(),
+  /** the pressure reference of the gauge (gauge, vacuum, absolute), null for other quantities */
+  reference: z.enum(['absolute', 'gauge', 'vacuum']).nullable(),
+  /**
+   * Sequential evidence since its last calibration (shared/cycle/evidence.ts, Page's CUSUM on the
+   * signed normalised corrections of its own rounds): the list is ordered by `cusum`, strongest first.
+   */
+  evidence: z.object({
+    /** max(S⁺, S⁻) after its latest round */
+    cusum: z.number(),
+    /** the alarm threshold h */
+    threshold: z.number(),
+    /** 'high' when S⁺ ≥ S⁻ and the sum is above zero, 'low' when S⁻ leads, null at zero */
+    direction: z.enum(['high', 'low']).nullable(),
+    /** own rounds counted since the reset */
+    rounds: z.number().int(),
+    /** 'strong' at cusum ≥ h, 'some' at ≥ h/2, else 'none'; 'untested' with no tested round */
+    level: z.enum(['strong', 'some', 'none', 'untested']),
+    /** when the count restarted (last calibration record or done calibrate/check-group order), ISO */
+    since: z.iso.datetime().nullable(),
+  }),
+  /**
+   * Calibrations that closed an order opened by the evidence: confirmed when the as-found error
+   * (as found − as left) exceeded 2σ of the instrument, refuted when it did not.
+   */
+  calibrations: z.object({ closed: z.number().int(), confirmed: z.number().int(), refuted: z.number().int() }),
   /** YYYY-MM-DD */
   lastCalibration: z.string().nullable(),
   calibrationIntervalDays: z.number().int().nullable(),
@@ -117,6 +144,17 @@ export const InstrumentHealth = z.object({
   openWorkOrders: z.array(WorkOrderRef.extend({ kind: z.string(), status: z.string() })),
 });
 export type InstrumentHealth = z.infer<typeof InstrumentHealth>;
+
+/**
+ * The one order of the health list, on the server and the screen: the evidence since calibration,
+ * strongest first (an alarm, cusum ≥ h, above everything); an instrument no balance tests ranks as
+ * a quarter of h (nothing speaks for it: after some evidence, before none); then tag, then unit.
+ */
+export function byEvidence(a: InstrumentHealth, b: InstrumentHealth): number {
+  const rank = (i: InstrumentHealth) =>
+    i.evidence.level === 'untested' ? i.evidence.threshold * 0.25 : i.evidence.cusum;
+  return rank(b) - rank(a) || a.tag.localeCompare(b.tag) || a.unitId.localeCompare(b.unitId);
+}
 
 export const InstrumentListResponse = z.object({ instruments: z.array(InstrumentHealth), asOf: z.iso.datetime() });
 export type InstrumentListResponse = z.infer<typeof InstrumentListResponse>;
@@ -150,6 +188,8 @@ export const HistoryPoint = z.object({
   suspect: z.boolean(),
   /** findings of that analysis naming the instrument */
   findings: z.array(z.string()),
+  /** the barometric pressure that analysis used, Pa absolute (to show a gauge or vacuum reading as read) */
+  barometricPa: z.number().nullable(),
 });
 export type HistoryPoint = z.infer<typeof HistoryPoint>;
 
@@ -161,6 +201,9 @@ export const InstrumentHistoryResponse = z.object({
     quantity: z.enum(QUANTITIES),
     siUnit: z.string(),
     status: InstrumentStatus,
+    /** the unit on the gauge's face and its pressure reference: the trend is drawn in these */
+    gaugeUnit: z.string(),
+    reference: z.enum(['absolute', 'gauge', 'vacuum']).nullable(),
   }),
   from: z.iso.datetime(),
   to: z.iso.datetime(),

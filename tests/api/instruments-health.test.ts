@@ -11,6 +11,7 @@
 import type { InstrumentHistoryResponse, InstrumentListResponse } from '../../shared/api/analysis';
 import { runAnalysisJob } from '../../server/analysis/job';
 import { demoUnit } from '../../demo/unit';
+import { biasInWords, healthMark } from '../../lib/instrument-figures';
 import { memoryLogger } from './helpers/app';
 import { api, makeWorld, pushRound, type World } from './analysis-helpers';
 
@@ -88,7 +89,8 @@ test('health: flags, mean |z|, signed bias in SI, calibration due, status and op
 
 test('health filters: status, tag text, unit', async () => {
   expect((await health('?status=suspect')).instruments.map((i) => i.tag)).toEqual(['TI-102A', 'TI-102B']);
-  expect((await health('?q=102')).instruments.map((i) => i.tag)).toEqual(['FI-102', 'PI-102', 'TI-102A', 'TI-102B']);
+  // ordered by evidence (TI-102A in alarm), then tag
+  expect((await health('?q=102')).instruments.map((i) => i.tag)).toEqual(['TI-102A', 'FI-102', 'PI-102', 'TI-102B']);
   const [{ id: unitId }] = (await w.db.dataSource.query(`SELECT id FROM units WHERE site_id = $1`, [w.fernId])) as {
     id: string;
   }[];
@@ -145,4 +147,51 @@ test('history: readings against reconciled values and σ, in device time, within
   ).toBe(400);
   expect((await api(w, 'tech').get(`${base()}/instruments/TI-102A/history`)).status).toBe(403);
   expect((await api(w, 'brackPlanner').get(`${base()}/instruments/TI-102A/history`)).status).toBe(404);
+});
+
+test('one order by evidence since calibration: TI-102A first, its status never "in service ✓", its bias in °C', async () => {
+  const all = await health();
+  const a = all.instruments[0];
+  expect(a.tag).toBe('TI-102A');
+  // Page's CUSUM (k = 1, h = 6) over its six rounds, no calibration record since: four of them
+  // 10σ high (each clipped to u = 5: +4 a round), two at design (−1 each, floored at 0) → ≥ 6
+  expect(a.evidence).toMatchObject({ level: 'strong', direction: 'high', rounds: 6, threshold: 6, since: null });
+  expect(a.evidence.cusum).toBeGreaterThanOrEqual(6);
+  expect(healthMark(a.status, a.evidence).word).toBe('Suspect');
+  // the bias: mean (reading − estimate) over the five rounds of the window, in the gauge's °C, its
+  // expanded uncertainty (k = 2) to two significant digits (GUM §7.2.6)
+  expect(biasInWords(a.quantity, a.gaugeUnit, a.biasSi30d, a.biasUncertaintySi30d)).toMatch(
+    /^reads \d\.\d °C high \(± \d\.\d °C, 95 %\)$/,
+  );
+  // no calibration record in this world: nothing confirms or refutes
+  expect(a.calibrations).toEqual({ closed: 0, confirmed: 0, refuted: 0 });
+  // the list is in the one order, evidence strongest first
+  const rank = all.instruments.map((i) => (i.evidence.level === 'untested' ? 1.5 : i.evidence.cusum));
+  for (let k = 1; k < rank.length; k++) expect(rank[k]).toBeLessThanOrEqual(rank[k - 1]);
+  // no instrument with strong evidence against it reads "in service ✓"
+  for (const i of all.instruments)
+    if (i.evidence.level === 'strong') expect(healthMark(i.status, i.evidence).glyph).not.toBe('✓');
+  // a fault-free pressure gauge of the window: bar on its face; its bias is no evidence, in bar
+  const p = all.instruments.find((i) => i.tag === 'PI-101')!;
+  expect(p).toMatchObject({ gaugeUnit: 'bar', reference: 'gauge' });
+  expect(biasInWords(p.quantity, p.gaugeUnit, p.biasSi30d, p.biasUncertaintySi30d)).toMatch(
+    /^no evidence of a bias \(within ± 0\.\d+ bar, 95 %\)$/,
+  );
+  expect(healthMark(p.status, p.evidence).word).toBe('In service, no evidence against it');
+  // a level no balance tests: no tick
+  expect(healthMark('ok', all.instruments.find((i) => i.tag === 'LI-101')!.evidence).word).toBe(
+    'In service, not tested since calibration',
+  );
+});
+
+test('history carries the gauge unit and reference and each round’s barometer; a year is allowed', async () => {
+  const from = new Date(Date.now() - 365 * DAY).toISOString().slice(0, 10);
+  const res = await api(w, 'engineer').get(`${base()}/instruments/PI-101/history?from=${from}`);
+  expect(res.status).toBe(200);
+  const h = res.body as InstrumentHistoryResponse;
+  expect(h.instrument).toMatchObject({ gaugeUnit: 'bar', reference: 'gauge' });
+  expect(h.points).toHaveLength(6);
+  // the analyses used the site's standard atmosphere or the round's barometer: 80–110 kPa
+  for (const pt of h.points) expect(pt.barometricPa!).toBeGreaterThan(80_000);
+  for (const pt of h.points) expect(pt.barometricPa!).toBeLessThan(110_000);
 });

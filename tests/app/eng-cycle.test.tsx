@@ -3,14 +3,17 @@
  * IAPWS-IF97 ps(p_out, s_in), checked against python3-iapws (IAPWS97(P=0.01, s=6.771192):
  * T = 318.9575 K, x = 0.81630, for 40 bar / 400 °C steam expanded to 0.1 bar); the evidence
  * sentence says a bias with its sign, in the display units (bar = 10⁵ Pa, °C = K − 273.15, SI
- * brochure); instrument health sorts worst first.
+ * brochure); instrument health is ordered by the evidence since calibration and never shows a tick
+ * beside strong evidence.
  */
 import { evidenceSentence } from '@/components/work-order-evidence';
 import { biasWords } from '@/components/instrument-values';
 import { tsFigure, turbineSections } from '@/screens/cycle/cycle-screen';
-import { worstFirst } from '@/screens/instruments/instrument-health-screen';
+import { render, screen } from '@testing-library/react-native';
+import { HealthStatusMark } from '@/components/instrument-values';
+import { calibrationSummary } from '@/screens/instruments/instrument-health-screen';
 import type { StatePointResult } from '@/shared/cycle/types';
-import type { InstrumentHealth } from '@/shared/api/analysis';
+import { byEvidence, type InstrumentHealth } from '@/shared/api/analysis';
 
 const pt = (id: string, p: number, T: number, s: number, circuit: 'cycle' | 'cooling' = 'cycle'): StatePointResult => ({
   id,
@@ -62,29 +65,40 @@ test('evidence in plain words: the bias with its sign against what the balances 
     'TI-214 reads 0.2 K high: it read 231.6 °C, the balances put it at 231.4 °C ± 0.8 K (95 %) — 5.2 standard deviations off.',
   );
   expect(biasWords('pressure', -61_300)).toBe('reads 61.3 kPa low');
-  expect(biasWords('temperature', 0.01)).toBe('reads true');
+  expect(biasWords('temperature', 0.01)).toBe('no evidence of a bias');
   expect(biasWords('temperature', null)).toBe('no estimate');
 });
 
-test('worst first: suspect, then overdue calibration, then most flags, then largest mean |z| (common practice for a health list)', () => {
-  const base = {
-    id: '',
-    unitId: '',
-    quantity: 'temperature',
-    siUnit: 'K',
-    gaugeUnit: '°C',
-    samples30d: 90,
-    biasSi30d: null,
-    lastCalibration: null,
-    calibrationIntervalDays: null,
-    calibrationDue: null,
-    openWorkOrders: [] as InstrumentHealth['openWorkOrders'],
-  } as const;
+const ev = (cusum: number, level: InstrumentHealth['evidence']['level']): InstrumentHealth['evidence'] => ({
+  cusum,
+  threshold: 6,
+  direction: cusum > 0 ? 'high' : null,
+  rounds: 40,
+  level,
+  since: null,
+});
+
+test('one order by evidence: the CUSUM since calibration, strongest first; untested ranks at h/4 (project rule)', () => {
+  const base = { unitId: 'u', status: 'ok', calibrations: { closed: 0, confirmed: 0, refuted: 0 } };
   const rows = [
-    { ...base, tag: 'A', status: 'ok', flags30d: 9, meanAbsZ30d: 1, calibrationOverdue: false },
-    { ...base, tag: 'B', status: 'suspect', flags30d: 1, meanAbsZ30d: 0.5, calibrationOverdue: false },
-    { ...base, tag: 'C', status: 'ok', flags30d: 0, meanAbsZ30d: 0.2, calibrationOverdue: true },
-    { ...base, tag: 'D', status: 'ok', flags30d: 9, meanAbsZ30d: 2, calibrationOverdue: false },
+    { ...base, tag: 'A', evidence: ev(0.4, 'none') },
+    { ...base, tag: 'B', status: 'suspect', evidence: ev(2, 'none') },
+    { ...base, tag: 'C', evidence: ev(11.2, 'strong') },
+    { ...base, tag: 'D', evidence: ev(0, 'untested') },
+    { ...base, tag: 'E', evidence: ev(3.5, 'some') },
   ] as unknown as InstrumentHealth[];
-  expect([...rows].sort(worstFirst).map((r) => r.tag)).toEqual(['B', 'C', 'D', 'A']);
+  // the recorded status does not reorder: B (suspect, weak evidence) sits where its evidence puts it
+  expect([...rows].sort(byEvidence).map((r) => r.tag)).toEqual(['C', 'E', 'B', 'D', 'A']);
+  expect(calibrationSummary(rows)).toBe(
+    'Calibrations: no calibration record yet: nothing has confirmed or refuted the evidence.',
+  );
+});
+
+test('status beside strong evidence is never "in service ✓"', () => {
+  render(<HealthStatusMark status="ok" evidence={ev(9.3, 'strong')} testID="s1" />);
+  expect(screen.getByTestId('s1')).toHaveTextContent('◆ Evidence against it');
+  render(<HealthStatusMark status="ok" evidence={ev(0.3, 'none')} testID="s2" />);
+  expect(screen.getByTestId('s2')).toHaveTextContent('✓ In service, no evidence against it');
+  render(<HealthStatusMark status="ok" evidence={ev(0, 'untested')} testID="s3" />);
+  expect(screen.getByTestId('s3')).toHaveTextContent('● In service, not tested since calibration');
 });

@@ -56,7 +56,16 @@ const response: DetectabilityResponse = { units: [unit] };
 
 function history(tag: string, quantity: string) {
   return {
-    instrument: { id: '4e5f6a7b-8c9d-4e0f-9a1b-2c3d4e5f6a7b', unitId: UNIT, tag, quantity, siUnit: 'K', status: 'ok' },
+    instrument: {
+      id: '4e5f6a7b-8c9d-4e0f-9a1b-2c3d4e5f6a7b',
+      unitId: UNIT,
+      tag,
+      quantity,
+      siUnit: 'K',
+      status: 'ok',
+      gaugeUnit: '°C',
+      reference: null,
+    },
     from: '2026-11-01T00:00:00.000Z',
     to: '2026-12-01T00:00:00.000Z',
     points: [],

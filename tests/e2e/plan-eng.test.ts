@@ -160,6 +160,10 @@ test('the engineer sees the instrument back in service, its trend, and a round�
   await page.waitForURL(`**/eng/instruments/${TAG}`);
   await page.getByTestId('trend-chart').waitFor();
   expect(await page.getByTestId('trend-chart-band').count()).toBe(1);
+  // the calibration closed above is counted against the evidence; the trend has ≥ 5 value and ≥ 4 date ticks
+  await page.getByTestId('instrument-calibrations').filter({ hasText: '1 calibration recorded:' }).waitFor();
+  expect(await page.getByTestId('trend-chart-value-tick').count()).toBeGreaterThanOrEqual(5);
+  expect(await page.getByTestId('trend-chart-date-tick').count()).toBeGreaterThanOrEqual(4);
   // the detectability map: the balances check PI-302 through the deaerator's saturation and its twin
   await page
     .getByTestId('instrument-detectability')
