@@ -24,7 +24,8 @@ import { authOf, requireAuth, requireSiteRole, siteOf } from '../auth/middleware
 import { deps } from '../context';
 import { AppError, validationError } from '../errors';
 import { parseBody } from '../http/validate';
-import { actOnWorkOrder, getWorkOrder, listWorkOrders, type ActionBody } from './service';
+import { actOnWorkOrder, type ActionBody } from './actions';
+import { getWorkOrder, listWorkOrders } from './queries';
 
 /** Who reads work orders, instruments, analyses and exports. */
 export const READ_ROLES: readonly Role[] = ['planner', 'engineer', 'admin'];
