@@ -3,15 +3,19 @@
  * Reads only; the actions are in ./actions.ts, the SQL in ./repository.ts.
  */
 import type { DataSource } from 'typeorm';
-import type {
-  EvidenceItem,
-  ReconciliationSummary,
-  WorkOrderDetail,
-  WorkOrderEventView,
-  WorkOrderListFilters,
-  WorkOrderListResponse,
-  WorkOrderSummary,
+import {
+  EVIDENCE_ROUNDS_PAGE,
+  type EvidenceItem,
+  type EvidencePage,
+  type EvidenceSummary,
+  type ReconciliationSummary,
+  type WorkOrderDetail,
+  type WorkOrderEventView,
+  type WorkOrderListFilters,
+  type WorkOrderListResponse,
+  type WorkOrderSummary,
 } from '../../shared/api/work-orders';
+import { SI_UNIT } from '../../shared/units';
 import { AppError } from '../errors';
 import { allowedActions } from './policy';
 import { calibrations, events, findings, orders, type Db, type SummaryRow } from './repository';
@@ -122,8 +126,9 @@ export function reconciliationSummaryOf(r: unknown): ReconciliationSummary {
   };
 }
 
-async function evidenceOf(ds: Db, workOrderId: string): Promise<EvidenceItem[]> {
-  const found = await findings.ofOrder(ds, workOrderId);
+/** The evidence of rounds offset…offset+limit of the order (newest round first). */
+async function evidenceOf(ds: Db, workOrderId: string, offset: number, limit: number): Promise<EvidenceItem[]> {
+  const found = await findings.ofOrderRounds(ds, workOrderId, offset, limit);
   if (found.length === 0) return [];
   const ai = await findings.analysisInstruments(
     ds,
@@ -188,15 +193,73 @@ async function evidenceOf(ds: Db, workOrderId: string): Promise<EvidenceItem[]> 
   });
 }
 
+/** How many of the newest findings the summary names. */
+export const LATEST_FINDINGS = 3;
+
+async function summaryOfEvidence(ds: Db, row: SummaryRow): Promise<EvidenceSummary> {
+  const counts = await findings.counts(ds, row.id);
+  const latest = await findings.latest(ds, row.id, LATEST_FINDINGS);
+  const quantity = row.instrument_id ? await orders.quantityOf(ds, row.instrument_id) : undefined;
+  const trend = row.instrument_id && quantity ? await findings.corrections(ds, row.id, row.instrument_id) : [];
+  return {
+    findingCount: counts.findings,
+    roundCount: counts.rounds,
+    firstSeenAt: iso(counts.first_at),
+    lastSeenAt: iso(counts.last_at),
+    trend: trend.map((t) => {
+      // VDI 2048: the correction's variance is the reading's less the reconciled value's
+      const v =
+        t.sigma_si !== null && t.reconciled_sigma_si !== null ? t.sigma_si ** 2 - t.reconciled_sigma_si ** 2 : null;
+      return {
+        roundId: t.round_id,
+        at: iso(t.at)!,
+        correction: t.reconciled_si - t.reading_si,
+        sigma: v !== null && v > 0 ? Math.sqrt(v) : null,
+        z: t.z,
+      };
+    }),
+    trendUnit: quantity ? (quantity === 'level' ? '1' : SI_UNIT[quantity]) : null,
+    latest: latest.map((f) => ({
+      findingId: f.id,
+      roundId: f.round_id,
+      at: iso(f.created_at)!,
+      severity: f.severity,
+      message: f.message,
+    })),
+  };
+}
+
+/** A page of an order's evidence by round (GET …/work-orders/:id/evidence). */
+export async function evidencePage(
+  ds: DataSource,
+  siteId: string,
+  id: string,
+  q: { offset: number; limit: number },
+): Promise<EvidencePage> {
+  if (!UUID_RE.test(id)) throw notFound();
+  const row = await orders.summary(ds, siteId, id);
+  if (!row) throw notFound();
+  const counts = await findings.counts(ds, id);
+  return {
+    items: await evidenceOf(ds, id, q.offset, q.limit),
+    rounds: counts.rounds,
+    offset: q.offset,
+    limit: q.limit,
+  };
+}
+
 export async function getWorkOrder(ds: DataSource, siteId: string, id: string): Promise<WorkOrderDetail> {
   if (!UUID_RE.test(id)) throw notFound();
   const row = await orders.summary(ds, siteId, id);
   if (!row) throw notFound();
   const history = await events.ofOrder(ds, siteId, id);
   const records = await calibrations.ofOrder(ds, siteId, id);
+  const evidenceSummary = await summaryOfEvidence(ds, row);
   return {
     ...summaryOf(row),
-    evidence: await evidenceOf(ds, id),
+    evidenceSummary,
+    evidence: await evidenceOf(ds, id, 0, EVIDENCE_ROUNDS_PAGE),
+    evidencePage: { rounds: evidenceSummary.roundCount, offset: 0, limit: EVIDENCE_ROUNDS_PAGE },
     events: history.map((e): WorkOrderEventView => ({
       id: e.id,
       at: iso(e.at)!,

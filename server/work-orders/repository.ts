@@ -8,6 +8,7 @@
  */
 import type { DataSource, EntityManager } from 'typeorm';
 import type { CalibrationRecordView, WorkOrderKind, WorkOrderStatus } from '../../shared/api/work-orders';
+import type { Quantity } from '../../shared/units';
 import { CLOSED_STATUSES } from './policy';
 
 export type Db = DataSource | EntityManager;
@@ -230,6 +231,13 @@ export const orders = {
     );
   },
 
+  async quantityOf(db: Db, instrumentId: string): Promise<Quantity | undefined> {
+    const [row] = (await db.query(`SELECT "quantity" FROM "instruments" WHERE "id" = $1`, [instrumentId])) as {
+      quantity: Quantity;
+    }[];
+    return row?.quantity;
+  },
+
   async isMember(em: EntityManager, siteId: string, userId: string): Promise<boolean> {
     const rows = (await em.query(`SELECT 1 FROM "memberships" WHERE "user_id" = $1 AND "site_id" = $2`, [
       userId,
@@ -289,19 +297,86 @@ export interface PhotoRow {
   status: string;
 }
 
+export interface EvidenceCountRow {
+  findings: number;
+  rounds: number;
+  first_at: Date | null;
+  last_at: Date | null;
+}
+
+export interface LatestFindingRow {
+  id: string;
+  round_id: string;
+  created_at: Date;
+  severity: number;
+  message: string;
+}
+
+export interface CorrectionRow {
+  round_id: string;
+  at: Date;
+  reading_si: number;
+  reconciled_si: number;
+  sigma_si: number | null;
+  reconciled_sigma_si: number | null;
+  z: number | null;
+}
+
 export const findings = {
-  /** The order's findings in the order they were made. */
-  async ofOrder(db: Db, workOrderId: string): Promise<EvidenceFindingRow[]> {
+  /** The findings of the order's rounds `offset`…`offset + limit` (rounds by their newest finding, newest first). */
+  async ofOrderRounds(db: Db, workOrderId: string, offset: number, limit: number): Promise<EvidenceFindingRow[]> {
     return (await db.query(
-      `SELECT f."id", f."analysis_id", f."round_id", f."kind", f."severity", f."message", f."instrument_tags", f."instrument_ids", f."evidence",
+      `WITH "page" AS (
+         SELECT f."round_id", max(f."created_at") AS "last"
+           FROM "work_order_findings" wf JOIN "findings" f ON f."id" = wf."finding_id"
+          WHERE wf."work_order_id" = $1
+          GROUP BY f."round_id"
+          ORDER BY "last" DESC, f."round_id" DESC
+          LIMIT $2 OFFSET $3)
+       SELECT f."id", f."analysis_id", f."round_id", f."kind", f."severity", f."message", f."instrument_tags", f."instrument_ids", f."evidence",
               f."created_at", wf."attached_at", a."is_current", a."reconciliation"
          FROM "work_order_findings" wf
          JOIN "findings" f ON f."id" = wf."finding_id"
+         JOIN "page" p ON p."round_id" = f."round_id"
          JOIN "analyses" a ON a."id" = f."analysis_id"
         WHERE wf."work_order_id" = $1
-        ORDER BY f."created_at", f."ordinal"`,
-      [workOrderId],
+        ORDER BY p."last" DESC, f."round_id" DESC, f."created_at", f."ordinal"`,
+      [workOrderId, limit, offset],
     )) as EvidenceFindingRow[];
+  },
+
+  /** How many findings and rounds the order's evidence holds, and when it was first and last seen. */
+  async counts(db: Db, workOrderId: string): Promise<EvidenceCountRow> {
+    const [row] = (await db.query(
+      `SELECT count(*)::int AS "findings", count(DISTINCT f."round_id")::int AS "rounds", min(f."created_at") AS "first_at", max(f."created_at") AS "last_at"
+         FROM "work_order_findings" wf JOIN "findings" f ON f."id" = wf."finding_id"
+        WHERE wf."work_order_id" = $1`,
+      [workOrderId],
+    )) as EvidenceCountRow[];
+    return row;
+  },
+
+  /** The newest `n` findings of the order, newest first. */
+  async latest(db: Db, workOrderId: string, n: number): Promise<LatestFindingRow[]> {
+    return (await db.query(
+      `SELECT f."id", f."round_id", f."created_at", f."severity", f."message"
+         FROM "work_order_findings" wf JOIN "findings" f ON f."id" = wf."finding_id"
+        WHERE wf."work_order_id" = $1
+        ORDER BY f."created_at" DESC, f."ordinal" DESC LIMIT $2`,
+      [workOrderId, n],
+    )) as LatestFindingRow[];
+  },
+
+  /** The instrument's reading and reconciled value on each analysis the order's findings come from, oldest first. */
+  async corrections(db: Db, workOrderId: string, instrumentId: string): Promise<CorrectionRow[]> {
+    return (await db.query(
+      `SELECT ai."round_id", COALESCE(ai."measured_at", a."analysed_at") AS "at", ai."reading_si", ai."reconciled_si", ai."sigma_si", ai."reconciled_sigma_si", ai."z"
+         FROM "analysis_instruments" ai JOIN "analyses" a ON a."id" = ai."analysis_id"
+        WHERE ai."instrument_id" = $2 AND ai."reading_si" IS NOT NULL AND ai."reconciled_si" IS NOT NULL
+          AND ai."analysis_id" IN (SELECT f."analysis_id" FROM "work_order_findings" wf JOIN "findings" f ON f."id" = wf."finding_id" WHERE wf."work_order_id" = $1)
+        ORDER BY "at", ai."round_id"`,
+      [workOrderId, instrumentId],
+    )) as CorrectionRow[];
   },
 
   /** The analysis' view of each (analysis, instrument) pair. */
@@ -435,7 +510,7 @@ export interface CalibrationRow {
 export interface CalibratedInstrumentRow {
   id: string;
   tag: string;
-  quantity: import('../../shared/units').Quantity;
+  quantity: Quantity;
   gauge_unit: string;
   reference: 'absolute' | 'gauge' | 'vacuum' | null;
 }
