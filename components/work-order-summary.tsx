@@ -8,7 +8,7 @@ import { StyleSheet, useWindowDimensions, View } from 'react-native';
 import { space } from '@/constants/theme';
 import type { EvidenceSummary } from '@/shared/api/work-orders';
 import { Card } from './card';
-import { displayScale, quantityOfTag, showDeltaOf } from './instrument-values';
+import { biasWords, displayScale, quantityOfTag, showDeltaOf } from './instrument-values';
 import { SeverityMark } from './severity-mark';
 import { ThemedText } from './themed-text';
 import { TrendChart } from './trend-chart';
@@ -41,7 +41,7 @@ export function WorkOrderSummary({ summary, tag }: { summary: EvidenceSummary; t
           <ThemedText variant="caption" muted testID="wo-summary-trend-caption">
             {`${tag}: the balances’ correction on each of those rounds (reconciled − reading; band ±2σ of the correction)` +
               (last
-                ? ` — on the last ${showDeltaOf(q, last.correction)}${last.sigma !== null ? ` ± ${showDeltaOf(q, 2 * last.sigma)} (95 %)` : ''}.`
+                ? ` — on the last it ${biasWords(q, -last.correction)}${last.sigma !== null ? ` ± ${showDeltaOf(q, 2 * last.sigma)} (95 %)` : ''}.`
                 : '.')}
           </ThemedText>
           <TrendChart
