@@ -5,6 +5,7 @@
  */
 import { useMutation, useQuery, useQueryClient, type QueryClient } from '@tanstack/react-query';
 import {
+  EvidencePage,
   WORK_ORDER_PAGE_SIZE,
   WorkOrderDetail,
   WorkOrderListResponse,
@@ -196,5 +197,19 @@ export function useWorkOrderAction(id: string) {
       void qc.invalidateQueries({ queryKey: workOrderKeys.all(siteId) });
       void qc.invalidateQueries({ queryKey: ['instruments', siteId] });
     },
+  });
+}
+
+/** Rounds `offset`… of an order's evidence (newest round first); the detail already holds the first page. */
+export function useWorkOrderEvidence(id: string, offset: number, limit: number) {
+  const { request, status, membership } = useSession();
+  const siteId = membership?.siteId ?? '';
+  return useQuery<EvidencePage>({
+    queryKey: [...workOrderKeys.detail(siteId, id), 'evidence', offset, limit],
+    enabled: status === 'signed-in' && !!siteId && !!id,
+    queryFn: async () =>
+      EvidencePage.parse(
+        await request(`/api/sites/${siteId}/work-orders/${id}/evidence?offset=${offset}&limit=${limit}`),
+      ),
   });
 }

@@ -1,12 +1,19 @@
-/** One work order: what and where, the evidence in plain words, the actions, and its history. */
+/**
+ * One work order: what and where, the actions (at the top on a phone), the evidence in short
+ * (./components/work-order-summary), the evidence folded by round and paged, and its history
+ * (the newest HISTORY_SHOWN events first, the rest on a press).
+ */
+import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import type { Href } from 'expo-router';
+import { Button } from '@/components/button';
 import { Card } from '@/components/card';
 import { Caution } from '@/components/caution';
 import { SeverityMark } from '@/components/severity-mark';
 import { ThemedText } from '@/components/themed-text';
 import { WorkOrderActions } from '@/components/work-order-actions';
-import { WorkOrderEvidence } from '@/components/work-order-evidence';
+import { WorkOrderRounds } from '@/components/work-order-rounds';
+import { WorkOrderSummary } from '@/components/work-order-summary';
 import { space } from '@/constants/theme';
 import { useWorkOrder } from '@/hooks/queries/work-orders';
 import { useWide } from '@/hooks/use-wide';
@@ -26,13 +33,19 @@ function Fact({ label, value, testID }: { label: string; value: string; testID?:
   );
 }
 
+/** History events shown before "Show all": an order an analysis keeps feeding gathers one per round. */
+export const HISTORY_SHOWN = 8;
+
 function History({ wo }: { wo: WorkOrderDetail }) {
+  const [all, setAll] = useState(false);
+  const newest = [...wo.events].reverse();
+  const shown = all ? newest : newest.slice(0, HISTORY_SHOWN);
   return (
     <Card testID="wo-history">
       <ThemedText variant="label" bold>
         History
       </ThemedText>
-      {[...wo.events].reverse().map((e) => (
+      {shown.map((e) => (
         <View key={e.id} style={styles.event}>
           <ThemedText
             variant="caption"
@@ -46,6 +59,14 @@ function History({ wo }: { wo: WorkOrderDetail }) {
           </ThemedText>
         </View>
       ))}
+      {newest.length > shown.length ? (
+        <Button
+          kind="plain"
+          label={`Show all ${newest.length} events`}
+          onPress={() => setAll(true)}
+          testID="wo-history-all"
+        />
+      ) : null}
       {wo.calibrations.map((c) => (
         <ThemedText key={c.id} variant="label" testID={`wo-calibration-${c.id}`}>
           {`Calibrated ${c.calibratedOn} by ${c.calibratedBy.name}: as found ${c.asFound} ${c.unit}, as left ${c.asLeft} ${c.unit}`}
@@ -94,8 +115,15 @@ export function WorkOrderScreen({ id, cycleHref }: { id: string; cycleHref: (rou
   );
   const evidence = (
     <View style={styles.stack}>
-      <ThemedText variant="title">Evidence</ThemedText>
-      <WorkOrderEvidence items={wo.evidence} cycleHref={cycleHref} />
+      <WorkOrderSummary summary={wo.evidenceSummary} tag={wo.instrumentTag} />
+      <ThemedText variant="title">Evidence by round</ThemedText>
+      <WorkOrderRounds
+        id={wo.id}
+        first={wo.evidence}
+        rounds={wo.evidencePage.rounds}
+        limit={wo.evidencePage.limit}
+        cycleHref={cycleHref}
+      />
     </View>
   );
   const actions = closed ? null : <WorkOrderActions wo={wo} />;
@@ -119,8 +147,8 @@ export function WorkOrderScreen({ id, cycleHref }: { id: string; cycleHref: (rou
         </View>
       ) : (
         <>
-          {evidence}
           {actions}
+          {evidence}
           <History wo={wo} />
         </>
       )}

@@ -8,7 +8,7 @@
 import type { DataSource } from 'typeorm';
 import type { AnalysisJob, AnalysisJobsResponse, FindingView, RoundAnalysisResponse } from '../../shared/api/analysis';
 import { AppError } from '../errors';
-import { reconciliationSummaryOf } from '../work-orders/service';
+import { reconciliationSummaryOf } from '../work-orders/queries';
 import { ANALYSIS_QUEUE, PGBOSS_SCHEMA } from './queue';
 import { readingOrigins } from './reading-origins';
 

@@ -57,7 +57,8 @@ export interface WorkOrder {
 }
 
 const statusEnum = { type: 'enum', enum: [...WORK_ORDER_STATUSES], enumName: 'work_order_status' } as const;
-const OPEN_WHERE = `"status" NOT IN ('done', 'cancelled')`;
+// the partial unique indexes' predicate, as the migration wrote it, from the one list of closed statuses
+const OPEN_WHERE = `"status" NOT IN (${CLOSED_STATUSES.map((s) => `'${s}'`).join(', ')})`;
 
 export const WorkOrderEntity = new EntitySchema<WorkOrder>({
   name: 'WorkOrder',

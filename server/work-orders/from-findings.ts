@@ -42,6 +42,7 @@ import { portUses, type CycleModel } from '../../shared/cycle';
 import type { WorkOrderKind } from '../../shared/api/work-orders';
 import { joinNames } from '../../shared/cycle/messages';
 import { DUE_DAYS, EVIDENCE_KINDS, VERB, priorityOf, workOrderCode, workOrderKindOf } from './policy';
+import { events, findings, orders } from './repository';
 
 /** Rounds after a calibration within which a new flag reopens the calibrate order. */
 export const REOPEN_WITHIN_ROUNDS = 3;
@@ -213,41 +214,14 @@ function titleOf(model: CycleModel, g: Group): string {
   return `${VERB[g.kind]} ${label}: ${what}`.slice(0, 300);
 }
 
-async function event(
-  em: EntityManager,
-  workOrderId: string,
-  type: string,
-  e: {
-    from?: string | null;
-    to?: string | null;
-    changes?: Record<string, unknown>;
-    comment?: string | null;
-    actorId?: string | null;
-  },
-): Promise<void> {
-  await em.query(
-    `INSERT INTO "work_order_events" ("work_order_id", "actor_id", "type", "from_status", "to_status", "changes", "comment")
-     VALUES ($1, $2, $3, $4, $5, $6, $7)`,
-    [
-      workOrderId,
-      e.actorId ?? null,
-      type,
-      e.from ?? null,
-      e.to ?? null,
-      JSON.stringify(e.changes ?? {}),
-      e.comment ?? null,
-    ],
-  );
-}
+const event = events.add;
 
-async function attach(em: EntityManager, workOrderId: string, findings: StoredFinding[]): Promise<void> {
-  const params: unknown[] = [workOrderId];
-  const values = findings.map((f) => `($1, $${params.push(f.id)})`);
-  await em.query(
-    `INSERT INTO "work_order_findings" ("work_order_id", "finding_id") VALUES ${values.join(', ')} ON CONFLICT DO NOTHING`,
-    params,
+const attach = (em: EntityManager, workOrderId: string, found: StoredFinding[]) =>
+  findings.attach(
+    em,
+    workOrderId,
+    found.map((f) => f.id),
   );
-}
 
 async function markSuspect(em: EntityManager, instrumentId: string): Promise<void> {
   await em.query(
@@ -302,19 +276,13 @@ export async function workOrdersFromFindings(
   for (const g of groups) {
     const summary = summaryOf(g, ctx);
     const note = g.findings.map((f) => f.message).join('\n');
-    const [open] = (
+    const open = await orders.openFor(
+      em,
       g.instrument
-        ? await em.query(
-            `SELECT "id", "code", "status", "priority" FROM "work_orders"
-              WHERE "site_id" = $1 AND "instrument_id" = $2 AND "kind" = $3 AND "status" NOT IN ('done', 'cancelled') FOR UPDATE`,
-            [ctx.siteId, g.instrument.id, g.kind],
-          )
-        : await em.query(
-            `SELECT "id", "code", "status", "priority" FROM "work_orders"
-              WHERE "unit_id" = $1 AND "equipment_ref" = $2 AND "kind" = $3 AND "instrument_id" IS NULL AND "status" NOT IN ('done', 'cancelled') FOR UPDATE`,
-            [ctx.unitId, g.equipmentRef, g.kind],
-          )
-    ) as OpenRow[];
+        ? { siteId: ctx.siteId, instrumentId: g.instrument.id }
+        : { unitId: ctx.unitId, equipmentRef: g.equipmentRef! },
+      g.kind,
+    );
 
     // 1. attach to the open order
     if (open) {

@@ -31,6 +31,7 @@
  * practice for maintenance backlogs; the planner sets another at triage or scheduling).
  */
 import type { WorkOrderAction, WorkOrderKind, WorkOrderStatus } from '../../shared/api/work-orders';
+import { CLOSED_STATUSES } from '../entities/work-order';
 
 export const KIND_OF_FINDING: Readonly<Record<string, WorkOrderKind>> = Object.freeze({
   'gross-error': 'calibrate',
@@ -101,8 +102,11 @@ export const TRANSITIONS: Readonly<
 
 export const FLOW_TEXT = 'open → triaged → scheduled → in-progress → done, or cancelled';
 
+/** The statuses an order ends in (one list, with the entity; ./repository.ts builds its open-order SQL from it). */
+export { CLOSED_STATUSES };
+
 export function isClosed(s: WorkOrderStatus): boolean {
-  return s === 'done' || s === 'cancelled';
+  return CLOSED_STATUSES.includes(s);
 }
 
 /** null when allowed, else the reason (for a 409). */

@@ -1,7 +1,8 @@
 /**
  * /api/sites/:siteId/work-orders — thin handlers: parse, authorise, call ./service.ts, respond.
  *   GET  …/work-orders                      planners, engineers, admins  → WorkOrderListResponse
- *   GET  …/work-orders/:id                  planners, engineers, admins  → WorkOrderDetail
+ *   GET  …/work-orders/:id                  planners, engineers, admins  → WorkOrderDetail (summary + newest evidence)
+ *   GET  …/work-orders/:id/evidence?offset=&limit=   the same roles     → EvidencePage (by round, newest first)
  *   POST …/work-orders/:id/<action>         planners, admins             → WorkOrderDetail
  * A member with another role gets 403; someone not on the site 404 (requireSiteRole).
  */
@@ -13,6 +14,7 @@ import {
   CancelRequest,
   CloseRequest,
   CommentRequest,
+  EvidencePageQuery,
   MergeRequest,
   ScheduleRequest,
   StartRequest,
@@ -24,7 +26,8 @@ import { authOf, requireAuth, requireSiteRole, siteOf } from '../auth/middleware
 import { deps } from '../context';
 import { AppError, validationError } from '../errors';
 import { parseBody } from '../http/validate';
-import { actOnWorkOrder, getWorkOrder, listWorkOrders, type ActionBody } from './service';
+import { actOnWorkOrder, type ActionBody } from './actions';
+import { evidencePage, getWorkOrder, listWorkOrders } from './queries';
 
 /** Who reads work orders, instruments, analyses and exports. */
 export const READ_ROLES: readonly Role[] = ['planner', 'engineer', 'admin'];
@@ -59,6 +62,11 @@ export function workOrdersRouter(): Router {
 
   r.get('/:siteId/work-orders/:id', requireSiteRole(...READ_ROLES), async (req, res) => {
     res.json(await getWorkOrder(deps(req).dataSource, siteOf(req).siteId, String(req.params.id)));
+  });
+
+  r.get('/:siteId/work-orders/:id/evidence', requireSiteRole(...READ_ROLES), async (req, res) => {
+    const q = parseQuery(EvidencePageQuery, req);
+    res.json(await evidencePage(deps(req).dataSource, siteOf(req).siteId, String(req.params.id), q));
   });
 
   r.post('/:siteId/work-orders/:id/:action', requireSiteRole(...ACT_ROLES), async (req, res) => {

@@ -253,8 +253,72 @@ export const CalibrationRecordView = z.object({
 });
 export type CalibrationRecordView = z.infer<typeof CalibrationRecordView>;
 
+/** Rounds of evidence per page (the detail carries the newest page; …/evidence?offset= the rest). */
+export const EVIDENCE_ROUNDS_PAGE = 5;
+
+/** One point of the trend of the order's instrument: its correction (reconciled − reading, SI) on one round. */
+export const CorrectionPoint = z.object({
+  roundId: z.uuid(),
+  at: z.iso.datetime(),
+  correction: z.number(),
+  /** 1σ of the correction (from the reading's and the reconciled value's σ), null when not known */
+  sigma: z.number().nullable(),
+  z: z.number().nullable(),
+});
+export type CorrectionPoint = z.infer<typeof CorrectionPoint>;
+
+/** What an order's evidence comes to, read before any of it. */
+export const EvidenceSummary = z.object({
+  findingCount: z.number().int(),
+  roundCount: z.number().int(),
+  firstSeenAt: z.iso.datetime().nullable(),
+  lastSeenAt: z.iso.datetime().nullable(),
+  /** the order's instrument's correction per round of its evidence, oldest first; empty without an instrument */
+  trend: z.array(CorrectionPoint),
+  /** the SI unit of `trend` (K, Pa, kg/s, W, 1), null without an instrument */
+  trendUnit: z.string().nullable(),
+  /** the newest few findings, newest first */
+  latest: z.array(
+    z.object({
+      findingId: z.uuid(),
+      roundId: z.uuid(),
+      at: z.iso.datetime(),
+      severity: z.number().int(),
+      message: z.string(),
+    }),
+  ),
+});
+export type EvidenceSummary = z.infer<typeof EvidenceSummary>;
+
+export const EvidencePageQuery = z.object({
+  offset: z.coerce
+    .number({ error: 'Must be a whole number of rounds' })
+    .int('Must be a whole number of rounds')
+    .min(0, 'Must be at least 0')
+    .max(1_000_000, 'Must be at most 1000000')
+    .default(0),
+  limit: z.coerce
+    .number({ error: 'Must be a whole number of rounds' })
+    .int('Must be a whole number of rounds')
+    .min(1, 'Must be at least 1')
+    .max(50, 'Must be at most 50')
+    .default(EVIDENCE_ROUNDS_PAGE),
+});
+
+/** A page of evidence by round, newest round first: `offset`/`limit` count rounds, `rounds` is all of them. */
+export const EvidencePage = z.object({
+  items: z.array(EvidenceItem),
+  rounds: z.number().int(),
+  offset: z.number().int(),
+  limit: z.number().int(),
+});
+export type EvidencePage = z.infer<typeof EvidencePage>;
+
 export const WorkOrderDetail = WorkOrderSummary.extend({
+  evidenceSummary: EvidenceSummary,
+  /** the newest EVIDENCE_ROUNDS_PAGE rounds of evidence (newest round first); the rest by …/evidence?offset= */
   evidence: z.array(EvidenceItem),
+  evidencePage: EvidencePage.omit({ items: true }),
   events: z.array(WorkOrderEventView),
   calibrations: z.array(CalibrationRecordView),
   /** what the status flow allows next from here */

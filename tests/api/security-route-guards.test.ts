@@ -104,6 +104,7 @@ const GUARDS: Record<string, Guard> = {
   'GET /api/sites/:siteId/assignees': site(READ),
   'GET /api/sites/:siteId/work-orders': site(READ),
   'GET /api/sites/:siteId/work-orders/:id': site(READ, { params: { id: 'workOrderId' } }),
+  'GET /api/sites/:siteId/work-orders/:id/evidence': site(READ, { params: { id: 'workOrderId' } }),
   'POST /api/sites/:siteId/work-orders/:id/:action': site(ACT, {
     params: { id: 'workOrderId' },
     body: () => ({ comment: 'seen on the round' }),

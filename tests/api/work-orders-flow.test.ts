@@ -158,6 +158,41 @@ test('the next rounds flagging TI-403A attach to that work order — three analy
     [w.fernId],
   );
   expect(last).toBe(1);
+
+  // the summary read before the evidence: 5 rounds, 10 findings, the newest three in words,
+  // TI-403A's correction on each round
+  const sum = d.evidenceSummary;
+  expect(sum).toMatchObject({ findingCount: 10, roundCount: 5, trendUnit: 'K' });
+  expect(sum.latest).toHaveLength(3);
+  for (const f of sum.latest) expect(f.message).toMatch(/TI-403A/);
+  expect(sum.latest.map((f) => f.at)).toEqual([...sum.latest.map((f) => f.at)].sort().reverse());
+  expect(sum.lastSeenAt).toBe(sum.latest[0].at);
+  expect(Date.parse(sum.firstSeenAt!)).toBeLessThanOrEqual(Date.parse(sum.lastSeenAt!));
+  expect(sum.trend).toHaveLength(5);
+  for (const t of sum.trend) {
+    // the reading was put 10σ high: the reconciliation pulls it down
+    expect(t.correction).toBeLessThan(-3 * w.sigma['TI-403A']);
+    // VDI 2048 part 1: the normalised correction is the correction over its own σ,
+    // σ_v² = σ_x² − σ_x̂² (the reading's variance less the reconciled value's)
+    expect(Math.abs(t.correction / t.sigma!)).toBeCloseTo(Math.abs(t.z!), 6);
+  }
+  // the newest page holds every round here; smaller pages split by round, newest first, none twice
+  expect(d.evidencePage).toEqual({ rounds: 5, offset: 0, limit: 5 });
+  expect(new Set(d.evidence.map((e) => e.roundId)).size).toBe(5);
+  const pages = [];
+  for (const offset of [0, 2, 4]) {
+    const res = await api(w, 'planner').get(`${base()}/work-orders/${woId}/evidence?offset=${offset}&limit=2`);
+    expect(res.status).toBe(200);
+    expect(res.body).toMatchObject({ rounds: 5, offset, limit: 2 });
+    pages.push(res.body as { items: { findingId: string; roundId: string }[] });
+  }
+  expect(pages.map((p) => new Set(p.items.map((e) => e.roundId)).size)).toEqual([2, 2, 1]);
+  const ids = pages.flatMap((p) => p.items.map((e) => e.findingId));
+  expect(new Set(ids).size).toBe(10);
+  expect(ids.sort()).toEqual(d.evidence.map((e) => e.findingId).sort());
+  const bad = await api(w, 'planner').get(`${base()}/work-orders/${woId}/evidence?limit=0`);
+  expect(bad.status).toBe(400);
+  expect(bad.body.error.message).toMatch(/limit/);
   expect(w.calls.opened).toHaveLength(1);
 });
 

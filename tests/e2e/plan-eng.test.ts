@@ -89,7 +89,10 @@ test('the planner finds the priority-1 calibration order, reads its evidence, as
   await page.getByTestId('wo-detail').waitFor();
   await page.getByTestId('wo-caution').waitFor();
   expect(await page.getByTestId('wo-instrument').textContent()).toBe(TAG);
-  const evidence = await page.getByTestId(`wo-evidence-0-${TAG}`).textContent();
+  // the evidence is folded by round (newest open): open older rounds until one says it in words
+  const sentence = page.locator(`[data-testid^="wo-evidence-"][data-testid$="-${TAG}"]`).first();
+  for (let k = 1; k < 5 && (await sentence.count()) === 0; k++) await page.getByTestId(`wo-round-${k}`).click();
+  const evidence = await sentence.textContent();
   expect(evidence).toMatch(
     new RegExp(`^${TAG} reads [\\d.]+ (Pa|kPa|bar) (high|low): it read .* the balances put it at .* ± .*\\(95 %\\)`),
   );
