@@ -1,7 +1,7 @@
 /**
- * The round check on a phone-class processor: shared/review checkRound on a demo round (the
+ * The round check on a phone-class processor: shared/round-check checkRound on a demo round (the
  * turbine hall with TI-206 6 K high, the boiler-house and condenser rounds borrowed for the rest of
- * the unit — what the review screen runs at the finish), bundled with esbuild and run in Debian's
+ * the unit — what the round-check screen runs at the finish), bundled with esbuild and run in Debian's
  * chromium with the CPU unthrottled and throttled 4× (Chrome DevTools Protocol
  * Emulation.setCPUThrottlingRate). "first" is the first check in a fresh page (nothing compiled
  * yet: what the technician waits for at the finish), "again" the median of the next ones (a
@@ -46,7 +46,7 @@ export async function run(): Promise<void> {
   const esbuild = await import('esbuild');
   const dir = join(__dirname, '..', '.tmp', 'bench');
   mkdirSync(dir, { recursive: true });
-  const entry = join(dir, 'device-review-entry.ts');
+  const entry = join(dir, 'device-round-check-entry.ts');
   writeFileSync(entry, ENTRY);
   const built = await esbuild.build({
     entryPoints: [entry],

@@ -35,14 +35,14 @@ export function roundCheckHeadline(r: RoundCheck): { text: string; tone: 'ok' | 
 
 /** The round check in the finish panel: its headline and the way to the full check. */
 export function RoundCheckSummary({ roundId, onOpen }: { roundId: string; onOpen(): void }) {
-  const { load, review, checking, error } = useRoundCheck(roundId);
+  const { load, roundCheck, checking, error } = useRoundCheck(roundId);
   let line: { text: string; tone?: 'ok' | 'warning' | 'danger' } = { text: 'Checking the round on this device…' };
   if (error) line = { text: error.message, tone: 'danger' };
   else if (load && !load.ok) line = { text: load.problem, tone: 'warning' };
-  else if (review && !checking) line = roundCheckHeadline(review);
+  else if (roundCheck && !checking) line = roundCheckHeadline(roundCheck);
   return (
-    <View style={styles.box} testID="review-summary">
-      <ThemedText variant="label" bold tone={line.tone} testID="review-summary-text">
+    <View style={styles.box} testID="round-check-summary">
+      <ThemedText variant="label" bold tone={line.tone} testID="round-check-summary-text">
         {line.text}
       </ThemedText>
       <Button testID="finish-check" label="Check the round" kind="plain" onPress={onOpen} />

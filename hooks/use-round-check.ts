@@ -23,7 +23,7 @@ import { runRoundCheck, type RoundCheckRun } from '../lib/round-check-runner';
 export interface RoundCheckState {
   /** the inputs as read from the store (or why they cannot be) */
   load: DeviceRoundCheckLoad | undefined;
-  review: RoundCheck | null;
+  roundCheck: RoundCheck | null;
   /** the check's duration on this device (asked → answered), ms */
   ms: number | null;
   /** where it ran: the page's thread or a Web Worker */
@@ -99,14 +99,16 @@ export function useRoundCheck(roundId: string): RoundCheckState {
         remember(key, run);
         setDone({ key, run });
         setFailure(null);
-        const review = run.review;
+        const roundCheck = run.roundCheck;
         if (store) {
           const record: RoundCheckRecord = {
-            modelVersion: review.modelVersion,
-            fingerprint: review.fingerprint,
+            modelVersion: roundCheck.modelVersion,
+            fingerprint: roundCheck.fingerprint,
             checkedAt: isoTime(Date.now()),
-            readings: Object.fromEntries(Object.entries(review.assembled.sources).map(([t, s]) => [t, s.readingId])),
-            retakes: review.retakes.map((r) => r.tag),
+            readings: Object.fromEntries(
+              Object.entries(roundCheck.assembled.sources).map(([t, s]) => [t, s.readingId]),
+            ),
+            retakes: roundCheck.retakes.map((r) => r.tag),
             ms: run.ms,
           };
           void store.setMeta(ROUND_CHECK_META(roundId), JSON.stringify(record));
@@ -122,7 +124,7 @@ export function useRoundCheck(roundId: string): RoundCheckState {
   const current = done && done.key === key ? done : null;
   return {
     load,
-    review: current?.run.review ?? done?.run.review ?? null,
+    roundCheck: current?.run.roundCheck ?? done?.run.roundCheck ?? null,
     ms: current?.run.ms ?? null,
     where: current?.run.where ?? null,
     checking: !!load && load.ok && !current && !failure,

@@ -6,7 +6,7 @@
 import { checkRound, type RoundCheckInput, type RoundCheck } from '@/shared/round-check';
 
 export interface RoundCheckRun {
-  review: RoundCheck;
+  roundCheck: RoundCheck;
   /** from asking to having the answer, ms */
   ms: number;
   where: 'main thread' | 'worker';
@@ -17,8 +17,8 @@ export function roundCheckOnThisThread(input: RoundCheckInput): Promise<RoundChe
     setTimeout(() => {
       try {
         const t0 = performance.now();
-        const review = checkRound(input);
-        resolve({ review, ms: performance.now() - t0, where: 'main thread' });
+        const roundCheck = checkRound(input);
+        resolve({ roundCheck, ms: performance.now() - t0, where: 'main thread' });
       } catch (e) {
         reject(e instanceof Error ? e : new Error(String(e)));
       }

@@ -9,7 +9,7 @@ import { roundCheckOnThisThread as mainThread, type RoundCheckRun } from './roun
 export type { RoundCheckRun } from './round-check-on-this-thread';
 
 type Reply =
-  | { id: number; ok: true; review: RoundCheckRun['review'] | null; ms: number }
+  | { id: number; ok: true; roundCheck: RoundCheckRun['roundCheck'] | null; ms: number }
   | { id: number; ok: false; message: string; ms: number };
 
 let worker: Worker | null | undefined;
@@ -40,7 +40,7 @@ function theWorker(): Worker | null {
   return worker;
 }
 
-function ask(kind: 'review' | 'warm', input?: RoundCheckInput): Promise<Reply> | null {
+function ask(kind: 'roundCheck' | 'warm', input?: RoundCheckInput): Promise<Reply> | null {
   const w = theWorker();
   if (!w) return null;
   const id = ++seq;
@@ -52,7 +52,7 @@ function ask(kind: 'review' | 'warm', input?: RoundCheckInput): Promise<Reply> |
 
 export async function runRoundCheck(input: RoundCheckInput): Promise<RoundCheckRun> {
   const t0 = performance.now();
-  const reply = ask('review', input);
+  const reply = ask('roundCheck', input);
   if (!reply) return mainThread(input);
   let r: Reply;
   try {
@@ -61,7 +61,7 @@ export async function runRoundCheck(input: RoundCheckInput): Promise<RoundCheckR
     return mainThread(input);
   }
   if (!r.ok) throw new Error(r.message);
-  return { review: r.review!, ms: performance.now() - t0, where: 'worker' };
+  return { roundCheck: r.roundCheck!, ms: performance.now() - t0, where: 'worker' };
 }
 
 /** Starts the worker and has it compile the engine on a demo round, once. */

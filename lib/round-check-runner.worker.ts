@@ -1,6 +1,6 @@
 /**
- * The round check's Web Worker (web build): takes { id, kind: 'review', input } and answers
- * { id, ok, review | message, ms }; { kind: 'warm' } runs checks of a fixed fixture
+ * The round check's Web Worker (web build): takes { id, kind: 'roundCheck', input } and answers
+ * { id, ok, roundCheck | message, ms }; { kind: 'warm' } runs checks of a fixed fixture
  * (./round-check-warm-up.json: a cycle model at its design point, and again with one thermometer
  * far off, WARM_PASSES times) so the engine's code is optimised before the technician's first check.
  */
@@ -9,7 +9,7 @@ import { checkRound, type RoundCheckInput } from '@/shared/round-check';
 import warmUp from './round-check-warm-up.json';
 
 interface Scope {
-  onmessage: ((e: { data: { id: number; kind: 'review' | 'warm'; input?: RoundCheckInput } }) => void) | null;
+  onmessage: ((e: { data: { id: number; kind: 'roundCheck' | 'warm'; input?: RoundCheckInput } }) => void) | null;
   postMessage(message: unknown): void;
 }
 const scope = self as unknown as Scope;
@@ -62,8 +62,8 @@ scope.onmessage = (e) => {
   const t0 = performance.now();
   try {
     if (kind === 'warm') for (const w of warmInputs()) checkRound(w);
-    const review = kind === 'warm' ? null : checkRound(input!);
-    scope.postMessage({ id, ok: true, review, ms: performance.now() - t0 });
+    const roundCheck = kind === 'warm' ? null : checkRound(input!);
+    scope.postMessage({ id, ok: true, roundCheck, ms: performance.now() - t0 });
   } catch (err) {
     scope.postMessage({
       id,

@@ -190,7 +190,7 @@ export function createActions(deps: ActionDeps): Actions {
   async function roundPayload(tx: LocalDbOps, roundId: string): Promise<OutboxPayloadOf<'round'>> {
     const r = await store.getRound(roundId, tx);
     if (!r) throw new ActionError('roundId', roundId, 'no such round on this device');
-    // The cycle model this device holds for the round's unit: its checks and review use it, and
+    // The cycle model this device holds for the round's unit: its checks and roundCheck use it, and
     // the server says so on the round when its own model differs.
     const version = await store.getRouteVersion(r.routeVersionId, tx);
     const route = version ? await store.getRoute(version.routeId, tx) : null;

@@ -2,7 +2,7 @@
  * The round check's inputs from the device store, no network: the round, its current readings in
  * SI absolute (converted as the round screen converts them, hooks/use-round.ts), the unit's cycle
  * model, the other rounds of the same unit kept on the device, the dismissals made on the round.
- * The assembly and the analysis are in shared/review (the server runs the same).
+ * The assembly and the analysis are in shared/round-check (the server runs the same).
  */
 import { effectiveModel, validateModel, type CycleModel } from '@/shared/cycle';
 import { stopsOf, type RoundCheckInput, type CheckedRound, type RoundCheckRouteInfo } from '@/shared/round-check';
@@ -24,6 +24,7 @@ export type DeviceRoundCheckLoad =
   | { ok: false; problem: string; round: LocalRound | null };
 
 /** meta key under which the device keeps what its last check of a round used and found */
+// the stored key keeps the name it had on devices before the round check was called so in code
 export const ROUND_CHECK_META = (roundId: string) => `round-review:${roundId}`;
 
 export interface RoundCheckRecord {

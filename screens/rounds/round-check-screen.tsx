@@ -42,30 +42,30 @@ export function RoundCheckScreen({ roundId }: { roundId: string }) {
   const { actions } = useStore();
   const router = useRouter();
   const wide = useWide();
-  const { load, review, ms, checking, error } = useRoundCheck(roundId);
+  const { load, roundCheck, ms, checking, error } = useRoundCheck(roundId);
   const [picked, setPicked] = useState<string | null>(null);
   const [finishing, setFinishing] = useState(false);
 
   if (error)
     return (
-      <ThemedText tone="danger" testID="review-error">
+      <ThemedText tone="danger" testID="round-check-error">
         {error.message}
       </ThemedText>
     );
   if (!load)
     return (
-      <ThemedText muted testID="review-opening">
+      <ThemedText muted testID="round-check-opening">
         Opening the round…
       </ThemedText>
     );
   if (!load.ok) {
     return (
-      <View style={styles.stack} testID="review-screen">
-        <ThemedText tone="warning" testID="review-problem">
+      <View style={styles.stack} testID="round-check-screen">
+        <ThemedText tone="warning" testID="round-check-problem">
           {load.problem}
         </ThemedText>
         <Button
-          testID="review-back"
+          testID="round-check-back"
           label="Back to the stops"
           kind="plain"
           onPress={() => router.push(`/tech/round/${roundId}`)}
@@ -76,7 +76,7 @@ export function RoundCheckScreen({ roundId }: { roundId: string }) {
   const inProgress = load.round.status === 'in-progress';
   const header = (
     <View style={styles.head}>
-      <ThemedText variant="title" testID="review-route">
+      <ThemedText variant="title" testID="round-check-route">
         Round check — {load.routeName}
       </ThemedText>
       <ThemedText variant="caption" muted>
@@ -84,21 +84,21 @@ export function RoundCheckScreen({ roundId }: { roundId: string }) {
       </ThemedText>
     </View>
   );
-  if (!review) {
+  if (!roundCheck) {
     return (
-      <View style={styles.stack} testID="review-screen">
+      <View style={styles.stack} testID="round-check-screen">
         {header}
-        <ThemedText muted testID="review-checking">
+        <ThemedText muted testID="round-check-checking">
           Checking the round…
         </ThemedText>
       </View>
     );
   }
 
-  const headline = roundCheckHeadline(review);
-  const flagged = [...review.retakes, ...review.elsewhere];
+  const headline = roundCheckHeadline(roundCheck);
+  const flagged = [...roundCheck.retakes, ...roundCheck.elsewhere];
   const selected = flagged.find((i) => i.tag === picked) ?? flagged[0];
-  const suspectOf = (tag: string) => review.suspects.find((s) => s.tag === tag);
+  const suspectOf = (tag: string) => roundCheck.suspects.find((s) => s.tag === tag);
   const retake = (i: RetakeItem) =>
     inProgress && i.own && i.stop !== null
       ? () => router.push(`/tech/round/${roundId}?stop=${i.stop}&focus=${encodeURIComponent(i.tag)}`)
@@ -116,20 +116,20 @@ export function RoundCheckScreen({ roundId }: { roundId: string }) {
       : null;
 
   const summary = (
-    <Card testID="review-headline-card">
-      <ThemedText variant="label" bold tone={headline.tone} testID="review-headline">
+    <Card testID="round-check-headline-card">
+      <ThemedText variant="label" bold tone={headline.tone} testID="round-check-headline">
         {headline.text}
       </ThemedText>
-      {review.clean && review.complete ? (
-        <ThemedText testID="review-clean" tone="ok" variant="caption">
+      {roundCheck.clean && roundCheck.complete ? (
+        <ThemedText testID="round-check-clean" tone="ok" variant="caption">
           ✓ Clean
         </ThemedText>
       ) : null}
-      <ThemedText variant="caption" testID="review-borrowed">
-        {borrowedText(review)}
+      <ThemedText variant="caption" testID="round-check-borrowed">
+        {borrowedText(roundCheck)}
       </ThemedText>
       {checking ? (
-        <ThemedText variant="caption" muted testID="review-checking">
+        <ThemedText variant="caption" muted testID="round-check-checking">
           Checking again…
         </ThemedText>
       ) : null}
@@ -138,17 +138,17 @@ export function RoundCheckScreen({ roundId }: { roundId: string }) {
 
   const list = (
     <View style={styles.stack}>
-      <View style={styles.section} testID="review-retakes">
+      <View style={styles.section} testID="round-check-retakes">
         <ThemedText variant="title">Re-take before you leave</ThemedText>
-        {review.retakes.length === 0 ? (
-          <ThemedText testID="review-retakes-none">Nothing to re-take on this route.</ThemedText>
+        {roundCheck.retakes.length === 0 ? (
+          <ThemedText testID="round-check-retakes-none">Nothing to re-take on this route.</ThemedText>
         ) : null}
-        {!inProgress && review.retakes.length ? (
+        {!inProgress && roundCheck.retakes.length ? (
           <ThemedText variant="caption" muted>
             This round is finished: a re-take now goes on the next round of this route.
           </ThemedText>
         ) : null}
-        {review.retakes.map((i) => (
+        {roundCheck.retakes.map((i) => (
           <RoundCheckRetakeItem
             key={i.tag}
             item={i}
@@ -158,13 +158,13 @@ export function RoundCheckScreen({ roundId }: { roundId: string }) {
           />
         ))}
       </View>
-      {review.elsewhere.length ? (
-        <View style={styles.section} testID="review-elsewhere">
+      {roundCheck.elsewhere.length ? (
+        <View style={styles.section} testID="round-check-elsewhere">
           <ThemedText variant="title">Read on other rounds</ThemedText>
           <ThemedText variant="caption" muted>
             These cannot be re-taken on this round: tell the next round of that route, or the shift lead.
           </ThemedText>
-          {review.elsewhere.map((i) => (
+          {roundCheck.elsewhere.map((i) => (
             <RoundCheckRetakeItem
               key={i.tag}
               item={i}
@@ -197,7 +197,7 @@ export function RoundCheckScreen({ roundId }: { roundId: string }) {
         />
       ));
 
-  const notRead = review.assembled.notRead;
+  const notRead = roundCheck.assembled.notRead;
   const byRoute = new Map<string, string[]>();
   for (const n of notRead)
     byRoute.set(n.routeName ?? 'no route', [...(byRoute.get(n.routeName ?? 'no route') ?? []), n.tag]);
@@ -205,50 +205,50 @@ export function RoundCheckScreen({ roundId }: { roundId: string }) {
   const detail = (
     <View style={styles.stack}>
       {details.length ? (
-        <View style={styles.section} testID="review-findings">
+        <View style={styles.section} testID="round-check-findings">
           <ThemedText variant="title">What the check found</ThemedText>
           {details}
         </View>
       ) : null}
-      <Card testID="review-balances">
+      <Card testID="round-check-balances">
         <ThemedText variant="title">Balances</ThemedText>
-        {review.balances.map((l) => (
+        {roundCheck.balances.map((l) => (
           <RoundCheckBalanceLine key={l.equipmentId} line={l} />
         ))}
-        {review.notes.map((n, i) => (
-          <ThemedText key={i} variant="label" tone="warning" testID={`review-note-${i}`}>
+        {roundCheck.notes.map((n, i) => (
+          <ThemedText key={i} variant="label" tone="warning" testID={`round-check-note-${i}`}>
             {n}
           </ThemedText>
         ))}
       </Card>
       {notRead.length ? (
-        <Card testID="review-missing">
+        <Card testID="round-check-missing">
           <ThemedText variant="title">Not read</ThemedText>
           {[...byRoute].map(([route, tags]) => (
-            <ThemedText key={route} variant="label" testID={`review-missing-${route}`}>
+            <ThemedText key={route} variant="label" testID={`round-check-missing-${route}`}>
               {route === load.routeName
                 ? 'This route, not read yet'
-                : `${route}, no reading in the last ${review.assembled.windowHours} h`}
+                : `${route}, no reading in the last ${roundCheck.assembled.windowHours} h`}
               : {tags.join(', ')}
             </ThemedText>
           ))}
         </Card>
       ) : null}
-      <ThemedText variant="caption" muted testID="review-about">
+      <ThemedText variant="caption" muted testID="round-check-about">
         Checked on this device in{' '}
-        <ThemedText variant="caption" muted testID="review-ms">
+        <ThemedText variant="caption" muted testID="round-check-ms">
           {ms === null ? '…' : ms.toFixed(0)}
         </ThemedText>{' '}
         ms with cycle model{' '}
-        <ThemedText variant="caption" muted testID="review-model">
-          {review.modelVersion}
+        <ThemedText variant="caption" muted testID="round-check-model">
+          {roundCheck.modelVersion}
         </ThemedText>
-        {review.modelVersion === load.unitModelVersion
+        {roundCheck.modelVersion === load.unitModelVersion
           ? ' (the one the server published)'
           : ` (the server published ${load.unitModelVersion}: sync to update)`}{' '}
         · result{' '}
-        <ThemedText variant="caption" muted testID="review-fingerprint">
-          {review.fingerprint}
+        <ThemedText variant="caption" muted testID="round-check-fingerprint">
+          {roundCheck.fingerprint}
         </ThemedText>
       </ThemedText>
     </View>
@@ -257,16 +257,16 @@ export function RoundCheckScreen({ roundId }: { roundId: string }) {
   const nav = (
     <View style={styles.nav}>
       <Button
-        testID="review-back"
+        testID="round-check-back"
         label="Back to the stops"
         kind="plain"
         onPress={() => router.push(`/tech/round/${roundId}`)}
       />
       {inProgress && actions ? (
         <Button
-          testID="review-finish"
+          testID="round-check-finish"
           label="Finish round"
-          kind={review.clean ? 'accent' : 'primary'}
+          kind={roundCheck.clean ? 'accent' : 'primary'}
           busy={finishing}
           onPress={async () => {
             setFinishing(true);
@@ -279,7 +279,7 @@ export function RoundCheckScreen({ roundId }: { roundId: string }) {
           }}
         />
       ) : (
-        <ThemedText variant="caption" muted testID="review-finished">
+        <ThemedText variant="caption" muted testID="round-check-finished">
           This round is finished.
         </ThemedText>
       )}
@@ -287,7 +287,7 @@ export function RoundCheckScreen({ roundId }: { roundId: string }) {
   );
 
   return (
-    <View style={styles.stack} testID="review-screen">
+    <View style={styles.stack} testID="round-check-screen">
       {header}
       {summary}
       {wide ? (

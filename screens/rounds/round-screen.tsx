@@ -316,12 +316,12 @@ export function RoundScreen({
           testID="round-check"
           label="Check the round"
           kind="plain"
-          onPress={() => router.push(`/tech/round/${roundId}/review`)}
+          onPress={() => router.push(`/tech/round/${roundId}/check`)}
         />
         {stopAt < data.template.stops.length - 1 ? (
           <Button testID="stop-next" label="Next stop" onPress={() => setStopIndex(stopAt + 1)} />
         ) : finished ? null : (
-          <Button testID="round-review" label="Finish…" kind="accent" onPress={() => setFinishing(true)} />
+          <Button testID="round-roundCheck" label="Finish…" kind="accent" onPress={() => setFinishing(true)} />
         )}
       </View>
     </View>
@@ -364,7 +364,7 @@ export function RoundScreen({
           ))}
         </View>
       )}
-      <RoundCheckSummary roundId={roundId} onOpen={() => router.push(`/tech/round/${roundId}/review`)} />
+      <RoundCheckSummary roundId={roundId} onOpen={() => router.push(`/tech/round/${roundId}/check`)} />
       {problem ? (
         <ThemedText tone="danger" testID="finish-problem">
           {problem}

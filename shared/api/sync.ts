@@ -78,7 +78,7 @@ export const PushRoundV1 = z.object(roundV1);
 export const PushRound = z.object({
   ...roundV1,
   dismissals: z.array(Dismissal).max(500, 'At most 500 dismissals per round'),
-  /** The cycle model version the device held for the round's unit (its checks and review used it). */
+  /** The cycle model version the device held for the round's unit (its checks and roundCheck used it). */
   modelVersion: str(64).optional(),
 });
 export type PushRound = z.infer<typeof PushRound>;

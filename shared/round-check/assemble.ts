@@ -84,7 +84,7 @@ export interface RoundCheckInput {
   /** the unit's cycle model (validated by analyseRound) */
   model: unknown;
   round: CheckedRound;
-  /** other rounds of the same unit (any order); the reviewed round among them is ignored */
+  /** other rounds of the same unit (any order); the checked round among them is ignored */
   others: CheckedRound[];
   /** reference time, ms: the round's finish time, or now while it is under way */
   at: number;
@@ -98,7 +98,7 @@ export interface RoundCheckInput {
 export interface ReadingSource {
   roundId: string;
   readingId: string;
-  /** true: read on the reviewed round */
+  /** true: read on the checked round */
   own: boolean;
 }
 

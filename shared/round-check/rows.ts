@@ -46,7 +46,7 @@ const ms = (iso: string, field: string): number => {
   return t;
 };
 
-/** The template's stops as the review needs them: names and tags in walking order. */
+/** The template's stops as the roundCheck needs them: names and tags in walking order. */
 export function stopsOf(template: RouteTemplate): CheckedRound['stops'] {
   return template.stops.map((s) => ({ name: s.name, tags: s.readings.map((r) => r.tag) }));
 }

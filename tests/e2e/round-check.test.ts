@@ -85,7 +85,7 @@ async function walkRoute(
     if (s < t.stops.length - 1) await page.getByTestId('stop-next').click();
   }
   if (openFinish) {
-    await page.getByTestId('round-review').click();
+    await page.getByTestId('round-roundCheck').click();
     await page.getByTestId('finish-panel').waitFor();
   }
   return roundId;
@@ -144,21 +144,21 @@ test('the phone checks the whole round offline, sends the technician back to TI-
   await page.getByTestId('stop-4').click();
   await cdp.send('Emulation.setCPUThrottlingRate', { rate: 4 });
   await watchLongTasks(page);
-  await page.getByTestId('round-review').click();
+  await page.getByTestId('round-roundCheck').click();
   await page
-    .getByTestId('review-summary-text')
+    .getByTestId('round-check-summary-text')
     .filter({ hasText: `One reading to re-take before you leave the unit: ${FAULT}.` })
     .waitFor({ timeout: 30_000 });
   const summaryTasks = await longTasks(page);
-  await tallShot(page, 'review-finish-panel-phone', PHONE);
+  await tallShot(page, 'round-check-finish-panel-phone', PHONE);
 
   await watchLongTasks(page);
   await page.getByTestId('finish-check').click();
-  await page.waitForURL(`**/tech/round/${roundId}/review`);
+  await page.waitForURL(`**/tech/round/${roundId}/check`);
   const first = page.getByTestId('retake-TI-206');
   await first.waitFor({ timeout: 30_000 });
-  const msCold = Number(await page.getByTestId('review-ms').textContent());
-  const reviewTasks = await longTasks(page);
+  const msCold = Number(await page.getByTestId('round-check-ms').textContent());
+  const roundCheckTasks = await longTasks(page);
   await cdp.send('Emulation.setCPUThrottlingRate', { rate: 1 });
 
   // named first, at its stop, with what the rest of the plant says
@@ -168,22 +168,22 @@ test('the phone checks the whole round offline, sends the technician back to TI-
   );
   // one re-take on this route; the rest of TI-206's group (read on the other two routes) is listed apart
   await expect(
-    page.getByTestId('review-retakes').locator('[data-testid^="retake-"][data-testid$="-line"]').count(),
+    page.getByTestId('round-check-retakes').locator('[data-testid^="retake-"][data-testid$="-line"]').count(),
   ).resolves.toBe(1);
   await expect(
-    page.getByTestId('review-elsewhere').locator('[data-testid^="retake-"][data-testid$="-line"]').count(),
+    page.getByTestId('round-check-elsewhere').locator('[data-testid^="retake-"][data-testid$="-line"]').count(),
   ).resolves.toBe(3);
-  await expect(page.getByTestId('review-borrowed').textContent()).resolves.toMatch(
+  await expect(page.getByTestId('round-check-borrowed').textContent()).resolves.toMatch(
     /^For the instruments not on this route, the check uses the boiler house round of \d\d:\d\d and the condenser and cooling water round of \d\d:\d\d \(the latest reading of each within the last 4 h on this device\)\.$/,
   );
   await expect(page.getByTestId('suspect-TI-206-estimate').textContent()).resolves.toMatch(/^130\.\d °C ± 1\.\d K$/);
   await expect(page.getByTestId('balance-da-status').textContent()).resolves.toBe('✗ Does not close');
-  await expect(page.getByTestId('review-model').textContent()).resolves.toBe(demoUnit.version);
-  const dirtyFingerprint = await page.getByTestId('review-fingerprint').textContent();
-  await tallShot(page, 'review-retake-phone', PHONE);
+  await expect(page.getByTestId('round-check-model').textContent()).resolves.toBe(demoUnit.version);
+  const dirtyFingerprint = await page.getByTestId('round-check-fingerprint').textContent();
+  await tallShot(page, 'round-check-retake-phone', PHONE);
   await page.setViewportSize(WIDE);
   await page.getByTestId('suspect-TI-206').waitFor();
-  await tallShot(page, 'review-retake-wide', WIDE);
+  await tallShot(page, 'round-check-retake-wide', WIDE);
   await page.setViewportSize(PHONE);
   await page.getByTestId('retake-TI-206-go').waitFor();
 
@@ -197,32 +197,32 @@ test('the phone checks the whole round offline, sends the technician back to TI-
   await enter(page, FAULT, typed(FAULT));
   await cdp.send('Emulation.setCPUThrottlingRate', { rate: 4 });
   await page.getByTestId('round-check').click();
-  await page.getByTestId('review-clean').waitFor({ timeout: 30_000 });
-  const msWarm = Number(await page.getByTestId('review-ms').textContent());
+  await page.getByTestId('round-check-clean').waitFor({ timeout: 30_000 });
+  const msWarm = Number(await page.getByTestId('round-check-ms').textContent());
   await cdp.send('Emulation.setCPUThrottlingRate', { rate: 1 });
-  await expect(page.getByTestId('review-retakes-none').textContent()).resolves.toBe(
+  await expect(page.getByTestId('round-check-retakes-none').textContent()).resolves.toBe(
     'Nothing to re-take on this route.',
   );
-  await expect(page.getByTestId('review-headline').textContent()).resolves.toBe(
+  await expect(page.getByTestId('round-check-headline').textContent()).resolves.toBe(
     'The round holds together: every balance closes and no reading stands out.',
   );
-  const cleanFingerprint = await page.getByTestId('review-fingerprint').textContent();
-  await tallShot(page, 'review-clean-phone', PHONE);
+  const cleanFingerprint = await page.getByTestId('round-check-fingerprint').textContent();
+  await tallShot(page, 'round-check-clean-phone', PHONE);
   await page.setViewportSize(WIDE);
-  await page.getByTestId('review-balances').waitFor();
-  await tallShot(page, 'review-clean-wide', WIDE);
+  await page.getByTestId('round-check-balances').waitFor();
+  await tallShot(page, 'round-check-clean-wide', WIDE);
   await page.setViewportSize(PHONE);
-  await page.getByTestId('review-finish').waitFor();
+  await page.getByTestId('round-check-finish').waitFor();
 
   const all = (await checks(page)).filter((c) => c.roundId === roundId);
   const fmt = (xs: number[]) => xs.map((x) => x.toFixed(0)).join(', ') || 'none';
   console.log(
     `round checks on the phone, CPU 4× throttled, ms (asked → answered, where): ${all.map((c) => `${c.ms.toFixed(0)} (${c.where})`).join(', ')}; ` +
-      `review screen showed ${msCold.toFixed(0)} ms, ${msWarm.toFixed(0)} ms after the re-take; ` +
-      `main-thread long tasks (> 50 ms) while the finish panel checked: ${fmt(summaryTasks)}; while the review screen opened: ${fmt(reviewTasks)}`,
+      `round-check screen showed ${msCold.toFixed(0)} ms, ${msWarm.toFixed(0)} ms after the re-take; ` +
+      `main-thread long tasks (> 50 ms) while the finish panel checked: ${fmt(summaryTasks)}; while the round-check screen opened: ${fmt(roundCheckTasks)}`,
   );
 
-  await page.getByTestId('review-finish').click();
+  await page.getByTestId('round-check-finish').click();
   await page.waitForURL('**/tech');
   await context.setOffline(false);
   await page.getByTestId('nav-tech-outbox').click();

@@ -82,7 +82,7 @@ test('skip undone, resume at the stop, sign-out warns offline, Finish held by a 
   // Straight to Finish from the last stop: the required photos hold up "Finish round".
   const last = boilerHouseRoute.stops.length - 1;
   await page.getByTestId(`stop-${last}`).click();
-  await page.getByTestId('round-review').click();
+  await page.getByTestId('round-roundCheck').click();
   await page.getByTestId('finish-panel').waitFor();
   await page.getByTestId('finish-blocked').waitFor();
   await page.getByTestId('missing-photo-bfp-seal-leak').filter({ hasText: 'Photo required' }).waitFor();
@@ -101,7 +101,7 @@ test('skip undone, resume at the stop, sign-out warns offline, Finish held by a 
     .waitFor();
   await page.getByTestId('reading-PI-001-readonly').filter({ hasText: 'can no longer be changed' }).waitFor();
   expect(await page.getByTestId('reading-PI-001-input').count()).toBe(0);
-  expect(await page.getByTestId('round-review').count()).toBe(0);
+  expect(await page.getByTestId('round-roundCheck').count()).toBe(0);
   await shot(page, 'guards-finished-phone');
   await page.setViewportSize(WIDE);
   await page.getByTestId('nav-side').waitFor();

@@ -133,7 +133,7 @@ test('a technician walks the boiler-house round offline, reloads mid-round, fini
     if (s < stops.length - 1) await page.getByTestId('stop-next').click();
   }
 
-  await page.getByTestId('round-review').click();
+  await page.getByTestId('round-roundCheck').click();
   await page.getByTestId('finish-panel').waitFor();
   await shot(page, 'round-finish');
   // FI-202 is optional: skipping it leaves nothing missing; every required photo was taken.

@@ -1,7 +1,7 @@
 /**
  * Which readings the round check uses: this round's current readings, and for the instruments not
  * on its route the most recent reading from other rounds of the unit kept on the device within the
- * last 4 h (project rule, stated on the review screen). Device time decides "within 4 h";
+ * last 4 h (project rule, stated on the round-check screen). Device time decides "within 4 h";
  * values are the design point of the demo unit typed as the gauges show it.
  */
 import { assembleRoundCheck, RoundCheckInputError, checkRound, type RoundCheckInput } from '@/shared/round-check';
@@ -49,14 +49,14 @@ describe('the unit-level readings of a round', () => {
     d.clock.advance(5 * HOUR);
     await walk(d, 'boiler-house', typed, { finish: true });
     const th = await walk(d, 'turbine-hall', typed);
-    const review = checkRound(await inputOf(d, th.roundId));
+    const roundCheck = checkRound(await inputOf(d, th.roundId));
     const cwTags = tagsOf('condenser-cooling-water');
-    expect(review.assembled.notRead.map((n) => n.tag).sort()).toEqual([...cwTags].sort());
-    expect(new Set(review.assembled.notRead.map((n) => n.routeName))).toEqual(
+    expect(roundCheck.assembled.notRead.map((n) => n.tag).sort()).toEqual([...cwTags].sort());
+    expect(new Set(roundCheck.assembled.notRead.map((n) => n.routeName))).toEqual(
       new Set([ROUTE_NAME['condenser-cooling-water']]),
     );
-    expect(review.complete).toBe(false);
-    const condenser = review.balances.find((l) => l.equipmentId === 'cond')!;
+    expect(roundCheck.complete).toBe(false);
+    const condenser = roundCheck.balances.find((l) => l.equipmentId === 'cond')!;
     expect(condenser.status).toBe('incomplete');
     expect(condenser.missing).toEqual(expect.arrayContaining(['PI-401', 'PI-402', 'FI-401', 'TI-402', 'TI-403A']));
     expect(condenser.text).toMatch(/^Condenser: .* cannot be formed yet — no reading of /);

@@ -1,5 +1,5 @@
 /**
- * Same answer on both sides. The device path is the one the review screen runs: the device store
+ * Same answer on both sides. The device path is the one the round-check screen runs: the device store
  * (sql.js, the SQLite engine family of expo-sqlite's web build) → offline/round-check loadRoundCheckInput →
  * shared/round-check checkRound. The server path starts from what the device pushes, stores value_si
  * as the server's push does (server/sync/push.ts: gauge and vacuum readings against the round's
@@ -10,7 +10,7 @@
  *
  * server/analysis exposes its analysis only as a database job (runAnalysisJob over a TypeORM
  * DataSource), so here the server side is the plain shared code on the DB-shaped inputs; the
- * browser test tests/e2e/round-review.test.ts holds the phone against the real server's stored
+ * browser test tests/e2e/round-check.test.ts holds the phone against the real server's stored
  * analysis (GET /api/sites/:siteId/rounds/:roundId/analysis).
  */
 import { demoUnit } from '@/demo/unit';
@@ -25,48 +25,48 @@ type Case = {
   /** instrument rows changed by an admin before the rounds (the device pulls the same rows the server holds) */
   edits?: Record<string, Partial<SyncInstrument>>;
   expectOutOfService?: string[];
-  review: string;
+  roundCheck: string;
   faults: Record<string, Record<string, (v: number) => number>>;
   retake?: string;
   expectSuspects: string[];
 };
 
 const CASES: Case[] = [
-  { name: 'all at design', review: 'turbine-hall', faults: {}, expectSuspects: [] },
+  { name: 'all at design', roundCheck: 'turbine-hall', faults: {}, expectSuspects: [] },
   {
     name: 'LP heater outlet thermometer 6 K high (turbine hall)',
-    review: 'turbine-hall',
+    roundCheck: 'turbine-hall',
     faults: { 'turbine-hall': { 'TI-206': (v) => v + 6 } },
     expectSuspects: ['TI-206'],
   },
   {
     name: 'the same, re-taken at design',
-    review: 'turbine-hall',
+    roundCheck: 'turbine-hall',
     faults: { 'turbine-hall': { 'TI-206': (v) => v + 6 } },
     retake: 'TI-206',
     expectSuspects: [],
   },
   {
     name: 'cooling-water outlet RTD 6 K high (condenser round)',
-    review: 'condenser-cooling-water',
+    roundCheck: 'condenser-cooling-water',
     faults: { 'condenser-cooling-water': { 'TI-403A': (v) => v + 6 } },
     expectSuspects: ['TI-403A'],
   },
   {
     name: 'main steam flow 10 % low (boiler house)',
-    review: 'boiler-house',
+    roundCheck: 'boiler-house',
     faults: { 'boiler-house': { 'FI-101': (v) => v * 0.9 } },
     expectSuspects: ['FI-101'],
   },
   {
     name: 'make-up water 10 K high on the boiler house, checked from the turbine hall',
-    review: 'turbine-hall',
+    roundCheck: 'turbine-hall',
     faults: { 'boiler-house': { 'TI-302': (v) => v + 10 } },
     expectSuspects: ['TI-302'],
   },
   {
     name: 'an admin put TI-206 out of service and class 2 on TI-204 (the device pulled the rows)',
-    review: 'turbine-hall',
+    roundCheck: 'turbine-hall',
     edits: {
       'TI-206': { status: 'out-of-service' },
       'TI-204': { accuracy: { kind: 'iec60584', type: 'K', class: 2, resolution: 0.5 } },
@@ -89,14 +89,14 @@ async function both(c: Case): Promise<{ device: RoundCheck; server: RoundCheck; 
     await d.store.applyPull(SITE, { ...demoPull(), cursor: 2, units: [], routes: [], instruments: rowsOf(c) });
   const typed = designTyped();
   const order = ['boiler-house', 'condenser-cooling-water', 'turbine-hall']
-    .filter((k) => k !== c.review)
-    .concat(c.review);
+    .filter((k) => k !== c.roundCheck)
+    .concat(c.roundCheck);
   let roundId = '';
   let walked: Awaited<ReturnType<typeof walk>> | null = null;
   for (const k of order) {
     const t = { ...typed };
     for (const [tag, f] of Object.entries(c.faults[k] ?? {})) t[tag] = Number(f(t[tag]).toFixed(2));
-    walked = await walk(d, k, t, { finish: k !== c.review });
+    walked = await walk(d, k, t, { finish: k !== c.roundCheck });
     roundId = walked.roundId;
   }
   if (c.retake) {
@@ -111,7 +111,7 @@ async function both(c: Case): Promise<{ device: RoundCheck; server: RoundCheck; 
       supersedes: walked!.readingIds[c.retake],
     });
   }
-  // finish the reviewed round too: the server checks it at its finish time, the device likewise
+  // finish the checked round too: the server checks it at its finish time, the device likewise
   d.clock.advance(60_000);
   const finished = await d.actions.finishRound(roundId);
   const load = await loadRoundCheckInput(d.store, roundId);

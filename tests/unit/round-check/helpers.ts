@@ -175,7 +175,7 @@ const routeKeyOfVersion = Object.fromEntries(Object.entries(VERSION_ID).map(([k,
  * The server's side: the pushed records stored as the server's push stores them (server/sync/push.ts:
  * value_si from what was typed, gauge and vacuum readings against the round's latest barometer
  * reading, else the site's elevation through the ICAO standard atmosphere), then the check run on
- * those rows through shared/review's row adapter.
+ * those rows through shared/round-check's row adapter.
  */
 /**
  * The server side of a round check. `instruments` are the server's instrument rows (the instrument
