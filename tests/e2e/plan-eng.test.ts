@@ -325,7 +325,8 @@ test('the admin invites a person, sees the site’s people, its instruments as c
       expect(await kim.page.getByTestId('nav-admin-people').count()).toBe(0);
       // sets a password of their own on the password screen (from the shell's "Password") …
       const chosen = 'kestrel over the cooling tower 7';
-      await kim.page.getByTestId('password-open').click();
+      await kim.page.getByTestId('account-menu').first().click();
+      await kim.page.getByTestId('password-open').first().click();
       await kim.page.waitForURL('**/password');
       await kim.page.getByTestId('password-currentPassword').fill(password);
       await kim.page.getByTestId('password-newPassword').fill('trueround1234');
