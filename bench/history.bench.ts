@@ -18,14 +18,9 @@
  * p50/p95 over RUNS interleaved runs, and the ratios to the baseline.
  */
 import type { Server } from 'node:http';
-import type { AddressInfo } from 'node:net';
-import { admin, databaseUrl, pct } from './bench-db';
-import { createApp } from '../server/app';
-import { loadConfig } from '../server/config';
+import { admin, databaseUrl, pct, serveSignedIn } from './bench-db';
 import { makeDataSource } from '../server/db';
-import { makeLogger } from '../server/logger';
 import { seedDemo } from '../server/seed/demo';
-import { DEMO_PASSWORD } from '../server/seed/demo-users';
 import { analyseRound } from '../shared/cycle';
 import { demoDesignReadings, demoUnit } from '../demo/unit';
 import { barometricFromElevation } from '../shared/units';
@@ -130,26 +125,9 @@ export async function run(): Promise<void> {
               (SELECT count(*) FROM "analysis_instruments")::int AS "rows", (SELECT count(*) FROM "instruments")::int AS "instruments"`,
     )) as { rounds: number; readings: number; rows: number; instruments: number }[];
 
-    const config = loadConfig({
-      NODE_ENV: 'test',
-      DATABASE_URL: url,
-      JWT_SECRET: 'bench-secret-of-the-history-bench-0123456789',
-      LOG_LEVEL: 'silent',
-      PORT: '0',
-      SIGN_IN_RATE_LIMIT: '1000',
-    });
-    const app = createApp({ config, dataSource: ds, logger: makeLogger(config) });
-    server = await new Promise<Server>((resolve) => {
-      const s = app.listen(0, '127.0.0.1', () => resolve(s));
-    });
-    const base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
-    const signIn = await fetch(`${base}/api/auth/sign-in`, {
-      method: 'POST',
-      headers: { 'content-type': 'application/json' },
-      body: JSON.stringify({ email: 'engineer@fernhallow.example', password: DEMO_PASSWORD }),
-    });
-    if (!signIn.ok) throw new Error(`sign-in: ${signIn.status} ${await signIn.text()}`);
-    const token = ((await signIn.json()) as { accessToken: string }).accessToken;
+    const served = await serveSignedIn(ds, url, 'engineer@fernhallow.example');
+    server = served.server;
+    const { base, token } = served;
     const get = async (path: string) => {
       const t = performance.now();
       const res = await fetch(`${base}${path}`, { headers: { authorization: `Bearer ${token}` } });

@@ -13,14 +13,9 @@
  *  - every round of evidence, 50 rounds a request (what the page sent at once before it was paged).
  */
 import type { Server } from 'node:http';
-import type { AddressInfo } from 'node:net';
-import { admin, databaseUrl, pct } from './bench-db';
-import { createApp } from '../server/app';
-import { loadConfig } from '../server/config';
+import { admin, databaseUrl, pct, serveSignedIn } from './bench-db';
 import { makeDataSource } from '../server/db';
-import { makeLogger } from '../server/logger';
 import { seedDemo } from '../server/seed/demo';
-import { DEMO_PASSWORD } from '../server/seed/demo-users';
 import { loadBigWorkOrder } from '../demo/big-work-order';
 
 const N_ROUNDS = Number(process.env.TR_BENCH_WORK_ORDER_FINDINGS || 1000);
@@ -43,26 +38,9 @@ export async function run(): Promise<void> {
     await ds.query(`ANALYZE`);
     const loadS = (performance.now() - t0) / 1000;
 
-    const config = loadConfig({
-      NODE_ENV: 'test',
-      DATABASE_URL: url,
-      JWT_SECRET: 'bench-secret-of-the-work-order-bench-0123456789',
-      LOG_LEVEL: 'silent',
-      PORT: '0',
-      SIGN_IN_RATE_LIMIT: '1000',
-    });
-    const app = createApp({ config, dataSource: ds, logger: makeLogger(config) });
-    server = await new Promise<Server>((resolve) => {
-      const s = app.listen(0, '127.0.0.1', () => resolve(s));
-    });
-    const base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
-    const signIn = await fetch(`${base}/api/auth/sign-in`, {
-      method: 'POST',
-      headers: { 'content-type': 'application/json' },
-      body: JSON.stringify({ email: 'planner@fernhallow.example', password: DEMO_PASSWORD }),
-    });
-    if (!signIn.ok) throw new Error(`sign-in: ${signIn.status} ${await signIn.text()}`);
-    const token = ((await signIn.json()) as { accessToken: string }).accessToken;
+    const served = await serveSignedIn(ds, url, 'planner@fernhallow.example');
+    server = served.server;
+    const { base, token } = served;
     const get = async (path: string) => {
       const res = await fetch(`${base}${path}`, { headers: { authorization: `Bearer ${token}` } });
       const body = await res.text();
